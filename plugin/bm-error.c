@@ -1,0 +1,18 @@
+/* bm-error.c: the bandmass GError domain. */
+#include "bm-error.h"
+
+G_DEFINE_QUARK(bandmass-error-quark, bm_error)
+
+void bm_error_from_core(GError **error, const bm_errbuf *err, const char *context)
+{
+    BmError code;
+    switch (err->status) {
+    case BM_EINVAL:   code = BM_ERROR_INVALID_INPUT; break;
+    case BM_ENOCONV:  code = BM_ERROR_NO_CONVERGENCE; break;
+    default:          code = BM_ERROR_INTERNAL; break;
+    }
+    if (context)
+        g_set_error(error, BM_ERROR, code, "%s: %s", context, err->message);
+    else
+        g_set_error_literal(error, BM_ERROR, code, err->message);
+}
