@@ -1,0 +1,58 @@
+/* bm-extrema.h: band extrema and their inertial mass tensors, from a periodic
+ * grid or from scattered k-points. The plugin's mass-tensor operation calls this. */
+#ifndef BM_EXTREMA_H
+#define BM_EXTREMA_H
+
+#include "bm-bands.h"
+#include "bm-status.h"
+
+typedef enum {
+    BM_EXTREMUM_MINIMUM,
+    BM_EXTREMUM_MAXIMUM,
+    BM_EXTREMUM_SADDLE
+} bm_extremum_kind;
+
+typedef enum {
+    BM_SEARCH_MINIMUM,   /* the lowest minimum */
+    BM_SEARCH_MAXIMUM,   /* the highest maximum */
+    BM_SEARCH_ALL        /* every local extremum (periodic boundaries honoured) */
+} bm_search;
+
+typedef struct {
+    double fit_radius_inv_angstrom;  /* 0: automatic */
+    double degeneracy_tol_ev;        /* 0: default (1 meV) */
+} bm_fit_options;
+
+typedef struct {
+    bm_extremum_kind kind;
+    int dims;                 /* 3; 2 for a sheet; 1 for a line cut */
+    double energy_ev;
+    double k[3];              /* Cartesian, 1/Angstrom, refined below the mesh spacing */
+    double k_frac[3];         /* fractional coordinates (NAN for scattered tables) */
+    double inv_mass[3][3];    /* inverse mass tensor, 1/m_e */
+    double masses[3];         /* signed principal masses, m_e (negative at a maximum);
+                                 INFINITY where the curvature vanishes; NAN for a
+                                 direction the data do not sample */
+    double axes[3][3];        /* rows: unit principal axes, Cartesian, order of masses */
+    double fit_rms_ev;        /* residual of the local quadratic fit */
+    int divergent;            /* conical or flat: no finite inertial mass */
+    bm_warnings warnings;
+} bm_mass_tensor;
+
+/* Checks energies (finite), mesh and reciprocal vectors (non-singular). */
+bm_status bm_grid_validate(const bm_grid *g, bm_errbuf *err);
+
+/* Extrema of one band of a grid. k_at (NULL unless wanted) evaluates the
+ * tensor at that Cartesian point instead of searching. *out is malloc'd;
+ * the caller frees it with free(). */
+bm_status bm_grid_mass_tensors(const bm_grid *g, size_t band, bm_search which,
+                               const double *k_at, const bm_fit_options *opt,
+                               bm_mass_tensor **out, size_t *n_out, bm_errbuf *err);
+
+/* The same for scattered points (BM_SEARCH_ALL gives the lowest minimum and
+ * the highest maximum of the table). */
+bm_status bm_ktable_mass_tensors(const bm_ktable *t, size_t band, bm_search which,
+                                 const double *k_at, const bm_fit_options *opt,
+                                 bm_mass_tensor **out, size_t *n_out, bm_errbuf *err);
+
+#endif
