@@ -79,9 +79,10 @@ static double warp_root(const bm_luttinger *L, double nx, double ny, double nz)
     return sqrt(fmax(a, 0.0));
 }
 
-static double inv_or_inf(double f)
+/* 1/f, or INFINITY where f vanishes to rounding (relative to g1). */
+static double inv_or_inf(double f, double g1)
 {
-    return f == 0.0 ? INFINITY : 1.0 / f;
+    return fabs(f) <= 1e-12 * g1 ? INFINITY : 1.0 / f;
 }
 
 bm_status bm_luttinger_direction(const bm_luttinger *L, const double n[3],
@@ -100,11 +101,11 @@ bm_status bm_luttinger_direction(const bm_luttinger *L, const double n[3],
     double r = warp_root(L, n[0] / l, n[1] / l, n[2] / l);
     double fh = L->g1 - r, fl = L->g1 + r;
     if (m_heavy)
-        *m_heavy = inv_or_inf(fh);
+        *m_heavy = inv_or_inf(fh, L->g1);
     if (m_light)
-        *m_light = inv_or_inf(fl);
+        *m_light = inv_or_inf(fl, L->g1);
     if (concave)
-        *concave = !(fh > 0.0);
+        *concave = !(fh > 1e-12 * L->g1);
     return BM_OK;
 }
 
@@ -179,14 +180,28 @@ bm_status bm_luttinger_masses_compute(const bm_luttinger *L, bm_luttinger_masses
     /* The root is largest at s = 0 or s = 1/3 (it is monotone in s), so the
      * smallest heavy factor is g1 - 2 max(|g2|, |g3|). */
     out->heavy_factor_min = L->g1 - 2.0 * fmax(fabs(L->g2), fabs(L->g3));
-    out->heavy_convex = out->heavy_factor_min > 0.0;
+    out->heavy_convex = out->heavy_factor_min > 1e-12 * L->g1;
 
     /* In an open heavy-hole surface the heavy sums are meaningless and are
      * discarded below; the light-hole ones are always finite (g1 > 0). */
     double mheavy_c, mheavy_f, mlight_c, mlight_f;
-    st = warped_means(L, 24, &mheavy_c, &mlight_c, err);
-    if (st == BM_OK)
-        st = warped_means(L, 48, &mheavy_f, &mlight_f, err);
+    size_t nu = 16;
+    st = warped_means(L, nu, &mheavy_c, &mlight_c, err);
+    /* Double the rule until the means settle (strong warping with small
+     * gamma2 or a nearly flat heavy band converges more slowly). */
+    while (st == BM_OK) {
+        nu *= 2;
+        st = warped_means(L, nu, &mheavy_f, &mlight_f, err);
+        if (st != BM_OK)
+            break;
+        double ch = fabs(mlight_f - mlight_c) / mlight_f;
+        if (out->heavy_convex)
+            ch = fmax(ch, fabs(mheavy_f - mheavy_c) / mheavy_f);
+        if (ch < 1e-12 || nu >= 512)
+            break;
+        mheavy_c = mheavy_f;
+        mlight_c = mlight_f;
+    }
     if (st != BM_OK)
         return st;
     out->light_dos_mass = pow(mlight_f, 2.0 / 3.0);
