@@ -7,8 +7,12 @@
 #include "registry.h"
 
 extern const BmOperation bm_op_constants;
+extern const BmOperation bm_op_valley_average;
+extern const BmOperation bm_op_hole_mass;
 
 #define BM_OPERATIONS_TABLE \
-    &bm_op_constants,
+    &bm_op_constants, \
+    &bm_op_valley_average, \
+    &bm_op_hole_mass,
 
 #endif
