@@ -154,6 +154,7 @@ static void test_tight_binding(void)
     g_assert_cmpfloat_with_epsilon(res[0].energy_ev, -6 * tt, 1e-9);
     g_assert_cmpfloat(bm_norm3(res[0].k), <, 1e-8);
     g_assert_cmpint(res[0].divergent, ==, 0);
+    g_assert_cmpint(res[0].warnings.count, ==, 0);
     free(res);
     g_assert_cmpint(bm_grid_mass_tensors(&g, 0, BM_SEARCH_MAXIMUM, NULL, NULL, &res, &n, &err), ==, BM_OK);
     g_assert_cmpint(res[0].kind, ==, BM_EXTREMUM_MAXIMUM);
@@ -212,6 +213,9 @@ static void round_trip(double recip[3][3], size_t n, double sign, const double f
     g_assert_cmpint(res[0].kind, ==, sign > 0 ? BM_EXTREMUM_MINIMUM : BM_EXTREMUM_MAXIMUM);
     for (int m = 0; m < 3; m++)
         g_assert_cmpfloat(sign * res[0].masses[m], >, 0.0);
+    /* a clean smooth extremum raises no warning */
+    g_assert_cmpint(res[0].warnings.count, ==, 0);
+    g_assert_cmpint(res[0].divergent, ==, 0);
     free(res);
     free(e);
 }
@@ -445,7 +449,48 @@ static void test_degenerate(void)
     free(e);
 }
 
+/* A heavy band: amplitude 20 meV on a = 4 A gives m = (hbar^2/m_e)/(amp a^2)
+ * = 23.8 m_e (chain rule as above), outside 0.01..10 m_e: reported and warned. */
+static void test_heavy(void)
+{
+    double recip[3][3];
+    cubic(4.0, recip);
+    cos_band b = { .nterms = 3, .q = { { 1, 0, 0 }, { 0, 1, 0 }, { 0, 0, 1 } },
+                   .amp = { 0.02, 0.5, 0.5 }, .sign = { 1, 1, 1 } };
+    bm_grid g;
+    double *e = fill_grid(&g, recip, 12, 12, 12, 1, &b);
+    bm_mass_tensor *res;
+    size_t n;
+    g_assert_cmpint(bm_grid_mass_tensors(&g, 0, BM_SEARCH_MINIMUM, NULL, NULL, &res, &n, NULL), ==, BM_OK);
+    double heavy = BM_HBAR2_OVER_ME_EV_A2 / (0.02 * 16.0);
+    g_assert_cmpfloat_with_epsilon(res[0].masses[2], heavy, 1e-6 * heavy);
+    g_assert_true(has_warning(&res[0], "outside the usual range"));
+    free(res);
+    free(e);
+}
+
 /* ---------------------------------------------------------------- tables */
+
+/* Strongly non-parabolic line cut E = c s^2 / 2 + q s^4: the quadratic fit
+ * leaves a residual and says so (a quartic is not a quadric: identity). */
+static void test_table_nonparabolic(void)
+{
+    size_t np = 21;
+    double k[63], e[21];
+    for (size_t m = 0; m < np; m++) {
+        double s = 0.01 * ((double)m - 10.0);
+        k[3 * m] = s;
+        k[3 * m + 1] = k[3 * m + 2] = 0.0;
+        e[m] = 0.5 * 10.0 * s * s + 3000.0 * s * s * s * s;
+    }
+    bm_ktable t = { .npoints = np, .k = k, .nbands = 1, .energies = e };
+    bm_mass_tensor *res;
+    size_t n;
+    g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_MINIMUM, NULL, NULL, &res, &n, NULL), ==, BM_OK);
+    g_assert_cmpfloat(res[0].fit_rms_ev, >, 0.0);
+    g_assert_true(has_warning(&res[0], "non-parabolic"));
+    free(res);
+}
 
 /* Points of an anisotropic parabola E = E0 + (k-k0)^T H (k-k0) / 2 on a
  * local 5x5x5 mesh whose centre is off k0: the quadric fit is exact. */
@@ -480,6 +525,7 @@ static void test_table_parabola(void)
     for (int c = 0; c < 3; c++)
         g_assert_cmpfloat_with_epsilon(res[0].k[c], k0[c], 1e-9);
     g_assert_cmpfloat_with_epsilon(res[0].energy_ev, 1.1, 1e-12);
+    g_assert_cmpint(res[0].warnings.count, ==, 0);
     g_assert_true(isnan(res[0].k_frac[0]));
     free(res);
     free(k);
@@ -621,7 +667,9 @@ int main(int argc, char **argv)
     g_test_add_func("/core/extrema/cone", test_cone);
     g_test_add_func("/core/extrema/flat", test_flat);
     g_test_add_func("/core/extrema/degenerate", test_degenerate);
+    g_test_add_func("/core/extrema/heavy", test_heavy);
     g_test_add_func("/core/extrema/table-parabola", test_table_parabola);
+    g_test_add_func("/core/extrema/table-nonparabolic", test_table_nonparabolic);
     g_test_add_func("/core/extrema/table-line", test_table_line);
     g_test_add_func("/core/extrema/table-plane-cone", test_table_plane_and_cone);
     g_test_add_func("/core/extrema/bad-input", test_bad_input);
