@@ -7,8 +7,10 @@
 #include "registry.h"
 
 extern const BmOperation bm_op_constants;
+extern const BmOperation bm_op_mass_tensor;
 
 #define BM_OPERATIONS_TABLE \
-    &bm_op_constants,
+    &bm_op_constants, \
+    &bm_op_mass_tensor,
 
 #endif
