@@ -17,8 +17,11 @@
  *        string per band.
  *   "comment", "description": any value, ignored.
  * Any other key is rejected (it is most likely a misspelling). JSON has no
- * NaN or Infinity; numbers that overflow to infinity are rejected, and so
- * are non-finite values in a .npy file. */
+ * NaN or Infinity; numbers that overflow to infinity are rejected. The
+ * values of a .npy file are not scanned here (that would cost a pass over
+ * all bands): the core checks every band it is asked to use
+ * (bm_grid_validate, and each grid operation for its band) and names the
+ * band and mesh index of a non-finite value. */
 #include "band-grid.h"
 #include "npy.h"
 #include "bm-error.h"
@@ -35,7 +38,8 @@ void bm_band_grid_free(BmBandGrid *grid)
         return;
     g_strfreev(grid->band_names);
     g_free(grid->source);
-    g_free(grid->energies);
+    g_free(grid->inline_energies);
+    bm_npy_array_free(grid->array);
     g_free(grid);
 }
 
@@ -197,8 +201,8 @@ static gboolean read_inline(JsonArray *bands, const char *name, const size_t mes
     size_t count = 0;
     if (!checked_count(name, nb, mesh, &count, error))
         return FALSE;
-    g->energies = g_try_new(double, count);
-    if (!g->energies)
+    g->inline_energies = g_try_new(double, count);
+    if (!g->inline_energies)
         return invalid(error, name, "cannot allocate %zu energies", count);
     static const char *level_name[4] = { "band", "n1", "n2", "n3" };
     size_t idx[4] = { 0 };
@@ -254,7 +258,7 @@ static gboolean read_inline(JsonArray *bands, const char *name, const size_t mes
             g_string_free(path, TRUE);
             return FALSE;
         }
-        g->energies[out++] = json_node_get_double(e);
+        g->inline_energies[out++] = json_node_get_double(e);
         idx[depth]++;
     }
     g->grid.nbands = nb;
@@ -282,18 +286,9 @@ static gboolean read_npy(const char *file, const char *name, const char *base_di
                        "'energies_ev' file %s; expected (nbands, %zu, %zu, %zu) with nbands >= 1",
                        mesh[0], mesh[1], mesh[2], s, path, mesh[0], mesh[1], mesh[2]);
     }
-    for (size_t n = 0; n < arr->count; n++) {
-        if (!isfinite(arr->data[n])) {
-            size_t r = n, l = r % mesh[2], j, i, b;
-            r /= mesh[2]; j = r % mesh[1]; r /= mesh[1]; i = r % mesh[0]; b = r / mesh[0];
-            return invalid(error, name, "'energies_ev' file %s holds a non-finite value (%g) "
-                           "at [%zu][%zu][%zu][%zu]; energies must be finite", path,
-                           arr->data[n], b, i, j, l);
-        }
-    }
     g->grid.nbands = arr->shape[0];
-    g->energies = arr->data;   /* take the buffer over: no copy */
-    arr->data = NULL;
+    g->grid.energies = arr->data;   /* take the array over: no copy */
+    g->array = g_steal_pointer(&arr);
     return TRUE;
 }
 
@@ -399,7 +394,8 @@ static gboolean parse_document(JsonNode *root, const char *name, const char *bas
         return invalid(error, name, "'energies_ev': expected a nested array [band][i][j][l] "
                        "or a .npy file name, found %s", node_kind(en));
     }
-    g->grid.energies = g->energies;
+    if (g->inline_energies)
+        g->grid.energies = g->inline_energies;
 
     JsonNode *names = json_object_get_member(o, "band_names");
     if (names && !read_names(names, name, g, error))

@@ -8,13 +8,18 @@
 
 G_BEGIN_DECLS
 
-/* A loaded band grid. It owns the energies; grid.energies points into them. */
+#include "npy.h"
+
+/* A loaded band grid. It owns the energies; grid.energies points into them
+ * ([band][i][j][l], eV) and stays valid until bm_band_grid_free(). */
 typedef struct {
     bm_grid grid;            /* the view the core reads */
     char **band_names;       /* NULL-terminated, grid.nbands entries, or NULL if
                                 the document gives none */
     char *source;            /* the document path (or the name given for data) */
-    double *energies;        /* owned storage, [band][i][j][l] */
+    /* private */
+    double *inline_energies; /* storage of inline energies, or NULL */
+    BmNpyArray *array;       /* the .npy array holding the energies, or NULL */
 } BmBandGrid;
 
 /* Loads the document at path; a .npy energies file is found relative to the

@@ -9,15 +9,22 @@ G_BEGIN_DECLS
 
 #define BM_NPY_MAX_DIMS 8
 
-/* A float64 array in C order, native byte order. */
+/* A float64 array in C order, native byte order. The values live either in
+ * a private read-only mapping of the file (little-endian data on a
+ * little-endian host: no copy at all) or in one allocated buffer that a
+ * single read fills (byte-swapped data, pipes, unaligned data). */
 typedef struct {
-    double *data;                    /* count values, g_free'd with the array */
+    const double *data;              /* count values, valid until freed */
     size_t count;                    /* product of shape */
     size_t ndim;
     size_t shape[BM_NPY_MAX_DIMS];
+    /* private */
+    void *map;                       /* mapping of the whole file, or NULL */
+    size_t map_len;
+    double *buffer;                  /* g_malloc'd storage, or NULL */
 } BmNpyArray;
 
-/* Reads path. Accepts dtype '<f8' and '>f8' (byte-swapped to native), with
+/* Reads path (mapped when it is a regular file). Accepts dtype '<f8' and '>f8' (byte-swapped to native), with
  * fortran_order False. Everything else fails with BM_ERROR_INVALID_INPUT
  * (BM_ERROR_IO when the file cannot be opened or read); the message names
  * the file and the problem. Non-finite values are not checked here. */

@@ -290,6 +290,18 @@ static void test_bad(void)
     req = g_strdup_printf("{\"grid\": \"%s\", \"band\": 1, \"k_inv_angstrom\": [0, 0]}", doc);
     expect_error(req, BM_ERROR_INVALID_INPUT, "k_inv_angstrom", "3 finite numbers");
     g_free(req);
+    /* a NaN inside the .npy file: the message names the document, band and mesh index */
+    const size_t nshape[4] = { 1, 4, 4, 1 };
+    double nv[16] = { 0 };
+    nv[6] = NAN;
+    write_npy("nan.npy", nv, nshape);
+    write_text("nan.json", "{\"format\": \"bandmass-grid-1\", \"reciprocal_vectors_inv_angstrom\": "
+               "[[1, 0, 0], [0, 1, 0], [0, 0, 1]], \"mesh\": [4, 4, 1], \"energies_ev\": \"nan.npy\"}");
+    g_autofree char *nandoc = tmp_path("nan.json");
+    req = g_strdup_printf("{\"grid\": \"%s\", \"band\": 0}", nandoc);
+    expect_error(req, BM_ERROR_INVALID_INPUT, "nan.json: band 0, mesh index (i, j, l) = (1, 2, 0)",
+                 "not finite");
+    g_free(req);
     write_text("short.csv", "kx_inv_angstrom,ky_inv_angstrom,kz_inv_angstrom,cb_ev\n0,0,0,1\n0,0\n");
     g_autofree char *csv = tmp_path("short.csv");
     req = g_strdup_printf("{\"table\": \"%s\", \"band\": 0}", csv);
