@@ -135,7 +135,7 @@ def main():
         t_np = []
         np_found = []
         for b in range(4):
-            t_np.append(best_of(lambda b=b: numpy_extrema(bands[b], recip), 3))
+            t_np.append(best_of(lambda b=b: numpy_extrema(bands[b], recip)))
             np_found.append(numpy_extrema(bands[b], recip))
 
         print("bandmass mass-tensor benchmark: %d^3 mesh, 4 bands, %.1f MB of band data"
