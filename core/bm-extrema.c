@@ -416,8 +416,11 @@ static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
         gf[2] = 0.0;
         hf[2][2] = hf[0][2] = hf[2][0] = hf[1][2] = hf[2][1] = 0.0;
     }
-    for (int a = 0; a < 3; a++)
-        t->k_frac[a] = f[a] - floor(f[a]);
+    for (int a = 0; a < 3; a++) {
+        /* wrap into [0, 1); a value a rounding error below 1 is the point 0 */
+        double w = f[a] - floor(f[a]);
+        t->k_frac[a] = 1.0 - w < 1e-9 ? 0.0 : w;
+    }
     for (int i = 0; i < 3; i++)
         t->k[i] = t->k_frac[0] * c->b[0][i] + t->k_frac[1] * c->b[1][i] + t->k_frac[2] * c->b[2][i];
     t->energy_ev = e;

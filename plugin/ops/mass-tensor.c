@@ -292,9 +292,7 @@ static void render(JsonObject *response, GString *out)
     }
     if (n == 0)
         g_string_append(out, "(no extrema)\n");
-    JsonArray *w = json_object_get_array_member(response, "warnings");
-    for (guint c = 0; w && c < json_array_get_length(w); c++)
-        g_string_append_printf(out, "warning: %s\n", json_array_get_string_element(w, c));
+    /* top-level warnings are printed by the host after the table */
 }
 
 const BmOperation bm_op_mass_tensor = {
