@@ -262,13 +262,18 @@ static bm_status solve_u(const nctx *c, double u0, double *u_out, int *iters)
             lo = u;
         else
             hi = u;
-        double un = u - g / gp;
+        double step = -g / gp;
+        if (gp < 0.0 && fabs(step) < 1e-7) {
+            u += step;   /* converged: the error is now of order step^2 */
+            break;
+        }
+        double un = u + step;
         if (!(gp < 0.0) || !(un > lo && un < hi) || fabs(2.0 * g) > fabs(dxold * gp))
             un = 0.5 * (lo + hi);
         double dx = un - u;
         dxold = dx;
         u = un;
-        if (fabs(dx) < 1e-7 || hi - lo < 4e-16 * fmax(1.0, fabs(u)))
+        if (hi - lo < 4e-16 * fmax(1.0, fabs(u)))
             break;
     }
     *u_out = u;
@@ -658,13 +663,18 @@ bm_status bm_2d_fermi_level(const bm_subband *sub, size_t nsub, double t_k,
             lo = u;
         else
             hi = u;
-        double un = u - h / dh;
+        double step = -h / dh;
+        if (dh > 0.0 && fabs(step) < 1e-9) {
+            u += step;
+            break;
+        }
+        double un = u + step;
         if (!(dh > 0.0) || !(un > lo && un < hi) || fabs(2.0 * h) > fabs(dxold * dh))
             un = 0.5 * (lo + hi);
         double dx = un - u;
         dxold = dx;
         u = un;
-        if (fabs(dx) < 1e-12 * fmax(1.0, fabs(u)) || hi - lo < 4e-16 * fmax(1.0, fabs(u)))
+        if (hi - lo < 4e-16 * fmax(1.0, fabs(u)))
             break;
     }
     if (it >= 300 || !isfinite(u))
