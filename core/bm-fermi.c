@@ -128,6 +128,12 @@ bm_status bm_fermi_dirac(double j, double eta, double *value, bm_errbuf *err)
         *value = exp(eta);
         return BM_OK;
     }
+    if (twice_j == 0) {
+        /* F_0 = ln(1 + e^eta) in closed form, to an ulp or two (GSL's series
+         * below eta = -5 is good to about 1e-14 only). */
+        *value = eta > 0.0 ? eta + log1p(exp(-eta)) : log1p(exp(eta));
+        return BM_OK;
+    }
     if ((twice_j == 1 || twice_j == -1) && eta < SERIES_ETA_MAX) {
         double fh, fm;
         bm_fermi_dirac_half_pair(eta, &fh, &fm);
