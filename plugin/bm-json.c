@@ -1,0 +1,183 @@
+/* bm-json.c: typed JSON access for operations. */
+#include "bm-json.h"
+
+#include <math.h>
+
+#define WHERE(w) ((w) ? (w) : "request")
+
+static gboolean node_number(JsonNode *n, double *out)
+{
+    if (!n || !JSON_NODE_HOLDS_VALUE(n))
+        return FALSE;
+    GType t = json_node_get_value_type(n);
+    if (t == G_TYPE_DOUBLE)
+        *out = json_node_get_double(n);
+    else if (t == G_TYPE_INT64)
+        *out = (double)json_node_get_int(n);
+    else
+        return FALSE;
+    return TRUE;
+}
+
+static gboolean fail_kind(GError **error, const char *key, const char *where,
+                          const char *what)
+{
+    g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                "%s: key \"%s\" must be %s", WHERE(where), key, what);
+    return FALSE;
+}
+
+gboolean bm_json_number(JsonObject *o, const char *key, const char *where,
+                        double *out, GError **error)
+{
+    JsonNode *n = json_object_get_member(o, key);
+    if (!n) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "%s: missing key \"%s\"", WHERE(where), key);
+        return FALSE;
+    }
+    if (!node_number(n, out))
+        return fail_kind(error, key, where, "a number");
+    if (!isfinite(*out))
+        return fail_kind(error, key, where, "a finite number");
+    return TRUE;
+}
+
+gboolean bm_json_positive(JsonObject *o, const char *key, const char *where,
+                          double *out, GError **error)
+{
+    if (!bm_json_number(o, key, where, out, error))
+        return FALSE;
+    if (!(*out > 0)) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "%s: key \"%s\" must be greater than zero (got %g)",
+                    WHERE(where), key, *out);
+        return FALSE;
+    }
+    return TRUE;
+}
+
+gboolean bm_json_number_opt(JsonObject *o, const char *key, const char *where,
+                            double *out, GError **error)
+{
+    JsonNode *n = json_object_get_member(o, key);
+    if (!n || JSON_NODE_HOLDS_NULL(n))
+        return TRUE;
+    return bm_json_number(o, key, where, out, error);
+}
+
+static gboolean array_numbers(JsonArray *a, double *out, guint n)
+{
+    for (guint i = 0; i < n; i++)
+        if (!node_number(json_array_get_element(a, i), &out[i]) || !isfinite(out[i]))
+            return FALSE;
+    return TRUE;
+}
+
+gboolean bm_json_vec3(JsonObject *o, const char *key, const char *where,
+                      double out[3], GError **error)
+{
+    JsonNode *n = json_object_get_member(o, key);
+    if (!n || !JSON_NODE_HOLDS_ARRAY(n) || json_array_get_length(json_node_get_array(n)) != 3
+        || !array_numbers(json_node_get_array(n), out, 3))
+        return fail_kind(error, key, where, "an array of 3 finite numbers");
+    return TRUE;
+}
+
+gboolean bm_json_mat3(JsonObject *o, const char *key, const char *where,
+                      double out[3][3], GError **error)
+{
+    JsonNode *n = json_object_get_member(o, key);
+    JsonArray *rows = n && JSON_NODE_HOLDS_ARRAY(n) ? json_node_get_array(n) : NULL;
+    if (!rows || json_array_get_length(rows) != 3)
+        return fail_kind(error, key, where, "3 rows of 3 finite numbers");
+    for (guint i = 0; i < 3; i++) {
+        JsonNode *r = json_array_get_element(rows, i);
+        if (!JSON_NODE_HOLDS_ARRAY(r) || json_array_get_length(json_node_get_array(r)) != 3
+            || !array_numbers(json_node_get_array(r), out[i], 3))
+            return fail_kind(error, key, where, "3 rows of 3 finite numbers");
+    }
+    return TRUE;
+}
+
+double *bm_json_numbers(JsonObject *o, const char *key, const char *where,
+                        gsize *n_out, GError **error)
+{
+    JsonNode *n = json_object_get_member(o, key);
+    if (n && JSON_NODE_HOLDS_VALUE(n)) {
+        double v;
+        if (!bm_json_number(o, key, where, &v, error))
+            return NULL;
+        double *one = g_new(double, 1);
+        one[0] = v;
+        *n_out = 1;
+        return one;
+    }
+    if (!n || !JSON_NODE_HOLDS_ARRAY(n) || json_array_get_length(json_node_get_array(n)) == 0) {
+        fail_kind(error, key, where, "a number or a non-empty array of numbers");
+        return NULL;
+    }
+    JsonArray *a = json_node_get_array(n);
+    guint len = json_array_get_length(a);
+    double *v = g_new(double, len);
+    for (guint i = 0; i < len; i++) {
+        if (!node_number(json_array_get_element(a, i), &v[i]) || !isfinite(v[i])) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                        "%s: element %u of \"%s\" must be a finite number",
+                        WHERE(where), i, key);
+            g_free(v);
+            return NULL;
+        }
+    }
+    *n_out = len;
+    return v;
+}
+
+static JsonNode *number_node(double v)
+{
+    JsonNode *n = json_node_new(isfinite(v) ? JSON_NODE_VALUE : JSON_NODE_NULL);
+    if (isfinite(v))
+        json_node_set_double(n, v);
+    return n;
+}
+
+void bm_json_set_number(JsonObject *o, const char *key, double v)
+{
+    json_object_set_member(o, key, number_node(v));
+}
+
+void bm_json_set_numbers(JsonObject *o, const char *key, const double *v, gsize n)
+{
+    JsonArray *a = json_array_sized_new(n);
+    for (gsize i = 0; i < n; i++)
+        json_array_add_element(a, number_node(v[i]));
+    json_object_set_array_member(o, key, a);
+}
+
+void bm_json_set_vec3(JsonObject *o, const char *key, const double v[3])
+{
+    bm_json_set_numbers(o, key, v, 3);
+}
+
+void bm_json_set_mat3(JsonObject *o, const char *key, const double m[3][3])
+{
+    JsonArray *rows = json_array_sized_new(3);
+    for (int i = 0; i < 3; i++) {
+        JsonArray *r = json_array_sized_new(3);
+        for (int j = 0; j < 3; j++)
+            json_array_add_element(r, number_node(m[i][j]));
+        json_array_add_array_element(rows, r);
+    }
+    json_object_set_array_member(o, key, rows);
+}
+
+void bm_json_warn(JsonObject *o, const char *fmt, ...)
+{
+    if (!json_object_has_member(o, "warnings"))
+        json_object_set_array_member(o, "warnings", json_array_new());
+    va_list ap;
+    va_start(ap, fmt);
+    g_autofree char *text = g_strdup_vprintf(fmt, ap);
+    va_end(ap);
+    json_array_add_string_element(json_object_get_array_member(o, "warnings"), text);
+}

@@ -1,0 +1,41 @@
+/* bm-json.h: typed getters and setters between JSON objects and the plain
+ * numbers and 3x3 arrays of the core, with errors that name the key. */
+#ifndef BM_JSON_H
+#define BM_JSON_H
+
+#include <json-glib/json-glib.h>
+#include "bm-error.h"
+
+G_BEGIN_DECLS
+
+/* `where` names the enclosing object in messages ("request", "valley 2", ...);
+ * NULL means "request". Each getter fails with BM_ERROR_INVALID_INPUT when the
+ * key is missing, has the wrong type or holds a non-finite value. */
+gboolean bm_json_number(JsonObject *o, const char *key, const char *where,
+                        double *out, GError **error);
+/* The same, and the value must be > 0. */
+gboolean bm_json_positive(JsonObject *o, const char *key, const char *where,
+                          double *out, GError **error);
+/* Optional variants: absent or null leaves *out untouched and returns TRUE. */
+gboolean bm_json_number_opt(JsonObject *o, const char *key, const char *where,
+                            double *out, GError **error);
+gboolean bm_json_vec3(JsonObject *o, const char *key, const char *where,
+                      double out[3], GError **error);
+gboolean bm_json_mat3(JsonObject *o, const char *key, const char *where,
+                      double out[3][3], GError **error);
+/* A number or an array of numbers; returns a new array of *n values. */
+double *bm_json_numbers(JsonObject *o, const char *key, const char *where,
+                        gsize *n, GError **error);
+
+/* Setters. Non-finite values are written as null (JSON has no NaN). */
+void bm_json_set_number(JsonObject *o, const char *key, double v);
+void bm_json_set_vec3(JsonObject *o, const char *key, const double v[3]);
+void bm_json_set_mat3(JsonObject *o, const char *key, const double m[3][3]);
+void bm_json_set_numbers(JsonObject *o, const char *key, const double *v, gsize n);
+
+/* Appends a warning string to the object's "warnings" array (created on demand). */
+void bm_json_warn(JsonObject *o, const char *fmt, ...) G_GNUC_PRINTF(2, 3);
+
+G_END_DECLS
+
+#endif

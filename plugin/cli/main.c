@@ -1,0 +1,394 @@
+/* main.c: the bandmass command line, one more host of the operation
+ * registry. Friendly subcommands are generated from the parameter tables. */
+#include <stdio.h>
+#include <string.h>
+#include <errno.h>
+#include <glib.h>
+
+#include "registry.h"
+
+#define EXIT_USAGE 2
+
+static int fail(const GError *error)
+{
+    fprintf(stderr, "bandmass: error: %s\n", error->message);
+    gboolean bad_input = error->domain == BM_ERROR
+        && (error->code == BM_ERROR_INVALID_INPUT || error->code == BM_ERROR_IO
+            || error->code == BM_ERROR_UNKNOWN_OPERATION);
+    return bad_input ? EXIT_USAGE : 1;
+}
+
+static int usage_error(const char *fmt, ...) G_GNUC_PRINTF(1, 2);
+static int usage_error(const char *fmt, ...)
+{
+    va_list ap;
+    va_start(ap, fmt);
+    g_autofree char *msg = g_strdup_vprintf(fmt, ap);
+    va_end(ap);
+    fprintf(stderr, "bandmass: error: %s (see bandmass --help)\n", msg);
+    return EXIT_USAGE;
+}
+
+static void print_main_help(void)
+{
+    printf("bandmass %s: effective masses from band data and measurements\n\n"
+           "Usage:\n"
+           "  bandmass ops [--json]              list the operations\n"
+           "  bandmass call OP [--input FILE]    run OP on a JSON request (stdin by default)\n"
+           "                [--output FILE] [--compact]\n"
+           "  bandmass OP [--KEY VALUE]... [--json | --csv] [--output FILE]\n"
+           "                                     run OP with request keys as options\n"
+           "  bandmass OP --help                 the keys, units and defaults of OP\n"
+           "  bandmass --version\n\n"
+           "Option names are request keys with '-' for '_' (--temperature-k 300).\n"
+           "Arrays and objects are given as JSON ('[1,0,0]') or as comma lists (100,200).\n"
+           "Exit status: 0 success, 2 bad input or usage, 1 internal failure.\n",
+           PACKAGE_VERSION);
+}
+
+/* Writes text to path atomically (temp file + rename), or to stdout. */
+static gboolean emit(const char *path, const char *text, GError **error)
+{
+    if (!path) {
+        fputs(text, stdout);
+        return fflush(stdout) == 0;
+    }
+    g_autoptr(GError) io = NULL;
+    if (!g_file_set_contents(path, text, -1, &io)) {
+        g_set_error(error, BM_ERROR, BM_ERROR_IO, "cannot write %s: %s", path, io->message);
+        return FALSE;
+    }
+    return TRUE;
+}
+
+static char *read_all(const char *path, GError **error)
+{
+    g_autoptr(GError) io = NULL;
+    char *text = NULL;
+    if (path) {
+        if (!g_file_get_contents(path, &text, NULL, &io)) {
+            g_set_error(error, BM_ERROR, BM_ERROR_IO, "cannot read request %s: %s",
+                        path, io->message);
+            return NULL;
+        }
+        return text;
+    }
+    GString *s = g_string_new(NULL);
+    char buf[65536];
+    size_t got;
+    while ((got = fread(buf, 1, sizeof buf, stdin)) > 0)
+        g_string_append_len(s, buf, (gssize)got);
+    return g_string_free(s, FALSE);
+}
+
+static int cmd_ops(int argc, char **argv)
+{
+    gboolean as_json = FALSE;
+    for (int i = 0; i < argc; i++) {
+        if (strcmp(argv[i], "--json") == 0)
+            as_json = TRUE;
+        else
+            return usage_error("ops: unknown option %s", argv[i]);
+    }
+    if (as_json) {
+        g_autoptr(JsonNode) all = bm_registry_describe();
+        g_autofree char *text = json_to_string(all, TRUE);
+        printf("%s\n", text);
+        return 0;
+    }
+    guint n;
+    const BmOperation *const *ops = bm_registry_operations(&n);
+    for (guint i = 0; i < n; i++)
+        printf("  %-20s %s\n", ops[i]->name, ops[i]->summary);
+    return 0;
+}
+
+static int cmd_call(int argc, char **argv)
+{
+    const char *op = NULL, *input = NULL, *output = NULL;
+    gboolean compact = FALSE;
+    for (int i = 0; i < argc; i++) {
+        if (strcmp(argv[i], "--input") == 0 && i + 1 < argc)
+            input = argv[++i];
+        else if (strcmp(argv[i], "--output") == 0 && i + 1 < argc)
+            output = argv[++i];
+        else if (strcmp(argv[i], "--compact") == 0)
+            compact = TRUE;
+        else if (argv[i][0] == '-' && argv[i][1] != '\0')
+            return usage_error("call: unknown or incomplete option %s", argv[i]);
+        else if (!op)
+            op = argv[i];
+        else
+            return usage_error("call: unexpected argument %s", argv[i]);
+    }
+    if (!op)
+        return usage_error("call: name an operation (bandmass ops lists them)");
+    g_autoptr(GError) error = NULL;
+    g_autofree char *request = read_all(input, &error);
+    if (!request)
+        return fail(error);
+    g_autofree char *response = bm_registry_call_json(op, request, NULL, !compact, &error);
+    if (!response)
+        return fail(error);
+    g_autofree char *line = g_strconcat(response, "\n", NULL);
+    if (!emit(output, line, &error))
+        return fail(error);
+    return 0;
+}
+
+static void print_op_help(const BmOperation *op)
+{
+    printf("bandmass %s: %s\n\nOptions (request keys):\n", op->name, op->summary);
+    for (const BmParam *p = op->params; p && p->name; p++) {
+        g_autofree char *opt = g_strdelimit(g_strdup(p->name), "_", '-');
+        printf("  --%-28s %s%s", opt, p->summary, p->required ? " [required]" : "");
+        if (p->default_json)
+            printf(" [default %s]", p->default_json);
+        putchar('\n');
+    }
+    printf("\nOutput: a readable table; --json for the response object "
+           "(as 'bandmass call %s'),\n--csv for its \"points\" as CSV, "
+           "--output FILE to write it atomically.\n", op->name);
+}
+
+/* Converts an option's text to a JSON node of a kind the parameter accepts. */
+static JsonNode *option_value(const BmParam *p, const char *text, GError **error)
+{
+    if ((p->kinds & (BM_VALUE_ARRAY | BM_VALUE_OBJECT)) && (text[0] == '[' || text[0] == '{')) {
+        g_autoptr(GError) parse = NULL;
+        JsonNode *n = json_from_string(text, &parse);
+        if (!n) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                        "option --%s: not valid JSON: %s", p->name, parse->message);
+            return NULL;
+        }
+        return n;
+    }
+    if (p->kinds & (BM_VALUE_NUMBER | BM_VALUE_INTEGER | BM_VALUE_ARRAY)) {
+        g_auto(GStrv) parts = g_strsplit(text, ",", -1);
+        guint n = g_strv_length(parts);
+        JsonArray *values = json_array_new();
+        gboolean numeric = n > 0;
+        for (guint i = 0; numeric && i < n; i++) {
+            char *end = NULL;
+            errno = 0;
+            double v = g_ascii_strtod(parts[i], &end);
+            numeric = end != parts[i] && *end == '\0' && errno == 0;
+            if (numeric)
+                json_array_add_double_element(values, v);
+        }
+        if (numeric && n == 1 && (p->kinds & (BM_VALUE_NUMBER | BM_VALUE_INTEGER))) {
+            JsonNode *node = json_node_new(JSON_NODE_VALUE);
+            double v = json_array_get_double_element(values, 0);
+            if (!strpbrk(text, ".eE") && (p->kinds & BM_VALUE_INTEGER || p->kinds & BM_VALUE_NUMBER))
+                json_node_set_int(node, (gint64)v);
+            else
+                json_node_set_double(node, v);
+            json_array_unref(values);
+            return node;
+        }
+        if (numeric && (p->kinds & BM_VALUE_ARRAY)) {
+            JsonNode *node = json_node_new(JSON_NODE_ARRAY);
+            json_node_take_array(node, values);
+            return node;
+        }
+        json_array_unref(values);
+    }
+    if ((p->kinds & BM_VALUE_BOOLEAN) && (!strcmp(text, "true") || !strcmp(text, "false"))) {
+        JsonNode *node = json_node_new(JSON_NODE_VALUE);
+        json_node_set_boolean(node, strcmp(text, "true") == 0);
+        return node;
+    }
+    if (p->kinds & BM_VALUE_STRING) {
+        JsonNode *node = json_node_new(JSON_NODE_VALUE);
+        json_node_set_string(node, text);
+        return node;
+    }
+    g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                "option --%s: cannot use \"%s\" here", p->name, text);
+    return NULL;
+}
+
+static char *csv_field(JsonNode *n)
+{
+    if (JSON_NODE_HOLDS_NULL(n))
+        return g_strdup("");
+    if (JSON_NODE_HOLDS_VALUE(n) && json_node_get_value_type(n) == G_TYPE_STRING) {
+        const char *s = json_node_get_string(n);
+        if (!strpbrk(s, ",\"\n"))
+            return g_strdup(s);
+        g_auto(GStrv) parts = g_strsplit(s, "\"", -1);
+        g_autofree char *doubled = g_strjoinv("\"\"", parts);
+        return g_strdup_printf("\"%s\"", doubled);
+    }
+    if (JSON_NODE_HOLDS_VALUE(n) && json_node_get_value_type(n) == G_TYPE_DOUBLE) {
+        char buf[G_ASCII_DTOSTR_BUF_SIZE];
+        return g_strdup(g_ascii_formatd(buf, sizeof buf, "%.10g", json_node_get_double(n)));
+    }
+    return json_to_string(n, FALSE);
+}
+
+/* The response's "points" (one object per row) as CSV; arrays become
+ * numbered columns key_1, key_2, ... */
+static gboolean render_csv(JsonObject *response, GString *out, GError **error)
+{
+    JsonNode *pts = json_object_get_member(response, "points");
+    if (!pts || !JSON_NODE_HOLDS_ARRAY(pts) || json_array_get_length(json_node_get_array(pts)) == 0
+        || !JSON_NODE_HOLDS_OBJECT(json_array_get_element(json_node_get_array(pts), 0))) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "--csv needs a response with \"points\" (for example a list of temperatures)");
+        return FALSE;
+    }
+    JsonArray *rows = json_node_get_array(pts);
+    JsonObject *first = json_array_get_object_element(rows, 0);
+    g_autoptr(GList) keys = json_object_get_members(first);
+    gboolean sep = FALSE;
+    for (GList *l = keys; l; l = l->next) {
+        JsonNode *n = json_object_get_member(first, l->data);
+        if (JSON_NODE_HOLDS_ARRAY(n)) {
+            for (guint j = 0; j < json_array_get_length(json_node_get_array(n)); j++) {
+                g_string_append_printf(out, "%s%s_%u", sep ? "," : "", (char *)l->data, j + 1);
+                sep = TRUE;
+            }
+        } else if (!JSON_NODE_HOLDS_OBJECT(n)) {
+            g_string_append_printf(out, "%s%s", sep ? "," : "", (char *)l->data);
+            sep = TRUE;
+        }
+    }
+    g_string_append_c(out, '\n');
+    for (guint r = 0; r < json_array_get_length(rows); r++) {
+        JsonObject *row = json_array_get_object_element(rows, r);
+        sep = FALSE;
+        for (GList *l = keys; l; l = l->next) {
+            JsonNode *n = json_object_get_member(first, l->data);
+            JsonNode *v = row ? json_object_get_member(row, l->data) : NULL;
+            if (JSON_NODE_HOLDS_ARRAY(n)) {
+                guint len = json_array_get_length(json_node_get_array(n));
+                JsonArray *va = v && JSON_NODE_HOLDS_ARRAY(v) ? json_node_get_array(v) : NULL;
+                for (guint j = 0; j < len; j++) {
+                    g_autofree char *f = va && j < json_array_get_length(va)
+                        ? csv_field(json_array_get_element(va, j)) : g_strdup("");
+                    g_string_append_printf(out, "%s%s", sep ? "," : "", f);
+                    sep = TRUE;
+                }
+            } else if (!JSON_NODE_HOLDS_OBJECT(n)) {
+                g_autofree char *f = v ? csv_field(v) : g_strdup("");
+                g_string_append_printf(out, "%s%s", sep ? "," : "", f);
+                sep = TRUE;
+            }
+        }
+        g_string_append_c(out, '\n');
+    }
+    return TRUE;
+}
+
+static int cmd_operation(const BmOperation *op, int argc, char **argv)
+{
+    enum { TABLE, JSON, CSV } view = TABLE;
+    const char *output = NULL;
+    g_autoptr(JsonObject) request = json_object_new();
+    g_autoptr(GError) error = NULL;
+
+    for (int i = 0; i < argc; i++) {
+        const char *arg = argv[i];
+        if (!strcmp(arg, "--help") || !strcmp(arg, "-h")) {
+            print_op_help(op);
+            return 0;
+        }
+        if (!strcmp(arg, "--json")) { view = JSON; continue; }
+        if (!strcmp(arg, "--csv")) { view = CSV; continue; }
+        if (!strcmp(arg, "--output")) {
+            if (i + 1 >= argc)
+                return usage_error("%s: --output needs a file name", op->name);
+            output = argv[++i];
+            continue;
+        }
+        if (strncmp(arg, "--", 2) != 0)
+            return usage_error("%s: unexpected argument \"%s\" (options are --KEY VALUE)",
+                               op->name, arg);
+        g_autofree char *name = g_strdup(arg + 2);
+        char *eq = strchr(name, '=');
+        const char *text = NULL;
+        if (eq) {
+            *eq = '\0';
+            text = eq + 1;
+        }
+        g_strdelimit(name, "-", '_');
+        const BmParam *p = NULL;
+        for (const BmParam *q = op->params; q && q->name; q++)
+            if (!strcmp(q->name, name))
+                p = q;
+        if (!p)
+            return usage_error("%s: unknown option %s (bandmass %s --help lists them)",
+                               op->name, arg, op->name);
+        if (!text) {
+            if (p->kinds == BM_VALUE_BOOLEAN)
+                text = "true";
+            else if (i + 1 < argc)
+                text = argv[++i];
+            else
+                return usage_error("%s: option --%s needs a value", op->name, arg + 2);
+        }
+        JsonNode *value = option_value(p, text, &error);
+        if (!value)
+            return fail(error);
+        json_object_set_member(request, p->name, value);
+    }
+
+    g_autoptr(JsonObject) response = bm_registry_invoke(op, request, NULL, &error);
+    if (!response)
+        return fail(error);
+
+    g_autoptr(GString) out = g_string_new(NULL);
+    if (view == JSON) {
+        g_autoptr(JsonNode) node = json_node_new(JSON_NODE_OBJECT);
+        json_node_set_object(node, response);
+        g_autofree char *text = json_to_string(node, TRUE);
+        g_string_append_printf(out, "%s\n", text);
+    } else if (view == CSV) {
+        if (!render_csv(response, out, &error))
+            return fail(error);
+    } else {
+        if (op->render)
+            op->render(response, out);
+        else
+            bm_render_generic(response, out);
+        JsonArray *warnings = json_object_get_array_member(response, "warnings");
+        for (guint i = 0; warnings && i < json_array_get_length(warnings); i++)
+            g_string_append_printf(out, "warning: %s\n",
+                                   json_array_get_string_element(warnings, i));
+    }
+    if (!emit(output, out->str, &error))
+        return fail(error);
+    return 0;
+}
+
+int main(int argc, char **argv)
+{
+    bm_registry_init();
+    if (argc < 2) {
+        print_main_help();
+        return EXIT_USAGE;
+    }
+    const char *cmd = argv[1];
+    if (!strcmp(cmd, "--help") || !strcmp(cmd, "-h") || !strcmp(cmd, "help")) {
+        if (argc > 2 && bm_registry_lookup(argv[2])) {
+            print_op_help(bm_registry_lookup(argv[2]));
+            return 0;
+        }
+        print_main_help();
+        return 0;
+    }
+    if (!strcmp(cmd, "--version")) {
+        printf("bandmass %s\n", PACKAGE_VERSION);
+        return 0;
+    }
+    if (!strcmp(cmd, "ops"))
+        return cmd_ops(argc - 2, argv + 2);
+    if (!strcmp(cmd, "call"))
+        return cmd_call(argc - 2, argv + 2);
+    const BmOperation *op = bm_registry_lookup(cmd);
+    if (!op)
+        return usage_error("unknown command or operation \"%s\"", cmd);
+    return cmd_operation(op, argc - 2, argv + 2);
+}

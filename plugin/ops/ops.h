@@ -1,0 +1,18 @@
+/* ops.h: every operation of the registry, one file each under plugin/ops/.
+ * To add one: define `const BmOperation bm_op_NAME` in NAME.c, declare it
+ * here, list it in BM_OPERATIONS_TABLE and in plugin/meson.build. */
+#ifndef BM_OPS_H
+#define BM_OPS_H
+
+#include "registry.h"
+
+extern const BmOperation bm_op_constants;
+extern const BmOperation bm_op_valley_average;
+extern const BmOperation bm_op_hole_mass;
+
+#define BM_OPERATIONS_TABLE \
+    &bm_op_constants, \
+    &bm_op_valley_average, \
+    &bm_op_hole_mass,
+
+#endif

@@ -1,0 +1,265 @@
+/* registry.c: operation lookup, request validation against the parameter
+ * descriptions, and the JSON string path shared by every host. */
+#include "registry.h"
+#include "ops/ops.h"
+#include "bm-status.h"
+
+#include <math.h>
+
+static const BmOperation *const operations[] = {
+    BM_OPERATIONS_TABLE
+};
+
+void bm_registry_init(void)
+{
+    static gsize done = 0;
+    if (g_once_init_enter(&done)) {
+        bm_core_init();
+        g_once_init_leave(&done, 1);
+    }
+}
+
+const BmOperation *const *bm_registry_operations(guint *n_ops)
+{
+    if (n_ops)
+        *n_ops = G_N_ELEMENTS(operations);
+    return operations;
+}
+
+const BmOperation *bm_registry_lookup(const char *name)
+{
+    for (guint i = 0; i < G_N_ELEMENTS(operations); i++)
+        if (g_strcmp0(operations[i]->name, name) == 0)
+            return operations[i];
+    return NULL;
+}
+
+static const BmParam *find_param(const BmOperation *op, const char *key)
+{
+    for (const BmParam *p = op->params; p && p->name; p++)
+        if (strcmp(p->name, key) == 0)
+            return p;
+    return NULL;
+}
+
+static char *kinds_text(guint kinds)
+{
+    static const struct { guint bit; const char *word; } words[] = {
+        { BM_VALUE_STRING, "string" }, { BM_VALUE_NUMBER, "number" },
+        { BM_VALUE_INTEGER, "integer" }, { BM_VALUE_BOOLEAN, "boolean" },
+        { BM_VALUE_ARRAY, "array" }, { BM_VALUE_OBJECT, "object" },
+    };
+    GString *s = g_string_new(NULL);
+    for (guint i = 0; i < G_N_ELEMENTS(words); i++)
+        if (kinds & words[i].bit)
+            g_string_append_printf(s, "%s%s", s->len ? " or " : "", words[i].word);
+    return g_string_free(s, FALSE);
+}
+
+static gboolean node_has_kind(JsonNode *node, guint kinds)
+{
+    switch (json_node_get_node_type(node)) {
+    case JSON_NODE_OBJECT: return (kinds & BM_VALUE_OBJECT) != 0;
+    case JSON_NODE_ARRAY:  return (kinds & BM_VALUE_ARRAY) != 0;
+    case JSON_NODE_NULL:   return FALSE;
+    case JSON_NODE_VALUE:  break;
+    }
+    GType t = json_node_get_value_type(node);
+    if (t == G_TYPE_STRING)
+        return (kinds & BM_VALUE_STRING) != 0;
+    if (t == G_TYPE_BOOLEAN)
+        return (kinds & BM_VALUE_BOOLEAN) != 0;
+    if (t == G_TYPE_INT64)
+        return (kinds & (BM_VALUE_NUMBER | BM_VALUE_INTEGER)) != 0;
+    if (t == G_TYPE_DOUBLE) {
+        double v = json_node_get_double(node);
+        if (kinds & BM_VALUE_NUMBER)
+            return TRUE;
+        return (kinds & BM_VALUE_INTEGER) && v == floor(v) && fabs(v) < 9e15;
+    }
+    return FALSE;
+}
+
+static gboolean validate(const BmOperation *op, JsonObject *request,
+                         JsonObject *filled, GError **error)
+{
+    g_autoptr(GList) keys = json_object_get_members(request);
+    for (GList *l = keys; l; l = l->next) {
+        const char *key = l->data;
+        const BmParam *p = find_param(op, key);
+        if (!p) {
+            g_autoptr(GString) known = g_string_new(NULL);
+            for (const BmParam *q = op->params; q && q->name; q++)
+                g_string_append_printf(known, "%s%s", known->len ? ", " : "", q->name);
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                        "request key \"%s\" is not a parameter of %s (%s%s)", key, op->name,
+                        known->len ? "expected one of: " : "it takes no keys", known->str);
+            return FALSE;
+        }
+        JsonNode *node = json_object_get_member(request, key);
+        if (!node_has_kind(node, p->kinds)) {
+            g_autofree char *want = kinds_text(p->kinds);
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                        "request key \"%s\" of %s must be %s", key, op->name, want);
+            return FALSE;
+        }
+        json_object_set_member(filled, key, json_node_copy(node));
+    }
+    for (const BmParam *p = op->params; p && p->name; p++) {
+        if (json_object_has_member(filled, p->name))
+            continue;
+        if (p->required) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                        "request for %s is missing the required key \"%s\" (%s)",
+                        op->name, p->name, p->summary);
+            return FALSE;
+        }
+        if (p->default_json) {
+            JsonNode *def = json_from_string(p->default_json, NULL);
+            g_assert(def != NULL);   /* defaults are compiled in: a bad one is a bug */
+            json_object_set_member(filled, p->name, def);
+        }
+    }
+    return TRUE;
+}
+
+JsonObject *bm_registry_invoke(const BmOperation *op, JsonObject *request,
+                               const BmCallInputs *inputs, GError **error)
+{
+    bm_registry_init();
+    g_autoptr(JsonObject) filled = json_object_new();
+    if (!validate(op, request, filled, error))
+        return NULL;
+    JsonObject *response = op->run(filled, inputs, error);
+    if (!response) {
+        if (error && !*error)
+            g_set_error(error, BM_ERROR, BM_ERROR_INTERNAL,
+                        "%s failed without saying why", op->name);
+        return NULL;
+    }
+    if (!json_object_has_member(response, "warnings"))
+        json_object_set_array_member(response, "warnings", json_array_new());
+    return response;
+}
+
+char *bm_registry_call_json(const char *op_name, const char *request_json,
+                            const BmCallInputs *inputs, gboolean pretty,
+                            GError **error)
+{
+    const BmOperation *op = bm_registry_lookup(op_name);
+    if (!op) {
+        g_set_error(error, BM_ERROR, BM_ERROR_UNKNOWN_OPERATION,
+                    "no operation named \"%s\" (list them with: bandmass ops)",
+                    op_name ? op_name : "(null)");
+        return NULL;
+    }
+    g_autoptr(GError) parse_error = NULL;
+    g_autoptr(JsonNode) root = json_from_string(request_json ? request_json : "", &parse_error);
+    if (parse_error) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request for %s is not valid JSON: %s", op_name, parse_error->message);
+        return NULL;
+    }
+    if (!root || !JSON_NODE_HOLDS_OBJECT(root)) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request for %s must be a JSON object ({...})", op_name);
+        return NULL;
+    }
+    g_autoptr(JsonObject) response = bm_registry_invoke(op, json_node_get_object(root),
+                                                        inputs, error);
+    if (!response)
+        return NULL;
+    g_autoptr(JsonNode) out = json_node_new(JSON_NODE_OBJECT);
+    json_node_set_object(out, response);
+    return json_to_string(out, pretty);
+}
+
+JsonNode *bm_operation_describe(const BmOperation *op)
+{
+    g_autoptr(JsonBuilder) b = json_builder_new();
+    json_builder_begin_object(b);
+    json_builder_set_member_name(b, "name");
+    json_builder_add_string_value(b, op->name);
+    json_builder_set_member_name(b, "summary");
+    json_builder_add_string_value(b, op->summary);
+    json_builder_set_member_name(b, "params");
+    json_builder_begin_array(b);
+    for (const BmParam *p = op->params; p && p->name; p++) {
+        g_autofree char *kinds = kinds_text(p->kinds);
+        json_builder_begin_object(b);
+        json_builder_set_member_name(b, "name");
+        json_builder_add_string_value(b, p->name);
+        json_builder_set_member_name(b, "kinds");
+        json_builder_add_string_value(b, kinds);
+        json_builder_set_member_name(b, "required");
+        json_builder_add_boolean_value(b, p->required);
+        json_builder_set_member_name(b, "default");
+        if (p->default_json)
+            json_builder_add_value(b, json_from_string(p->default_json, NULL));
+        else
+            json_builder_add_null_value(b);
+        json_builder_set_member_name(b, "summary");
+        json_builder_add_string_value(b, p->summary);
+        json_builder_end_object(b);
+    }
+    json_builder_end_array(b);
+    json_builder_end_object(b);
+    return json_builder_get_root(b);
+}
+
+JsonNode *bm_registry_describe(void)
+{
+    JsonArray *all = json_array_new();
+    for (guint i = 0; i < G_N_ELEMENTS(operations); i++)
+        json_array_add_element(all, bm_operation_describe(operations[i]));
+    JsonNode *root = json_node_new(JSON_NODE_ARRAY);
+    json_node_take_array(root, all);
+    return root;
+}
+
+/* Numbers to 6 significant digits, arrays of scalars on one line. */
+static void render_scalar(JsonNode *node, GString *out)
+{
+    if (JSON_NODE_HOLDS_VALUE(node) && json_node_get_value_type(node) == G_TYPE_DOUBLE) {
+        g_string_append_printf(out, "%.6g", json_node_get_double(node));
+    } else if (JSON_NODE_HOLDS_ARRAY(node)) {
+        JsonArray *a = json_node_get_array(node);
+        g_string_append_c(out, '[');
+        for (guint i = 0; i < json_array_get_length(a); i++) {
+            if (i)
+                g_string_append(out, ", ");
+            render_scalar(json_array_get_element(a, i), out);
+        }
+        g_string_append_c(out, ']');
+    } else {
+        g_autofree char *text = json_to_string(node, FALSE);
+        g_string_append(out, text);
+    }
+}
+
+static void render_node(JsonNode *node, GString *out, int indent)
+{
+    JsonObject *o = json_node_get_object(node);
+    g_autoptr(GList) keys = json_object_get_members(o);
+    for (GList *l = keys; l; l = l->next) {
+        if (indent == 0 && strcmp(l->data, "warnings") == 0)
+            continue;   /* the CLI prints warnings after the table */
+        JsonNode *child = json_object_get_member(o, l->data);
+        g_string_append_printf(out, "%*s%-28s", indent, "", (const char *)l->data);
+        if (JSON_NODE_HOLDS_OBJECT(child)) {
+            g_string_append_c(out, '\n');
+            render_node(child, out, indent + 2);
+        } else {
+            g_string_append_c(out, ' ');
+            render_scalar(child, out);
+            g_string_append_c(out, '\n');
+        }
+    }
+}
+
+void bm_render_generic(JsonObject *response, GString *out)
+{
+    g_autoptr(JsonNode) node = json_node_new(JSON_NODE_OBJECT);
+    json_node_set_object(node, response);
+    render_node(node, out, 0);
+}
