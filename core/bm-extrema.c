@@ -213,10 +213,14 @@ static bm_status band_finite(const bm_grid *g, size_t band, bm_errbuf *err)
     const double *e = g->energies + band * npt;
     /* x - x is 0 for finite x and NaN otherwise: a branch-free pass that
      * vectorises; the slow search for the culprit runs only on failure. */
-    double acc = 0.0;
-    for (size_t p = 0; p < npt; p++)
-        acc += e[p] - e[p];
-    if (acc == 0.0)
+    double acc[4] = { 0.0, 0.0, 0.0, 0.0 };   /* independent chains pipeline */
+    size_t p4 = npt - npt % 4;
+    for (size_t p = 0; p < p4; p += 4)
+        for (int u = 0; u < 4; u++)
+            acc[u] += e[p + u] - e[p + u];
+    for (size_t p = p4; p < npt; p++)
+        acc[0] += e[p] - e[p];
+    if (acc[0] + acc[1] + acc[2] + acc[3] == 0.0)
         return BM_OK;
     for (size_t p = 0; p < npt; p++)
         if (!isfinite(e[p]))
@@ -469,15 +473,31 @@ static int grid_scan(const bm_grid *g, const double *band, candidate **list, siz
     size_t n1 = g->mesh[0], n2 = g->mesh[1], n3 = g->mesh[2];
     size_t cap = 64, cnt = 0;
     candidate *cl = malloc(cap * sizeof *cl);
-    if (!cl)
+    unsigned char *rowflag = malloc(n3);
+    if (!cl || !rowflag) {
+        free(cl);
+        free(rowflag);
         return -1;
+    }
     int use[3] = { n1 > 1, n2 > 1, n3 > 1 };
     for (size_t i = 0; i < n1; i++) {
         size_t ip = (i + 1) % n1, im = (i + n1 - 1) % n1;
         for (size_t j = 0; j < n2; j++) {
             size_t jp = (j + 1) % n2, jm = (j + n2 - 1) % n2;
             const double *row = band + (i * n2 + j) * n3;
+            if (use[2] && n3 > 2) {
+                /* Branch-free row pass (vectorises): an interior point stays a
+                 * candidate only if it beats both row neighbours under the
+                 * same tie rule as below (equal to the later point is allowed). */
+                for (size_t l = 1; l + 1 < n3; l++) {
+                    double a = row[l - 1], x = row[l], b = row[l + 1];
+                    rowflag[l] = (unsigned char)(((x < a) & (x <= b)) | ((x > a) & (x >= b)));
+                }
+                rowflag[0] = rowflag[n3 - 1] = 1;
+            }
             for (size_t l = 0; l < n3; l++) {
+                if (use[2] && n3 > 2 && !rowflag[l])
+                    continue;
                 size_t p = (i * n2 + j) * n3 + l;
                 double ep = row[l];
                 int mn = 1, mx = 1;
@@ -538,6 +558,7 @@ static int grid_scan(const bm_grid *g, const double *band, candidate **list, siz
                     candidate *nl = realloc(cl, cap * sizeof *cl);
                     if (!nl) {
                         free(cl);
+                        free(rowflag);
                         return -1;
                     }
                     cl = nl;
@@ -548,6 +569,7 @@ static int grid_scan(const bm_grid *g, const double *band, candidate **list, siz
             }
         }
     }
+    free(rowflag);
     *list = cl;
     *count = cnt;
     return 0;

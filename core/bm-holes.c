@@ -184,7 +184,7 @@ bm_status bm_luttinger_masses_compute(const bm_luttinger *L, bm_luttinger_masses
 
     /* In an open heavy-hole surface the heavy sums are meaningless and are
      * discarded below; the light-hole ones are always finite (g1 > 0). */
-    double mheavy_c, mheavy_f, mlight_c, mlight_f;
+    double mheavy_c = 0.0, mheavy_f = 0.0, mlight_c = 0.0, mlight_f = 0.0;
     size_t nu = 16;
     st = warped_means(L, nu, &mheavy_c, &mlight_c, err);
     /* Double the rule until the means settle (strong warping with small

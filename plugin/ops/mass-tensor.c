@@ -254,9 +254,11 @@ static void render(JsonObject *response, GString *out)
                            "fit_rms_ev");
     for (guint i = 0; i < n; i++) {
         JsonObject *e = json_array_get_object_element(list, i);
+        double energy = json_object_get_double_member(e, "energy_ev");
+        if (fabs(energy) < 5e-7)
+            energy = 0.0;   /* a rounding error below the printed digits is not "-0" */
         g_string_append_printf(out, "%-3u %-8s %12.6f  ", i,
-                               json_object_get_string_member(e, "kind"),
-                               json_object_get_double_member(e, "energy_ev"));
+                               json_object_get_string_member(e, "kind"), energy);
         JsonNode *kf = json_object_get_member(e, "k_fractional");
         JsonNode *kc = JSON_NODE_HOLDS_ARRAY(kf) ? kf : json_object_get_member(e, "k_inv_angstrom");
         JsonArray *k = json_node_get_array(kc);
