@@ -19,11 +19,11 @@ const char *bm_regime_name(bm_regime r)
     return "unknown";
 }
 
-/* 2 (2 pi m k T / h^2)^(3/2), m^-3 -> cm^-3. */
+/* 2 (2 pi m k T / h^2)^(3/2) in cm^-3 (the prefactor lives in bm-units.h). */
 static double nc_of(double mass, double t_k)
 {
-    double a = 2.0 * M_PI * mass * BM_ME * BM_KB * t_k / (BM_H * BM_H);
-    return 2.0 * a * sqrt(a) * 1e-6;
+    double mt = mass * t_k;
+    return BM_NC_PREFACTOR_CM3 * mt * sqrt(mt);
 }
 
 bm_status bm_effective_dos(double mass, double t_k, double *n_cm3, bm_errbuf *err)
@@ -522,7 +522,7 @@ bm_status bm_carriers_intrinsic(const bm_semiconductor *s, double t_k,
 /* m / (pi hbar^2) in cm^-2 eV^-1 for m = 1: J^-1 m^-2 -> eV^-1 cm^-2. */
 static double dos2d_unit(void)
 {
-    return BM_ME / (M_PI * BM_HBAR * BM_HBAR) * BM_EV * 1e-4;
+    return BM_DOS2D_PER_EV_CM2;
 }
 
 bm_status bm_2d_dos(double mass, double valley_degeneracy, double *dos_cm2_ev,
