@@ -3,6 +3,7 @@
 #include <glib.h>
 #include <glib/gstdio.h>
 #include <string.h>
+#include <math.h>
 #include <gio/gio.h>
 #include <json-glib/json-glib.h>
 
@@ -151,6 +152,73 @@ static void test_carrier_bad_input(void)
     assert_bad_input(&c, "unknown material");
 }
 
+/* Writes a little-endian float64 .npy of shape (1, 2, 2, 2) holding v. */
+static void write_npy(const char *path, const double v[8], gsize body_bytes)
+{
+    const char *dict = "{'descr': '<f8', 'fortran_order': False, 'shape': (1, 2, 2, 2), }";
+    GString *h = g_string_new(dict);
+    while ((10 + h->len + 1) % 64)
+        g_string_append_c(h, ' ');
+    g_string_append_c(h, '\n');
+    GByteArray *b = g_byte_array_new();
+    g_byte_array_append(b, (const guint8 *)"\x93NUMPY\x01\x00", 8);
+    guint16 hl = GUINT16_TO_LE((guint16)h->len);
+    g_byte_array_append(b, (const guint8 *)&hl, 2);
+    g_byte_array_append(b, (const guint8 *)h->str, h->len);
+    for (int i = 0; i < 8; i++) {
+        guint64 bits;
+        memcpy(&bits, &v[i], 8);
+        bits = GUINT64_TO_LE(bits);
+        g_byte_array_append(b, (const guint8 *)&bits, 8);
+    }
+    g_assert_true(g_file_set_contents(path, (const char *)b->data,
+                                      (gssize)(b->len - (64 - body_bytes)), NULL));
+    g_byte_array_unref(b);
+    g_string_free(h, TRUE);
+}
+
+/* Bad band data reaches the user as exit 2 and a message naming the file
+ * and the place, never as a crash or a number. */
+static void test_mass_tensor_bad_files(void)
+{
+    g_autofree char *dir = g_dir_make_tmp("bandmass-bad-XXXXXX", NULL);
+    g_autofree char *doc = g_build_filename(dir, "grid.json", NULL);
+    g_autofree char *npy = g_build_filename(dir, "e.npy", NULL);
+    g_assert_true(g_file_set_contents(doc,
+        "{\"format\": \"bandmass-grid-1\", \"lattice_vectors_angstrom\": "
+        "[[3,0,0],[0,3,0],[0,0,3]], \"mesh\": [2,2,2], \"energies_ev\": \"e.npy\"}", -1, NULL));
+    double v[8] = { 0, 1, 1, 2, 1, 2, 2, NAN };
+
+    write_npy(npy, v, 64);                       /* NaN at (1, 1, 1) */
+    g_auto(Run) a = { 0 };
+    run_cli(&a, NULL, "mass-tensor", "--grid", doc, "--band", "0", NULL);
+    assert_bad_input(&a, "(1, 1, 1)");
+    g_assert_nonnull(strstr(a.err, "not finite"));
+
+    v[7] = 3;
+    write_npy(npy, v, 40);                       /* body cut short */
+    g_auto(Run) b = { 0 };
+    run_cli(&b, NULL, "mass-tensor", "--grid", doc, "--band", "0", NULL);
+    assert_bad_input(&b, "e.npy");
+
+    write_npy(npy, v, 64);
+    g_auto(Run) c = { 0 };
+    run_cli(&c, NULL, "mass-tensor", "--grid", doc, "--band", "4", NULL);
+    assert_bad_input(&c, "band index 4");
+
+    g_autofree char *csv = g_build_filename(dir, "t.csv", NULL);
+    g_assert_true(g_file_set_contents(csv,
+        "kx_inv_angstrom,ky_inv_angstrom,kz_inv_angstrom,cb_ev\n0,0,0,1\n0.1,0,0\n", -1, NULL));
+    g_auto(Run) d = { 0 };
+    run_cli(&d, NULL, "mass-tensor", "--table", csv, "--band", "cb", NULL);
+    assert_bad_input(&d, "line 3");
+
+    g_remove(doc);
+    g_remove(npy);
+    g_remove(csv);
+    g_rmdir(dir);
+}
+
 int main(int argc, char **argv)
 {
     g_test_init(&argc, &argv, NULL);
@@ -160,5 +228,6 @@ int main(int argc, char **argv)
     g_test_add_func("/cli/output-is-atomic", test_output_is_atomic);
     g_test_add_func("/cli/carrier-csv", test_carrier_csv);
     g_test_add_func("/cli/carrier-bad-input", test_carrier_bad_input);
+    g_test_add_func("/cli/mass-tensor-bad-files", test_mass_tensor_bad_files);
     return g_test_run();
 }
