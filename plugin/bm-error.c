@@ -3,6 +3,13 @@
 
 G_DEFINE_QUARK(bandmass-error-quark, bm_error)
 
+G_DEFINE_ENUM_TYPE(BmError, bm_error,
+    G_DEFINE_ENUM_VALUE(BM_ERROR_INVALID_INPUT, "invalid-input"),
+    G_DEFINE_ENUM_VALUE(BM_ERROR_IO, "io"),
+    G_DEFINE_ENUM_VALUE(BM_ERROR_UNKNOWN_OPERATION, "unknown-operation"),
+    G_DEFINE_ENUM_VALUE(BM_ERROR_NO_CONVERGENCE, "no-convergence"),
+    G_DEFINE_ENUM_VALUE(BM_ERROR_INTERNAL, "internal"))
+
 void bm_error_from_core(GError **error, const bm_errbuf *err, const char *context)
 {
     BmError code;
