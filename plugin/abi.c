@@ -3,6 +3,8 @@
 #include "bandmass-plugin.h"
 #include "registry.h"
 
+#include <pthread.h>
+
 static int status_of(const GError *error)
 {
     if (error->domain == BM_ERROR) {
@@ -22,6 +24,8 @@ static int plugin_call(const char *op, const char *request_json,
 {
     if (error_message)
         *error_message = NULL;
+    if (response_json)
+        *response_json = NULL;
     if (!op || !response_json) {
         if (error_message)
             *error_message = g_strdup(!op ? "call: the operation name is NULL"
@@ -50,6 +54,7 @@ static bandmass_plugin_api api_v1;
 /* Fills the table once; its strings live as long as the library. */
 static void build_table(void)
 {
+    bm_registry_init();
     guint n;
     const BmOperation *const *ops = bm_registry_operations(&n);
     const char **names = g_new0(const char *, n + 1);
@@ -78,15 +83,21 @@ static void build_table(void)
     };
 }
 
+/* A plain pthread mutex (not g_once, not pthread_once, both built on bare
+ * futexes) so that thread checkers such as helgrind see the ordering between
+ * building the table and reading it. Hosts call this once, so the lock costs
+ * nothing that matters. */
 const bandmass_plugin_api *bandmass_plugin_get_api(unsigned abi_major)
 {
-    static gsize ready = 0;
+    static pthread_mutex_t lock = PTHREAD_MUTEX_INITIALIZER;
+    static int built = 0;
     if (abi_major != BANDMASS_PLUGIN_ABI_MAJOR)
         return NULL;
-    if (g_once_init_enter(&ready)) {
-        bm_registry_init();
+    pthread_mutex_lock(&lock);
+    if (!built) {
         build_table();
-        g_once_init_leave(&ready, 1);
+        built = 1;
     }
+    pthread_mutex_unlock(&lock);
     return &api_v1;
 }
