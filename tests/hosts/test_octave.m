@@ -1,0 +1,150 @@
+% test_octave.m: the Octave host (bandmass.mex): answers equal the command
+% line's, values convert with the documented shapes, errors carry ids.
+1;
+
+function out = cli(args, request)
+  % The command line's answer, decoded with Octave's own jsondecode.
+  input = '';
+  if ~isempty(request)
+    f = [tempname() '.json'];
+    fid = fopen(f, 'w'); fputs(fid, request); fclose(fid);
+    input = sprintf(' --input "%s"', f);
+  end
+  [status, text] = system(sprintf('"%s" %s%s 2>&1', getenv('BANDMASS_CLI'), args, input));
+  if ~isempty(request)
+    delete(f);
+  end
+  if status ~= 0
+    error('test:cli', 'bandmass %s failed: %s', args, text);
+  end
+  out = jsondecode(text);
+end
+
+function check(cond, what)
+  if ~cond
+    error('test:failed', 'check failed: %s', what);
+  end
+end
+
+function same(a, b, where)
+  % Equal up to vector orientation (jsondecode gives columns, bandmass rows).
+  if isstruct(a)
+    check(isstruct(b) && numel(a) == numel(b), [where ': struct']);
+    fa = fieldnames(a); fb = fieldnames(b);
+    check(isequal(sort(fa), sort(fb)), [where ': fields']);
+    for i = 1:numel(a)
+      for k = 1:numel(fa)
+        same(a(i).(fa{k}), b(i).(fa{k}), sprintf('%s(%d).%s', where, i, fa{k}));
+      end
+    end
+  elseif iscell(a)
+    check(iscell(b) && numel(a) == numel(b), [where ': cell']);
+    for i = 1:numel(a)
+      same(a{i}, b{i}, sprintf('%s{%d}', where, i));
+    end
+  elseif ischar(a)
+    check(ischar(b) && strcmp(a, b), [where ': text']);
+  else
+    % Octave's jsondecode parses without full precision: allow it 2 ulp.
+    a = double(a(:)); b = double(b(:));
+    check(numel(a) == numel(b), [where ': count']);
+    check(all(isnan(a) == isnan(b)), [where ': NaN']);
+    ok = ~isnan(a);
+    check(all(abs(a(ok) - b(ok)) <= 2 * eps(max(abs(a(ok)), abs(b(ok))))), [where ': numbers']);
+  end
+end
+
+function expect_error(id, fragment, varargin)
+  try
+    bandmass(varargin{:});
+  catch err
+    check(strcmp(err.identifier, id), sprintf('id %s, wanted %s', err.identifier, id));
+    check(~isempty(strfind(err.message, fragment)), ['message: ' err.message]);
+    return;
+  end
+  error('test:failed', 'no error raised (wanted %s)', id);
+end
+
+% --- constants: the same numbers as the CLI, whichever way the request goes
+ref = cli('call constants', '{}');
+r = bandmass('constants', struct());
+same(r, ref, 'constants');
+check(isequal(bandmass('constants'), r), 'no request means {}');
+check(isequal(bandmass('constants', '{}'), r), 'JSON text request');
+% exactly the CLI's digits: compare with the number text it prints
+[~, text] = system(sprintf('echo "{}" | "%s" call constants', getenv('BANDMASS_CLI')));
+names = fieldnames(ref.constants);
+for k = 1:numel(names)
+  digits = regexp(text, ['"' names{k} '" : {\s*"value" : ([-+0-9.eE]+)'], 'tokens', 'once');
+  check(r.constants.(names{k}).value == str2double(digits{1}), names{k});
+end
+check(iscell(r.warnings) || isempty(r.warnings), 'warnings present');
+
+% --- the operation list, as `bandmass ops --json`
+ops = bandmass();
+ref_ops = cli('ops --json', '');
+check(isequal({ops.name}, {ref_ops.name}), 'operation names');
+check(isequal({ops.summary}, {ref_ops.summary}), 'operation summaries');
+
+% --- shapes of the conversion, checked against Octave's own jsondecode
+text = '{"m": [[1,2,3],[4,5,6]], "v": [1, null, 3], "s": [{"a":1},{"a":2}], "w": ["x","y"], "t": true, "n": null, "e": []}';
+x = bandmass('--decode', text);
+y = jsondecode(text);
+check(isequal(size(x.m), [2 3]) && isequal(x.m, y.m), 'matrix: rows are the outer index');
+check(isequal(size(x.v), [1 3]) && isequaln(x.v, y.v.'), 'row vector, null as NaN');
+check(isstruct(x.s) && isequal(size(x.s), [1 2]) && x.s(2).a == 2, 'struct array');
+check(iscellstr(x.w) && isequal(x.w, y.w.'), 'strings as a cell array');
+check(islogical(x.t) && x.t, 'logical');
+check(isempty(x.n) && isempty(x.e), 'null and [] as empty');
+sent = bandmass('--encode', struct('mesh', [4 4 2], 'axes', [1 0 0; 0 1 0], 'name', 'cb', ...
+                                   'on', true, 'parts', {{1, 'two'}}, 'n', int32(7)));
+check(strcmp(sent, '{"mesh":[4,4,2],"axes":[[1,0,0],[0,1,0]],"name":"cb","on":true,"parts":[1,"two"],"n":7}'), ...
+      ['encode: ' sent]);
+same(jsondecode(sent), bandmass('--decode', sent), 'encode/decode round trip');
+
+% --- errors carry an identifier and the registry's message
+expect_error('bandmass:invalidInput', 'request key "colour" is not a parameter of constants', ...
+             'constants', struct('colour', 1));
+expect_error('bandmass:unknownOperation', 'no operation named "nonesuch"', 'nonesuch');
+expect_error('bandmass:invalidInput', 'not valid JSON', 'constants', '{"a": ');
+expect_error('bandmass:invalidInput', 'request.depth: NaN and Inf cannot be sent', ...
+             'constants', struct('depth', NaN));
+expect_error('bandmass:usage', 'the operation name must be a string', 42);
+
+% --- operations that land later: each answer must equal the CLI's
+has = @(name) any(strcmp({ops.name}, name));
+if has('mass-tensor')
+  % a cosine band E = sum 2 t (1 - cos k a), simple cubic a = 4 A, 16^3 mesh
+  n = 16; a = 4.0; t = [0.5 1.0 2.0];
+  k = 2 * pi / a * (0:n-1) / n;
+  [kx, ky, kz] = ndgrid(k, k, k);
+  e = 2*t(1)*(1 - cos(kx*a)) + 2*t(2)*(1 - cos(ky*a)) + 2*t(3)*(1 - cos(kz*a));
+  e = permute(e, [3 2 1]);                 % C order [i][j][l] when flattened
+  doc = struct('reciprocal_vectors_inv_angstrom', 2*pi/a*eye(3), 'mesh', [n n n], ...
+               'bands', struct('name', 'cb', 'energies_ev', e(:).'));
+  f = [tempname() '.json'];
+  fid = fopen(f, 'w'); fputs(fid, jsonencode(doc)); fclose(fid);
+  p = ops(strcmp({ops.name}, 'mass-tensor')).params;
+  keys = {p.name};
+  key = keys{find(~cellfun(@isempty, regexp(keys, 'file|path')), 1)};
+  req = struct(key, f);
+  got = bandmass('mass-tensor', req);
+  want = cli('call mass-tensor', jsonencode(req));
+  delete(f);
+  same(got, want, 'mass-tensor');
+  x1 = got.extrema(1);
+  check(isequal(size(x1.inverse_mass_tensor_per_me), [3 3]), 'tensor is 3x3');
+  check(isequal(size(x1.principal_masses_me), [1 3]), 'masses are a row');
+  printf('mass-tensor: checked against the CLI\n');
+else
+  printf('mass-tensor: not in the registry yet, not checked\n');
+end
+if has('carrier-statistics')
+  req = fileread(fullfile(getenv('BANDMASS_TEST_DIR'), 'requests', 'carrier-statistics.json'));
+  got = bandmass('carrier-statistics', req);
+  same(got, cli('call carrier-statistics', req), 'carrier-statistics');
+  printf('carrier-statistics: checked against the CLI\n');
+else
+  printf('carrier-statistics: not in the registry yet, not checked\n');
+end
+printf('octave: all checks passed\n');
