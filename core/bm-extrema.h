@@ -30,7 +30,8 @@ typedef struct {
     double k[3];              /* Cartesian, 1/Angstrom, refined below the mesh spacing */
     double k_frac[3];         /* fractional coordinates (NAN for scattered tables) */
     double inv_mass[3][3];    /* inverse mass tensor, 1/m_e */
-    double masses[3];         /* signed principal masses, m_e (negative at a maximum);
+    double masses[3];         /* signed principal masses, m_e (negative at a maximum),
+                                 sampled directions first, by increasing |m|;
                                  INFINITY where the curvature vanishes; NAN for a
                                  direction the data do not sample */
     double axes[3][3];        /* rows: unit principal axes, Cartesian, order of masses */

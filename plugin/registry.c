@@ -217,25 +217,43 @@ JsonNode *bm_registry_describe(void)
     return root;
 }
 
-static void render_node(JsonNode *node, GString *out, int indent)
+/* Numbers to 6 significant digits, arrays of scalars on one line. */
+static void render_scalar(JsonNode *node, GString *out)
 {
-    if (JSON_NODE_HOLDS_OBJECT(node)) {
-        JsonObject *o = json_node_get_object(node);
-        g_autoptr(GList) keys = json_object_get_members(o);
-        for (GList *l = keys; l; l = l->next) {
-            JsonNode *child = json_object_get_member(o, l->data);
-            g_string_append_printf(out, "%*s%-28s", indent, "", (const char *)l->data);
-            if (JSON_NODE_HOLDS_OBJECT(child)) {
-                g_string_append_c(out, '\n');
-                render_node(child, out, indent + 2);
-            } else {
-                g_autofree char *text = json_to_string(child, FALSE);
-                g_string_append_printf(out, " %s\n", text);
-            }
+    if (JSON_NODE_HOLDS_VALUE(node) && json_node_get_value_type(node) == G_TYPE_DOUBLE) {
+        g_string_append_printf(out, "%.6g", json_node_get_double(node));
+    } else if (JSON_NODE_HOLDS_ARRAY(node)) {
+        JsonArray *a = json_node_get_array(node);
+        g_string_append_c(out, '[');
+        for (guint i = 0; i < json_array_get_length(a); i++) {
+            if (i)
+                g_string_append(out, ", ");
+            render_scalar(json_array_get_element(a, i), out);
         }
+        g_string_append_c(out, ']');
     } else {
         g_autofree char *text = json_to_string(node, FALSE);
-        g_string_append_printf(out, "%*s%s\n", indent, "", text);
+        g_string_append(out, text);
+    }
+}
+
+static void render_node(JsonNode *node, GString *out, int indent)
+{
+    JsonObject *o = json_node_get_object(node);
+    g_autoptr(GList) keys = json_object_get_members(o);
+    for (GList *l = keys; l; l = l->next) {
+        if (indent == 0 && strcmp(l->data, "warnings") == 0)
+            continue;   /* the CLI prints warnings after the table */
+        JsonNode *child = json_object_get_member(o, l->data);
+        g_string_append_printf(out, "%*s%-28s", indent, "", (const char *)l->data);
+        if (JSON_NODE_HOLDS_OBJECT(child)) {
+            g_string_append_c(out, '\n');
+            render_node(child, out, indent + 2);
+        } else {
+            g_string_append_c(out, ' ');
+            render_scalar(child, out);
+            g_string_append_c(out, '\n');
+        }
     }
 }
 

@@ -7,8 +7,14 @@
 #include "registry.h"
 
 extern const BmOperation bm_op_constants;
+extern const BmOperation bm_op_mass_tensor;
+extern const BmOperation bm_op_valley_average;
+extern const BmOperation bm_op_hole_mass;
 
 #define BM_OPERATIONS_TABLE \
-    &bm_op_constants,
+    &bm_op_constants, \
+    &bm_op_mass_tensor, \
+    &bm_op_valley_average, \
+    &bm_op_hole_mass,
 
 #endif

@@ -1,0 +1,690 @@
+/* bm-carriers.c: effective densities of states, intrinsic density, the
+ * charge-neutrality Fermi level (3D, many dopants) and 2D subband filling. */
+#include "bm-carriers.h"
+
+#include <math.h>
+#include "bm-fermi.h"
+#include "bm-units.h"
+
+#define GAMMA_5_2 1.3293403881791355   /* Gamma(5/2) = 3 sqrt(pi) / 4 */
+#define LN_TINY (-575.0)               /* below: work in logarithms */
+
+const char *bm_regime_name(bm_regime r)
+{
+    switch (r) {
+    case BM_REGIME_FREEZE_OUT: return "freeze-out";
+    case BM_REGIME_EXTRINSIC:  return "extrinsic";
+    case BM_REGIME_INTRINSIC:  return "intrinsic";
+    }
+    return "unknown";
+}
+
+/* 2 (2 pi m k T / h^2)^(3/2), m^-3 -> cm^-3. */
+static double nc_of(double mass, double t_k)
+{
+    double a = 2.0 * M_PI * mass * BM_ME * BM_KB * t_k / (BM_H * BM_H);
+    return 2.0 * a * sqrt(a) * 1e-6;
+}
+
+bm_status bm_effective_dos(double mass, double t_k, double *n_cm3, bm_errbuf *err)
+{
+    if (!n_cm3)
+        return bm_fail(err, BM_EINVAL, "effective density of states: no place for the result");
+    *n_cm3 = NAN;
+    if (!(mass > 0.0) || !isfinite(mass))
+        return bm_fail(err, BM_EINVAL,
+                       "effective density of states: mass %g m_e must be finite and > 0", mass);
+    if (!(t_k > 0.0) || !isfinite(t_k))
+        return bm_fail(err, BM_EINVAL,
+                       "effective density of states: temperature %g K must be finite and > 0",
+                       t_k);
+    *n_cm3 = nc_of(mass, t_k);
+    return BM_OK;
+}
+
+/* ---------------------------------------------------------------------------
+ * Neutrality solver.  The unknown is u = EF / kT.  With P = p + sum N_D+ and
+ * N = n + sum N_A-, P falls and N rises with EF, so g(u) = ln(P / N) is
+ * strictly decreasing with slope of order -1 (exactly -1 or -2 in the
+ * Boltzmann limits): Newton on g converges in a few steps from the
+ * Boltzmann-limit guess, and the bracket from physical bounds catches the
+ * rest by bisection (the safeguarded Newton of Numerical Recipes' rtsafe). */
+
+typedef struct {
+    int boltzmann;
+    double eg_kt, nc, nv, lnnc, lnnv;
+    size_t nd, na;
+    double dens_d[BM_MAX_DOPANTS], off_d[BM_MAX_DOPANTS];  /* x = u - off_d */
+    double dens_a[BM_MAX_DOPANTS], off_a[BM_MAX_DOPANTS];  /* x = off_a - u */
+    double sum_d, sum_a;
+} nctx;
+
+/* Occupation split of 1/(1 + e^x) without overflow: s = 1/(1+e^x), c = 1 - s. */
+static inline void fermi_split(double x, double *s, double *c)
+{
+    if (x > 0.0) {
+        double t = exp(-x);
+        *s = t / (1.0 + t);
+        *c = 1.0 / (1.0 + t);
+    } else {
+        double t = exp(x);
+        *s = 1.0 / (1.0 + t);
+        *c = t / (1.0 + t);
+    }
+}
+
+static inline double softplus(double x)   /* ln(1 + e^x) */
+{
+    return x > 0.0 ? x + log1p(exp(-x)) : log1p(exp(x));
+}
+
+static inline void band_density(const nctx *c, double eta, double *f, double *df)
+{
+    if (c->boltzmann) {
+        *f = exp(eta);
+        *df = *f;
+    } else {
+        bm_fermi_dirac_half_pair(eta, f, df);
+    }
+}
+
+static inline double band_log(const nctx *c, double eta, double *dlog)
+{
+    if (c->boltzmann) {
+        *dlog = 1.0;
+        return eta;
+    }
+    return bm_fermi_dirac_half_log(eta, dlog);
+}
+
+/* g(u) and dg/du; with dens != NULL also n, p and the ionised densities. */
+typedef struct {
+    double n, p, d[BM_MAX_DOPANTS], a[BM_MAX_DOPANTS];
+} ndens;
+
+static void neutrality_eval(const nctx *c, double u, double *g, double *gp, ndens *dens)
+{
+    double eta_n = u - c->eg_kt, eta_p = -u;
+    double fn, dfn, fp, dfp;
+    band_density(c, eta_n, &fn, &dfn);
+    band_density(c, eta_p, &fp, &dfp);
+    double n = c->nc * fn, p = c->nv * fp;
+    double P = p, dP = -c->nv * dfp, N = n, dN = c->nc * dfn;
+    double sd[BM_MAX_DOPANTS], cd[BM_MAX_DOPANTS], sa[BM_MAX_DOPANTS], ca[BM_MAX_DOPANTS];
+    for (size_t i = 0; i < c->nd; i++) {
+        fermi_split(u - c->off_d[i], &sd[i], &cd[i]);
+        double d = c->dens_d[i] * sd[i];
+        P += d;
+        dP -= d * cd[i];
+        if (dens)
+            dens->d[i] = d;
+    }
+    for (size_t i = 0; i < c->na; i++) {
+        fermi_split(c->off_a[i] - u, &sa[i], &ca[i]);
+        double a = c->dens_a[i] * sa[i];
+        N += a;
+        dN += a * ca[i];
+        if (dens)
+            dens->a[i] = a;
+    }
+    if (dens) {
+        dens->n = n;
+        dens->p = p;
+    }
+    if (P > 1e-250 && N > 1e-250 && P < 1e300 && N < 1e300) {
+        *g = log(P / N);
+        *gp = dP / P - dN / N;
+        return;
+    }
+    /* Log space: ln P and ln N as log-sum-exp over their terms. */
+    double lt[BM_MAX_DOPANTS + 1], dl[BM_MAX_DOPANTS + 1];
+    double lnP, dlnP, lnN, dlnN;
+    {
+        size_t k = 0;
+        double r;
+        lt[k] = c->lnnv + band_log(c, eta_p, &r);
+        dl[k++] = -r;
+        for (size_t i = 0; i < c->nd; i++) {
+            if (!(c->dens_d[i] > 0.0))
+                continue;
+            lt[k] = log(c->dens_d[i]) - softplus(u - c->off_d[i]);
+            dl[k++] = -cd[i];
+        }
+        double m = lt[0];
+        for (size_t i = 1; i < k; i++)
+            m = fmax(m, lt[i]);
+        double s = 0.0, ds = 0.0;
+        for (size_t i = 0; i < k; i++) {
+            double w = exp(lt[i] - m);
+            s += w;
+            ds += w * dl[i];
+        }
+        lnP = m + log(s);
+        dlnP = ds / s;
+    }
+    {
+        size_t k = 0;
+        double r;
+        lt[k] = c->lnnc + band_log(c, eta_n, &r);
+        dl[k++] = r;
+        for (size_t i = 0; i < c->na; i++) {
+            if (!(c->dens_a[i] > 0.0))
+                continue;
+            lt[k] = log(c->dens_a[i]) - softplus(c->off_a[i] - u);
+            dl[k++] = ca[i];
+        }
+        double m = lt[0];
+        for (size_t i = 1; i < k; i++)
+            m = fmax(m, lt[i]);
+        double s = 0.0, ds = 0.0;
+        for (size_t i = 0; i < k; i++) {
+            double w = exp(lt[i] - m);
+            s += w;
+            ds += w * dl[i];
+        }
+        lnN = m + log(s);
+        dlnN = ds / s;
+    }
+    *g = lnP - lnN;
+    *gp = dlnP - dlnN;
+}
+
+/* Reduced energy for a carrier density ratio r = n / Nc (Boltzmann limit, or
+ * Nilsson's degenerate-range approximation inside bm_fermi_dirac_half_inverse
+ * when r is large and the statistics are Fermi-Dirac). */
+static double guess_eta(const nctx *c, double r)
+{
+    if (!c->boltzmann && r > 1.0) {
+        double v = pow(GAMMA_5_2 * r, 2.0 / 3.0);
+        return log(r) / (1.0 - r * r) + v / (1.0 + 1.0 / ((0.24 + 1.08 * v) * (0.24 + 1.08 * v)));
+    }
+    return log(r);
+}
+
+/* Bracket from physical bounds: at u_hi, n >= Nc F(eta_up) > sum N_D + Nv >= P
+ * (F_1/2(eta) > eta^(3/2) / Gamma(5/2) for eta > 0, and p < Nv for EF > Ev);
+ * symmetrically at u_lo. */
+static double bound_eta(const nctx *c, double ratio)
+{
+    if (c->boltzmann)
+        return fmax(40.0, log(ratio) + 1.0);
+    return fmax(40.0, pow(GAMMA_5_2 * ratio, 2.0 / 3.0) * 1.0001);
+}
+
+static double initial_u(const nctx *c, const double *ion_d_kt, const double *ion_a_kt,
+                        const double *lng_d, const double *lng_a)
+{
+    double net = c->sum_d - c->sum_a;
+    double ln_ni = 0.5 * (c->lnnc + c->lnnv) - 0.5 * c->eg_kt;
+    double ni = exp(fmin(ln_ni, 600.0));
+    double u_int = 0.5 * c->eg_kt + 0.5 * (c->lnnv - c->lnnc);
+    double scale = fmax(c->sum_d, c->sum_a);
+    if (!(fabs(net) > 1e-12 * scale) || scale == 0.0)
+        return u_int;
+    int ntype = net > 0.0;
+    /* The most abundant species of the majority kind sets the freeze-out
+     * estimate: n (n + N_A) = (n1 / g) (N_D - N_A - n), n1 = Nc e^(-E_ion/kT). */
+    size_t nk = ntype ? c->nd : c->na, k = 0;
+    const double *dens = ntype ? c->dens_d : c->dens_a;
+    for (size_t i = 1; i < nk; i++)
+        if (dens[i] > dens[k])
+            k = i;
+    double ln_band = ntype ? c->lnnc : c->lnnv;
+    double ion = ntype ? ion_d_kt[k] : ion_a_kt[k];
+    double lng = ntype ? lng_d[k] : lng_a[k];
+    double n1g = exp(fmax(fmin(ln_band - ion - lng, 650.0), -650.0));
+    double comp = ntype ? c->sum_a : c->sum_d;
+    double b = comp + n1g, cc = n1g * fabs(net);
+    double n_ext = 2.0 * cc / (b + sqrt(b * b + 4.0 * cc));
+    double n0 = 0.5 * n_ext + hypot(0.5 * n_ext, ni);
+    double band = ntype ? c->nc : c->nv;
+    double eta;
+    if (n0 > 1e-280 && isfinite(n0))
+        eta = guess_eta(c, n0 / band);
+    else
+        eta = -ion;   /* at the dopant level */
+    return ntype ? c->eg_kt + eta : -eta;
+}
+
+static bm_status solve_u(const nctx *c, double u0, double *u_out, int *iters)
+{
+    double lo = fmin(c->eg_kt, 0.0) - bound_eta(c, (c->sum_a + c->nc) / c->nv);
+    double hi = fmax(c->eg_kt, 0.0) + bound_eta(c, (c->sum_d + c->nv) / c->nc);
+    double u = (u0 > lo && u0 < hi) ? u0 : 0.5 * (lo + hi);
+    double dxold = hi - lo;
+    int it;
+    for (it = 1; it <= 400; it++) {
+        double g, gp;
+        neutrality_eval(c, u, &g, &gp, NULL);
+        if (g == 0.0)
+            break;
+        if (g > 0.0)
+            lo = u;
+        else
+            hi = u;
+        double step = -g / gp;
+        if (gp < 0.0 && fabs(step) < 1e-7) {
+            u += step;   /* converged: the error is now of order step^2 */
+            break;
+        }
+        double un = u + step;
+        if (!(gp < 0.0) || !(un > lo && un < hi) || fabs(2.0 * g) > fabs(dxold * gp))
+            un = 0.5 * (lo + hi);
+        double dx = un - u;
+        dxold = dx;
+        u = un;
+        if (hi - lo < 4e-16 * fmax(1.0, fabs(u)))
+            break;
+    }
+    *u_out = u;
+    *iters = it;
+    if (it > 400 || !isfinite(u))
+        return BM_ENOCONV;
+    return BM_OK;
+}
+
+static bm_status check_dopants(const char *kind, const bm_dopant *d, size_t nd, bm_errbuf *err)
+{
+    if (nd > BM_MAX_DOPANTS)
+        return bm_fail(err, BM_EINVAL, "carrier statistics: %zu %s species, at most %d",
+                       nd, kind, BM_MAX_DOPANTS);
+    if (nd > 0 && !d)
+        return bm_fail(err, BM_EINVAL, "carrier statistics: %zu %s species but no array",
+                       nd, kind);
+    for (size_t i = 0; i < nd; i++) {
+        if (!(d[i].density_cm3 >= 0.0) || !isfinite(d[i].density_cm3))
+            return bm_fail(err, BM_EINVAL, "carrier statistics: %s %zu density %g cm^-3 "
+                           "must be finite and >= 0", kind, i, d[i].density_cm3);
+        if (!isfinite(d[i].ionisation_ev))
+            return bm_fail(err, BM_EINVAL, "carrier statistics: %s %zu ionisation energy "
+                           "%g eV is not finite", kind, i, d[i].ionisation_ev);
+        if (!(d[i].degeneracy >= 0.0) || !isfinite(d[i].degeneracy))
+            return bm_fail(err, BM_EINVAL, "carrier statistics: %s %zu degeneracy factor %g "
+                           "must be > 0 (or 0 for the default)", kind, i, d[i].degeneracy);
+    }
+    return BM_OK;
+}
+
+/* Validates s and fills the context; masses may come from the hook. */
+static bm_status setup(const bm_semiconductor *s, double t_k, bm_statistics stats,
+                       nctx *c, bm_carrier_state *out, double *ion_d_kt,
+                       double *ion_a_kt, double *lng_d, double *lng_a, bm_errbuf *err)
+{
+    if (!s || !out)
+        return bm_fail(err, BM_EINVAL, "carrier statistics: missing input or result");
+    out->warnings.count = 0;
+    if (!(t_k > 0.0) || !isfinite(t_k))
+        return bm_fail(err, BM_EINVAL, "carrier statistics: temperature %g K must be "
+                       "finite and > 0", t_k);
+    if (!isfinite(s->band_gap_ev))
+        return bm_fail(err, BM_EINVAL, "carrier statistics: band gap %g eV is not finite",
+                       s->band_gap_ev);
+    double me = s->m_dos_electron, mh = s->m_dos_hole;
+    if (s->dos_mass_hook) {
+        bm_status st = s->dos_mass_hook(t_k, &me, &mh, s->hook_data);
+        if (st)
+            return bm_fail(err, st, "carrier statistics: the DOS-mass hook failed at %g K",
+                           t_k);
+    }
+    if (!(me > 0.0) || !isfinite(me))
+        return bm_fail(err, BM_EINVAL, "carrier statistics: electron DOS mass %g m_e must "
+                       "be finite and > 0", me);
+    if (!(mh > 0.0) || !isfinite(mh))
+        return bm_fail(err, BM_EINVAL, "carrier statistics: hole DOS mass %g m_e must be "
+                       "finite and > 0", mh);
+    bm_status st = check_dopants("donor", s->donors, s->ndonors, err);
+    if (st)
+        return st;
+    st = check_dopants("acceptor", s->acceptors, s->nacceptors, err);
+    if (st)
+        return st;
+
+    double kt = BM_KB_EV * t_k;
+    out->temperature_k = t_k;
+    out->kt_ev = kt;
+    out->band_gap_ev = s->band_gap_ev;
+    out->m_dos_electron = me;
+    out->m_dos_hole = mh;
+    out->statistics = stats;
+    c->boltzmann = stats == BM_BOLTZMANN;
+    c->eg_kt = s->band_gap_ev / kt;
+    c->nc = nc_of(me, t_k);
+    c->nv = nc_of(mh, t_k);
+    c->lnnc = log(c->nc);
+    c->lnnv = log(c->nv);
+    out->nc_cm3 = c->nc;
+    out->nv_cm3 = c->nv;
+    out->ni_cm3 = exp(0.5 * (c->lnnc + c->lnnv) - 0.5 * c->eg_kt);
+    c->nd = s->ndonors;
+    c->na = s->nacceptors;
+    c->sum_d = c->sum_a = 0.0;
+    for (size_t i = 0; i < c->nd; i++) {
+        double g = s->donors[i].degeneracy > 0.0 ? s->donors[i].degeneracy : 2.0;
+        ion_d_kt[i] = s->donors[i].ionisation_ev / kt;
+        lng_d[i] = log(g);
+        c->dens_d[i] = s->donors[i].density_cm3;
+        c->off_d[i] = c->eg_kt - ion_d_kt[i] - lng_d[i];
+        c->sum_d += c->dens_d[i];
+    }
+    for (size_t i = 0; i < c->na; i++) {
+        double g = s->acceptors[i].degeneracy > 0.0 ? s->acceptors[i].degeneracy : 4.0;
+        ion_a_kt[i] = s->acceptors[i].ionisation_ev / kt;
+        lng_a[i] = log(g);
+        c->dens_a[i] = s->acceptors[i].density_cm3;
+        c->off_a[i] = ion_a_kt[i] + lng_a[i];
+        c->sum_a += c->dens_a[i];
+    }
+    return BM_OK;
+}
+
+static void fill_state(const nctx *c, double u, bm_carrier_state *out)
+{
+    double g, gp;
+    ndens d;
+    neutrality_eval(c, u, &g, &gp, &d);
+    out->fermi_level_ev = u * out->kt_ev;
+    out->n_cm3 = d.n;
+    out->p_cm3 = d.p;
+    out->donors_ionised_cm3 = 0.0;
+    out->acceptors_ionised_cm3 = 0.0;
+    for (size_t i = 0; i < c->nd; i++) {
+        out->donor_ionised_cm3[i] = d.d[i];
+        out->donors_ionised_cm3 += d.d[i];
+    }
+    for (size_t i = 0; i < c->na; i++) {
+        out->acceptor_ionised_cm3[i] = d.a[i];
+        out->acceptors_ionised_cm3 += d.a[i];
+    }
+    double maj = fmax(d.n, d.p), mino = fmin(d.n, d.p);
+    double net = fabs(c->sum_d - c->sum_a);
+    if (mino >= 0.1 * maj || net == 0.0)
+        out->regime = BM_REGIME_INTRINSIC;
+    else if (maj < 0.9 * net)
+        out->regime = BM_REGIME_FREEZE_OUT;
+    else
+        out->regime = BM_REGIME_EXTRINSIC;
+    out->other_fermi_level_ev = out->other_n_cm3 = out->other_p_cm3 = NAN;
+    out->boltzmann_deviation = NAN;
+    out->boltzmann_inaccurate = 0;
+}
+
+static void common_warnings(const bm_carrier_state *o, bm_carrier_state *out)
+{
+    if (o->m_dos_electron < 0.01 || o->m_dos_electron > 10.0)
+        bm_warn(&out->warnings, "electron DOS mass %g m_e is outside 0.01..10 m_e",
+                o->m_dos_electron);
+    if (o->m_dos_hole < 0.01 || o->m_dos_hole > 10.0)
+        bm_warn(&out->warnings, "hole DOS mass %g m_e is outside 0.01..10 m_e",
+                o->m_dos_hole);
+    if (o->band_gap_ev <= 0.0)
+        bm_warn(&out->warnings, "band gap %g eV is not positive: bands overlap",
+                o->band_gap_ev);
+}
+
+static double rel_dev(double a, double b)
+{
+    if (!(b > 0.0) || !(a > 0.0))
+        return 0.0;   /* underflowed densities carry no comparison */
+    return fabs(a / b - 1.0);
+}
+
+bm_status bm_carriers_solve(const bm_semiconductor *s, double t_k,
+                            bm_carrier_state *out, bm_errbuf *err)
+{
+    nctx c;
+    double ion_d[BM_MAX_DOPANTS], ion_a[BM_MAX_DOPANTS], lng_d[BM_MAX_DOPANTS],
+        lng_a[BM_MAX_DOPANTS];
+    bm_statistics stats = s && s->statistics == BM_BOLTZMANN ? BM_BOLTZMANN : BM_FERMI_DIRAC;
+    bm_status st = setup(s, t_k, stats, &c, out, ion_d, ion_a, lng_d, lng_a, err);
+    if (st)
+        return st;
+    double u;
+    st = solve_u(&c, initial_u(&c, ion_d, ion_a, lng_d, lng_a), &u, &out->iterations);
+    if (st)
+        return bm_fail(err, st, "carrier statistics: neutrality did not converge at %g K",
+                       t_k);
+    fill_state(&c, u, out);
+    common_warnings(out, out);
+    if (s->skip_statistics_check)
+        return BM_OK;
+
+    /* Re-solve with the other statistics from this Fermi level. */
+    nctx o = c;
+    o.boltzmann = !c.boltzmann;
+    double uo;
+    int it2;
+    if (solve_u(&o, u, &uo, &it2))
+        return bm_fail(err, BM_ENOCONV, "carrier statistics: the comparison solve did not "
+                       "converge at %g K", t_k);
+    double g, gp;
+    ndens d;
+    neutrality_eval(&o, uo, &g, &gp, &d);
+    out->other_fermi_level_ev = uo * out->kt_ev;
+    out->other_n_cm3 = d.n;
+    out->other_p_cm3 = d.p;
+    const double nb = c.boltzmann ? out->n_cm3 : d.n, nf = c.boltzmann ? d.n : out->n_cm3;
+    const double pb = c.boltzmann ? out->p_cm3 : d.p, pf = c.boltzmann ? d.p : out->p_cm3;
+    out->boltzmann_deviation = fmax(rel_dev(nb, nf), rel_dev(pb, pf));
+    if (out->boltzmann_deviation > 0.05) {
+        out->boltzmann_inaccurate = 1;
+        bm_warn(&out->warnings, "Boltzmann statistics would be off by %.0f %% at %g K "
+                "(degenerate carriers)", 100.0 * out->boltzmann_deviation, t_k);
+    }
+    return BM_OK;
+}
+
+bm_status bm_carriers_at_fermi_level(const bm_semiconductor *s, double t_k,
+                                     double fermi_level_ev, bm_carrier_state *out,
+                                     bm_errbuf *err)
+{
+    nctx c;
+    double ion_d[BM_MAX_DOPANTS], ion_a[BM_MAX_DOPANTS], lng_d[BM_MAX_DOPANTS],
+        lng_a[BM_MAX_DOPANTS];
+    bm_statistics stats = s && s->statistics == BM_BOLTZMANN ? BM_BOLTZMANN : BM_FERMI_DIRAC;
+    bm_status st = setup(s, t_k, stats, &c, out, ion_d, ion_a, lng_d, lng_a, err);
+    if (st)
+        return st;
+    if (!isfinite(fermi_level_ev))
+        return bm_fail(err, BM_EINVAL, "carrier statistics: Fermi level %g eV is not finite",
+                       fermi_level_ev);
+    out->iterations = 0;
+    fill_state(&c, fermi_level_ev / out->kt_ev, out);
+    out->fermi_level_ev = fermi_level_ev;
+    common_warnings(out, out);
+    return BM_OK;
+}
+
+bm_status bm_carriers_intrinsic(const bm_semiconductor *s, double t_k,
+                                double *ni_textbook_cm3, double *ni_fd_cm3,
+                                double *ei_ev, bm_errbuf *err)
+{
+    if (!s)
+        return bm_fail(err, BM_EINVAL, "intrinsic density: missing input");
+    bm_semiconductor bare = *s;
+    bare.ndonors = bare.nacceptors = 0;
+    bare.statistics = BM_FERMI_DIRAC;
+    bare.skip_statistics_check = 1;
+    bm_carrier_state st;
+    bm_status r = bm_carriers_solve(&bare, t_k, &st, err);
+    if (r)
+        return r;
+    if (ni_textbook_cm3)
+        *ni_textbook_cm3 = st.ni_cm3;
+    if (ni_fd_cm3)
+        *ni_fd_cm3 = sqrt(st.n_cm3) * sqrt(st.p_cm3);
+    if (ei_ev)
+        *ei_ev = st.fermi_level_ev;
+    return BM_OK;
+}
+
+/* ------------------------------------------------------------------------ 2D */
+
+/* m / (pi hbar^2) in cm^-2 eV^-1 for m = 1: J^-1 m^-2 -> eV^-1 cm^-2. */
+static double dos2d_unit(void)
+{
+    return BM_ME / (M_PI * BM_HBAR * BM_HBAR) * BM_EV * 1e-4;
+}
+
+bm_status bm_2d_dos(double mass, double valley_degeneracy, double *dos_cm2_ev,
+                    bm_errbuf *err)
+{
+    if (!dos_cm2_ev)
+        return bm_fail(err, BM_EINVAL, "2D density of states: no place for the result");
+    *dos_cm2_ev = NAN;
+    if (!(mass > 0.0) || !isfinite(mass))
+        return bm_fail(err, BM_EINVAL, "2D density of states: mass %g m_e must be finite "
+                       "and > 0", mass);
+    if (!(valley_degeneracy >= 0.0) || !isfinite(valley_degeneracy))
+        return bm_fail(err, BM_EINVAL, "2D density of states: valley degeneracy %g must "
+                       "be >= 1 (0 for 1)", valley_degeneracy);
+    double gv = valley_degeneracy > 0.0 ? valley_degeneracy : 1.0;
+    *dos_cm2_ev = gv * mass * dos2d_unit();
+    return BM_OK;
+}
+
+static bm_status check_subbands(const bm_subband *sub, size_t nsub, double t_k,
+                                bm_errbuf *err)
+{
+    if (nsub == 0 || !sub)
+        return bm_fail(err, BM_EINVAL, "2D gas: no subbands given");
+    if (nsub > BM_MAX_SUBBANDS)
+        return bm_fail(err, BM_EINVAL, "2D gas: %zu subbands, at most %d", nsub,
+                       BM_MAX_SUBBANDS);
+    if (!(t_k > 0.0) || !isfinite(t_k))
+        return bm_fail(err, BM_EINVAL, "2D gas: temperature %g K must be finite and > 0",
+                       t_k);
+    for (size_t i = 0; i < nsub; i++) {
+        if (!isfinite(sub[i].energy_ev))
+            return bm_fail(err, BM_EINVAL, "2D gas: subband %zu energy %g eV is not finite",
+                           i, sub[i].energy_ev);
+        if (!(sub[i].mass > 0.0) || !isfinite(sub[i].mass))
+            return bm_fail(err, BM_EINVAL, "2D gas: subband %zu mass %g m_e must be "
+                           "finite and > 0", i, sub[i].mass);
+        if (!(sub[i].valley_degeneracy >= 0.0) || !isfinite(sub[i].valley_degeneracy))
+            return bm_fail(err, BM_EINVAL, "2D gas: subband %zu valley degeneracy %g must "
+                           "be >= 1 (0 for 1)", i, sub[i].valley_degeneracy);
+    }
+    return BM_OK;
+}
+
+/* ln n_i and d ln n_i / d(EF/kT) for subband i at reduced Fermi level u. */
+static double sub_log(const bm_subband *s, double kt, double u, double *dlog)
+{
+    double gv = s->valley_degeneracy > 0.0 ? s->valley_degeneracy : 1.0;
+    double x = u - s->energy_ev / kt;
+    double sp = softplus(x), occ, one_minus;
+    fermi_split(-x, &occ, &one_minus);   /* occ = 1/(1+e^-x) = e^x/(1+e^x) */
+    /* d ln(softplus x)/dx = sigma(x) / softplus(x); softplus ~ e^x far below. */
+    *dlog = x < -700.0 ? 1.0 : occ / sp;
+    double lsp = x < -700.0 ? x : log(sp);
+    return log(gv * s->mass * dos2d_unit() * kt) + lsp;
+}
+
+bm_status bm_2d_sheet_density(const bm_subband *sub, size_t nsub, double t_k,
+                              double fermi_level_ev, double *sheet_cm2,
+                              double *per_subband, bm_errbuf *err)
+{
+    if (!sheet_cm2)
+        return bm_fail(err, BM_EINVAL, "2D gas: no place for the result");
+    *sheet_cm2 = NAN;
+    bm_status st = check_subbands(sub, nsub, t_k, err);
+    if (st)
+        return st;
+    if (!isfinite(fermi_level_ev))
+        return bm_fail(err, BM_EINVAL, "2D gas: Fermi level %g eV is not finite",
+                       fermi_level_ev);
+    double kt = BM_KB_EV * t_k, total = 0.0, d;
+    for (size_t i = 0; i < nsub; i++) {
+        double ni = exp(sub_log(&sub[i], kt, fermi_level_ev / kt, &d));
+        if (per_subband)
+            per_subband[i] = ni;
+        total += ni;
+    }
+    *sheet_cm2 = total;
+    return BM_OK;
+}
+
+bm_status bm_2d_fermi_level(const bm_subband *sub, size_t nsub, double t_k,
+                            double sheet_cm2, double *fermi_level_ev,
+                            double *per_subband, bm_errbuf *err)
+{
+    if (!fermi_level_ev)
+        return bm_fail(err, BM_EINVAL, "2D gas: no place for the result");
+    *fermi_level_ev = NAN;
+    bm_status st = check_subbands(sub, nsub, t_k, err);
+    if (st)
+        return st;
+    if (!(sheet_cm2 > 0.0) || !isfinite(sheet_cm2))
+        return bm_fail(err, BM_EINVAL, "2D gas: sheet density %g cm^-2 must be finite "
+                       "and > 0", sheet_cm2);
+    double kt = BM_KB_EV * t_k, target = log(sheet_cm2);
+    /* h(u) = ln(sum n_i) - ln ns rises monotonically with u = EF/kT.  Bounds:
+     * all electrons in the lowest-DOS subband at its own edge (upper), or
+     * Boltzmann occupation of every subband at the highest DOS (lower). */
+    double emin = sub[0].energy_ev, emax = sub[0].energy_ev, dmin = INFINITY, dmax = 0.0;
+    for (size_t i = 0; i < nsub; i++) {
+        double gv = sub[i].valley_degeneracy > 0.0 ? sub[i].valley_degeneracy : 1.0;
+        double dk = gv * sub[i].mass * dos2d_unit() * kt;
+        emin = fmin(emin, sub[i].energy_ev);
+        emax = fmax(emax, sub[i].energy_ev);
+        dmin = fmin(dmin, dk);
+        dmax = fmax(dmax, dk);
+    }
+    /* sum n_i >= n_lowest >= dmin (x_lowest) for x > 0 (softplus x > x). */
+    double hi = emin / kt + fmax(sheet_cm2 / dmin, 1.0) + 1.0;
+    /* sum n_i <= nsub dmax e^(u - emin/kT) (softplus x < e^x). */
+    double lo = emin / kt + target - log(nsub * dmax) - 1.0;
+    double u = 0.5 * (lo + hi), dxold = hi - lo;
+    /* start from the one-subband inversion of the lowest subband */
+    {
+        double x = sheet_cm2 / dmax;
+        double guess = emin / kt + (x > 30.0 ? x : log(expm1(x)));
+        if (guess > lo && guess < hi)
+            u = guess;
+    }
+    int it;
+    for (it = 0; it < 300; it++) {
+        double h = -target, dh = 0.0, s = 0.0, d;
+        double lt[BM_MAX_SUBBANDS], dl[BM_MAX_SUBBANDS], m = -INFINITY;
+        for (size_t i = 0; i < nsub; i++) {
+            lt[i] = sub_log(&sub[i], kt, u, &dl[i]);
+            m = fmax(m, lt[i]);
+        }
+        for (size_t i = 0; i < nsub; i++) {
+            d = exp(lt[i] - m);
+            s += d;
+            dh += d * dl[i];
+        }
+        h += m + log(s);
+        dh /= s;
+        if (h == 0.0)
+            break;
+        if (h < 0.0)
+            lo = u;
+        else
+            hi = u;
+        double step = -h / dh;
+        if (dh > 0.0 && fabs(step) < 1e-9) {
+            u += step;
+            break;
+        }
+        double un = u + step;
+        if (!(dh > 0.0) || !(un > lo && un < hi) || fabs(2.0 * h) > fabs(dxold * dh))
+            un = 0.5 * (lo + hi);
+        double dx = un - u;
+        dxold = dx;
+        u = un;
+        if (hi - lo < 4e-16 * fmax(1.0, fabs(u)))
+            break;
+    }
+    if (it >= 300 || !isfinite(u))
+        return bm_fail(err, BM_ENOCONV, "2D gas: Fermi level for %g cm^-2 did not converge",
+                       sheet_cm2);
+    *fermi_level_ev = u * kt;
+    if (per_subband) {
+        double d;
+        for (size_t i = 0; i < nsub; i++)
+            per_subband[i] = exp(sub_log(&sub[i], kt, u, &d));
+    }
+    return BM_OK;
+}

@@ -1,0 +1,136 @@
+/* bm-carriers.h: carrier statistics: effective densities of states, intrinsic
+ * density, charge-neutrality Fermi level with many dopant species, and 2D gases. */
+#ifndef BM_CARRIERS_H
+#define BM_CARRIERS_H
+
+#include <stddef.h>
+#include "bm-status.h"
+
+/* Energies are measured from the valence-band maximum: Ev = 0, Ec = Eg.
+ * Densities in cm^-3 (cm^-2 for 2D), masses in m_e, temperatures in K. */
+
+#define BM_MAX_DOPANTS 8
+
+/* Effective density of states 2 (2 pi m k T / h^2)^(3/2) in cm^-3
+ * (2.50941e19 cm^-3 at m = 1, T = 300 K).  m, T > 0, else BM_EINVAL. */
+bm_status bm_effective_dos(double mass, double t_k, double *n_cm3, bm_errbuf *err);
+
+typedef struct {
+    double density_cm3;    /* >= 0 */
+    double ionisation_ev;  /* donors: Ec - E_D; acceptors: E_A - Ev */
+    double degeneracy;     /* ground-state degeneracy factor g; 0 selects the
+                              default, 2 for donors and 4 for acceptors */
+} bm_dopant;
+
+typedef enum {
+    BM_FERMI_DIRAC = 0,    /* n = Nc F_1/2(eta): the default */
+    BM_BOLTZMANN = 1       /* n = Nc exp(eta): on request */
+} bm_statistics;
+
+/* Optional temperature-dependent density-of-states masses: called once per
+ * solve with the temperature; return BM_OK and fill both masses (m_e). */
+typedef bm_status (*bm_dos_mass_hook)(double t_k, double *m_dos_electron,
+                                      double *m_dos_hole, void *data);
+
+/* A zero-initialised struct plus gap, masses and dopants is a valid input. */
+typedef struct {
+    double band_gap_ev;        /* Ec - Ev at the solve temperature (may be <= 0:
+                                  overlap, warned) */
+    double m_dos_electron;     /* conduction-band DOS mass (all valleys), m_e */
+    double m_dos_hole;         /* valence-band DOS mass, m_e */
+    bm_dos_mass_hook dos_mass_hook;  /* NULL: use the two masses above */
+    void *hook_data;
+    const bm_dopant *donors;   size_t ndonors;     /* <= BM_MAX_DOPANTS */
+    const bm_dopant *acceptors; size_t nacceptors; /* <= BM_MAX_DOPANTS */
+    bm_statistics statistics;
+    int skip_statistics_check; /* 1: do not re-solve with Boltzmann statistics
+                                  to fill the comparison fields */
+} bm_semiconductor;
+
+/* Regimes (thresholds chosen here; the trade uses them loosely):
+ *   INTRINSIC   min(n, p) >= 0.1 max(n, p): the minority density is at least a
+ *               tenth of the majority, so thermal generation across the gap is
+ *               comparable with the doping (or the material is undoped);
+ *   FREEZE_OUT  not intrinsic, and the majority density is below 90 % of the
+ *               net doping |sum N_D - sum N_A|: carriers are frozen on dopants;
+ *   EXTRINSIC   otherwise (majority density set by the net doping). */
+typedef enum {
+    BM_REGIME_FREEZE_OUT,
+    BM_REGIME_EXTRINSIC,
+    BM_REGIME_INTRINSIC
+} bm_regime;
+
+const char *bm_regime_name(bm_regime r);  /* "freeze-out", "extrinsic", "intrinsic" */
+
+typedef struct {
+    double temperature_k;
+    double kt_ev;
+    double band_gap_ev;
+    double m_dos_electron, m_dos_hole;     /* the masses used (after the hook) */
+    double nc_cm3, nv_cm3;
+    double ni_cm3;                 /* textbook sqrt(Nc Nv) exp(-Eg / 2kT) */
+    double fermi_level_ev;         /* from Ev */
+    double n_cm3, p_cm3;
+    double donors_ionised_cm3, acceptors_ionised_cm3;
+    double donor_ionised_cm3[BM_MAX_DOPANTS];
+    double acceptor_ionised_cm3[BM_MAX_DOPANTS];
+    bm_regime regime;
+    bm_statistics statistics;      /* the statistics of the numbers above */
+    /* The other statistics (Boltzmann when the result is Fermi-Dirac and vice
+     * versa), NAN when skip_statistics_check is set: */
+    double other_fermi_level_ev, other_n_cm3, other_p_cm3;
+    /* max(|n_B/n_FD - 1|, |p_B/p_FD - 1|) over the non-vanishing densities;
+     * boltzmann_inaccurate = 1 (and a warning) when above 0.05. */
+    double boltzmann_deviation;
+    int boltzmann_inaccurate;
+    int iterations;                /* root-finder iterations of the main solve */
+    bm_warnings warnings;
+} bm_carrier_state;
+
+/* Solves p + sum N_D+ - n - sum N_A- = 0 for the Fermi level at t_k.
+ * Safeguarded Newton on ln(positive charge / negative charge), always kept
+ * inside a bracket from physical bounds (bisection fallback); converges for any
+ * T > 0 and densities in double range.  No allocation. */
+bm_status bm_carriers_solve(const bm_semiconductor *s, double t_k,
+                            bm_carrier_state *out, bm_errbuf *err);
+
+/* Densities for a given Fermi level (no neutrality): n, p, ionised dopants and
+ * the regime fields; the comparison fields are NAN. */
+bm_status bm_carriers_at_fermi_level(const bm_semiconductor *s, double t_k,
+                                     double fermi_level_ev, bm_carrier_state *out,
+                                     bm_errbuf *err);
+
+/* Intrinsic density: the textbook formula and the Fermi-Dirac-consistent value
+ * (n = p at the solved intrinsic level ei_ev); dopants in s are ignored. */
+bm_status bm_carriers_intrinsic(const bm_semiconductor *s, double t_k,
+                                double *ni_textbook_cm3, double *ni_fd_cm3,
+                                double *ei_ev, bm_errbuf *err);
+
+/* ---- Two-dimensional electron gas ----
+ * Subband i: n_i = (g_v m_i k T / (pi hbar^2)) ln(1 + exp((EF - E_i) / kT)),
+ * spin degeneracy 2 included in m/(pi hbar^2). */
+typedef struct {
+    double energy_ev;           /* subband edge */
+    double mass;                /* in-plane DOS mass, m_e */
+    double valley_degeneracy;   /* g_v >= 1 (0 means 1) */
+} bm_subband;
+
+#define BM_MAX_SUBBANDS 32
+
+/* Density of states of one subband, g_v m / (pi hbar^2), in cm^-2 eV^-1
+ * (4.17731e14 at m = 1, g_v = 1). */
+bm_status bm_2d_dos(double mass, double valley_degeneracy, double *dos_cm2_ev,
+                    bm_errbuf *err);
+
+/* Sheet density (cm^-2) for a Fermi level; per_subband (may be NULL) gets
+ * nsub values. */
+bm_status bm_2d_sheet_density(const bm_subband *sub, size_t nsub, double t_k,
+                              double fermi_level_ev, double *sheet_cm2,
+                              double *per_subband, bm_errbuf *err);
+
+/* The Fermi level that gives sheet_cm2 > 0 (monotone; bracketed Newton). */
+bm_status bm_2d_fermi_level(const bm_subband *sub, size_t nsub, double t_k,
+                            double sheet_cm2, double *fermi_level_ev,
+                            double *per_subband, bm_errbuf *err);
+
+#endif

@@ -1,0 +1,1020 @@
+/* bm-extrema.c: band extrema on a periodic mesh or in a scattered k-table, refined
+ * below the mesh spacing, with inertial mass tensors, classification and warnings. */
+#include "bm-extrema.h"
+
+#include <math.h>
+#include <stdint.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "bm-linalg.h"
+#include "bm-quadric.h"
+#include "bm-spectral.h"
+#include "bm-units.h"
+
+#define DEFAULT_DEGENERACY_TOL_EV 1e-3
+/* |1/m| below this (|m| above 1e4 m_e) counts as vanishing curvature. */
+#define FLAT_INV_MASS 1e-4
+#define MASS_MIN 0.01
+#define MASS_MAX 10.0
+/* Weighted fit residual above this fraction of the fitted energy range
+ * flags a non-parabolic band within the fit radius. */
+#define NONPARABOLIC_REL 0.02
+/* E(2s) - E0 over E(s) - E0 is 4 for a parabola and 2 for a cone; a mean over
+ * the sampled directions below this flags a conical point. */
+#define CONE_RATIO 2.5
+#define NEWTON_MAX_ITER 50
+
+static const char *kind_name(bm_extremum_kind k)
+{
+    return k == BM_EXTREMUM_MINIMUM ? "minimum" : k == BM_EXTREMUM_MAXIMUM ? "maximum" : "saddle point";
+}
+
+/* ---------------------------------------------------------------- tensor */
+
+/* Fills inv_mass, masses, axes, kind and divergent from the Cartesian Hessian
+ * hk (eV A^2) restricted to the span of the first dims rows of the orthonormal
+ * basis p. Masses are ordered by increasing |m|; unsampled directions get NAN
+ * masses and the remaining basis rows as axes. */
+static int finish_tensor(bm_mass_tensor *t, double hk[3][3], double p[3][3],
+                         int dims, bm_extremum_kind hint)
+{
+    double hp[3][3] = { { 0 } };
+    for (int a = 0; a < dims; a++)
+        for (int b = 0; b < dims; b++) {
+            double s = 0.0;
+            for (int i = 0; i < 3; i++)
+                for (int j = 0; j < 3; j++)
+                    s += p[a][i] * hk[i][j] * p[b][j];
+            hp[a][b] = s;
+        }
+    double ev[3], vec[3][3];
+    if (bm_symeig(hp, dims, ev, vec) != 0)
+        return -1;
+    /* order by decreasing |curvature| = increasing |mass| */
+    int order[3] = { 0, 1, 2 };
+    for (int a = 0; a < dims; a++)
+        for (int b = a + 1; b < dims; b++)
+            if (fabs(ev[order[b]]) > fabs(ev[order[a]])) {
+                int tmp = order[a];
+                order[a] = order[b];
+                order[b] = tmp;
+            }
+    memset(t->inv_mass, 0, sizeof t->inv_mass);
+    int npos = 0, nneg = 0, nflat = 0;
+    for (int m = 0; m < dims; m++) {
+        int o = order[m];
+        double inv = ev[o] / BM_HBAR2_OVER_ME_EV_A2;
+        for (int c = 0; c < 3; c++) {
+            double s = 0.0;
+            for (int a = 0; a < dims; a++)
+                s += vec[o][a] * p[a][c];
+            t->axes[m][c] = s;
+        }
+        for (int i = 0; i < 3; i++)
+            for (int j = 0; j < 3; j++)
+                t->inv_mass[i][j] += inv * t->axes[m][i] * t->axes[m][j];
+        if (fabs(inv) < FLAT_INV_MASS) {
+            t->masses[m] = INFINITY;
+            nflat++;
+            t->divergent = 1;
+            bm_warn(&t->warnings, "near-zero curvature along (%.4f, %.4f, %.4f): "
+                    "|1/m| = %.3g 1/m_e is below %.0e, the band is flat there; mass reported as infinite",
+                    t->axes[m][0], t->axes[m][1], t->axes[m][2], fabs(inv), FLAT_INV_MASS);
+        } else {
+            t->masses[m] = 1.0 / inv;
+            if (inv > 0)
+                npos++;
+            else
+                nneg++;
+        }
+    }
+    for (int m = dims; m < 3; m++) {
+        t->masses[m] = NAN;
+        memcpy(t->axes[m], p[m], sizeof t->axes[m]);
+    }
+    if (npos && nneg) {
+        t->kind = BM_EXTREMUM_SADDLE;
+        bm_warn(&t->warnings, "saddle point: the curvature changes sign (%d positive, %d negative "
+                "principal masses), so this is not a band extremum", npos, nneg);
+    } else if (npos) {
+        t->kind = BM_EXTREMUM_MINIMUM;
+    } else if (nneg) {
+        t->kind = BM_EXTREMUM_MAXIMUM;
+    } else {
+        t->kind = hint;
+    }
+    (void)nflat;
+    return 0;
+}
+
+static void range_warnings(bm_mass_tensor *t)
+{
+    for (int m = 0; m < t->dims; m++) {
+        double am = fabs(t->masses[m]);
+        if (isfinite(am) && (am < MASS_MIN || am > MASS_MAX))
+            bm_warn(&t->warnings, "principal mass %d is %.4g m_e, outside the usual range "
+                    "%.2g..%.3g m_e", m + 1, t->masses[m], MASS_MIN, MASS_MAX);
+    }
+}
+
+static void mark_conical(bm_mass_tensor *t, double ratio, double slope)
+{
+    t->divergent = 1;
+    for (int m = 0; m < t->dims; m++)
+        t->masses[m] = NAN;
+    for (int i = 0; i < 3; i++)
+        for (int j = 0; j < 3; j++)
+            t->inv_mass[i][j] = NAN;
+    bm_warn(&t->warnings, "conical point: E - E0 grows linearly with |k - k0| (ratio %.2f "
+            "on doubling the distance, 4 for a parabola; slope about %.3g eV Angstrom); "
+            "no finite inertial mass", ratio, slope);
+}
+
+static void nonparabolic_check(bm_mass_tensor *t, const bm_quadric *q, double span, double radius)
+{
+    if (span > 0.0 && q->rms > NONPARABOLIC_REL * span)
+        bm_warn(&t->warnings, "non-parabolic band: quadratic fit residual %.3g eV is %.1f%% "
+                "of the energy range %.3g eV within %.3g 1/Angstrom",
+                q->rms, 100.0 * q->rms / span, span, radius);
+}
+
+static int check_options(const bm_fit_options *opt, bm_search which, const double *k_at,
+                         double *radius, double *degen, bm_errbuf *err)
+{
+    *radius = 0.0;
+    *degen = DEFAULT_DEGENERACY_TOL_EV;
+    if (which != BM_SEARCH_MINIMUM && which != BM_SEARCH_MAXIMUM && which != BM_SEARCH_ALL)
+        return bm_fail(err, BM_EINVAL, "search mode %d is not one of minimum, maximum, all", (int)which);
+    if (opt) {
+        if (!isfinite(opt->fit_radius_inv_angstrom) || opt->fit_radius_inv_angstrom < 0.0)
+            return bm_fail(err, BM_EINVAL, "fit radius %g 1/Angstrom must be finite and >= 0 (0: automatic)",
+                           opt->fit_radius_inv_angstrom);
+        if (!isfinite(opt->degeneracy_tol_ev) || opt->degeneracy_tol_ev < 0.0)
+            return bm_fail(err, BM_EINVAL, "degeneracy tolerance %g eV must be finite and >= 0 (0: 1 meV)",
+                           opt->degeneracy_tol_ev);
+        *radius = opt->fit_radius_inv_angstrom;
+        if (opt->degeneracy_tol_ev > 0.0)
+            *degen = opt->degeneracy_tol_ev;
+    }
+    if (k_at)
+        for (int c = 0; c < 3; c++)
+            if (!isfinite(k_at[c]))
+                return bm_fail(err, BM_EINVAL, "evaluation point k[%d] = %g is not finite", c, k_at[c]);
+    return BM_OK;
+}
+
+/* ------------------------------------------------------------------ grid */
+
+static bm_status grid_geometry(const bm_grid *g, bm_errbuf *err)
+{
+    if (!g)
+        return bm_fail(err, BM_EINVAL, "grid is NULL");
+    static const char *const nn[3] = { "n1", "n2", "n3" };
+    for (int a = 0; a < 3; a++)
+        if (g->mesh[a] == 0)
+            return bm_fail(err, BM_EINVAL, "mesh size %s is 0; every mesh size must be >= 1 (n3 = 1 for a sheet)", nn[a]);
+    if (g->nbands == 0)
+        return bm_fail(err, BM_EINVAL, "grid has no bands (nbands = 0)");
+    if (!g->energies)
+        return bm_fail(err, BM_EINVAL, "grid energies are NULL");
+    size_t npt = g->mesh[0];
+    if (g->mesh[1] > SIZE_MAX / npt)
+        return bm_fail(err, BM_EINVAL, "mesh %zu x %zu x %zu is too large", g->mesh[0], g->mesh[1], g->mesh[2]);
+    npt *= g->mesh[1];
+    if (g->mesh[2] > SIZE_MAX / npt || g->nbands > SIZE_MAX / sizeof(double) / (npt * g->mesh[2]))
+        return bm_fail(err, BM_EINVAL, "mesh %zu x %zu x %zu with %zu bands is too large",
+                       g->mesh[0], g->mesh[1], g->mesh[2], g->nbands);
+    for (int a = 0; a < 3; a++)
+        for (int c = 0; c < 3; c++)
+            if (!isfinite(g->recip[a][c]))
+                return bm_fail(err, BM_EINVAL, "reciprocal vector b%d component %d is not finite", a + 1, c);
+    double b[3][3];
+    memcpy(b, g->recip, sizeof b);
+    if (g->mesh[2] == 1) {
+        double cr[3];
+        bm_cross3(b[0], b[1], cr);
+        if (!(bm_norm3(cr) > 1e-12 * bm_norm3(b[0]) * bm_norm3(b[1])))
+            return bm_fail(err, BM_EINVAL, "reciprocal vectors b1 and b2 are parallel or zero "
+                           "(|b1 x b2| = %g 1/Angstrom^2): the sheet has no area", bm_norm3(cr));
+    } else {
+        double inv[3][3];
+        if (bm_inv3(b, inv) != 0)
+            return bm_fail(err, BM_EINVAL, "reciprocal vectors b1, b2, b3 are singular "
+                           "(det = %g 1/Angstrom^3)", bm_det3(b));
+    }
+    return BM_OK;
+}
+
+static bm_status band_finite(const bm_grid *g, size_t band, bm_errbuf *err)
+{
+    size_t n1 = g->mesh[0], n2 = g->mesh[1], n3 = g->mesh[2];
+    size_t npt = n1 * n2 * n3;
+    const double *e = g->energies + band * npt;
+    /* x - x is 0 for finite x and NaN otherwise: a branch-free pass that
+     * vectorises; the slow search for the culprit runs only on failure. */
+    double acc[4] = { 0.0, 0.0, 0.0, 0.0 };   /* independent chains pipeline */
+    size_t p4 = npt - npt % 4;
+    for (size_t p = 0; p < p4; p += 4)
+        for (int u = 0; u < 4; u++)
+            acc[u] += e[p + u] - e[p + u];
+    for (size_t p = p4; p < npt; p++)
+        acc[0] += e[p] - e[p];
+    if (acc[0] + acc[1] + acc[2] + acc[3] == 0.0)
+        return BM_OK;
+    for (size_t p = 0; p < npt; p++)
+        if (!isfinite(e[p]))
+            return bm_fail(err, BM_EINVAL, "band %zu, mesh index (i, j, l) = (%zu, %zu, %zu): "
+                           "energy %g is not finite", band, p / (n2 * n3), (p / n3) % n2, p % n3, e[p]);
+    return BM_OK;
+}
+
+bm_status bm_grid_validate(const bm_grid *g, bm_errbuf *err)
+{
+    bm_status s = grid_geometry(g, err);
+    for (size_t b = 0; s == BM_OK && b < g->nbands; b++)
+        s = band_finite(g, b, err);
+    return s;
+}
+
+typedef struct {
+    const bm_grid *g;
+    size_t band;
+    size_t npt;
+    int dims;
+    double b[3][3];      /* rows b1 b2 and b3 (b3: unit normal for a sheet) */
+    double binv[3][3];
+    double p[3][3];      /* orthonormal basis: sampled directions first */
+    double radius;       /* fit radius, 0 automatic */
+    double degen;
+    bm_interp *ip;
+} grid_ctx;
+
+static void grid_eval(grid_ctx *c, size_t band, const double f[3], double *e, double g[3], double h[3][3])
+{
+    bm_interp_eval(c->ip, c->g->energies + band * c->npt, f, e, g, h);
+}
+
+/* Local quadric fit of the mesh data around fractional point f (for the
+ * residual and non-parabolicity check). */
+static void grid_fit(grid_ctx *c, const double f[3], const double k0[3], double e0, bm_mass_tensor *t)
+{
+    const size_t *n = c->g->mesh;
+    int reach[3];
+    for (int a = 0; a < 3; a++) {
+        reach[a] = n[a] > 1 ? 1 : 0;
+        if (c->radius > 0.0 && n[a] > 1) {
+            double col = sqrt(c->binv[0][a] * c->binv[0][a] + c->binv[1][a] * c->binv[1][a]
+                              + c->binv[2][a] * c->binv[2][a]);
+            double r = ceil(c->radius * (double)n[a] * col);
+            reach[a] = (int)fmin(fmax(r, 1.0), 6.0);
+        }
+        if (n[a] > 1 && 2 * reach[a] + 1 > (int)n[a])
+            reach[a] = (int)(n[a] - 1) / 2;
+    }
+    size_t cap = (size_t)(2 * reach[0] + 1) * (size_t)(2 * reach[1] + 1) * (size_t)(2 * reach[2] + 1);
+    double (*u)[3] = malloc(cap * sizeof *u);
+    double *e = malloc(cap * sizeof *e), *w = malloc(cap * sizeof *w), *d = malloc(cap * sizeof *d);
+    if (!u || !e || !w || !d)
+        goto done;
+    long cidx[3];
+    for (int a = 0; a < 3; a++)
+        cidx[a] = lround(f[a] * (double)n[a]);
+    const double *band = c->g->energies + c->band * c->npt;
+    size_t m = 0;
+    double dmax = 0.0;
+    for (int o0 = -reach[0]; o0 <= reach[0]; o0++)
+        for (int o1 = -reach[1]; o1 <= reach[1]; o1++)
+            for (int o2 = -reach[2]; o2 <= reach[2]; o2++) {
+                long id[3] = { cidx[0] + o0, cidx[1] + o1, cidx[2] + o2 };
+                double fp[3], kp[3] = { 0, 0, 0 }, dk[3];
+                size_t wrapped[3];
+                for (int a = 0; a < 3; a++) {
+                    fp[a] = (double)id[a] / (double)n[a];
+                    long r = id[a] % (long)n[a];
+                    wrapped[a] = (size_t)(r < 0 ? r + (long)n[a] : r);
+                }
+                if (n[2] == 1)
+                    fp[2] = 0.0;
+                for (int i = 0; i < 3; i++)
+                    kp[i] = fp[0] * c->b[0][i] + fp[1] * c->b[1][i] + fp[2] * c->b[2][i];
+                for (int i = 0; i < 3; i++)
+                    dk[i] = kp[i] - k0[i];
+                double dist = bm_norm3(dk);
+                if (c->radius > 0.0 && dist > c->radius)
+                    continue;
+                for (int a = 0; a < 3; a++)
+                    u[m][a] = bm_dot3(c->p[a], dk);
+                e[m] = band[(wrapped[0] * n[1] + wrapped[1]) * n[2] + wrapped[2]];
+                d[m] = dist;
+                dmax = fmax(dmax, dist);
+                m++;
+            }
+    double span = 0.0;
+    for (size_t q = 0; q < m; q++) {
+        w[q] = exp(-(d[q] / dmax) * (d[q] / dmax));
+        span = fmax(span, fabs(e[q] - e0));
+    }
+    bm_quadric qf;
+    int rc = bm_quadric_fit(m, c->dims, (const double (*)[3])u, e, w, &qf);
+    if (rc == 0) {
+        t->fit_rms_ev = qf.rms;
+        nonparabolic_check(t, &qf, span, dmax);
+    } else {
+        t->fit_rms_ev = NAN;
+        bm_warn(&t->warnings, "local quadratic fit not determined: %zu mesh points within %.3g "
+                "1/Angstrom give rank %zu of %zu parameters", m, dmax, qf.rank, qf.nparams);
+    }
+done:
+    free(u);
+    free(e);
+    free(w);
+    free(d);
+}
+
+/* Ratio (E(f+-2s) - E0) / (E(f+-s) - E0) along the sampled mesh axes. */
+static int grid_cone(grid_ctx *c, const double f[3], double e0, double *ratio, double *slope)
+{
+    double rsum = 0.0, ssum = 0.0;
+    int count = 0;
+    for (int a = 0; a < 3; a++) {
+        if (c->g->mesh[a] == 1)
+            continue;
+        double step = 1.0 / (double)c->g->mesh[a];
+        double de[3] = { 0, 0, 0 };
+        for (int s = 1; s <= 2; s++)
+            for (int sg = -1; sg <= 1; sg += 2) {
+                double fp[3] = { f[0], f[1], f[2] }, e;
+                fp[a] += sg * s * step;
+                grid_eval(c, c->band, fp, &e, NULL, NULL);
+                de[s] += 0.5 * (e - e0);
+            }
+        if (fabs(de[1]) <= 1e-9 * (1.0 + fabs(e0)))
+            continue;
+        rsum += de[2] / de[1];
+        ssum += fabs(de[1]) / (step * bm_norm3(c->b[a]));
+        count++;
+    }
+    if (!count)
+        return 0;
+    *ratio = rsum / count;
+    *slope = ssum / count;
+    return *ratio < CONE_RATIO;
+}
+
+static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
+                        bm_extremum_kind hint, bm_mass_tensor *t)
+{
+    memset(t, 0, sizeof *t);
+    t->dims = c->dims;
+    const size_t *n = c->g->mesh;
+    double f[3] = { f_start[0], f_start[1], f_start[2] };
+    double e, gf[3], hf[3][3];
+    if (refine) {
+        int converged = 0, flat = 0;
+        double last = 0.0;
+        for (int it = 0; it < NEWTON_MAX_ITER && !converged; it++) {
+            grid_eval(c, c->band, f, &e, gf, hf);
+            if (c->dims == 2) {
+                hf[2][2] = 1.0;
+                hf[0][2] = hf[2][0] = hf[1][2] = hf[2][1] = 0.0;
+                gf[2] = 0.0;
+            }
+            double hi[3][3];
+            if (bm_inv3(hf, hi) != 0) {
+                flat = 1;   /* vanishing curvature: stay where we are */
+                break;
+            }
+            double df[3], big = 0.0;
+            for (int a = 0; a < 3; a++) {
+                df[a] = -(hi[a][0] * gf[0] + hi[a][1] * gf[1] + hi[a][2] * gf[2]);
+                big = fmax(big, fabs(df[a]) * (double)n[a]);
+            }
+            double shrink = big > 1.0 ? 1.0 / big : 1.0;
+            double away = 0.0;
+            for (int a = 0; a < 3; a++) {
+                f[a] += shrink * df[a];
+                away = fmax(away, fabs(f[a] - f_start[a]) * (double)n[a]);
+            }
+            if (away > 2.0) {
+                bm_warn(&t->warnings, "refinement left the neighbourhood of mesh point "
+                        "(%.4f, %.4f, %.4f) (fractional); reported at the mesh point",
+                        f_start[0], f_start[1], f_start[2]);
+                memcpy(f, f_start, sizeof f);
+                converged = 1;
+                break;
+            }
+            /* The local stencil is re-centred at mesh nodes, so the fine-mesh
+             * interpolant is only C0 there; steps then stall near 1e-9 of a
+             * spacing instead of shrinking further (1e-10 Angstrom^-1 or less). */
+            last = big;
+            if (big < 1e-7)
+                converged = 1;
+        }
+        if (!converged && !flat && last > 1e-4)
+            bm_warn(&t->warnings, "refinement did not converge in %d Newton steps", NEWTON_MAX_ITER);
+    }
+    grid_eval(c, c->band, f, &e, gf, hf);
+    if (c->dims == 2) {
+        f[2] = 0.0;
+        gf[2] = 0.0;
+        hf[2][2] = hf[0][2] = hf[2][0] = hf[1][2] = hf[2][1] = 0.0;
+    }
+    for (int a = 0; a < 3; a++) {
+        /* wrap into [0, 1); a value a rounding error below 1 is the point 0 */
+        double w = f[a] - floor(f[a]);
+        t->k_frac[a] = 1.0 - w < 1e-9 ? 0.0 : w;
+    }
+    for (int i = 0; i < 3; i++)
+        t->k[i] = t->k_frac[0] * c->b[0][i] + t->k_frac[1] * c->b[1][i] + t->k_frac[2] * c->b[2][i];
+    t->energy_ev = e;
+    /* Cartesian: g_k = B^-1 g_f, H_k = B^-1 H_f B^-T */
+    double hk[3][3], tmp[3][3], binvt[3][3], gk[3];
+    bm_matmul3(c->binv, hf, tmp);
+    bm_transpose3(c->binv, binvt);
+    bm_matmul3(tmp, binvt, hk);
+    for (int i = 0; i < 3; i++)
+        gk[i] = c->binv[i][0] * gf[0] + c->binv[i][1] * gf[1] + c->binv[i][2] * gf[2];
+    if (finish_tensor(t, hk, c->p, c->dims, hint) != 0)
+        return -1;
+    if (!refine && bm_norm3(gk) > 1e-6)
+        bm_warn(&t->warnings, "|dE/dk| = %.3g eV Angstrom at the given point: not a stationary "
+                "point, the tensor is the local curvature there", bm_norm3(gk));
+    grid_fit(c, f, t->k, e, t);
+    double ratio, slope;
+    if (grid_cone(c, f, e, &ratio, &slope))
+        mark_conical(t, ratio, slope);
+    else
+        range_warnings(t);
+    for (size_t b = 0; b < c->g->nbands; b++) {
+        if (b == c->band)
+            continue;
+        double eb;
+        grid_eval(c, b, f, &eb, NULL, NULL);
+        if (isfinite(eb) && fabs(eb - e) <= c->degen)
+            bm_warn(&t->warnings, "band %zu lies %.3g meV from band %zu at this %s (E = %.6f eV; "
+                    "tolerance %.3g meV): the bands are degenerate here and the mass tensor is ill-defined",
+                    b, 1e3 * fabs(eb - e), c->band, kind_name(t->kind), e, 1e3 * c->degen);
+    }
+    return 0;
+}
+
+/* Periodic neighbour scan: a point is a candidate minimum (maximum) when it
+ * beats every mesh neighbour; equal energies are broken by the lower linear
+ * index so a plateau yields one candidate. The six face neighbours are tested
+ * first and the loop bails out as soon as both roles are ruled out. */
+typedef struct {
+    size_t p;
+    int is_min;
+} candidate;
+
+static int grid_scan(const bm_grid *g, const double *band, candidate **list, size_t *count)
+{
+    size_t n1 = g->mesh[0], n2 = g->mesh[1], n3 = g->mesh[2];
+    size_t cap = 64, cnt = 0;
+    candidate *cl = malloc(cap * sizeof *cl);
+    unsigned char *rowflag = malloc(n3);
+    if (!cl || !rowflag) {
+        free(cl);
+        free(rowflag);
+        return -1;
+    }
+    int use[3] = { n1 > 1, n2 > 1, n3 > 1 };
+    for (size_t i = 0; i < n1; i++) {
+        size_t ip = (i + 1) % n1, im = (i + n1 - 1) % n1;
+        for (size_t j = 0; j < n2; j++) {
+            size_t jp = (j + 1) % n2, jm = (j + n2 - 1) % n2;
+            const double *row = band + (i * n2 + j) * n3;
+            if (use[2] && n3 > 2) {
+                /* Branch-free row pass (vectorises): an interior point stays a
+                 * candidate only if it beats both row neighbours under the
+                 * same tie rule as below (equal to the later point is allowed). */
+                for (size_t l = 1; l + 1 < n3; l++) {
+                    double a = row[l - 1], x = row[l], b = row[l + 1];
+                    rowflag[l] = (unsigned char)(((x < a) & (x <= b)) | ((x > a) & (x >= b)));
+                }
+                rowflag[0] = rowflag[n3 - 1] = 1;
+            }
+            for (size_t l = 0; l < n3; l++) {
+                if (use[2] && n3 > 2 && !rowflag[l])
+                    continue;
+                size_t p = (i * n2 + j) * n3 + l;
+                double ep = row[l];
+                int mn = 1, mx = 1;
+#define BM_CMP(q)                                                  \
+    do {                                                           \
+        size_t q_ = (q);                                           \
+        double eq_ = band[q_];                                     \
+        if (q_ != p) {                                             \
+            if (ep == eq_) {                                       \
+                if (p > q_)                                        \
+                    mn = mx = 0;                                   \
+            } else if (ep > eq_) {                                 \
+                mn = 0;                                            \
+            } else {                                               \
+                mx = 0;                                            \
+            }                                                      \
+        }                                                          \
+    } while (0)
+                if (use[2]) {
+                    size_t lp = l + 1 == n3 ? 0 : l + 1, lm = l == 0 ? n3 - 1 : l - 1;
+                    BM_CMP((i * n2 + j) * n3 + lp);
+                    BM_CMP((i * n2 + j) * n3 + lm);
+                    if (!mn && !mx)
+                        continue;
+                }
+                if (use[1]) {
+                    BM_CMP((i * n2 + jp) * n3 + l);
+                    if (!mn && !mx)
+                        continue;
+                    BM_CMP((i * n2 + jm) * n3 + l);
+                    if (!mn && !mx)
+                        continue;
+                }
+                if (use[0]) {
+                    BM_CMP((ip * n2 + j) * n3 + l);
+                    if (!mn && !mx)
+                        continue;
+                    BM_CMP((im * n2 + j) * n3 + l);
+                    if (!mn && !mx)
+                        continue;
+                }
+                /* edges and corners */
+                size_t ii[3] = { im, i, ip }, jj[3] = { jm, j, jp };
+                size_t ll[3] = { l == 0 ? n3 - 1 : l - 1, l, l + 1 == n3 ? 0 : l + 1 };
+                for (int a = 0; a < 3 && (mn || mx); a++)
+                    for (int b2 = 0; b2 < 3 && (mn || mx); b2++)
+                        for (int c2 = 0; c2 < 3 && (mn || mx); c2++) {
+                            int faces = (a != 1) + (b2 != 1) + (c2 != 1);
+                            if (faces < 2)
+                                continue;
+                            BM_CMP((ii[a] * n2 + jj[b2]) * n3 + ll[c2]);
+                        }
+#undef BM_CMP
+                if (!mn && !mx)
+                    continue;
+                if (cnt == cap) {
+                    cap *= 2;
+                    candidate *nl = realloc(cl, cap * sizeof *cl);
+                    if (!nl) {
+                        free(cl);
+                        free(rowflag);
+                        return -1;
+                    }
+                    cl = nl;
+                }
+                cl[cnt].p = p;
+                cl[cnt].is_min = mn;
+                cnt++;
+            }
+        }
+    }
+    free(rowflag);
+    *list = cl;
+    *count = cnt;
+    return 0;
+}
+
+static int by_energy(const void *a, const void *b)
+{
+    double ea = ((const bm_mass_tensor *)a)->energy_ev, eb = ((const bm_mass_tensor *)b)->energy_ev;
+    return (ea > eb) - (ea < eb);
+}
+
+bm_status bm_grid_mass_tensors(const bm_grid *g, size_t band, bm_search which,
+                               const double *k_at, const bm_fit_options *opt,
+                               bm_mass_tensor **out, size_t *n_out, bm_errbuf *err)
+{
+    if (!out || !n_out)
+        return bm_fail(err, BM_EINVAL, "output pointers are NULL");
+    *out = NULL;
+    *n_out = 0;
+    bm_status s = grid_geometry(g, err);
+    if (s != BM_OK)
+        return s;
+    if (band >= g->nbands)
+        return bm_fail(err, BM_EINVAL, "band index %zu is out of range: the grid has %zu band%s (0..%zu)",
+                       band, g->nbands, g->nbands == 1 ? "" : "s", g->nbands - 1);
+    grid_ctx c;
+    memset(&c, 0, sizeof c);
+    if ((s = check_options(opt, which, k_at, &c.radius, &c.degen, err)) != BM_OK)
+        return s;
+    if ((s = band_finite(g, band, err)) != BM_OK)
+        return s;
+    c.g = g;
+    c.band = band;
+    c.npt = g->mesh[0] * g->mesh[1] * g->mesh[2];
+    c.dims = g->mesh[2] == 1 ? 2 : 3;
+    memcpy(c.b, g->recip, sizeof c.b);
+    /* basis: b1 direction, in-plane (b1, b2) orthogonal, normal */
+    double n0 = bm_norm3(c.b[0]);
+    for (int i = 0; i < 3; i++)
+        c.p[0][i] = c.b[0][i] / n0;
+    double d = bm_dot3(c.b[1], c.p[0]);
+    for (int i = 0; i < 3; i++)
+        c.p[1][i] = c.b[1][i] - d * c.p[0][i];
+    double n1 = bm_norm3(c.p[1]);
+    for (int i = 0; i < 3; i++)
+        c.p[1][i] /= n1;
+    bm_complete_basis(c.p, 2);
+    if (c.dims == 2)
+        memcpy(c.b[2], c.p[2], sizeof c.b[2]);
+    /* f = k B^-1 as a row vector; binv here is (B^-1) so that f_a = sum_i k_i binv[i][a] */
+    if (bm_inv3(c.b, c.binv) != 0)
+        return bm_fail(err, BM_EINVAL, "reciprocal vectors are singular");
+    c.ip = bm_interp_new(g->mesh);
+    if (!c.ip)
+        return bm_fail(err, BM_ENOMEM, "out of memory for the interpolation workspace");
+    const double *e = g->energies + band * c.npt;
+    bm_mass_tensor *res = NULL;
+    size_t nres = 0;
+    s = BM_OK;
+    if (k_at) {
+        double f[3];
+        for (int a = 0; a < 3; a++)
+            f[a] = k_at[0] * c.binv[0][a] + k_at[1] * c.binv[1][a] + k_at[2] * c.binv[2][a];
+        if (c.dims == 2)
+            f[2] = 0.0;
+        res = malloc(sizeof *res);
+        if (!res || grid_analyse(&c, f, 0, BM_EXTREMUM_MINIMUM, res) != 0)
+            s = res ? bm_fail(err, BM_EINTERNAL, "eigen-decomposition failed at the given point")
+                    : bm_fail(err, BM_ENOMEM, "out of memory");
+        else
+            nres = 1;
+    } else {
+        candidate *cl = NULL;
+        size_t ncand = 0;
+        if (which == BM_SEARCH_ALL) {
+            if (grid_scan(g, e, &cl, &ncand) != 0)
+                s = bm_fail(err, BM_ENOMEM, "out of memory in the extremum scan");
+        } else {
+            cl = malloc(sizeof *cl);
+            if (!cl) {
+                s = bm_fail(err, BM_ENOMEM, "out of memory");
+            } else {
+                size_t best = 0;
+                double eb = e[0];
+                if (which == BM_SEARCH_MINIMUM) {
+                    for (size_t p = 1; p < c.npt; p++)
+                        if (e[p] < eb) {
+                            eb = e[p];
+                            best = p;
+                        }
+                } else {
+                    for (size_t p = 1; p < c.npt; p++)
+                        if (e[p] > eb) {
+                            eb = e[p];
+                            best = p;
+                        }
+                }
+                cl[0].p = best;
+                cl[0].is_min = which == BM_SEARCH_MINIMUM;
+                ncand = 1;
+            }
+        }
+        if (s == BM_OK && ncand) {
+            res = malloc(ncand * sizeof *res);
+            if (!res)
+                s = bm_fail(err, BM_ENOMEM, "out of memory for %zu results", ncand);
+        }
+        for (size_t q = 0; s == BM_OK && q < ncand; q++) {
+            size_t p = cl[q].p, n2 = g->mesh[1], n3 = g->mesh[2];
+            double f[3] = { (double)(p / (n2 * n3)) / (double)g->mesh[0],
+                            (double)((p / n3) % n2) / (double)n2,
+                            (double)(p % n3) / (double)n3 };
+            if (grid_analyse(&c, f, 1, cl[q].is_min ? BM_EXTREMUM_MINIMUM : BM_EXTREMUM_MAXIMUM,
+                             &res[nres]) != 0)
+                s = bm_fail(err, BM_EINTERNAL, "eigen-decomposition failed at mesh point %zu", p);
+            else
+                nres++;
+        }
+        free(cl);
+        if (s == BM_OK && nres > 1)
+            qsort(res, nres, sizeof *res, by_energy);
+    }
+    bm_interp_free(c.ip);
+    if (s != BM_OK) {
+        free(res);
+        return s;
+    }
+    *out = res;
+    *n_out = nres;
+    return BM_OK;
+}
+
+/* ---------------------------------------------------------------- ktable */
+
+typedef struct {
+    const bm_ktable *t;
+    size_t band;
+    int dims;
+    double p[3][3];
+    double radius;
+    double degen;
+    size_t nfit;         /* automatic point count */
+    double *dist;        /* scratch [npoints] */
+    size_t *order;       /* scratch [npoints] */
+    struct dist_pair { double d; size_t i; } *pairs;
+    double (*u)[3];
+    double *e, *w;
+} table_ctx;
+
+static int by_pair_dist(const void *a, const void *b)
+{
+    double da = ((const struct dist_pair *)a)->d, db = ((const struct dist_pair *)b)->d;
+    return (da > db) - (da < db);
+}
+
+static const double *tk(const table_ctx *c, size_t m)
+{
+    return c->t->k + 3 * m;
+}
+
+/* Nearest points to centre: within radius if given, else the nfit_want nearest
+ * plus any tied with the last one. Fills c->order[0..count-1]; returns count
+ * and the largest distance used. */
+static size_t table_select(table_ctx *c, const double centre[3], double radius,
+                           size_t nfit_want, double *dmax)
+{
+    size_t np = c->t->npoints;
+    for (size_t m = 0; m < np; m++) {
+        double dk[3];
+        for (int i = 0; i < 3; i++)
+            dk[i] = tk(c, m)[i] - centre[i];
+        c->dist[m] = bm_norm3(dk);
+        c->pairs[m].d = c->dist[m];
+        c->pairs[m].i = m;
+    }
+    qsort(c->pairs, np, sizeof *c->pairs, by_pair_dist);
+    for (size_t m = 0; m < np; m++)
+        c->order[m] = c->pairs[m].i;
+    size_t count;
+    if (radius > 0.0) {
+        count = 0;
+        while (count < np && c->dist[c->order[count]] <= radius)
+            count++;
+    } else {
+        count = nfit_want < np ? nfit_want : np;
+        while (count > 0 && count < np
+               && c->dist[c->order[count]] <= c->dist[c->order[count - 1]] * (1.0 + 1e-9))
+            count++;
+    }
+    *dmax = count ? c->dist[c->order[count - 1]] : 0.0;
+    return count;
+}
+
+static int table_fit(table_ctx *c, const double centre[3], double radius, size_t want,
+                     bm_quadric *q, double *dmax, double *span, size_t *count)
+{
+    size_t m = table_select(c, centre, radius, want, dmax);
+    *count = m;
+    const double *eb = c->t->energies + c->band * c->t->npoints;
+    double e_near = m ? eb[c->order[0]] : 0.0;
+    *span = 0.0;
+    for (size_t q2 = 0; q2 < m; q2++) {
+        size_t id = c->order[q2];
+        double dk[3];
+        for (int i = 0; i < 3; i++)
+            dk[i] = tk(c, id)[i] - centre[i];
+        for (int a = 0; a < 3; a++)
+            c->u[q2][a] = bm_dot3(c->p[a], dk);
+        c->e[q2] = eb[id];
+        double r = *dmax > 0.0 ? c->dist[id] / *dmax : 0.0;
+        c->w[q2] = exp(-r * r);
+        *span = fmax(*span, fabs(eb[id] - e_near));
+    }
+    return bm_quadric_fit(m, c->dims, (const double (*)[3])c->u, c->e, c->w, q);
+}
+
+static double quad_norm(const bm_quadric *q)
+{
+    double s = 0.0;
+    for (int a = 0; a < 3; a++)
+        for (int b = 0; b < 3; b++)
+            s += q->h[a][b] * q->h[a][b];
+    return sqrt(s);
+}
+
+static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
+                               bm_extremum_kind hint, bm_mass_tensor *t, bm_errbuf *err)
+{
+    memset(t, 0, sizeof *t);
+    t->dims = c->dims;
+    double centre[3] = { start[0], start[1], start[2] };
+    bm_quadric q;
+    double dmax, span;
+    size_t count;
+    for (int it = 0;; it++) {
+        int rc = table_fit(c, centre, c->radius, c->nfit, &q, &dmax, &span, &count);
+        if (rc == -2)
+            return bm_fail(err, BM_EINTERNAL, "quadric fit failed (GSL)");
+        if (rc == -1)
+            return bm_fail(err, BM_EINVAL, "quadric fit around k = (%.5g, %.5g, %.5g) 1/Angstrom is "
+                           "rank-deficient: %zu points within %.3g 1/Angstrom determine only %zu of the "
+                           "%zu parameters of a %d-dimensional quadric", centre[0], centre[1], centre[2],
+                           count, dmax, q.rank, q.nparams, c->dims);
+        if (!refine || it >= 3)
+            break;
+        double h3[3][3] = { { 0 } }, hi[3][3];
+        for (int a = 0; a < 3; a++)
+            for (int b = 0; b < 3; b++)
+                h3[a][b] = a < c->dims && b < c->dims ? q.h[a][b] : (a == b ? 1.0 : 0.0);
+        if (bm_inv3(h3, hi) != 0)
+            break;
+        double du[3] = { 0, 0, 0 };
+        for (int a = 0; a < c->dims; a++)
+            for (int b = 0; b < c->dims; b++)
+                du[a] -= hi[a][b] * q.g[b];
+        double step = sqrt(du[0] * du[0] + du[1] * du[1] + du[2] * du[2]);
+        if (step > dmax) {
+            bm_warn(&t->warnings, "Newton step %.3g 1/Angstrom leaves the fit region (%.3g 1/Angstrom); "
+                    "the extremum is reported at the sampled point", step, dmax);
+            break;
+        }
+        for (int i = 0; i < 3; i++)
+            for (int a = 0; a < c->dims; a++)
+                centre[i] += du[a] * c->p[a][i];
+        if (step <= 1e-10 * (dmax > 0 ? dmax : 1.0))
+            break;
+    }
+    memcpy(t->k, centre, sizeof t->k);
+    t->k_frac[0] = t->k_frac[1] = t->k_frac[2] = NAN;
+    t->energy_ev = q.e0;
+    t->fit_rms_ev = q.rms;
+    double hk[3][3] = { { 0 } };
+    for (int i = 0; i < 3; i++)
+        for (int j = 0; j < 3; j++)
+            for (int a = 0; a < c->dims; a++)
+                for (int b = 0; b < c->dims; b++)
+                    hk[i][j] += c->p[a][i] * q.h[a][b] * c->p[b][j];
+    if (finish_tensor(t, hk, c->p, c->dims, hint) != 0)
+        return bm_fail(err, BM_EINTERNAL, "eigen-decomposition of the fitted Hessian failed");
+    double gnorm = sqrt(q.g[0] * q.g[0] + q.g[1] * q.g[1] + q.g[2] * q.g[2]);
+    if (!refine && gnorm > 1e-6)
+        bm_warn(&t->warnings, "|dE/dk| = %.3g eV Angstrom at the given point: not a stationary "
+                "point, the tensor is the local curvature there", gnorm);
+    nonparabolic_check(t, &q, span, dmax);
+    /* Conical test: refit with the radius doubled (or the point count grown by
+     * 2^dims); curvature ~ 1/radius means E ~ |k|. */
+    double r1 = dmax;
+    bm_quadric q2;
+    double dmax2, span2;
+    size_t count2;
+    int cone = 0;
+    double ratio = NAN;
+    if (r1 > 0.0 && table_fit(c, centre, 2.0 * r1, 0, &q2, &dmax2, &span2, &count2) == 0
+        && count2 > count && dmax2 > 1.5 * r1) {
+        double hn1 = quad_norm(&q), hn2 = quad_norm(&q2);
+        double expo = hn2 > 0.0 ? log(hn1 / hn2) / log(dmax2 / r1) : 0.0;
+        ratio = pow(2.0, 2.0 - expo);   /* equivalent E(2s)/E(s) ratio */
+        cone = expo > 0.5;
+    }
+    if (cone) {
+        /* slope: mean |E - E0| / |k - k0| over the first fit set */
+        double s = 0.0;
+        size_t m = 0;
+        table_select(c, centre, r1, 0, &dmax);
+        const double *eb = c->t->energies + c->band * c->t->npoints;
+        for (size_t q3 = 0; q3 < c->t->npoints && c->dist[c->order[q3]] <= r1; q3++)
+            if (c->dist[c->order[q3]] > 0.0) {
+                s += fabs(eb[c->order[q3]] - t->energy_ev) / c->dist[c->order[q3]];
+                m++;
+            }
+        mark_conical(t, ratio, m ? s / (double)m : NAN);
+    } else {
+        range_warnings(t);
+    }
+    /* degeneracy: other bands at the sampled point nearest the extremum */
+    size_t near = 0;
+    double dn = INFINITY;
+    for (size_t m = 0; m < c->t->npoints; m++) {
+        double dk[3];
+        for (int i = 0; i < 3; i++)
+            dk[i] = tk(c, m)[i] - centre[i];
+        if (bm_norm3(dk) < dn) {
+            dn = bm_norm3(dk);
+            near = m;
+        }
+    }
+    double e_self = c->t->energies[c->band * c->t->npoints + near];
+    for (size_t b = 0; b < c->t->nbands; b++) {
+        if (b == c->band)
+            continue;
+        double eb = c->t->energies[b * c->t->npoints + near];
+        if (fabs(eb - e_self) <= c->degen)
+            bm_warn(&t->warnings, "band %zu lies %.3g meV from band %zu at this %s (point %zu, "
+                    "E = %.6f eV; tolerance %.3g meV): the bands are degenerate here and the mass "
+                    "tensor is ill-defined", b, 1e3 * fabs(eb - e_self), c->band, kind_name(t->kind),
+                    near, e_self, 1e3 * c->degen);
+    }
+    return BM_OK;
+}
+
+bm_status bm_ktable_mass_tensors(const bm_ktable *t, size_t band, bm_search which,
+                                 const double *k_at, const bm_fit_options *opt,
+                                 bm_mass_tensor **out, size_t *n_out, bm_errbuf *err)
+{
+    if (!out || !n_out)
+        return bm_fail(err, BM_EINVAL, "output pointers are NULL");
+    *out = NULL;
+    *n_out = 0;
+    if (!t)
+        return bm_fail(err, BM_EINVAL, "k-table is NULL");
+    if (t->npoints == 0 || !t->k || !t->energies)
+        return bm_fail(err, BM_EINVAL, "k-table is empty (%zu points)", t->npoints);
+    if (t->nbands == 0)
+        return bm_fail(err, BM_EINVAL, "k-table has no bands (nbands = 0)");
+    if (band >= t->nbands)
+        return bm_fail(err, BM_EINVAL, "band index %zu is out of range: the table has %zu band%s (0..%zu)",
+                       band, t->nbands, t->nbands == 1 ? "" : "s", t->nbands - 1);
+    table_ctx c;
+    memset(&c, 0, sizeof c);
+    bm_status s = check_options(opt, which, k_at, &c.radius, &c.degen, err);
+    if (s != BM_OK)
+        return s;
+    size_t np = t->npoints;
+    for (size_t m = 0; m < np; m++) {
+        for (int i = 0; i < 3; i++)
+            if (!isfinite(t->k[3 * m + i]))
+                return bm_fail(err, BM_EINVAL, "k-table point %zu: k[%d] = %g is not finite", m, i, t->k[3 * m + i]);
+        if (!isfinite(t->energies[band * np + m]))
+            return bm_fail(err, BM_EINVAL, "k-table point %zu, band %zu: energy %g is not finite",
+                           m, band, t->energies[band * np + m]);
+    }
+    /* principal directions of the sampled points: a line, a plane or a volume */
+    double cen[3] = { 0, 0, 0 }, cov[3][3] = { { 0 } };
+    for (size_t m = 0; m < np; m++)
+        for (int i = 0; i < 3; i++)
+            cen[i] += t->k[3 * m + i] / (double)np;
+    for (size_t m = 0; m < np; m++)
+        for (int i = 0; i < 3; i++)
+            for (int j = 0; j < 3; j++)
+                cov[i][j] += (t->k[3 * m + i] - cen[i]) * (t->k[3 * m + j] - cen[j]);
+    double ev[3], vec[3][3];
+    if (bm_symeig(cov, 3, ev, vec) != 0)
+        return bm_fail(err, BM_EINTERNAL, "eigen-decomposition of the point spread failed");
+    if (!(ev[2] > 0.0))
+        return bm_fail(err, BM_EINVAL, "all %zu k-table points coincide: no curvature can be fitted", np);
+    c.dims = 0;
+    for (int a = 2; a >= 0; a--) {
+        if (ev[a] > 1e-12 * ev[2]) {
+            memcpy(c.p[c.dims], vec[a], sizeof c.p[0]);
+            c.dims++;
+        }
+    }
+    bm_complete_basis(c.p, c.dims);
+    size_t npar = bm_quadric_nparams(c.dims);
+    if (np < npar)
+        return bm_fail(err, BM_EINVAL, "k-table has %zu points but a %d-dimensional quadric needs at "
+                       "least %zu (rank-deficient fit)", np, c.dims, npar);
+    c.t = t;
+    c.band = band;
+    c.nfit = 3 * npar;
+    c.dist = malloc(np * sizeof *c.dist);
+    c.order = malloc(np * sizeof *c.order);
+    c.pairs = malloc(np * sizeof *c.pairs);
+    c.u = malloc(np * sizeof *c.u);
+    c.e = malloc(np * sizeof *c.e);
+    c.w = malloc(np * sizeof *c.w);
+    bm_mass_tensor *res = malloc(2 * sizeof *res);
+    size_t nres = 0;
+    if (!c.dist || !c.order || !c.pairs || !c.u || !c.e || !c.w || !res) {
+        s = bm_fail(err, BM_ENOMEM, "out of memory for a k-table of %zu points", np);
+        goto done;
+    }
+    const double *eb = t->energies + band * np;
+    if (k_at) {
+        s = table_analyse(&c, k_at, 0, BM_EXTREMUM_MINIMUM, &res[0], err);
+        nres = s == BM_OK;
+    } else {
+        size_t lo = 0, hi = 0;
+        for (size_t m = 1; m < np; m++) {
+            if (eb[m] < eb[lo])
+                lo = m;
+            if (eb[m] > eb[hi])
+                hi = m;
+        }
+        if (which != BM_SEARCH_MAXIMUM) {
+            s = table_analyse(&c, t->k + 3 * lo, 1, BM_EXTREMUM_MINIMUM, &res[nres], err);
+            nres += s == BM_OK;
+        }
+        if (s == BM_OK && which != BM_SEARCH_MINIMUM) {
+            s = table_analyse(&c, t->k + 3 * hi, 1, BM_EXTREMUM_MAXIMUM, &res[nres], err);
+            nres += s == BM_OK;
+        }
+    }
+done:
+    free(c.dist);
+    free(c.order);
+    free(c.pairs);
+    free(c.u);
+    free(c.e);
+    free(c.w);
+    if (s != BM_OK) {
+        free(res);
+        return s;
+    }
+    *out = res;
+    *n_out = nres;
+    return BM_OK;
+}

@@ -1,0 +1,295 @@
+/* bm-materials.c: the built-in semiconductor parameter table. Every value
+ * carries its source here and in the matching source string. */
+#include "bm-materials.h"
+
+#include <math.h>
+#include <stdio.h>
+#include <string.h>
+
+/* Source strings (printed by hosts).  "from memory" marks values recalled,
+ * not re-read from the book or paper named. */
+#define SZE "Sze & Ng, Physics of Semiconductor Devices, 3rd ed. (2007), Appendix G; from memory"
+#define SZE_CHART "Sze & Ng, Physics of Semiconductor Devices, 3rd ed. (2007), impurity " \
+                  "ionisation-energy chart; from memory"
+#define THURMOND "Thurmond, J. Electrochem. Soc. 122, 1133 (1975); from memory"
+#define VMR "Vurgaftman, Meyer & Ram-Mohan, J. Appl. Phys. 89, 5815 (2001); from memory"
+#define MADELUNG "Madelung, Semiconductors: Data Handbook, 3rd ed. (2004); from memory"
+#define LAWAETZ "Lawaetz, Phys. Rev. B 4, 3460 (1971); from memory"
+#define LEVINSHTEIN "Levinshtein, Rumyantsev & Shur (eds.), Properties of Advanced " \
+                    "Semiconductor Materials: GaN, AlN, InN, BN, SiC, SiGe (Wiley, 2001); from memory"
+#define VOLM "Volm et al., Phys. Rev. B 53, 15409 (1996), cyclotron resonance; from memory"
+#define DERIVED_DOS_E "derived: Nv^(2/3) (m_l m_t1 m_t2)^(1/3) from the valley masses listed"
+#define DERIVED_DOS_H "derived: (m_hh^(3/2) + m_lh^(3/2))^(2/3) from the hole masses listed"
+#define DERIVED_LUTT "derived from the Luttinger parameters listed, along [001]: " \
+                     "m_hh = 1/(g1 - 2 g2), m_lh = 1/(g1 + 2 g2)"
+#define NONE "not in the sources used here"
+#define GDEF "degeneracy: common practice, no source"
+
+#define DON(el, e, src) { el, BM_DOPANT_DONOR, e, 2.0, src "; " GDEF }
+#define ACC(el, e, src) { el, BM_DOPANT_ACCEPTOR, e, 4.0, src "; " GDEF }
+
+static const bm_material table[] = {
+    {
+        .name = "Si", .long_name = "silicon", .structure = "diamond", .point_group = "Oh",
+        .direct_gap = 0,
+        /* Eg0 1.170 eV, alpha 4.73e-4 eV/K, beta 636 K: Thurmond 1975, from memory */
+        .gap = { 1.170, 4.73e-4, 636.0 }, .gap_source = THURMOND,
+        /* six Delta valleys near X along <100>, m_l 0.98, m_t 0.19: Sze & Ng 2007 App. G,
+         * from memory */
+        .electron = { "Delta", BM_SITE_INTERIOR, { 1, 0, 0 }, 6, 6.0, 0.98, 0.19, 0.19, SZE },
+        /* 1.08: Sze & Ng 2007 App. G, from memory */
+        .m_dos_electron = 1.08, .m_dos_electron_source = SZE,
+        /* Nv = 2.65e19 cm^-3 at 300 K (Sze & Ng 2007 App. G, from memory) gives
+         * (2.65e19 / 2.50941e19)^(2/3) = 1.04 */
+        .m_dos_hole = 1.04,
+        .m_dos_hole_source = "derived from Nv(300 K) = 2.65e19 cm^-3 of " SZE,
+        /* m_hh 0.49, m_lh 0.16: Sze & Ng 2007 App. G, from memory */
+        .m_heavy_hole = 0.49, .m_light_hole = 0.16, .hole_masses_source = SZE,
+        /* m_so 0.234, Delta_so 0.044 eV: Madelung 2004, from memory */
+        .m_split_off = 0.234, .split_off_ev = 0.044, .split_off_source = MADELUNG,
+        /* 4.285, 0.339, 1.446: Madelung 2004, from memory */
+        .luttinger = { 4.285, 0.339, 1.446 }, .luttinger_source = MADELUNG,
+        /* Sze & Ng 2007 ionisation-energy chart, from memory */
+        .ndopants = 7,
+        .dopants = { DON("P", 0.045, SZE_CHART), DON("As", 0.054, SZE_CHART),
+                     DON("Sb", 0.039, SZE_CHART), ACC("B", 0.045, SZE_CHART),
+                     ACC("Al", 0.067, SZE_CHART), ACC("Ga", 0.072, SZE_CHART),
+                     ACC("In", 0.16, SZE_CHART) },
+    },
+    {
+        .name = "Ge", .long_name = "germanium", .structure = "diamond", .point_group = "Oh",
+        .direct_gap = 0,
+        /* Eg0 0.7437 eV, alpha 4.774e-4 eV/K, beta 235 K: Thurmond 1975, from memory */
+        .gap = { 0.7437, 4.774e-4, 235.0 }, .gap_source = THURMOND,
+        /* eight L half-valleys on the zone faces = 4; m_l 1.64, m_t 0.082: Sze & Ng 2007
+         * App. G, from memory */
+        .electron = { "L", BM_SITE_FACE, { 1, 1, 1 }, 8, 4.0, 1.64, 0.082, 0.082, SZE },
+        /* 4^(2/3) (1.64 * 0.082^2)^(1/3) = 0.561 */
+        .m_dos_electron = 0.561, .m_dos_electron_source = DERIVED_DOS_E,
+        /* (0.28^1.5 + 0.044^1.5)^(2/3) = 0.292 */
+        .m_dos_hole = 0.292, .m_dos_hole_source = DERIVED_DOS_H,
+        /* m_hh 0.28, m_lh 0.044: Sze & Ng 2007 App. G, from memory */
+        .m_heavy_hole = 0.28, .m_light_hole = 0.044, .hole_masses_source = SZE,
+        /* m_so 0.084, Delta_so 0.29 eV: Madelung 2004, from memory */
+        .m_split_off = 0.084, .split_off_ev = 0.29, .split_off_source = MADELUNG,
+        /* 13.38, 4.24, 5.69: Lawaetz 1971, from memory */
+        .luttinger = { 13.38, 4.24, 5.69 }, .luttinger_source = LAWAETZ,
+        .ndopants = 7,
+        .dopants = { DON("P", 0.012, SZE_CHART), DON("As", 0.013, SZE_CHART),
+                     DON("Sb", 0.0096, SZE_CHART), ACC("B", 0.010, SZE_CHART),
+                     ACC("Al", 0.010, SZE_CHART), ACC("Ga", 0.011, SZE_CHART),
+                     ACC("In", 0.011, SZE_CHART) },
+    },
+    {
+        .name = "GaAs", .long_name = "gallium arsenide", .structure = "zincblende",
+        .point_group = "Td", .direct_gap = 1,
+        /* Eg0 1.519 eV, alpha 5.405e-4 eV/K, beta 204 K: Vurgaftman et al. 2001, from memory */
+        .gap = { 1.519, 5.405e-4, 204.0 }, .gap_source = VMR,
+        /* Gamma valley, m_e 0.067: Vurgaftman et al. 2001, from memory */
+        .electron = { "Gamma", BM_SITE_GAMMA, { 0, 0, 0 }, 1, 1.0, 0.067, 0.067, 0.067, VMR },
+        .m_dos_electron = 0.067,
+        .m_dos_electron_source = "single isotropic valley: the valley mass, " VMR,
+        /* (0.3497^1.5 + 0.0901^1.5)^(2/3) = 0.380 */
+        .m_dos_hole = 0.380, .m_dos_hole_source = DERIVED_DOS_H,
+        /* 1/(6.98 - 4.12) = 0.350, 1/(6.98 + 4.12) = 0.0901 */
+        .m_heavy_hole = 0.350, .m_light_hole = 0.0901, .hole_masses_source = DERIVED_LUTT,
+        /* m_so 0.172, Delta_so 0.341 eV: Vurgaftman et al. 2001, from memory */
+        .m_split_off = 0.172, .split_off_ev = 0.341, .split_off_source = VMR,
+        .luttinger = { 6.98, 2.06, 2.93 }, .luttinger_source = VMR,
+        /* Sze & Ng 2007 chart, from memory */
+        .ndopants = 7,
+        .dopants = { DON("Si", 0.0058, SZE_CHART), DON("S", 0.006, SZE_CHART),
+                     DON("Se", 0.0059, SZE_CHART), DON("Te", 0.0058, SZE_CHART),
+                     ACC("C", 0.026, SZE_CHART), ACC("Be", 0.028, SZE_CHART),
+                     ACC("Zn", 0.031, SZE_CHART) },
+    },
+    {
+        .name = "InP", .long_name = "indium phosphide", .structure = "zincblende",
+        .point_group = "Td", .direct_gap = 1,
+        /* 1.4236 eV, 3.63e-4 eV/K, 162 K: Vurgaftman et al. 2001, from memory */
+        .gap = { 1.4236, 3.63e-4, 162.0 }, .gap_source = VMR,
+        .electron = { "Gamma", BM_SITE_GAMMA, { 0, 0, 0 }, 1, 1.0, 0.0795, 0.0795, 0.0795, VMR },
+        .m_dos_electron = 0.0795,
+        .m_dos_electron_source = "single isotropic valley: the valley mass, " VMR,
+        .m_dos_hole = 0.570, .m_dos_hole_source = DERIVED_DOS_H,
+        /* 1/(5.08 - 3.20) = 0.532, 1/(5.08 + 3.20) = 0.121 */
+        .m_heavy_hole = 0.532, .m_light_hole = 0.121, .hole_masses_source = DERIVED_LUTT,
+        .m_split_off = 0.21, .split_off_ev = 0.108, .split_off_source = VMR,
+        .luttinger = { 5.08, 1.60, 2.10 }, .luttinger_source = VMR,
+        .ndopants = 2,
+        .dopants = { DON("Si", 0.0057, MADELUNG), ACC("Zn", 0.035, MADELUNG) },
+    },
+    {
+        .name = "InAs", .long_name = "indium arsenide", .structure = "zincblende",
+        .point_group = "Td", .direct_gap = 1,
+        /* 0.417 eV, 2.76e-4 eV/K, 93 K: Vurgaftman et al. 2001, from memory */
+        .gap = { 0.417, 2.76e-4, 93.0 }, .gap_source = VMR,
+        .electron = { "Gamma", BM_SITE_GAMMA, { 0, 0, 0 }, 1, 1.0, 0.026, 0.026, 0.026, VMR },
+        .m_dos_electron = 0.026,
+        .m_dos_electron_source = "single isotropic valley: the valley mass, " VMR,
+        .m_dos_hole = 0.338, .m_dos_hole_source = DERIVED_DOS_H,
+        /* 1/(20.0 - 17.0) = 0.333, 1/(20.0 + 17.0) = 0.0270 */
+        .m_heavy_hole = 0.333, .m_light_hole = 0.0270, .hole_masses_source = DERIVED_LUTT,
+        .m_split_off = 0.14, .split_off_ev = 0.39, .split_off_source = VMR,
+        .luttinger = { 20.0, 8.5, 9.2 }, .luttinger_source = VMR,
+        .ndopants = 0,   /* shallow levels within a few meV of the band: " NONE " */
+    },
+    {
+        .name = "InSb", .long_name = "indium antimonide", .structure = "zincblende",
+        .point_group = "Td", .direct_gap = 1,
+        /* 0.235 eV, 3.2e-4 eV/K, 170 K: Vurgaftman et al. 2001, from memory */
+        .gap = { 0.235, 3.2e-4, 170.0 }, .gap_source = VMR,
+        .electron = { "Gamma", BM_SITE_GAMMA, { 0, 0, 0 }, 1, 1.0, 0.0135, 0.0135, 0.0135, VMR },
+        .m_dos_electron = 0.0135,
+        .m_dos_electron_source = "single isotropic valley: the valley mass, " VMR,
+        .m_dos_hole = 0.266, .m_dos_hole_source = DERIVED_DOS_H,
+        /* 1/(34.8 - 31.0) = 0.263, 1/(34.8 + 31.0) = 0.0152 */
+        .m_heavy_hole = 0.263, .m_light_hole = 0.0152, .hole_masses_source = DERIVED_LUTT,
+        .m_split_off = 0.11, .split_off_ev = 0.81, .split_off_source = VMR,
+        .luttinger = { 34.8, 15.5, 16.5 }, .luttinger_source = VMR,
+        .ndopants = 0,
+    },
+    {
+        .name = "GaN", .long_name = "gallium nitride (wurtzite)", .structure = "wurtzite",
+        .point_group = "C6v", .direct_gap = 1,
+        /* 3.510 eV, 9.09e-4 eV/K, 830 K: Vurgaftman et al. 2001 (wurtzite), from memory */
+        .gap = { 3.510, 9.09e-4, 830.0 }, .gap_source = VMR,
+        /* m_e 0.20, taken isotropic: Vurgaftman et al. 2001, from memory */
+        .electron = { "Gamma", BM_SITE_GAMMA, { 0, 0, 0 }, 1, 1.0, 0.20, 0.20, 0.20, VMR },
+        .m_dos_electron = 0.20,
+        .m_dos_electron_source = "single isotropic valley: the valley mass, " VMR,
+        /* (1.4^1.5 + 0.3^1.5)^(2/3) = 1.49 */
+        .m_dos_hole = 1.49, .m_dos_hole_source = DERIVED_DOS_H,
+        /* m_hh 1.4, m_lh 0.3, split-off (crystal-field) band 0.6: Levinshtein 2001,
+         * from memory; Delta_so 0.017 eV: Vurgaftman et al. 2001, from memory */
+        .m_heavy_hole = 1.4, .m_light_hole = 0.3, .hole_masses_source = LEVINSHTEIN,
+        .m_split_off = 0.6, .split_off_ev = 0.017,
+        .split_off_source = "mass: " LEVINSHTEIN "; energy: " VMR,
+        .luttinger = { NAN, NAN, NAN },
+        .luttinger_source = "not applicable: wurtzite valence bands need the A1..A6 set",
+        .ndopants = 2,
+        .dopants = { DON("Si", 0.015, LEVINSHTEIN), ACC("Mg", 0.17, LEVINSHTEIN) },
+    },
+    {
+        .name = "4H-SiC", .long_name = "silicon carbide (4H)", .structure = "4H polytype",
+        .point_group = "C6v", .direct_gap = 0,
+        /* Eg(T) = 3.265 - 6.5e-4 T^2 / (T + 1300): Levinshtein 2001, from memory */
+        .gap = { 3.265, 6.5e-4, 1300.0 }, .gap_source = LEVINSHTEIN,
+        /* three M valleys (six M points on the zone face, counted 1/2): m along
+         * Gamma-M 0.58, along M-K 0.31, along c 0.33: Volm et al. 1996, from memory */
+        .electron = { "M", BM_SITE_FACE, { 1, 0, 0 }, 6, 3.0, 0.58, 0.31, 0.33, VOLM },
+        /* 3^(2/3) (0.58 * 0.31 * 0.33)^(1/3) = 0.811 */
+        .m_dos_electron = 0.811, .m_dos_electron_source = DERIVED_DOS_E,
+        /* 1.0: Levinshtein 2001, from memory */
+        .m_dos_hole = 1.0, .m_dos_hole_source = LEVINSHTEIN,
+        .m_heavy_hole = NAN, .m_light_hole = NAN, .hole_masses_source = NONE,
+        .m_split_off = NAN, .split_off_ev = NAN, .split_off_source = NONE,
+        .luttinger = { NAN, NAN, NAN },
+        .luttinger_source = "not applicable: hexagonal polytype",
+        .ndopants = 4,
+        .dopants = { DON("N (hexagonal site)", 0.052, LEVINSHTEIN),
+                     DON("N (cubic site)", 0.092, LEVINSHTEIN),
+                     ACC("Al", 0.19, LEVINSHTEIN), ACC("B", 0.29, LEVINSHTEIN) },
+    },
+    {
+        .name = "AlAs", .long_name = "aluminium arsenide", .structure = "zincblende",
+        .point_group = "Td", .direct_gap = 0,
+        /* X gap 2.24 eV, 7.0e-4 eV/K, 530 K: Vurgaftman et al. 2001, from memory */
+        .gap = { 2.24, 7.0e-4, 530.0 }, .gap_source = VMR,
+        /* X valleys (six on the zone faces, counted 1/2): m_l 0.97, m_t 0.22:
+         * Vurgaftman et al. 2001, from memory */
+        .electron = { "X", BM_SITE_FACE, { 1, 0, 0 }, 6, 3.0, 0.97, 0.22, 0.22, VMR },
+        /* 3^(2/3) (0.97 * 0.22^2)^(1/3) = 0.750 */
+        .m_dos_electron = 0.750, .m_dos_electron_source = DERIVED_DOS_E,
+        .m_dos_hole = 0.546, .m_dos_hole_source = DERIVED_DOS_H,
+        /* 1/(3.76 - 1.64) = 0.472, 1/(3.76 + 1.64) = 0.185 */
+        .m_heavy_hole = 0.472, .m_light_hole = 0.185, .hole_masses_source = DERIVED_LUTT,
+        .m_split_off = 0.28, .split_off_ev = 0.28, .split_off_source = VMR,
+        .luttinger = { 3.76, 0.82, 1.42 }, .luttinger_source = VMR,
+        .ndopants = 0,
+    },
+    {
+        .name = "GaP", .long_name = "gallium phosphide", .structure = "zincblende",
+        .point_group = "Td", .direct_gap = 0,
+        /* X gap 2.35 eV, 5.771e-4 eV/K, 372 K: Vurgaftman et al. 2001, from memory */
+        .gap = { 2.35, 5.771e-4, 372.0 }, .gap_source = VMR,
+        /* X valleys: m_l 2.0, m_t 0.253: Vurgaftman et al. 2001, from memory */
+        .electron = { "X", BM_SITE_FACE, { 1, 0, 0 }, 6, 3.0, 2.0, 0.253, 0.253, VMR },
+        /* 3^(2/3) (2.0 * 0.253^2)^(1/3) = 1.048 */
+        .m_dos_electron = 1.048, .m_dos_electron_source = DERIVED_DOS_E,
+        .m_dos_hole = 0.422, .m_dos_hole_source = DERIVED_DOS_H,
+        /* 1/(4.05 - 0.98) = 0.326, 1/(4.05 + 0.98) = 0.199 */
+        .m_heavy_hole = 0.326, .m_light_hole = 0.199, .hole_masses_source = DERIVED_LUTT,
+        .m_split_off = 0.25, .split_off_ev = 0.08, .split_off_source = VMR,
+        .luttinger = { 4.05, 0.49, 2.93 }, .luttinger_source = VMR,
+        .ndopants = 4,
+        .dopants = { DON("S", 0.107, MADELUNG), DON("Te", 0.093, MADELUNG),
+                     ACC("Zn", 0.064, MADELUNG), ACC("Mg", 0.054, MADELUNG) },
+    },
+};
+
+#define NTABLE (sizeof table / sizeof table[0])
+
+const char *bm_valley_site_name(bm_valley_site s)
+{
+    switch (s) {
+    case BM_SITE_GAMMA:    return "gamma";
+    case BM_SITE_INTERIOR: return "interior";
+    case BM_SITE_FACE:     return "face";
+    }
+    return "unknown";
+}
+
+size_t bm_material_count(void)
+{
+    return NTABLE;
+}
+
+const bm_material *bm_material_at(size_t i)
+{
+    return i < NTABLE ? &table[i] : NULL;
+}
+
+static int same_ci(const char *a, const char *b)
+{
+    for (; *a && *b; a++, b++) {
+        char x = *a, y = *b;
+        if (x >= 'A' && x <= 'Z')
+            x = (char)(x - 'A' + 'a');
+        if (y >= 'A' && y <= 'Z')
+            y = (char)(y - 'A' + 'a');
+        if (x != y)
+            return 0;
+    }
+    return *a == *b;
+}
+
+const bm_material *bm_material_find(const char *name, bm_errbuf *err)
+{
+    if (!name) {
+        bm_fail(err, BM_EINVAL, "materials: no material name given");
+        return NULL;
+    }
+    for (size_t i = 0; i < NTABLE; i++)
+        if (same_ci(name, table[i].name) || same_ci(name, table[i].long_name))
+            return &table[i];
+    char known[256] = "";
+    size_t len = 0;
+    for (size_t i = 0; i < NTABLE && len < sizeof known; i++) {
+        int w = snprintf(known + len, sizeof known - len, "%s%s", i ? ", " : "",
+                         table[i].name);
+        if (w < 0)
+            break;
+        len += (size_t)w;
+    }
+    bm_fail(err, BM_EINVAL, "materials: unknown material '%.100s' (built in: %s)", name, known);
+    return NULL;
+}
+
+bm_status bm_material_band_gap(const bm_material *m, double t_k, double *eg_ev,
+                               bm_warnings *w, bm_errbuf *err)
+{
+    if (!m)
+        return bm_fail(err, BM_EINVAL, "materials: no material given");
+    return bm_bandgap_varshni(&m->gap, t_k, eg_ev, w, err);
+}

@@ -1,0 +1,460 @@
+/* bm-valleys.c: stars of valleys under a point group plus time reversal,
+ * and population-weighted conductivity and density-of-states masses. */
+#include "bm-valleys.h"
+#include "bm-mat3.h"
+#include "bm-units.h"
+
+#include <math.h>
+#include <string.h>
+#include <gsl/gsl_eigen.h>
+#include <gsl/gsl_errno.h>
+#include <gsl/gsl_matrix.h>
+#include <gsl/gsl_sf_fermi_dirac.h>
+#include <gsl/gsl_vector.h>
+
+#define AXES_SNAP_TOL 1e-3     /* re-orthonormalise below, reject above */
+#define POS_TOL 1e-6           /* equality of unit position vectors */
+#define MASS_LOW 0.01          /* typical range, m_e (common practice, no source) */
+#define MASS_HIGH 10.0
+
+static bm_status check_mass(double m, const char *what, int i, bm_errbuf *err)
+{
+    if (!isfinite(m) || m <= 0.0)
+        return bm_fail(err, BM_EINVAL,
+                       "%s %d is %g m_e: masses must be positive and finite", what, i, m);
+    return BM_OK;
+}
+
+bm_status bm_inv_mass_principal(const double *inv_mass, double masses[3],
+                                double axes[3][3], bm_errbuf *err)
+{
+    double a[9];
+    for (int i = 0; i < 3; i++)
+        for (int j = 0; j < 3; j++) {
+            if (!isfinite(BM_M3(inv_mass, i, j)))
+                return bm_fail(err, BM_EINVAL,
+                               "inverse mass tensor entry [%d][%d] is not finite", i, j);
+            a[3 * i + j] = 0.5 * (BM_M3(inv_mass, i, j) + BM_M3(inv_mass, j, i));
+        }
+    gsl_matrix_view av = gsl_matrix_view_array(a, 3, 3);
+    gsl_vector *eval = gsl_vector_alloc(3);
+    gsl_matrix *evec = gsl_matrix_alloc(3, 3);
+    gsl_eigen_symmv_workspace *ws = gsl_eigen_symmv_alloc(3);
+    if (!eval || !evec || !ws) {
+        gsl_vector_free(eval);
+        gsl_matrix_free(evec);
+        gsl_eigen_symmv_free(ws);
+        return bm_fail(err, BM_ENOMEM, "inverse mass tensor: out of memory");
+    }
+    int rc = gsl_eigen_symmv(&av.matrix, eval, evec, ws);
+    if (rc == GSL_SUCCESS)
+        rc = gsl_eigen_symmv_sort(eval, evec, GSL_EIGEN_SORT_VAL_DESC);
+    bm_status st = BM_OK;
+    if (rc != GSL_SUCCESS) {
+        st = bm_fail(err, BM_EINTERNAL, "inverse mass tensor: eigen-decomposition failed (%s)",
+                     gsl_strerror(rc));
+    } else {
+        /* Descending inverse masses give ascending masses. */
+        for (int i = 0; i < 3 && st == BM_OK; i++) {
+            double lam = gsl_vector_get(eval, (size_t)i);
+            if (!(lam > 0.0)) {
+                st = bm_fail(err, BM_EINVAL,
+                             "inverse mass tensor is not positive definite "
+                             "(eigenvalue %d is %g 1/m_e)", i, lam);
+                break;
+            }
+            masses[i] = 1.0 / lam;
+            for (int j = 0; j < 3; j++)
+                axes[i][j] = gsl_matrix_get(evec, (size_t)j, (size_t)i);
+        }
+    }
+    gsl_vector_free(eval);
+    gsl_matrix_free(evec);
+    gsl_eigen_symmv_free(ws);
+    return st;
+}
+
+bm_status bm_valley_shape_spheroid(double m_long, double m_trans, const double axis[3],
+                                   bm_valley_shape *out, bm_errbuf *err)
+{
+    if (!isfinite(m_long) || m_long <= 0.0)
+        return bm_fail(err, BM_EINVAL,
+                       "longitudinal mass is %g m_e: masses must be positive and finite",
+                       m_long);
+    if (!isfinite(m_trans) || m_trans <= 0.0)
+        return bm_fail(err, BM_EINVAL,
+                       "transverse mass is %g m_e: masses must be positive and finite",
+                       m_trans);
+    if (!axis)
+        return bm_fail(err, BM_EINVAL, "spheroidal valley: no axis given");
+    double len = bm_v3_norm(axis);
+    if (!isfinite(len) || len < 1e-12)
+        return bm_fail(err, BM_EINVAL,
+                       "spheroidal valley: axis [%g, %g, %g] is zero or not finite",
+                       axis[0], axis[1], axis[2]);
+    double u[3] = {axis[0] / len, axis[1] / len, axis[2] / len};
+    /* Two unit vectors across u: start from the Cartesian axis least aligned with u. */
+    int k = 0;
+    for (int i = 1; i < 3; i++)
+        if (fabs(u[i]) < fabs(u[k]))
+            k = i;
+    double e[3] = {0, 0, 0};
+    e[k] = 1.0;
+    double d = bm_v3_dot(e, u);
+    double v[3] = {e[0] - d * u[0], e[1] - d * u[1], e[2] - d * u[2]};
+    double vl = bm_v3_norm(v);
+    for (int i = 0; i < 3; i++)
+        v[i] /= vl;
+    double w[3] = {u[1] * v[2] - u[2] * v[1], u[2] * v[0] - u[0] * v[2],
+                   u[0] * v[1] - u[1] * v[0]};
+    out->masses[0] = m_long;
+    out->masses[1] = m_trans;
+    out->masses[2] = m_trans;
+    memcpy(out->axes[0], u, sizeof u);
+    memcpy(out->axes[1], v, sizeof v);
+    memcpy(out->axes[2], w, sizeof w);
+    return BM_OK;
+}
+
+bm_status bm_valley_shape_normalise(bm_valley_shape *shape, bm_warnings *warn,
+                                    bm_errbuf *err)
+{
+    if (!shape)
+        return bm_fail(err, BM_EINVAL, "valley: no shape given");
+    for (int i = 0; i < 3; i++) {
+        bm_status st = check_mass(shape->masses[i], "principal mass", i, err);
+        if (st != BM_OK)
+            return st;
+        for (int j = 0; j < 3; j++)
+            if (!isfinite(shape->axes[i][j]))
+                return bm_fail(err, BM_EINVAL, "valley: axis %d component %d is not finite",
+                               i, j);
+    }
+    double oe = bm_m3_orthogonality_error(BM_M3P(shape->axes));
+    if (oe > AXES_SNAP_TOL)
+        return bm_fail(err, BM_EINVAL,
+                       "valley: principal axes are not orthonormal (largest entry of "
+                       "A A^T - 1 is %.3g; at most %.0e is corrected)", oe, AXES_SNAP_TOL);
+    double (*a)[3] = shape->axes;   /* Gram-Schmidt in the given order */
+    for (int i = 0; i < 3; i++) {
+        for (int j = 0; j < i; j++) {
+            double d = bm_v3_dot(a[i], a[j]);
+            for (int c = 0; c < 3; c++)
+                a[i][c] -= d * a[j][c];
+        }
+        double l = bm_v3_norm(a[i]);
+        for (int c = 0; c < 3; c++)
+            a[i][c] /= l;
+    }
+    if (oe > 1e-9)
+        bm_warn(warn, "valley principal axes were re-orthonormalised "
+                "(largest entry of A A^T - 1 was %.2g)", oe);
+    return BM_OK;
+}
+
+static void shape_inv_mass(const bm_valley_shape *s, double inv[3][3])
+{
+    for (int i = 0; i < 3; i++)
+        for (int j = 0; j < 3; j++) {
+            double t = 0.0;
+            for (int k = 0; k < 3; k++)
+                t += s->axes[k][i] * s->axes[k][j] / s->masses[k];
+            inv[i][j] = t;
+        }
+}
+
+static bm_status check_shape(const bm_valley_shape *s, bm_errbuf *err)
+{
+    if (!s)
+        return bm_fail(err, BM_EINVAL, "valley: no shape given");
+    for (int i = 0; i < 3; i++) {
+        bm_status st = check_mass(s->masses[i], "principal mass", i, err);
+        if (st != BM_OK)
+            return st;
+    }
+    double oe = bm_m3_orthogonality_error(BM_M3P(s->axes));
+    if (!(oe <= 1e-6))
+        return bm_fail(err, BM_EINVAL,
+                       "valley: principal axes are not orthonormal (error %.3g); build the "
+                       "shape with bm_valley_shape_general to correct small errors", oe);
+    return BM_OK;
+}
+
+bm_status bm_valley_from_shape(const bm_valley_shape *shape, const double direction[3],
+                               double weight, double energy_offset_ev,
+                               bm_valley *out, bm_errbuf *err)
+{
+    bm_status st = check_shape(shape, err);
+    if (st != BM_OK)
+        return st;
+    if (!isfinite(weight) || weight <= 0.0)
+        return bm_fail(err, BM_EINVAL, "valley weight is %g: must be positive", weight);
+    if (!isfinite(energy_offset_ev))
+        return bm_fail(err, BM_EINVAL, "valley energy offset is not finite");
+    memset(out, 0, sizeof *out);
+    if (direction) {
+        double l = bm_v3_norm(direction);
+        if (!isfinite(l))
+            return bm_fail(err, BM_EINVAL, "valley direction is not finite");
+        if (l > 0.0)
+            for (int i = 0; i < 3; i++)
+                out->direction[i] = direction[i] / l;
+    }
+    shape_inv_mass(shape, out->inv_mass);
+    st = bm_inv_mass_principal(BM_M3P(out->inv_mass), out->masses, out->axes, err);
+    if (st != BM_OK)
+        return st;
+    out->weight = weight;
+    out->energy_offset_ev = energy_offset_ev;
+    return BM_OK;
+}
+
+bm_status bm_valley_star_build(const bm_valley_shape *shape, bm_valley_site site,
+                               const double direction[3], const bm_point_group *g,
+                               bm_valley_star *out, bm_errbuf *err)
+{
+    bm_status st = check_shape(shape, err);
+    if (st != BM_OK)
+        return st;
+    if (!g || g->order < 1 || g->order > BM_POINT_GROUP_MAX_ORDER)
+        return bm_fail(err, BM_EINVAL, "valley star: no valid point group given");
+    if (!out)
+        return bm_fail(err, BM_EINVAL, "valley star: no output given");
+    if (site != BM_SITE_GAMMA && site != BM_SITE_INTERIOR && site != BM_SITE_FACE)
+        return bm_fail(err, BM_EINVAL, "valley star: unknown site %d", (int)site);
+    memset(out, 0, sizeof *out);
+
+    double d[3] = {0, 0, 0};
+    if (site != BM_SITE_GAMMA) {
+        if (!direction)
+            return bm_fail(err, BM_EINVAL, "valley star: a %s valley needs a position direction",
+                           site == BM_SITE_FACE ? "face" : "interior");
+        double l = bm_v3_norm(direction);
+        if (!isfinite(l) || l < 1e-12)
+            return bm_fail(err, BM_EINVAL,
+                           "valley star: position direction [%g, %g, %g] is zero or not finite",
+                           direction[0], direction[1], direction[2]);
+        for (int i = 0; i < 3; i++)
+            d[i] = direction[i] / l;
+    }
+
+    double inv0[3][3];
+    shape_inv_mass(shape, inv0);
+
+    double sum[BM_STAR_MAX][3][3];
+    double first[BM_STAR_MAX][3][3];
+    double spread[BM_STAR_MAX];
+    int count[BM_STAR_MAX];
+    size_t n = 0;
+
+    /* The group plus time reversal: R and -R for every R (a set of at most
+     * 2 |G| elements, repeats harmless since they give the same image). -R
+     * maps the tensor exactly like R. */
+    for (int o = 0; o < g->order; o++) {
+        for (int sgn = 1; sgn >= -1; sgn -= 2) {
+            double r[9];
+            for (int i = 0; i < 9; i++)
+                r[i] = sgn * BM_M3CP(g->ops[o])[i];
+            double p[3];
+            bm_m3_apply(p, r, d);
+            double t[3][3];
+            bm_m3_rotate_tensor(BM_M3P(t), r, BM_M3P(inv0));
+            size_t slot = n;
+            for (size_t s = 0; s < n; s++) {
+                double diff = 0.0;
+                for (int i = 0; i < 3; i++)
+                    diff = fmax(diff, fabs(out->valleys[s].direction[i] - p[i]));
+                if (diff < POS_TOL) {
+                    slot = s;
+                    break;
+                }
+            }
+            if (slot == n) {
+                if (n >= BM_STAR_MAX)
+                    return bm_fail(err, BM_EINTERNAL, "valley star: more than %d positions",
+                                   BM_STAR_MAX);
+                memcpy(out->valleys[n].direction, p, sizeof p);
+                memset(sum[n], 0, sizeof sum[n]);
+                bm_m3_copy(BM_M3P(first[n]), BM_M3P(t));
+                spread[n] = 0.0;
+                count[n] = 0;
+                n++;
+            }
+            for (int i = 0; i < 3; i++)
+                for (int j = 0; j < 3; j++)
+                    sum[slot][i][j] += t[i][j];
+            spread[slot] = fmax(spread[slot], bm_m3_maxdiff(BM_M3P(t), BM_M3P(first[slot])));
+            count[slot]++;
+        }
+    }
+
+    double scale = 1.0 / fmin(fmin(shape->masses[0], shape->masses[1]), shape->masses[2]);
+    double worst = 0.0;
+    for (size_t s = 0; s < n; s++) {
+        bm_valley *v = &out->valleys[s];
+        for (int i = 0; i < 3; i++) {
+            if (fabs(v->direction[i]) < 1e-15)
+                v->direction[i] = 0.0;   /* no negative zeros in output */
+            for (int j = 0; j < 3; j++)
+                v->inv_mass[i][j] = sum[s][i][j] / count[s];
+        }
+        worst = fmax(worst, spread[s] / scale);
+        st = bm_inv_mass_principal(BM_M3P(v->inv_mass), v->masses, v->axes, err);
+        if (st != BM_OK)
+            return st;
+        v->weight = (site == BM_SITE_FACE) ? 0.5 : 1.0;
+        v->energy_offset_ev = 0.0;
+        v->population = 0.0;
+        out->valley_count += v->weight;
+    }
+    out->n = n;
+    if (worst > 1e-9)
+        bm_warn(&out->warnings,
+                "the valley's mass tensor is not invariant under the operations of %s that "
+                "keep its position (relative change %.2g); each valley holds the "
+                "symmetrised average", g->name[0] ? g->name : "the group", worst);
+    return BM_OK;
+}
+
+/* ln F_1/2(eta), F normalised with 1/Gamma(3/2); F -> e^eta for eta << 0. */
+static double log_fd_half(double eta)
+{
+    if (eta < -40.0)
+        return eta;
+    gsl_sf_result r;
+    int rc = gsl_sf_fermi_dirac_half_e(eta, &r);
+    if (rc != GSL_SUCCESS || !(r.val > 0.0))
+        return eta < 0.0 ? eta : 1.5 * log(eta) - lgamma(2.5);
+    return log(r.val);
+}
+
+bm_status bm_valley_average_compute(bm_valley *valleys, size_t n, const bm_population *pop,
+                                    bm_valley_average *out, bm_errbuf *err)
+{
+    if (!valleys || n == 0)
+        return bm_fail(err, BM_EINVAL, "valley average: no valleys given");
+    if (!out)
+        return bm_fail(err, BM_EINVAL, "valley average: no output given");
+    memset(out, 0, sizeof *out);
+    bm_population eq = {BM_POPULATION_EQUAL, 0.0, 0.0};
+    if (!pop)
+        pop = &eq;
+
+    double emin = INFINITY, emax = -INFINITY;
+    for (size_t v = 0; v < n; v++) {
+        const bm_valley *x = &valleys[v];
+        if (!isfinite(x->weight) || x->weight <= 0.0)
+            return bm_fail(err, BM_EINVAL, "valley %zu: weight is %g, must be positive",
+                           v, x->weight);
+        if (!isfinite(x->energy_offset_ev))
+            return bm_fail(err, BM_EINVAL, "valley %zu: energy offset is not finite", v);
+        for (int i = 0; i < 3; i++) {
+            if (!isfinite(x->masses[i]) || x->masses[i] <= 0.0)
+                return bm_fail(err, BM_EINVAL,
+                               "valley %zu: principal mass %d is %g m_e, must be positive",
+                               v, i, x->masses[i]);
+            for (int j = 0; j < 3; j++)
+                if (!isfinite(x->inv_mass[i][j]))
+                    return bm_fail(err, BM_EINVAL,
+                                   "valley %zu: inverse mass entry [%d][%d] is not finite",
+                                   v, i, j);
+        }
+        emin = fmin(emin, x->energy_offset_ev);
+        emax = fmax(emax, x->energy_offset_ev);
+    }
+    int offsets = emax > emin;
+
+    double kt = 0.0;
+    switch (pop->kind) {
+    case BM_POPULATION_EQUAL:
+        if (offsets)
+            return bm_fail(err, BM_EINVAL,
+                           "valley average: energy offsets span %g eV but equal populations "
+                           "were asked for; give a temperature", emax - emin);
+        break;
+    case BM_POPULATION_BOLTZMANN:
+    case BM_POPULATION_FERMI:
+        if (!isfinite(pop->temperature_k) || pop->temperature_k < 0.0)
+            return bm_fail(err, BM_EINVAL, "valley average: temperature %g K is not valid",
+                           pop->temperature_k);
+        if (pop->temperature_k == 0.0 && offsets)
+            return bm_fail(err, BM_EINVAL,
+                           "valley average: temperature is 0 K but the energy offsets differ "
+                           "(by up to %g eV); populations need T > 0", emax - emin);
+        if (pop->kind == BM_POPULATION_FERMI && !isfinite(pop->fermi_level_ev))
+            return bm_fail(err, BM_EINVAL, "valley average: Fermi level is not finite");
+        kt = BM_KB_EV * pop->temperature_k;
+        break;
+    default:
+        return bm_fail(err, BM_EINVAL, "valley average: unknown population kind %d",
+                       (int)pop->kind);
+    }
+
+    /* log occupation of each valley relative to one at the lowest edge */
+    double lref = 0.0;
+    if (pop->kind == BM_POPULATION_FERMI && kt > 0.0)
+        lref = log_fd_half((pop->fermi_level_ev - emin) / kt);
+
+    double ptot = 0.0;
+    double inv[3][3] = {{0}};
+    for (size_t v = 0; v < n; v++) {
+        bm_valley *x = &valleys[v];
+        double lr = 0.0;
+        if (kt > 0.0) {
+            if (pop->kind == BM_POPULATION_BOLTZMANN)
+                lr = -(x->energy_offset_ev - emin) / kt;
+            else
+                lr = log_fd_half((pop->fermi_level_ev - x->energy_offset_ev) / kt) - lref;
+        }
+        double p = x->weight * sqrt(x->masses[0] * x->masses[1] * x->masses[2]) * exp(lr);
+        x->population = p;
+        ptot += p;
+        out->valley_count += x->weight;
+        out->effective_valley_count += x->weight * exp(lr);
+        for (int i = 0; i < 3; i++)
+            for (int j = 0; j < 3; j++)
+                inv[i][j] += p * x->inv_mass[i][j];
+    }
+    if (!(ptot > 0.0) || !isfinite(ptot))
+        return bm_fail(err, BM_EINVAL, "valley average: populations vanish or overflow "
+                       "(offsets %g..%g eV at %g K)", emin, emax, pop->temperature_k);
+    for (size_t v = 0; v < n; v++)
+        valleys[v].population /= ptot;
+    for (int i = 0; i < 3; i++)
+        for (int j = 0; j < 3; j++)
+            out->conductivity_inv_mass[i][j] = inv[i][j] / ptot;
+    for (int i = 0; i < 3; i++)
+        for (int j = 0; j < i; j++) {
+            double s = 0.5 * (out->conductivity_inv_mass[i][j] + out->conductivity_inv_mass[j][i]);
+            out->conductivity_inv_mass[i][j] = out->conductivity_inv_mass[j][i] = s;
+        }
+
+    bm_status st = bm_inv_mass_principal(BM_M3P(out->conductivity_inv_mass), out->conductivity_masses,
+                                         out->conductivity_axes, err);
+    if (st != BM_OK)
+        return st;
+    if (!bm_m3_inverse(BM_M3P(out->conductivity_mass_tensor), BM_M3P(out->conductivity_inv_mass), 0.0))
+        return bm_fail(err, BM_EINTERNAL, "valley average: conductivity tensor is singular");
+    double tr = out->conductivity_inv_mass[0][0] + out->conductivity_inv_mass[1][1]
+              + out->conductivity_inv_mass[2][2];
+    out->conductivity_mass = 3.0 / tr;
+    double mlo = out->conductivity_masses[0], mhi = out->conductivity_masses[2];
+    out->conductivity_isotropic = (mhi - mlo) <= 1e-9 * mhi;
+    out->dos_mass = pow(ptot, 2.0 / 3.0);
+
+    for (size_t v = 0; v < n; v++)
+        for (int i = 0; i < 3; i++)
+            if (valleys[v].masses[i] < MASS_LOW || valleys[v].masses[i] > MASS_HIGH) {
+                bm_warn(&out->warnings,
+                        "valley %zu has a principal mass of %g m_e, outside the usual "
+                        "%g..%g m_e", v, valleys[v].masses[i], MASS_LOW, MASS_HIGH);
+                v = n;   /* once is enough */
+                break;
+            }
+    if (pop->kind == BM_POPULATION_FERMI && kt > 0.0 && (pop->fermi_level_ev - emin) / kt > -3.0)
+        bm_warn(&out->warnings,
+                "the Fermi level lies %.3g kT from the lowest valley edge: degenerate "
+                "statistics, masses depend on the Fermi level",
+                (pop->fermi_level_ev - emin) / kt);
+    return BM_OK;
+}

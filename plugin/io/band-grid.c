@@ -1,0 +1,462 @@
+/* band-grid.c: reader for the band grid document, format "bandmass-grid-1".
+ *
+ * The document is a JSON object:
+ *   "format": "bandmass-grid-1"                       (required)
+ *   "reciprocal_vectors_inv_angstrom": [b1, b2, b3]    rows, 1/Angstrom, 2 pi included
+ *   or "lattice_vectors_angstrom": [a1, a2, a3]        rows, Angstrom; then
+ *                                                      b = 2 pi A^-T (b_i . a_j = 2 pi d_ij)
+ *                                                      (exactly one of the two)
+ *   "mesh": [n1, n2, n3]                               positive integers; n3 = 1 for 2D.
+ *        Point (i, j, l) sits at k = (i/n1) b1 + (j/n2) b2 + (l/n3) b3: a uniform
+ *        periodic mesh over the whole cell, Gamma at (0, 0, 0).
+ *   "energies_ev": either an inline nested array [band][i][j][l] of finite
+ *        numbers (eV), or a string: the name of a NumPy .npy file (relative to
+ *        the document's folder, or absolute) holding a float64 array of shape
+ *        (nbands, n1, n2, n3) in C order, little or big endian.
+ *   "band_names": ["vb", "cb", ...]                    optional, one distinct
+ *        string per band.
+ *   "comment", "description": any value, ignored.
+ * Any other key is rejected (it is most likely a misspelling). JSON has no
+ * NaN or Infinity; numbers that overflow to infinity are rejected. The
+ * values of a .npy file are not scanned here (that would cost a pass over
+ * all bands): the core checks every band it is asked to use
+ * (bm_grid_validate, and each grid operation for its band) and names the
+ * band and mesh index of a non-finite value. */
+#include "band-grid.h"
+#include "npy.h"
+#include "bm-error.h"
+
+#include <math.h>
+#include <string.h>
+#include <json-glib/json-glib.h>
+
+#define GRID_FORMAT "bandmass-grid-1"
+
+void bm_band_grid_free(BmBandGrid *grid)
+{
+    if (!grid)
+        return;
+    g_strfreev(grid->band_names);
+    g_free(grid->source);
+    g_free(grid->inline_energies);
+    bm_npy_array_free(grid->array);
+    g_free(grid);
+}
+
+static gboolean invalid(GError **error, const char *name, const char *fmt, ...)
+    G_GNUC_PRINTF(3, 4);
+
+static gboolean invalid(GError **error, const char *name, const char *fmt, ...)
+{
+    va_list ap;
+    va_start(ap, fmt);
+    g_autofree char *msg = g_strdup_vprintf(fmt, ap);
+    va_end(ap);
+    g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: %s", name, msg);
+    return FALSE;
+}
+
+static const char *node_kind(JsonNode *node)
+{
+    switch (JSON_NODE_TYPE(node)) {
+    case JSON_NODE_OBJECT: return "an object";
+    case JSON_NODE_ARRAY:  return "an array";
+    case JSON_NODE_NULL:   return "null";
+    case JSON_NODE_VALUE:
+    default: {
+        GType t = json_node_get_value_type(node);
+        if (t == G_TYPE_BOOLEAN) return "a boolean";
+        if (t == G_TYPE_STRING)  return "a string";
+        return "a number";
+    }
+    }
+}
+
+static gboolean node_is_number(JsonNode *node)
+{
+    if (JSON_NODE_TYPE(node) != JSON_NODE_VALUE)
+        return FALSE;
+    GType t = json_node_get_value_type(node);
+    return t == G_TYPE_INT64 || t == G_TYPE_DOUBLE;
+}
+
+/* A finite number; what names the place (e.g. "mesh[1]"). */
+static gboolean get_number(JsonNode *node, const char *name, const char *what,
+                           double *out, GError **error)
+{
+    if (!node_is_number(node))
+        return invalid(error, name, "%s: expected a number, found %s", what, node_kind(node));
+    double v = json_node_get_double(node);
+    if (!isfinite(v))
+        return invalid(error, name, "%s: the number is not finite (out of range)", what);
+    *out = v;
+    return TRUE;
+}
+
+static gboolean get_matrix3(JsonNode *node, const char *name, const char *key,
+                            double m[3][3], GError **error)
+{
+    if (JSON_NODE_TYPE(node) != JSON_NODE_ARRAY)
+        return invalid(error, name, "'%s': expected an array of 3 rows of 3 numbers, found %s",
+                       key, node_kind(node));
+    JsonArray *rows = json_node_get_array(node);
+    if (json_array_get_length(rows) != 3)
+        return invalid(error, name, "'%s': expected 3 rows, found %u", key,
+                       json_array_get_length(rows));
+    for (guint i = 0; i < 3; i++) {
+        JsonNode *row = json_array_get_element(rows, i);
+        if (JSON_NODE_TYPE(row) != JSON_NODE_ARRAY ||
+            json_array_get_length(json_node_get_array(row)) != 3)
+            return invalid(error, name, "'%s'[%u]: expected a row of 3 numbers", key, i);
+        for (guint j = 0; j < 3; j++) {
+            char what[128];
+            g_snprintf(what, sizeof what, "'%s'[%u][%u]", key, i, j);
+            if (!get_number(json_array_get_element(json_node_get_array(row), j),
+                            name, what, &m[i][j], error))
+                return FALSE;
+        }
+    }
+    return TRUE;
+}
+
+static double det3(double m[3][3])
+{
+    return m[0][0] * (m[1][1] * m[2][2] - m[1][2] * m[2][1])
+         - m[0][1] * (m[1][0] * m[2][2] - m[1][2] * m[2][0])
+         + m[0][2] * (m[1][0] * m[2][1] - m[1][1] * m[2][0]);
+}
+
+static double row_norm(const double r[3])
+{
+    return sqrt(r[0] * r[0] + r[1] * r[1] + r[2] * r[2]);
+}
+
+/* |det| small against the product of row lengths: singular or nearly so. */
+static gboolean singular3(double m[3][3], double *det)
+{
+    *det = det3(m);
+    double scale = row_norm(m[0]) * row_norm(m[1]) * row_norm(m[2]);
+    return !(scale > 0.0) || fabs(*det) <= 1e-10 * scale;
+}
+
+static void cross(const double a[3], const double b[3], double out[3])
+{
+    out[0] = a[1] * b[2] - a[2] * b[1];
+    out[1] = a[2] * b[0] - a[0] * b[2];
+    out[2] = a[0] * b[1] - a[1] * b[0];
+}
+
+/* b_i = 2 pi (a_j x a_k) / (a1 . (a2 x a3)), i.e. B = 2 pi A^-T. */
+static void reciprocal_from_lattice(double a[3][3], double det, double b[3][3])
+{
+    cross(a[1], a[2], b[0]);
+    cross(a[2], a[0], b[1]);
+    cross(a[0], a[1], b[2]);
+    for (int i = 0; i < 3; i++)
+        for (int j = 0; j < 3; j++)
+            b[i][j] *= 2.0 * G_PI / det;
+}
+
+static gboolean get_mesh(JsonNode *node, const char *name, size_t mesh[3], GError **error)
+{
+    if (JSON_NODE_TYPE(node) != JSON_NODE_ARRAY ||
+        json_array_get_length(json_node_get_array(node)) != 3)
+        return invalid(error, name, "'mesh': expected an array of 3 positive integers [n1, n2, n3]");
+    JsonArray *a = json_node_get_array(node);
+    for (guint i = 0; i < 3; i++) {
+        JsonNode *e = json_array_get_element(a, i);
+        if (JSON_NODE_TYPE(e) != JSON_NODE_VALUE || json_node_get_value_type(e) != G_TYPE_INT64)
+            return invalid(error, name, "'mesh'[%u]: expected a positive integer, found %s",
+                           i, node_kind(e));
+        gint64 v = json_node_get_int(e);
+        if (v < 1 || v > (gint64)1 << 24)
+            return invalid(error, name, "'mesh'[%u]: expected a positive integer (at most 2^24), "
+                           "found %" G_GINT64_FORMAT, i, v);
+        mesh[i] = (size_t)v;
+    }
+    return TRUE;
+}
+
+static gboolean checked_count(const char *name, size_t nbands, const size_t mesh[3],
+                              size_t *count, GError **error)
+{
+    size_t c = nbands;
+    for (int i = 0; i < 3; i++) {
+        if (c > G_MAXSIZE / sizeof(double) / mesh[i])
+            return invalid(error, name, "%zu bands on a %zu x %zu x %zu mesh is too large",
+                           nbands, mesh[0], mesh[1], mesh[2]);
+        c *= mesh[i];
+    }
+    *count = c;
+    return TRUE;
+}
+
+/* Inline [band][i][j][l]; checks every level's length against the mesh. */
+static gboolean read_inline(JsonArray *bands, const char *name, const size_t mesh[3],
+                            BmBandGrid *g, GError **error)
+{
+    size_t nb = json_array_get_length(bands);
+    if (nb == 0)
+        return invalid(error, name, "'energies_ev' is empty; expected [band][i][j][l]");
+    size_t count = 0;
+    if (!checked_count(name, nb, mesh, &count, error))
+        return FALSE;
+    g->inline_energies = g_try_new(double, count);
+    if (!g->inline_energies)
+        return invalid(error, name, "cannot allocate %zu energies", count);
+    static const char *level_name[4] = { "band", "n1", "n2", "n3" };
+    size_t idx[4] = { 0 };
+    size_t len[4] = { nb, mesh[0], mesh[1], mesh[2] };
+    JsonArray *stack[4] = { bands, NULL, NULL, NULL };
+    size_t out = 0;
+    /* iterative walk over the 4 levels */
+    int depth = 0;
+    for (;;) {
+        if (idx[depth] == len[depth]) {
+            if (depth == 0)
+                break;
+            depth--;
+            idx[depth]++;
+            continue;
+        }
+        JsonNode *e = json_array_get_element(stack[depth], (guint)idx[depth]);
+        GString *path = NULL;
+        if (depth < 3) {
+            if (JSON_NODE_TYPE(e) != JSON_NODE_ARRAY ||
+                json_array_get_length(json_node_get_array(e)) != len[depth + 1]) {
+                path = g_string_new("'energies_ev'");
+                for (int d = 0; d <= depth; d++)
+                    g_string_append_printf(path, "[%zu]", idx[d]);
+                gboolean arr = JSON_NODE_TYPE(e) == JSON_NODE_ARRAY;
+                if (arr)
+                    invalid(error, name, "%s: expected %zu entries (%s = %zu), found %u; "
+                            "nesting is [band][i][j][l] on the mesh", path->str,
+                            len[depth + 1], level_name[depth + 1], len[depth + 1],
+                            json_array_get_length(json_node_get_array(e)));
+                else
+                    invalid(error, name, "%s: expected an array of %zu entries, found %s; "
+                            "nesting is [band][i][j][l] (4 levels)", path->str,
+                            len[depth + 1], node_kind(e));
+                g_string_free(path, TRUE);
+                return FALSE;
+            }
+            stack[depth + 1] = json_node_get_array(e);
+            depth++;
+            idx[depth] = 0;
+            continue;
+        }
+        if (!node_is_number(e) || !isfinite(json_node_get_double(e))) {
+            path = g_string_new("'energies_ev'");
+            for (int d = 0; d <= 3; d++)
+                g_string_append_printf(path, "[%zu]", idx[d]);
+            if (node_is_number(e))
+                invalid(error, name, "%s: the number is not finite (out of range)", path->str);
+            else
+                invalid(error, name, "%s: expected a number (eV), found %s%s", path->str,
+                        node_kind(e), JSON_NODE_TYPE(e) == JSON_NODE_ARRAY
+                        ? "; nesting is [band][i][j][l] (4 levels)" : "");
+            g_string_free(path, TRUE);
+            return FALSE;
+        }
+        g->inline_energies[out++] = json_node_get_double(e);
+        idx[depth]++;
+    }
+    g->grid.nbands = nb;
+    return TRUE;
+}
+
+static gboolean read_npy(const char *file, const char *name, const char *base_dir,
+                         const size_t mesh[3], BmBandGrid *g, GError **error)
+{
+    if (!*file)
+        return invalid(error, name, "'energies_ev' is an empty file name");
+    g_autofree char *path = g_path_is_absolute(file) || !base_dir
+        ? g_strdup(file) : g_build_filename(base_dir, file, NULL);
+    GError *local = NULL;
+    g_autoptr(BmNpyArray) arr = bm_npy_read_f64(path, &local);
+    if (!arr) {
+        g_set_error(error, BM_ERROR, local->code, "%s: 'energies_ev': %s", name, local->message);
+        g_error_free(local);
+        return FALSE;
+    }
+    if (arr->ndim != 4 || arr->shape[1] != mesh[0] || arr->shape[2] != mesh[1] ||
+        arr->shape[3] != mesh[2] || arr->shape[0] == 0) {
+        g_autofree char *s = bm_npy_shape_string(arr->shape, arr->ndim);
+        return invalid(error, name, "'mesh' [%zu, %zu, %zu] disagrees with the shape %s of "
+                       "'energies_ev' file %s; expected (nbands, %zu, %zu, %zu) with nbands >= 1",
+                       mesh[0], mesh[1], mesh[2], s, path, mesh[0], mesh[1], mesh[2]);
+    }
+    g->grid.nbands = arr->shape[0];
+    g->grid.energies = arr->data;   /* take the array over: no copy */
+    g->array = g_steal_pointer(&arr);
+    return TRUE;
+}
+
+static gboolean read_names(JsonNode *node, const char *name, BmBandGrid *g, GError **error)
+{
+    if (JSON_NODE_TYPE(node) != JSON_NODE_ARRAY)
+        return invalid(error, name, "'band_names': expected an array of strings, found %s",
+                       node_kind(node));
+    JsonArray *a = json_node_get_array(node);
+    if (json_array_get_length(a) != g->grid.nbands)
+        return invalid(error, name, "'band_names' has %u names but 'energies_ev' has %zu bands",
+                       json_array_get_length(a), g->grid.nbands);
+    g->band_names = g_new0(char *, g->grid.nbands + 1);
+    for (guint i = 0; i < g->grid.nbands; i++) {
+        JsonNode *e = json_array_get_element(a, i);
+        if (JSON_NODE_TYPE(e) != JSON_NODE_VALUE || json_node_get_value_type(e) != G_TYPE_STRING)
+            return invalid(error, name, "'band_names'[%u]: expected a string, found %s",
+                           i, node_kind(e));
+        const char *s = json_node_get_string(e);
+        if (!*s)
+            return invalid(error, name, "'band_names'[%u] is empty", i);
+        for (guint k = 0; k < i; k++)
+            if (strcmp(g->band_names[k], s) == 0)
+                return invalid(error, name, "'band_names'[%u] repeats the name '%s' of band %u",
+                               i, s, k);
+        g->band_names[i] = g_strdup(s);
+    }
+    return TRUE;
+}
+
+static gboolean parse_document(JsonNode *root, const char *name, const char *base_dir,
+                               BmBandGrid *g, GError **error)
+{
+    static const char *known[] = {
+        "format", "reciprocal_vectors_inv_angstrom", "lattice_vectors_angstrom",
+        "mesh", "energies_ev", "band_names", "comment", "description", NULL
+    };
+    if (JSON_NODE_TYPE(root) != JSON_NODE_OBJECT)
+        return invalid(error, name, "expected a JSON object (a band grid document), found %s",
+                       node_kind(root));
+    JsonObject *o = json_node_get_object(root);
+
+    JsonNode *fmt = json_object_get_member(o, "format");
+    if (!fmt)
+        return invalid(error, name, "missing key 'format' (expected \"" GRID_FORMAT "\")");
+    if (JSON_NODE_TYPE(fmt) != JSON_NODE_VALUE || json_node_get_value_type(fmt) != G_TYPE_STRING)
+        return invalid(error, name, "'format': expected the string \"" GRID_FORMAT "\", found %s",
+                       node_kind(fmt));
+    if (strcmp(json_node_get_string(fmt), GRID_FORMAT) != 0)
+        return invalid(error, name, "unknown 'format' \"%s\" (expected \"" GRID_FORMAT "\")",
+                       json_node_get_string(fmt));
+
+    g_autoptr(GList) members = json_object_get_members(o);
+    for (GList *m = members; m; m = m->next)
+        if (!g_strv_contains(known, m->data))
+            return invalid(error, name, "unknown key '%s' (a band grid document takes 'format', "
+                           "'reciprocal_vectors_inv_angstrom' or 'lattice_vectors_angstrom', "
+                           "'mesh', 'energies_ev', 'band_names')", (const char *)m->data);
+
+    JsonNode *recip = json_object_get_member(o, "reciprocal_vectors_inv_angstrom");
+    JsonNode *latt = json_object_get_member(o, "lattice_vectors_angstrom");
+    if (recip && latt)
+        return invalid(error, name, "give either 'reciprocal_vectors_inv_angstrom' or "
+                       "'lattice_vectors_angstrom', not both");
+    if (!recip && !latt)
+        return invalid(error, name, "missing key 'reciprocal_vectors_inv_angstrom' "
+                       "(or 'lattice_vectors_angstrom')");
+    double det;
+    if (recip) {
+        if (!get_matrix3(recip, name, "reciprocal_vectors_inv_angstrom", g->grid.recip, error))
+            return FALSE;
+        if (singular3(g->grid.recip, &det))
+            return invalid(error, name, "'reciprocal_vectors_inv_angstrom' is singular "
+                           "(determinant %g): b1, b2, b3 must be linearly independent", det);
+    } else {
+        double a[3][3];
+        if (!get_matrix3(latt, name, "lattice_vectors_angstrom", a, error))
+            return FALSE;
+        if (singular3(a, &det))
+            return invalid(error, name, "'lattice_vectors_angstrom' is singular (determinant "
+                           "%g Angstrom^3): a1, a2, a3 must be linearly independent", det);
+        reciprocal_from_lattice(a, det, g->grid.recip);
+    }
+
+    JsonNode *mesh = json_object_get_member(o, "mesh");
+    if (!mesh)
+        return invalid(error, name, "missing key 'mesh' (expected [n1, n2, n3])");
+    if (!get_mesh(mesh, name, g->grid.mesh, error))
+        return FALSE;
+
+    JsonNode *en = json_object_get_member(o, "energies_ev");
+    if (!en)
+        return invalid(error, name, "missing key 'energies_ev' (expected a nested array "
+                       "[band][i][j][l] or the name of a .npy file)");
+    if (JSON_NODE_TYPE(en) == JSON_NODE_ARRAY) {
+        if (!read_inline(json_node_get_array(en), name, g->grid.mesh, g, error))
+            return FALSE;
+    } else if (JSON_NODE_TYPE(en) == JSON_NODE_VALUE &&
+               json_node_get_value_type(en) == G_TYPE_STRING) {
+        if (!read_npy(json_node_get_string(en), name, base_dir, g->grid.mesh, g, error))
+            return FALSE;
+    } else {
+        return invalid(error, name, "'energies_ev': expected a nested array [band][i][j][l] "
+                       "or a .npy file name, found %s", node_kind(en));
+    }
+    if (g->inline_energies)
+        g->grid.energies = g->inline_energies;
+
+    JsonNode *names = json_object_get_member(o, "band_names");
+    if (names && !read_names(names, name, g, error))
+        return FALSE;
+    return TRUE;
+}
+
+BmBandGrid *bm_band_grid_load_from_data(const char *data, gssize length,
+                                        const char *name, const char *base_dir,
+                                        GError **error)
+{
+    g_return_val_if_fail(data != NULL, NULL);
+    g_return_val_if_fail(error == NULL || *error == NULL, NULL);
+    if (!name)
+        name = "<band grid>";
+    g_autoptr(JsonParser) parser = json_parser_new_immutable();
+    GError *local = NULL;
+    if (!json_parser_load_from_data(parser, data, length, &local)) {
+        /* json-glib rejects NaN and Infinity; say so when the text holds them */
+        g_autofree char *text = g_strndup(data, length < 0 ? strlen(data) : (size_t)length);
+        gboolean nonfinite = g_regex_match_simple("\\b(nan|inf|infinity)\\b", text,
+                                                  G_REGEX_CASELESS, 0);
+        const char *msg = local->message;
+        if (g_str_has_prefix(msg, "<data>:"))
+            msg += strlen("<data>:");
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: not valid JSON: line %s%s",
+                    name, msg, nonfinite ? " (JSON has no NaN or Infinity; energies must be "
+                    "finite numbers)" : "");
+        g_error_free(local);
+        return NULL;
+    }
+    JsonNode *root = json_parser_get_root(parser);
+    if (!root) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: the document is empty", name);
+        return NULL;
+    }
+    BmBandGrid *g = g_new0(BmBandGrid, 1);
+    g->source = g_strdup(name);
+    if (!parse_document(root, name, base_dir, g, error)) {
+        bm_band_grid_free(g);
+        return NULL;
+    }
+    return g;
+}
+
+BmBandGrid *bm_band_grid_load(const char *path, GError **error)
+{
+    g_return_val_if_fail(path != NULL, NULL);
+    g_autofree char *text = NULL;
+    gsize len = 0;
+    GError *local = NULL;
+    if (!g_file_get_contents(path, &text, &len, &local)) {
+        g_set_error(error, BM_ERROR, BM_ERROR_IO, "cannot read band grid document: %s",
+                    local->message);
+        g_error_free(local);
+        return NULL;
+    }
+    if (len > G_MAXSSIZE) {
+        g_set_error(error, BM_ERROR, BM_ERROR_IO, "%s: file too large", path);
+        return NULL;
+    }
+    g_autofree char *dir = g_path_get_dirname(path);
+    return bm_band_grid_load_from_data(text, (gssize)len, path, dir, error);
+}

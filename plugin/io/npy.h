@@ -1,0 +1,42 @@
+/* npy.h: reads NumPy .npy files (format versions 1.0, 2.0, 3.0) holding
+ * float64 arrays in C order into one caller-owned buffer. */
+#ifndef BM_IO_NPY_H
+#define BM_IO_NPY_H
+
+#include <glib.h>
+
+G_BEGIN_DECLS
+
+#define BM_NPY_MAX_DIMS 8
+
+/* A float64 array in C order, native byte order. The values live either in
+ * a private read-only mapping of the file (little-endian data on a
+ * little-endian host: no copy at all) or in one allocated buffer that a
+ * single read fills (byte-swapped data, pipes, unaligned data). */
+typedef struct {
+    const double *data;              /* count values, valid until freed */
+    size_t count;                    /* product of shape */
+    size_t ndim;
+    size_t shape[BM_NPY_MAX_DIMS];
+    /* private */
+    void *map;                       /* mapping of the whole file, or NULL */
+    size_t map_len;
+    double *buffer;                  /* g_malloc'd storage, or NULL */
+} BmNpyArray;
+
+/* Reads path (mapped when it is a regular file). Accepts dtype '<f8' and '>f8' (byte-swapped to native), with
+ * fortran_order False. Everything else fails with BM_ERROR_INVALID_INPUT
+ * (BM_ERROR_IO when the file cannot be opened or read); the message names
+ * the file and the problem. Non-finite values are not checked here. */
+BmNpyArray *bm_npy_read_f64(const char *path, GError **error);
+
+void bm_npy_array_free(BmNpyArray *array);
+
+/* Formats the shape as "(2, 8, 8, 8)" into a newly allocated string. */
+char *bm_npy_shape_string(const size_t *shape, size_t ndim);
+
+G_DEFINE_AUTOPTR_CLEANUP_FUNC(BmNpyArray, bm_npy_array_free)
+
+G_END_DECLS
+
+#endif

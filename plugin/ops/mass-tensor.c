@@ -1,0 +1,306 @@
+/* mass-tensor.c: operation "mass-tensor" -- band extrema of one band of a
+ * band grid document or a k-table, with their inertial mass tensors.
+ *
+ * Request: "grid" (band grid document path) or "table" (k-table path), or an
+ * in-memory grid handed over by the host; "band" (0-based index or name);
+ * "extremum": "minimum" (the lowest), "maximum" (the highest) or "all" (every
+ * local extremum of a grid; the lowest minimum and highest maximum of a
+ * table); optional "k_inv_angstrom" (evaluate the tensor at that Cartesian
+ * point instead of searching), "fit_radius_inv_angstrom" (0: automatic) and
+ * "degeneracy_tolerance_ev".
+ *
+ * Response: "band" {index, name}, "source", "extrema" (objects below), and
+ * "warnings". Each extremum: "kind" (minimum, maximum, saddle), "dims",
+ * "energy_ev", "k_inv_angstrom", "k_fractional" (null for a table),
+ * "principal_masses_me" (signed, m_e, ordered by increasing |m|; a direction
+ * with no finite inertial mass -- vanishing curvature or a conical point --
+ * is the string "divergent"; a direction the data do not sample, such as the
+ * normal of a 2D sheet, is null), "principal_axes" (rows, Cartesian unit
+ * vectors in the order of the masses), "inverse_mass_tensor_per_me" (null
+ * entries at a conical point), "fit_rms_ev", "divergent" (boolean) and
+ * "warnings". */
+#include "ops.h"
+#include "bm-json.h"
+#include "bm-extrema.h"
+#include "band-grid.h"
+#include "ktable.h"
+#include "band-select.h"
+
+#include <math.h>
+#include <stdlib.h>
+#include <string.h>
+
+static const BmParam params[] = {
+    { "grid", BM_VALUE_STRING, FALSE, NULL,
+      "band grid document (JSON, format bandmass-grid-1); give this or table" },
+    { "table", BM_VALUE_STRING, FALSE, NULL,
+      "k-table (CSV or TSV: kx/ky/kz_inv_angstrom and NAME_ev columns); give this or grid" },
+    { "band", BM_VALUE_INTEGER | BM_VALUE_STRING, TRUE, NULL,
+      "band: 0-based index or name" },
+    { "extremum", BM_VALUE_STRING, FALSE, "\"all\"",
+      "minimum (lowest), maximum (highest) or all (every local extremum)" },
+    { "k_inv_angstrom", BM_VALUE_ARRAY, FALSE, NULL,
+      "evaluate the tensor at this Cartesian k, 1/Angstrom, instead of searching" },
+    { "fit_radius_inv_angstrom", BM_VALUE_NUMBER, FALSE, "0",
+      "radius of the local quadratic fit, 1/Angstrom (0: automatic)" },
+    { "degeneracy_tolerance_ev", BM_VALUE_NUMBER, FALSE, "0.001",
+      "energy within which another band counts as degenerate, eV" },
+    { NULL, 0, FALSE, NULL, NULL }
+};
+
+static const char *kind_text(bm_extremum_kind k)
+{
+    switch (k) {
+    case BM_EXTREMUM_MINIMUM: return "minimum";
+    case BM_EXTREMUM_MAXIMUM: return "maximum";
+    case BM_EXTREMUM_SADDLE:  return "saddle";
+    }
+    return "unknown";
+}
+
+/* The signed masses: finite numbers, "divergent" where the curvature
+ * vanishes (or the point is conical), null where the data do not sample. */
+static JsonArray *masses_array(const bm_mass_tensor *t)
+{
+    JsonArray *a = json_array_new();
+    for (int m = 0; m < 3; m++) {
+        double v = t->masses[m];
+        if (isfinite(v))
+            json_array_add_double_element(a, v);
+        else if (isinf(v) || (t->divergent && m < t->dims))
+            json_array_add_string_element(a, "divergent");
+        else
+            json_array_add_null_element(a);
+    }
+    return a;
+}
+
+static JsonObject *tensor_object(const bm_mass_tensor *t, gboolean fractional)
+{
+    JsonObject *o = json_object_new();
+    json_object_set_string_member(o, "kind", kind_text(t->kind));
+    json_object_set_int_member(o, "dims", t->dims);
+    bm_json_set_number(o, "energy_ev", t->energy_ev);
+    bm_json_set_vec3(o, "k_inv_angstrom", t->k);
+    if (fractional)
+        bm_json_set_vec3(o, "k_fractional", t->k_frac);
+    else
+        json_object_set_null_member(o, "k_fractional");
+    json_object_set_array_member(o, "principal_masses_me", masses_array(t));
+    bm_json_set_mat3(o, "principal_axes", t->axes);
+    bm_json_set_mat3(o, "inverse_mass_tensor_per_me", t->inv_mass);
+    bm_json_set_number(o, "fit_rms_ev", t->fit_rms_ev);
+    json_object_set_boolean_member(o, "divergent", t->divergent != 0);
+    JsonArray *w = json_array_new();
+    for (int i = 0; i < t->warnings.count; i++)
+        json_array_add_string_element(w, t->warnings.text[i]);
+    json_object_set_array_member(o, "warnings", w);
+    return o;
+}
+
+static gboolean parse_search(JsonObject *request, bm_search *which, GError **error)
+{
+    const char *s = json_object_get_string_member(request, "extremum");
+    if (strcmp(s, "minimum") == 0)
+        *which = BM_SEARCH_MINIMUM;
+    else if (strcmp(s, "maximum") == 0)
+        *which = BM_SEARCH_MAXIMUM;
+    else if (strcmp(s, "all") == 0)
+        *which = BM_SEARCH_ALL;
+    else {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request: key \"extremum\" must be \"minimum\", \"maximum\" or \"all\" "
+                    "(got \"%s\")", s);
+        return FALSE;
+    }
+    return TRUE;
+}
+
+static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
+{
+    gboolean have_grid = json_object_has_member(request, "grid");
+    gboolean have_table = json_object_has_member(request, "table");
+    gboolean in_memory = inputs && inputs->grid;
+    if (!in_memory && have_grid == have_table) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    have_grid ? "request: give either \"grid\" or \"table\", not both"
+                              : "request: missing band data: give \"grid\" (a band grid "
+                                "document) or \"table\" (a k-table)");
+        return NULL;
+    }
+
+    bm_search which;
+    if (!parse_search(request, &which, error))
+        return NULL;
+    bm_fit_options opt = { 0.0, 0.0 };
+    if (!bm_json_number(request, "fit_radius_inv_angstrom", NULL,
+                        &opt.fit_radius_inv_angstrom, error) ||
+        !bm_json_number(request, "degeneracy_tolerance_ev", NULL, &opt.degeneracy_tol_ev, error))
+        return NULL;
+    if (opt.fit_radius_inv_angstrom < 0.0) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request: key \"fit_radius_inv_angstrom\" must be >= 0 (0: automatic), got %g",
+                    opt.fit_radius_inv_angstrom);
+        return NULL;
+    }
+    if (!(opt.degeneracy_tol_ev > 0.0)) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request: key \"degeneracy_tolerance_ev\" must be greater than zero, got %g",
+                    opt.degeneracy_tol_ev);
+        return NULL;
+    }
+    double k_at[3];
+    gboolean have_k = json_object_has_member(request, "k_inv_angstrom");
+    if (have_k && !bm_json_vec3(request, "k_inv_angstrom", NULL, k_at, error))
+        return NULL;
+
+    /* load the band data */
+    g_autoptr(BmBandGrid) grid = NULL;
+    g_autoptr(BmKTable) table = NULL;
+    const bm_grid *g = NULL;
+    const char *const *names = NULL, *const *alt_names = NULL;
+    const char *source;
+    size_t nbands;
+    if (in_memory) {
+        g = inputs->grid;
+        names = inputs->band_names;
+        source = "in-memory grid";
+        nbands = g->nbands;
+    } else if (have_grid) {
+        grid = bm_band_grid_load(json_object_get_string_member(request, "grid"), error);
+        if (!grid)
+            return NULL;
+        g = &grid->grid;
+        names = (const char *const *)grid->band_names;
+        source = grid->source;
+        nbands = g->nbands;
+    } else {
+        table = bm_ktable_load(json_object_get_string_member(request, "table"), error);
+        if (!table)
+            return NULL;
+        names = (const char *const *)table->band_names;
+        alt_names = (const char *const *)table->band_headers;
+        source = table->source;
+        nbands = table->table.nbands;
+    }
+
+    size_t band;
+    if (!bm_band_select_node(json_object_get_member(request, "band"), names, alt_names,
+                             nbands, source, &band, error))
+        return NULL;
+
+    bm_mass_tensor *res = NULL;
+    size_t nres = 0;
+    bm_errbuf err = { BM_OK, "" };
+    bm_status s = g ? bm_grid_mass_tensors(g, band, which, have_k ? k_at : NULL, &opt,
+                                           &res, &nres, &err)
+                    : bm_ktable_mass_tensors(&table->table, band, which, have_k ? k_at : NULL,
+                                             &opt, &res, &nres, &err);
+    if (s != BM_OK) {
+        bm_error_from_core(error, &err, source);
+        return NULL;
+    }
+
+    JsonObject *response = json_object_new();
+    JsonObject *b = json_object_new();
+    json_object_set_int_member(b, "index", (gint64)band);
+    if (names && names[band])
+        json_object_set_string_member(b, "name", names[band]);
+    else
+        json_object_set_null_member(b, "name");
+    json_object_set_object_member(response, "band", b);
+    json_object_set_string_member(response, "source", source);
+    JsonArray *list = json_array_new();
+    for (size_t i = 0; i < nres; i++)
+        json_array_add_object_element(list, tensor_object(&res[i], g != NULL));
+    json_object_set_array_member(response, "extrema", list);
+    json_object_set_array_member(response, "warnings", json_array_new());
+    if (nres == 0)
+        bm_json_warn(response, "no extremum found in band %zu of %s", band, source);
+    for (size_t i = 0; i < nres; i++)
+        if (res[i].warnings.count)
+            bm_json_warn(response, "extremum %zu (%s at %.6g eV) carries %d warning%s",
+                         i, kind_text(res[i].kind), res[i].energy_ev, res[i].warnings.count,
+                         res[i].warnings.count == 1 ? "" : "s");
+    free(res);
+    return response;
+}
+
+/* ---- readable table for the CLI ---- */
+
+static void append_value(GString *out, JsonNode *n, const char *fmt)
+{
+    if (n && JSON_NODE_HOLDS_VALUE(n) && json_node_get_value_type(n) == G_TYPE_STRING)
+        g_string_append_printf(out, " %10s", json_node_get_string(n));
+    else if (n && JSON_NODE_HOLDS_VALUE(n))
+        g_string_append_printf(out, fmt, json_node_get_double(n));
+    else
+        g_string_append_printf(out, " %10s", "-");
+}
+
+static void render(JsonObject *response, GString *out)
+{
+    JsonObject *b = json_object_get_object_member(response, "band");
+    const char *name = json_object_get_null_member(b, "name") ? NULL
+                     : json_object_get_string_member(b, "name");
+    g_string_append_printf(out, "band %" G_GINT64_FORMAT "%s%s%s of %s\n",
+                           json_object_get_int_member(b, "index"), name ? " (" : "",
+                           name ? name : "", name ? ")" : "",
+                           json_object_get_string_member(response, "source"));
+    JsonArray *list = json_object_get_array_member(response, "extrema");
+    guint n = json_array_get_length(list);
+    g_string_append_printf(out, "%-3s %-8s %12s  %-28s %10s %10s %10s %10s\n", "#", "kind",
+                           "energy_ev", "k_fractional", "m1_me", "m2_me", "m3_me",
+                           "fit_rms_ev");
+    for (guint i = 0; i < n; i++) {
+        JsonObject *e = json_array_get_object_element(list, i);
+        double energy = json_object_get_double_member(e, "energy_ev");
+        if (fabs(energy) < 5e-7)
+            energy = 0.0;   /* a rounding error below the printed digits is not "-0" */
+        g_string_append_printf(out, "%-3u %-8s %12.6f  ", i,
+                               json_object_get_string_member(e, "kind"), energy);
+        JsonNode *kf = json_object_get_member(e, "k_fractional");
+        JsonNode *kc = JSON_NODE_HOLDS_ARRAY(kf) ? kf : json_object_get_member(e, "k_inv_angstrom");
+        JsonArray *k = json_node_get_array(kc);
+        g_autofree char *ktext = g_strdup_printf("(%.4f, %.4f, %.4f)%s",
+                                                 json_array_get_double_element(k, 0),
+                                                 json_array_get_double_element(k, 1),
+                                                 json_array_get_double_element(k, 2),
+                                                 JSON_NODE_HOLDS_ARRAY(kf) ? "" : " 1/A");
+        g_string_append_printf(out, "%-28s", ktext);
+        JsonArray *m = json_object_get_array_member(e, "principal_masses_me");
+        for (guint c = 0; c < 3; c++)
+            append_value(out, json_array_get_element(m, c), " %10.4f");
+        append_value(out, json_object_get_member(e, "fit_rms_ev"), " %10.2e");
+        g_string_append_c(out, '\n');
+        JsonArray *axes = json_object_get_array_member(e, "principal_axes");
+        for (guint r = 0; r < 3; r++) {
+            JsonArray *row = json_array_get_array_element(axes, r);
+            JsonNode *mr = json_array_get_element(m, r);
+            if (JSON_NODE_HOLDS_NULL(mr))
+                continue;
+            g_string_append_printf(out, "      axis %u: (", r + 1);
+            for (guint c = 0; c < 3; c++) {
+                JsonNode *v = json_array_get_element(row, c);
+                g_string_append_printf(out, c ? ", %.4f" : "%.4f",
+                                       JSON_NODE_HOLDS_NULL(v) ? NAN : json_node_get_double(v));
+            }
+            g_string_append(out, ")\n");
+        }
+        JsonArray *w = json_object_get_array_member(e, "warnings");
+        for (guint c = 0; c < json_array_get_length(w); c++)
+            g_string_append_printf(out, "      warning: %s\n",
+                                   json_array_get_string_element(w, c));
+    }
+    if (n == 0)
+        g_string_append(out, "(no extrema)\n");
+    /* top-level warnings are printed by the host after the table */
+}
+
+const BmOperation bm_op_mass_tensor = {
+    .name = "mass-tensor",
+    .summary = "Band extrema of a grid or k-table and their inertial mass tensors",
+    .params = params,
+    .run = run,
+    .render = render,
+};

@@ -1,0 +1,409 @@
+/* test-carriers.c: effective densities of states, band gap forms, the
+ * neutrality solver (worked examples, limits, robustness), 2D gases, Drude. */
+#include <glib.h>
+#include <math.h>
+#include <string.h>
+
+#include "bm-bandgap.h"
+#include "bm-carriers.h"
+#include "bm-drude.h"
+#include "bm-units.h"
+
+#define KT300 (BM_KB_EV * 300.0)
+
+static double rel(double a, double b)
+{
+    return fabs(a / b - 1.0);
+}
+
+/* DOS mass that gives a wanted N at 300 K: (N / 2.50941e19)^(2/3). */
+static double mass_for(double n300)
+{
+    double n1;
+    g_assert_cmpint(bm_effective_dos(1.0, 300.0, &n1, NULL), ==, BM_OK);
+    return pow(n300 / n1, 2.0 / 3.0);
+}
+
+static void test_effective_dos(void)
+{
+    double n;
+    /* 2 (2 pi m_e k T / h^2)^(3/2) = 2.50941e19 cm^-3 at 300 K (CODATA 2018, reference
+     * list).  Tolerance 5e-6: six printed digits (2e-6) plus GSL's constants, which
+     * are CODATA 2006 and give 2.509417e19 (1.8e-6 above the 2018 value). */
+    g_assert_cmpint(bm_effective_dos(1.0, 300.0, &n, NULL), ==, BM_OK);
+    g_assert_cmpfloat(rel(n, 2.50941e19), <, 5e-6);
+    /* Si: m_dn 1.08 -> Nc = 2.8e19 (Sze & Ng 2007 App. G; from memory; 1 % for the
+     * two-digit mass) */
+    g_assert_cmpint(bm_effective_dos(1.08, 300.0, &n, NULL), ==, BM_OK);
+    g_assert_cmpfloat(rel(n, 2.8e19), <, 0.01);
+    /* T^(3/2) scaling (identity) */
+    double n2;
+    g_assert_cmpint(bm_effective_dos(1.0, 1200.0, &n2, NULL), ==, BM_OK);
+    g_assert_cmpfloat(rel(n2 / n * pow(1.08, 1.5), 8.0), <, 1e-12);
+}
+
+static void test_intrinsic_silicon(void)
+{
+    /* Si at 300 K, Sze & Ng 2007 App. G (from memory): Nc = 2.8e19, Nv = 2.65e19,
+     * Eg = 1.12 eV; textbook ni formula gives 1.07e10, within 15 % of the
+     * published 9.65e9 (which comes from a refined model). */
+    bm_semiconductor s = { 0 };
+    s.band_gap_ev = 1.12;
+    s.m_dos_electron = mass_for(2.8e19);
+    s.m_dos_hole = mass_for(2.65e19);
+    double ni, ni_fd, ei;
+    g_assert_cmpint(bm_carriers_intrinsic(&s, 300.0, &ni, &ni_fd, &ei, NULL), ==, BM_OK);
+    g_assert_cmpfloat(rel(ni, 1.07e10), <, 0.01);
+    g_assert_cmpfloat(rel(ni, 9.65e9), <, 0.15);
+    /* Far from degeneracy the Fermi-Dirac value equals the formula (F_1/2 = e^eta
+     * to 1e-9 here, DLMF 25.12.16), and Ei = Eg/2 + (kT/2) ln(Nv/Nc) (textbook). */
+    g_assert_cmpfloat(rel(ni_fd, ni), <, 1e-8);
+    g_assert_cmpfloat(fabs(ei - (0.56 + 0.5 * KT300 * log(2.65 / 2.8))), <, 1e-9);
+}
+
+static void test_varshni_and_bose_einstein(void)
+{
+    double eg;
+    bm_errbuf err;
+    /* Si: 1.170, 4.73e-4, 636 -> 1.1245 eV at 300 K (Thurmond 1975; from memory) */
+    bm_varshni si = { 1.170, 4.73e-4, 636.0 };
+    g_assert_cmpint(bm_bandgap_varshni(&si, 300.0, &eg, NULL, &err), ==, BM_OK);
+    g_assert_cmpfloat(fabs(eg - 1.1245), <, 5e-5);
+    /* GaAs: 1.519, 5.405e-4, 204 -> 1.4225 eV (Vurgaftman et al. 2001; from memory) */
+    bm_varshni gaas = { 1.519, 5.405e-4, 204.0 };
+    g_assert_cmpint(bm_bandgap_varshni(&gaas, 300.0, &eg, NULL, &err), ==, BM_OK);
+    g_assert_cmpfloat(fabs(eg - 1.4225), <, 5e-5);
+    g_assert_cmpint(bm_bandgap_varshni(&gaas, 0.0, &eg, NULL, &err), ==, BM_OK);
+    g_assert_cmpfloat(eg, ==, 1.519);
+    /* Bose-Einstein form: Eg0 at 0 K; for T >> Theta, 1/(e^x - 1) = 1/x - 1/2 + x/12
+     * (Bernoulli series), so Eg -> Eg0 - 2 a_B (T/Theta - 1/2 + Theta/(12 T)). */
+    bm_bose_einstein_gap be = { 1.52, 0.057, 240.0 };
+    g_assert_cmpint(bm_bandgap_bose_einstein(&be, 0.0, &eg, NULL, &err), ==, BM_OK);
+    g_assert_cmpfloat(eg, ==, 1.52);
+    g_assert_cmpint(bm_bandgap_bose_einstein(&be, 1.0, &eg, NULL, &err), ==, BM_OK);
+    g_assert_cmpfloat(eg, ==, 1.52);
+    double t = 24000.0, x = 240.0 / t;
+    g_assert_cmpint(bm_bandgap_bose_einstein(&be, t, &eg, NULL, &err), ==, BM_OK);
+    g_assert_cmpfloat(fabs(eg - (1.52 - 2 * 0.057 * (1 / x - 0.5 + x / 12))), <, 1e-9);
+    /* a gap that goes negative is returned with a warning */
+    bm_warnings w = { 0 };
+    g_assert_cmpint(bm_bandgap_varshni(&gaas, 5000.0, &eg, &w, &err), ==, BM_OK);
+    g_assert_cmpfloat(eg, <, 0.0);
+    g_assert_cmpint(w.count, ==, 1);
+    /* bad input names the value */
+    g_assert_cmpint(bm_bandgap_varshni(&si, -1.0, &eg, NULL, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "temperature -1 K"));
+    bm_varshni bad = { 1.1, 4e-4, 0.0 };
+    g_assert_cmpint(bm_bandgap_varshni(&bad, 300.0, &eg, NULL, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "beta = 0"));
+    bm_bose_einstein_gap badbe = { 1.5, -0.1, 200.0 };
+    g_assert_cmpint(bm_bandgap_bose_einstein(&badbe, 300.0, &eg, NULL, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "a_B = -0.1"));
+}
+
+static bm_semiconductor silicon(void)
+{
+    bm_semiconductor s = { 0 };
+    s.band_gap_ev = 1.12;
+    s.m_dos_electron = mass_for(2.8e19);
+    s.m_dos_hole = mass_for(2.65e19);
+    return s;
+}
+
+static void test_worked_example_n_silicon(void)
+{
+    /* n-Si, N_D = 1e16 fully ionised at 300 K, Nc = 2.8e19: Ec - EF = kT ln(Nc/n)
+     * = 0.2052 eV (textbook worked example, Boltzmann limit). The donor level is
+     * put far above Ec so that it is fully ionised as the example assumes. */
+    bm_semiconductor s = silicon();
+    bm_dopant d = { 1e16, -2.0, 2.0 };
+    s.donors = &d;
+    s.ndonors = 1;
+    s.statistics = BM_BOLTZMANN;
+    bm_carrier_state st;
+    bm_errbuf err;
+    g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, &err), ==, BM_OK);
+    g_assert_cmpfloat(fabs((1.12 - st.fermi_level_ev) - 0.2052), <, 1e-4);
+    g_assert_cmpfloat(rel(st.n_cm3, 1e16), <, 1e-6);
+    g_assert_cmpint(st.regime, ==, BM_REGIME_EXTRINSIC);
+    /* The Fermi-Dirac comparison solve agrees to far better than 5 % here. */
+    g_assert_cmpint(st.boltzmann_inaccurate, ==, 0);
+    g_assert_cmpfloat(st.boltzmann_deviation, <, 1e-3);
+    /* mass-action law n p = ni^2 in the Boltzmann limit (identity) */
+    g_assert_cmpfloat(rel(st.n_cm3 * st.p_cm3, st.ni_cm3 * st.ni_cm3), <, 1e-9);
+
+    /* With phosphorus (45 meV, g = 2: Sze & Ng 2007 chart; from memory) the donors
+     * are still > 99 % ionised at 300 K and n = 1e16 to within 1 %. */
+    d.ionisation_ev = 0.045;
+    s.statistics = BM_FERMI_DIRAC;
+    g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, &err), ==, BM_OK);
+    g_assert_cmpfloat(st.donor_ionised_cm3[0] / 1e16, >, 0.99);
+    g_assert_cmpfloat(rel(st.n_cm3, 1e16), <, 0.01);
+}
+
+static void test_fermi_level_at_band_edge(void)
+{
+    /* EF = Ec: n = Nc F_1/2(0) = 0.7651470246 Nc (identity, reference list). */
+    bm_semiconductor s = silicon();
+    bm_carrier_state st;
+    g_assert_cmpint(bm_carriers_at_fermi_level(&s, 300.0, 1.12, &st, NULL), ==, BM_OK);
+    g_assert_cmpfloat(rel(st.n_cm3, 0.7651470246 * st.nc_cm3), <, 1e-9);
+    s.statistics = BM_BOLTZMANN;
+    g_assert_cmpint(bm_carriers_at_fermi_level(&s, 300.0, 1.12, &st, NULL), ==, BM_OK);
+    g_assert_cmpfloat(rel(st.n_cm3, st.nc_cm3), <, 1e-12);
+}
+
+static void test_freeze_out_limits(void)
+{
+    /* Textbook low-temperature limits (Boltzmann, one donor level, g = 2):
+     * uncompensated n = sqrt(Nc N_D / g) exp(-E_d / 2kT) for n << N_D;
+     * compensated (N_A >> n) n = (N_D - N_A) Nc / (g N_A) exp(-E_d / kT). */
+    bm_semiconductor s = silicon();
+    bm_dopant d = { 1e17, 0.045, 2.0 }, a = { 1e15, 0.045, 4.0 };
+    s.donors = &d;
+    s.ndonors = 1;
+    bm_carrier_state st;
+    double t = 20.0, kt = BM_KB_EV * t;
+    g_assert_cmpint(bm_carriers_solve(&s, t, &st, NULL), ==, BM_OK);
+    double expect = sqrt(st.nc_cm3 * 1e17 / 2.0) * exp(-0.045 / (2 * kt));
+    g_assert_cmpfloat(rel(st.n_cm3, expect), <, 1e-3);
+    g_assert_cmpint(st.regime, ==, BM_REGIME_FREEZE_OUT);
+    s.acceptors = &a;
+    s.nacceptors = 1;
+    g_assert_cmpint(bm_carriers_solve(&s, t, &st, NULL), ==, BM_OK);
+    expect = (1e17 - 1e15) * st.nc_cm3 / (2.0 * 1e15) * exp(-0.045 / kt);
+    g_assert_cmpfloat(rel(st.n_cm3, expect), <, 1e-3);
+    /* the acceptors are fully ionised by the donors' electrons */
+    g_assert_cmpfloat(rel(st.acceptors_ionised_cm3, 1e15), <, 1e-9);
+    /* regimes with temperature: extrinsic at 300 K, intrinsic at 1000 K for 1e14 */
+    g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, NULL), ==, BM_OK);
+    g_assert_cmpint(st.regime, ==, BM_REGIME_EXTRINSIC);
+    d.density_cm3 = 1e14;
+    a.density_cm3 = 0.0;
+    g_assert_cmpint(bm_carriers_solve(&s, 1000.0, &st, NULL), ==, BM_OK);
+    g_assert_cmpint(st.regime, ==, BM_REGIME_INTRINSIC);
+}
+
+static void test_degenerate_flag(void)
+{
+    /* 1e20 cm^-3 of shallow donors in Si at 300 K puts EF above Ec: Boltzmann
+     * statistics overestimates n at fixed EF by e^eta / F_1/2(eta) and the solve
+     * differs by more than 5 % (common practice, no source: degenerate above
+     * about Nc / 4). 1e15 is far from it. */
+    bm_semiconductor s = silicon();
+    bm_dopant d = { 1e20, -1.5, 2.0 };
+    s.donors = &d;
+    s.ndonors = 1;
+    bm_carrier_state st;
+    g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, NULL), ==, BM_OK);
+    g_assert_cmpint(st.boltzmann_inaccurate, ==, 1);
+    g_assert_cmpint(st.warnings.count, >=, 1);
+    g_assert_cmpfloat(st.fermi_level_ev, >, 1.12);
+    /* with the donors fully ionised, n = N_D in both statistics but EF moves:
+     * the minority density carries the deviation */
+    g_assert_cmpfloat(rel(st.n_cm3, 1e20), <, 1e-9);
+    /* the FD level inverts n = Nc F_1/2(eta) (identity) */
+    g_assert_cmpfloat(fabs(st.other_fermi_level_ev - (1.12 + KT300 * log(1e20 / st.nc_cm3))),
+                      <, 1e-9);
+    d.density_cm3 = 1e15;
+    g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, NULL), ==, BM_OK);
+    g_assert_cmpint(st.boltzmann_inaccurate, ==, 0);
+    g_assert_cmpint(st.warnings.count, ==, 0);
+}
+
+static bm_status hook(double t_k, double *me, double *mh, void *data)
+{
+    (void)data;
+    *me = 1.0 + 1e-4 * t_k;
+    *mh = 0.5 + 1e-4 * t_k;
+    return BM_OK;
+}
+
+static void test_mass_hook(void)
+{
+    bm_semiconductor s = silicon();
+    s.dos_mass_hook = hook;
+    bm_carrier_state st;
+    g_assert_cmpint(bm_carriers_solve(&s, 500.0, &st, NULL), ==, BM_OK);
+    double nc, nv;
+    bm_effective_dos(1.05, 500.0, &nc, NULL);
+    bm_effective_dos(0.55, 500.0, &nv, NULL);
+    g_assert_cmpfloat(rel(st.nc_cm3, nc), <, 1e-14);
+    g_assert_cmpfloat(rel(st.nv_cm3, nv), <, 1e-14);
+    g_assert_cmpfloat(st.m_dos_electron, ==, 1.05);
+}
+
+/* Charge balance of a state: the equation being solved (identity). */
+static double imbalance(const bm_carrier_state *st)
+{
+    double pos = st->p_cm3 + st->donors_ionised_cm3, neg = st->n_cm3 + st->acceptors_ionised_cm3;
+    return fabs(pos - neg) / fmax(pos, neg);
+}
+
+static void test_robustness_sweep(void)
+{
+    /* 1..1500 K, 1e10..1e21 cm^-3, uncompensated, heavily compensated,
+     * exactly compensated, several species, degenerate: always converges,
+     * never NaN, and balances the charge. */
+    const double comp[] = { 0.0, 0.5, 0.99, 1.0, 1.01, 100.0 };
+    bm_semiconductor s = silicon();
+    bm_dopant d[2] = { { 0, 0.045, 2.0 }, { 0, 0.2, 2.0 } };
+    bm_dopant a[2] = { { 0, 0.045, 4.0 }, { 0, 0.3, 4.0 } };
+    s.donors = d;
+    s.ndonors = 2;
+    s.acceptors = a;
+    s.nacceptors = 2;
+    int count = 0;
+    for (double t = 1.0; t <= 1500.0; t *= 1.45) {
+        for (double nd = 1e10; nd <= 1e21; nd *= 7.3) {
+            for (size_t c = 0; c < G_N_ELEMENTS(comp); c++) {
+                d[0].density_cm3 = nd;
+                d[1].density_cm3 = 0.1 * nd;
+                a[0].density_cm3 = comp[c] * nd;
+                a[1].density_cm3 = 0.05 * comp[c] * nd;
+                bm_carrier_state st;
+                bm_errbuf err;
+                bm_status r = bm_carriers_solve(&s, t, &st, &err);
+                if (r != BM_OK)
+                    g_error("T=%g N_D=%g comp=%g: %s", t, nd, comp[c], err.message);
+                g_assert_true(isfinite(st.fermi_level_ev));
+                g_assert_true(isfinite(st.n_cm3) && isfinite(st.p_cm3));
+                g_assert_true(isfinite(st.other_fermi_level_ev));
+                /* balance to 1e-9 of the larger side: rounding of the sums of
+                 * nearly equal charges sets the floor under heavy compensation */
+                g_assert_cmpfloat(imbalance(&st), <, 1e-9);
+                count++;
+            }
+        }
+    }
+    g_assert_cmpint(count, >, 1000);
+}
+
+static void test_bad_input(void)
+{
+    bm_semiconductor s = silicon();
+    bm_carrier_state st;
+    bm_errbuf err;
+    g_assert_cmpint(bm_carriers_solve(&s, 0.0, &st, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "temperature 0 K"));
+    g_assert_cmpint(bm_carriers_solve(&s, -5.0, &st, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "temperature -5 K"));
+    bm_dopant d = { -1e15, 0.045, 2.0 };
+    s.donors = &d;
+    s.ndonors = 1;
+    g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "donor 0 density -1e+15"));
+    s.ndonors = 0;
+    s.m_dos_electron = 0.0;
+    g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "electron DOS mass 0"));
+    s.m_dos_electron = 1.0;
+    s.m_dos_hole = -0.3;
+    g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "hole DOS mass -0.3"));
+    double n;
+    g_assert_cmpint(bm_effective_dos(0.0, 300.0, &n, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "mass 0"));
+    g_assert_cmpint(bm_effective_dos(1.0, -3.0, &n, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "temperature -3 K"));
+}
+
+static void test_two_dimensional(void)
+{
+    double dos;
+    bm_errbuf err;
+    /* m/(pi hbar^2) = 4.17731e14 eV^-1 cm^-2 at m = m_e (CODATA, reference list) */
+    g_assert_cmpint(bm_2d_dos(1.0, 1.0, &dos, &err), ==, BM_OK);
+    g_assert_cmpfloat(rel(dos, 4.17731e14), <, 2e-6);
+    /* GaAs 2DEG, m = 0.067: 2.80e10 cm^-2 meV^-1 (reference list) */
+    g_assert_cmpint(bm_2d_dos(0.067, 1.0, &dos, &err), ==, BM_OK);
+    g_assert_cmpfloat(rel(dos * 1e-3, 2.80e10), <, 0.002);
+
+    /* Degenerate limit (kT << EF - E1): n = D (EF - E1) (ln(1 + e^x) -> x). */
+    bm_subband one = { 0.0, 0.067, 1.0 };
+    double ns, ef;
+    g_assert_cmpint(bm_2d_sheet_density(&one, 1, 1.0, 0.010, &ns, NULL, &err), ==, BM_OK);
+    g_assert_cmpfloat(rel(ns, dos * 0.010), <, 1e-12);
+    /* EF exactly at the edge: n = D kT ln 2 (identity) */
+    g_assert_cmpint(bm_2d_sheet_density(&one, 1, 77.0, 0.0, &ns, NULL, &err), ==, BM_OK);
+    g_assert_cmpfloat(rel(ns, dos * BM_KB_EV * 77.0 * log(2.0)), <, 1e-12);
+
+    /* Round trip EF -> ns -> EF over several subbands, temperatures, densities */
+    bm_subband sub[3] = { { 0.0, 0.067, 1.0 }, { 0.030, 0.067, 1.0 }, { 0.012, 0.19, 2.0 } };
+    for (double t = 1.0; t <= 400.0; t *= 3.0) {
+        for (double e = -0.2; e <= 0.3; e += 0.0173) {
+            double per[3], per2[3];
+            g_assert_cmpint(bm_2d_sheet_density(sub, 3, t, e, &ns, per, &err), ==, BM_OK);
+            if (!(ns > 1e-250))
+                continue;
+            g_assert_cmpint(bm_2d_fermi_level(sub, 3, t, ns, &ef, per2, &err), ==, BM_OK);
+            g_assert_cmpfloat(fabs(ef - e), <, 1e-9 * fmax(1.0, BM_KB_EV * t * 1e3));
+            g_assert_cmpfloat(rel(per[0] + per[1] + per[2], ns), <, 1e-12);
+        }
+    }
+    /* bad input */
+    g_assert_cmpint(bm_2d_fermi_level(sub, 3, 0.0, 1e12, &ef, NULL, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "temperature 0 K"));
+    g_assert_cmpint(bm_2d_fermi_level(sub, 3, 4.0, -1e12, &ef, NULL, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "sheet density -1e+12"));
+    bm_subband bad = { 0.0, 0.0, 1.0 };
+    g_assert_cmpint(bm_2d_sheet_density(&bad, 1, 4.0, 0.0, &ns, NULL, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "subband 0 mass 0"));
+}
+
+static void test_drude(void)
+{
+    bm_drude_result r;
+    bm_errbuf err;
+    /* mu = e tau / m: e / m_e = 1.75882001e11 C/kg (CODATA 2018), so tau = 1e-13 s
+     * at m = m_e gives 175.882 cm^2/Vs.  Tolerance 3e-7: GSL's constants are CODATA
+     * 2006, whose e/m_e is 8e-8 above the 2018 value. */
+    bm_drude_input in = { 1.0, 1e-13, NAN, 1e16, 300.0 };
+    g_assert_cmpint(bm_drude(&in, &r, &err), ==, BM_OK);
+    g_assert_cmpfloat(rel(r.mobility_cm2_vs, 175.882001), <, 3e-7);
+    /* sigma = n e mu in S/cm (e = 1.602176634e-19 C, exact in SI 2019; 3e-7 for
+     * GSL's CODATA 2006 charge) and rho = 1 / sigma */
+    g_assert_cmpfloat(rel(r.conductivity_s_cm, 1e16 * 1.602176634e-19 * r.mobility_cm2_vs),
+                      <, 3e-7);
+    g_assert_cmpfloat(rel(r.resistivity_ohm_cm * r.conductivity_s_cm, 1.0), <, 1e-15);
+    /* v_th = sqrt(3 kT / m): 1.167934e7 cm/s for m_e at 300 K (computed with
+     * scipy.constants, CODATA 2018; the trade's "about 1e7 cm/s") */
+    g_assert_cmpfloat(rel(r.thermal_velocity_cm_s, 1.167934e7), <, 1e-6);
+    /* from mobility: GaAs-like 8500 cm^2/Vs at m = 0.067 -> tau = mu m / e */
+    bm_drude_input in2 = { 0.067, NAN, 8500.0, 1e15, 300.0 };
+    g_assert_cmpint(bm_drude(&in2, &r, &err), ==, BM_OK);
+    g_assert_cmpfloat(rel(r.tau_s, 0.85 * 0.067 / 1.75882001e11), <, 3e-7);
+    bm_drude_input back = { 0.067, r.tau_s, NAN, 1e15, 300.0 };
+    bm_drude_result r2;
+    g_assert_cmpint(bm_drude(&back, &r2, &err), ==, BM_OK);
+    g_assert_cmpfloat(rel(r2.mobility_cm2_vs, 8500.0), <, 1e-14);
+    /* bad input */
+    bm_drude_input bad = { 0.0, 1e-13, NAN, 1e16, 300.0 };
+    g_assert_cmpint(bm_drude(&bad, &r, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "mass 0"));
+    bm_drude_input both = { 1.0, 1e-13, 100.0, 1e16, 300.0 };
+    g_assert_cmpint(bm_drude(&both, &r, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "exactly one"));
+    bm_drude_input negn = { 1.0, 1e-13, NAN, -1.0, 300.0 };
+    g_assert_cmpint(bm_drude(&negn, &r, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "density -1"));
+}
+
+int main(int argc, char **argv)
+{
+    bm_core_init();
+    g_test_init(&argc, &argv, NULL);
+    g_test_add_func("/carriers/effective-dos", test_effective_dos);
+    g_test_add_func("/carriers/intrinsic-silicon", test_intrinsic_silicon);
+    g_test_add_func("/carriers/band-gap", test_varshni_and_bose_einstein);
+    g_test_add_func("/carriers/worked-example-n-silicon", test_worked_example_n_silicon);
+    g_test_add_func("/carriers/fermi-level-at-band-edge", test_fermi_level_at_band_edge);
+    g_test_add_func("/carriers/freeze-out-limits", test_freeze_out_limits);
+    g_test_add_func("/carriers/degenerate-flag", test_degenerate_flag);
+    g_test_add_func("/carriers/mass-hook", test_mass_hook);
+    g_test_add_func("/carriers/robustness-sweep", test_robustness_sweep);
+    g_test_add_func("/carriers/bad-input", test_bad_input);
+    g_test_add_func("/carriers/two-dimensional", test_two_dimensional);
+    g_test_add_func("/carriers/drude", test_drude);
+    return g_test_run();
+}

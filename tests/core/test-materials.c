@@ -1,0 +1,178 @@
+/* test-materials.c: the built-in parameter table: lookup, sources present,
+ * published check values, and consistency of the derived entries. */
+#include <glib.h>
+#include <math.h>
+#include <string.h>
+
+#include "bm-carriers.h"
+#include "bm-materials.h"
+
+static const bm_material *get(const char *name)
+{
+    bm_errbuf err;
+    const bm_material *m = bm_material_find(name, &err);
+    g_assert_nonnull(m);
+    return m;
+}
+
+static void test_lookup(void)
+{
+    const char *required[] = { "Si", "Ge", "GaAs", "InP", "InAs", "InSb", "GaN",
+                               "4H-SiC", "AlAs", "GaP" };
+    for (size_t i = 0; i < G_N_ELEMENTS(required); i++)
+        g_assert_cmpstr(get(required[i])->name, ==, required[i]);
+    g_assert_cmpuint(bm_material_count(), >=, G_N_ELEMENTS(required));
+    /* case-insensitive, by name or long name */
+    g_assert_true(get("si") == get("SILICON"));
+    g_assert_true(get("gaas") == get("Gallium Arsenide"));
+    g_assert_true(get("4h-sic") == get("4H-SiC"));
+    bm_errbuf err;
+    g_assert_null(bm_material_find("unobtainium", &err));
+    g_assert_cmpint(err.status, ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "'unobtainium'"));
+    g_assert_nonnull(strstr(err.message, "GaAs"));
+    g_assert_null(bm_material_at(bm_material_count()));
+}
+
+static void test_every_value_has_a_source(void)
+{
+    for (size_t i = 0; i < bm_material_count(); i++) {
+        const bm_material *m = bm_material_at(i);
+        const char *src[] = { m->gap_source, m->electron.source, m->m_dos_electron_source,
+                              m->m_dos_hole_source, m->hole_masses_source,
+                              m->split_off_source, m->luttinger_source };
+        for (size_t k = 0; k < G_N_ELEMENTS(src); k++) {
+            g_assert_nonnull(src[k]);
+            g_assert_cmpuint(strlen(src[k]), >, 10);
+        }
+        for (size_t k = 0; k < m->ndopants; k++) {
+            const bm_material_dopant *d = &m->dopants[k];
+            g_assert_nonnull(d->source);
+            g_assert_cmpfloat(d->ionisation_ev, >, 0.0);
+            /* ground-state degeneracy 2 for donors, 4 for acceptors (common
+             * practice, no source) */
+            g_assert_cmpfloat(d->degeneracy, ==, d->kind == BM_DOPANT_DONOR ? 2.0 : 4.0);
+        }
+        /* masses of the trade: 0.01..10 m_e (common practice, no source) */
+        double ms[] = { m->electron.m_longitudinal, m->electron.m_transverse,
+                        m->electron.m_transverse2, m->m_dos_electron, m->m_dos_hole };
+        for (size_t k = 0; k < G_N_ELEMENTS(ms); k++)
+            g_assert_true(ms[k] > 0.01 && ms[k] < 10.0);
+        /* published gaps at 300 K lie between 0.1 and 3.5 eV */
+        double eg;
+        g_assert_cmpint(bm_material_band_gap(m, 300.0, &eg, NULL, NULL), ==, BM_OK);
+        g_assert_true(eg > 0.1 && eg < 3.5);
+    }
+}
+
+static void test_published_values(void)
+{
+    double eg;
+    /* Varshni at 300 K: Si 1.1245 eV (Thurmond 1975), GaAs 1.4225 eV (Vurgaftman et al.
+     * 2001), as in the reference list (from memory). */
+    g_assert_cmpint(bm_material_band_gap(get("Si"), 300.0, &eg, NULL, NULL), ==, BM_OK);
+    g_assert_cmpfloat(fabs(eg - 1.1245), <, 5e-5);
+    g_assert_cmpint(bm_material_band_gap(get("GaAs"), 300.0, &eg, NULL, NULL), ==, BM_OK);
+    g_assert_cmpfloat(fabs(eg - 1.4225), <, 5e-5);
+    /* Room-temperature gaps (Sze & Ng 2007 App. G; from memory): Ge 0.66 eV,
+     * InP 1.34 eV, GaP 2.26 eV; 4H-SiC 3.23 eV (Levinshtein 2001; from memory). */
+    g_assert_cmpint(bm_material_band_gap(get("Ge"), 300.0, &eg, NULL, NULL), ==, BM_OK);
+    g_assert_cmpfloat(fabs(eg - 0.66), <, 0.01);
+    g_assert_cmpint(bm_material_band_gap(get("InP"), 300.0, &eg, NULL, NULL), ==, BM_OK);
+    g_assert_cmpfloat(fabs(eg - 1.34), <, 0.015);  /* the two sources differ by ~0.01 eV */
+    g_assert_cmpint(bm_material_band_gap(get("GaP"), 300.0, &eg, NULL, NULL), ==, BM_OK);
+    g_assert_cmpfloat(fabs(eg - 2.26), <, 0.02);
+    g_assert_cmpint(bm_material_band_gap(get("4H-SiC"), 300.0, &eg, NULL, NULL), ==, BM_OK);
+    g_assert_cmpfloat(fabs(eg - 3.23), <, 0.01);
+    /* Si shallow levels (reference list, Sze & Ng chart; from memory) */
+    const bm_material *si = get("Si");
+    int seen = 0;
+    for (size_t k = 0; k < si->ndopants; k++) {
+        const bm_material_dopant *d = &si->dopants[k];
+        if (!strcmp(d->element, "P")) {
+            g_assert_cmpfloat(d->ionisation_ev, ==, 0.045);
+            seen++;
+        }
+        if (!strcmp(d->element, "As")) {
+            g_assert_cmpfloat(d->ionisation_ev, ==, 0.054);
+            seen++;
+        }
+        if (!strcmp(d->element, "B")) {
+            g_assert_cmpfloat(d->ionisation_ev, ==, 0.045);
+            seen++;
+        }
+    }
+    g_assert_cmpint(seen, ==, 3);
+    /* Si Nc(300 K) = 2.8e19 cm^-3 from the table's DOS mass (Sze & Ng 2007 App. G;
+     * from memory), and Nv = 2.65e19 (the table's hole DOS mass is derived from it,
+     * so that one checks the derivation) */
+    double nc, nv;
+    g_assert_cmpint(bm_effective_dos(si->m_dos_electron, 300.0, &nc, NULL), ==, BM_OK);
+    g_assert_cmpfloat(fabs(nc / 2.8e19 - 1.0), <, 0.01);
+    g_assert_cmpint(bm_effective_dos(si->m_dos_hole, 300.0, &nv, NULL), ==, BM_OK);
+    g_assert_cmpfloat(fabs(nv / 2.65e19 - 1.0), <, 0.005);
+}
+
+static void test_valleys(void)
+{
+    /* Silicon: 6 X-direction valleys in the interior; germanium: 8 L half-valleys
+     * = 4 (METHODS, valley stars; textbook). */
+    const bm_material *si = get("Si"), *ge = get("Ge"), *gaas = get("GaAs");
+    g_assert_cmpint(si->electron.site, ==, BM_SITE_INTERIOR);
+    g_assert_cmpint(si->electron.star_size, ==, 6);
+    g_assert_cmpfloat(si->electron.valleys, ==, 6.0);
+    g_assert_cmpint(ge->electron.site, ==, BM_SITE_FACE);
+    g_assert_cmpint(ge->electron.star_size, ==, 8);
+    g_assert_cmpfloat(ge->electron.valleys, ==, 4.0);
+    g_assert_cmpint(gaas->electron.site, ==, BM_SITE_GAMMA);
+    /* face valleys count one half, interior ones one (METHODS) */
+    for (size_t i = 0; i < bm_material_count(); i++) {
+        const bm_valley_info *v = &bm_material_at(i)->electron;
+        double expect = v->site == BM_SITE_FACE ? 0.5 * v->star_size : v->star_size;
+        g_assert_cmpfloat(v->valleys, ==, expect);
+    }
+    /* Si DOS mass 1.08 (Sze & Ng) against g^(2/3) (m_l m_t^2)^(1/3) = 1.084 with
+     * m_l 0.98, m_t 0.19 (reference list: "DOS mass 1.084 (published 1.08)") */
+    double v = si->electron.valleys;
+    double md = pow(v, 2.0 / 3.0) * cbrt(si->electron.m_longitudinal *
+                                         si->electron.m_transverse * si->electron.m_transverse2);
+    g_assert_cmpfloat(fabs(md - 1.084), <, 5e-4);
+    g_assert_cmpfloat(fabs(md / si->m_dos_electron - 1.0), <, 0.005);
+}
+
+static void test_derived_entries(void)
+{
+    /* Entries marked "derived" must equal their formula (to the 3-digit rounding
+     * of the table): valley DOS mass, hole DOS mass, Luttinger hole masses
+     * (Luttinger 1956, [001]: 1/(g1 -+ 2 g2); METHODS). */
+    for (size_t i = 0; i < bm_material_count(); i++) {
+        const bm_material *m = bm_material_at(i);
+        if (strstr(m->m_dos_electron_source, "derived")) {
+            const bm_valley_info *v = &m->electron;
+            double md = pow(v->valleys, 2.0 / 3.0) *
+                        cbrt(v->m_longitudinal * v->m_transverse * v->m_transverse2);
+            g_assert_cmpfloat(fabs(md / m->m_dos_electron - 1.0), <, 2e-3);
+        }
+        if (strstr(m->m_dos_hole_source, "derived: (m_hh")) {
+            double mh = pow(pow(m->m_heavy_hole, 1.5) + pow(m->m_light_hole, 1.5), 2.0 / 3.0);
+            g_assert_cmpfloat(fabs(mh / m->m_dos_hole - 1.0), <, 3e-3);
+        }
+        if (strstr(m->hole_masses_source, "derived from the Luttinger")) {
+            double g1 = m->luttinger[0], g2 = m->luttinger[1];
+            g_assert_cmpfloat(fabs(m->m_heavy_hole * (g1 - 2 * g2) - 1.0), <, 3e-3);
+            g_assert_cmpfloat(fabs(m->m_light_hole * (g1 + 2 * g2) - 1.0), <, 3e-3);
+        }
+    }
+}
+
+int main(int argc, char **argv)
+{
+    bm_core_init();
+    g_test_init(&argc, &argv, NULL);
+    g_test_add_func("/materials/lookup", test_lookup);
+    g_test_add_func("/materials/every-value-has-a-source", test_every_value_has_a_source);
+    g_test_add_func("/materials/published-values", test_published_values);
+    g_test_add_func("/materials/valleys", test_valleys);
+    g_test_add_func("/materials/derived-entries", test_derived_entries);
+    return g_test_run();
+}
