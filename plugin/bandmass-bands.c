@@ -2,6 +2,7 @@
  * NumPy array) and handed to grid operations through BmCallInputs. */
 #include "bandmass-private.h"
 #include "registry.h"
+#include "band-grid.h"
 #include <math.h>
 
 /**
@@ -15,8 +16,9 @@
  */
 struct _BmBands {
     GObject parent_instance;
-    double *energies;
-    bm_grid grid;        /* view handed to operations; points into energies */
+    double *energies;    /* a copy of the caller's array, or NULL */
+    BmBandGrid *loaded;  /* a band grid document, or NULL */
+    bm_grid grid;        /* view handed to operations: into energies or loaded */
     GStrv names;         /* nbands entries, or NULL */
     guint mesh[3];
 };
@@ -27,6 +29,8 @@ static void bm_bands_finalize(GObject *object)
 {
     BmBands *self = BM_BANDS(object);
     g_free(self->energies);
+    if (self->loaded)
+        bm_band_grid_free(self->loaded);
     g_strfreev(self->names);
     G_OBJECT_CLASS(bm_bands_parent_class)->finalize(object);
 }
@@ -147,6 +151,34 @@ BmBands *bm_bands_new_from_lattice(const double *energies, gsize n_values, guint
 }
 
 /**
+ * bm_bands_new_from_file:
+ * @path: (type filename): a band grid document (JSON, format bandmass-grid-1,
+ *   energies inline or in a .npy file beside it)
+ * @error: return location for a #GError
+ *
+ * Loads a band grid document, as the `grid` key of a `mass-tensor` request
+ * does; band names come from the document. A .npy energies file is mapped,
+ * not copied.
+ *
+ * Returns: (transfer full): the band grid, or %NULL with @error set
+ *   (%BM_ERROR_IO or %BM_ERROR_INVALID_INPUT, naming the file and key)
+ */
+BmBands *bm_bands_new_from_file(const char *path, GError **error)
+{
+    g_return_val_if_fail(path != NULL, NULL);
+    BmBandGrid *loaded = bm_band_grid_load(path, error);
+    if (!loaded)
+        return NULL;
+    BmBands *self = g_object_new(BM_TYPE_BANDS, NULL);
+    self->loaded = loaded;
+    self->grid = loaded->grid;
+    for (int d = 0; d < 3; d++)
+        self->mesh[d] = (guint)loaded->grid.mesh[d];
+    self->names = g_strdupv(loaded->band_names);
+    return self;
+}
+
+/**
  * bm_bands_get_nbands:
  * @self: a #BmBands
  *
@@ -246,8 +278,9 @@ char *bm_bands_call(BmBands *self, const char *op, const char *request_json, GEr
 /**
  * bm_bands_find_extrema:
  * @self: a #BmBands
- * @request_json: (nullable): a `mass-tensor` request as JSON text (which
- *   band, which extrema, fit options); %NULL means `{}`, the defaults
+ * @request_json: (nullable): a `mass-tensor` request as JSON text without
+ *   a file: `band` (index or name), `extremum`, fit options; %NULL means
+ *   the defaults for a grid of one band (`{"band": 0}`)
  * @error: return location for a #GError
  *
  * Runs the registry's `mass-tensor` operation on this grid and returns its
@@ -259,6 +292,9 @@ char *bm_bands_call(BmBands *self, const char *op, const char *request_json, GEr
  */
 GPtrArray *bm_bands_find_extrema(BmBands *self, const char *request_json, GError **error)
 {
+    g_return_val_if_fail(BM_IS_BANDS(self), NULL);
+    if (!request_json && self->grid.nbands == 1)
+        request_json = "{\"band\": 0}";
     g_autofree char *text = bm_bands_call(self, "mass-tensor", request_json, error);
     if (!text)
         return NULL;

@@ -2,6 +2,7 @@
  * "extrema" array, read once into plain fields (no physics here). */
 #include "bandmass-private.h"
 #include <math.h>
+#include <string.h>
 
 /**
  * BmExtremum:
@@ -9,8 +10,9 @@
  * A band extremum with its inertial mass tensor, as the `mass-tensor`
  * operation reports it. Energies in eV, wave vectors in 1/Angstrom
  * (Cartesian) and fractional coordinates, masses in m_e. Principal masses
- * are signed (negative at a maximum) and NaN where the response has null
- * (divergent curvature or a direction the data do not sample).
+ * are signed (negative at a maximum), +Inf where the response says
+ * "divergent" (vanishing curvature, a conical point) and NaN where it has
+ * null (a direction the data do not sample).
  */
 struct _BmExtremum {
     GObject parent_instance;
@@ -22,6 +24,8 @@ struct _BmExtremum {
     double axes[9];
     double inv_mass[9];
     double fit_rms_ev;
+    int dims;
+    gboolean divergent;
     GStrv warnings;
     char *json;
 };
@@ -54,11 +58,16 @@ static gboolean bad(GError **error, const char *key, const char *what)
     return FALSE;
 }
 
-/* A number, or null as NaN when nullable. */
+/* A number; when nullable also null (NaN) and "divergent" (+Inf). */
 static gboolean number(JsonNode *n, gboolean nullable, double *out)
 {
     if (n && JSON_NODE_HOLDS_NULL(n) && nullable) {
         *out = NAN;
+        return TRUE;
+    }
+    if (n && nullable && JSON_NODE_HOLDS_VALUE(n) && json_node_get_value_type(n) == G_TYPE_STRING
+        && strcmp(json_node_get_string(n), "divergent") == 0) {
+        *out = INFINITY;
         return TRUE;
     }
     if (!n || !JSON_NODE_HOLDS_VALUE(n))
@@ -70,11 +79,17 @@ static gboolean number(JsonNode *n, gboolean nullable, double *out)
     return TRUE;
 }
 
-/* n numbers from key (rows = 0), or rows x rows numbers from an array of rows. */
+/* n numbers from key (rows = 0), or rows x rows numbers from an array of
+ * rows. When nullable, a null in place of the whole array reads as NaNs. */
 static gboolean numbers(JsonObject *o, const char *key, guint n, guint rows,
                         gboolean nullable, double *out, GError **error)
 {
     JsonNode *node = json_object_get_member(o, key);
+    if (node && nullable && JSON_NODE_HOLDS_NULL(node)) {
+        for (guint i = 0; i < (rows ? rows : 1) * n; i++)
+            out[i] = NAN;
+        return TRUE;
+    }
     const char *what = rows ? "an array of 3 arrays of 3 numbers" : "an array of 3 numbers";
     if (!node || !JSON_NODE_HOLDS_ARRAY(node))
         return bad(error, key, what);
@@ -109,9 +124,21 @@ static gboolean extremum_from_json(BmExtremum *self, JsonObject *o,
     if (!numbers(o, "k_inv_angstrom", 3, 0, FALSE, self->k, error)
         || !numbers(o, "k_fractional", 3, 0, TRUE, self->k_frac, error)
         || !numbers(o, "principal_masses_me", 3, 0, TRUE, self->masses, error)
-        || !numbers(o, "principal_axes", 3, 3, FALSE, self->axes, error)
-        || !numbers(o, "inverse_mass_tensor_per_me", 3, 3, FALSE, self->inv_mass, error))
+        || !numbers(o, "principal_axes", 3, 3, TRUE, self->axes, error)
+        || !numbers(o, "inverse_mass_tensor_per_me", 3, 3, TRUE, self->inv_mass, error))
         return FALSE;
+    JsonNode *dims = json_object_get_member(o, "dims");
+    self->dims = 3;
+    if (dims && (!JSON_NODE_HOLDS_VALUE(dims) || json_node_get_value_type(dims) != G_TYPE_INT64
+                 || json_node_get_int(dims) < 1 || json_node_get_int(dims) > 3))
+        return bad(error, "dims", "1, 2 or 3");
+    if (dims)
+        self->dims = (int)json_node_get_int(dims);
+    JsonNode *divergent = json_object_get_member(o, "divergent");
+    if (divergent && (!JSON_NODE_HOLDS_VALUE(divergent)
+                      || json_node_get_value_type(divergent) != G_TYPE_BOOLEAN))
+        return bad(error, "divergent", "true or false");
+    self->divergent = divergent ? json_node_get_boolean(divergent) : FALSE;
     self->fit_rms_ev = NAN;
     JsonNode *rms = json_object_get_member(o, "fit_rms_ev");
     if (rms && !number(rms, TRUE, &self->fit_rms_ev))
@@ -227,7 +254,8 @@ const double *bm_extremum_get_k_fractional(BmExtremum *self)
  * @self: a #BmExtremum
  *
  * Returns: (transfer none) (array fixed-size=3): signed principal
- *   masses, m_e, in the order of the axes; NaN where divergent or unsampled
+ *   masses, m_e, in the order of the axes; +Inf where divergent, NaN where
+ *   the data do not sample the direction
  */
 const double *bm_extremum_get_principal_masses(BmExtremum *self)
 {
@@ -271,6 +299,31 @@ double bm_extremum_get_fit_rms(BmExtremum *self)
 {
     g_return_val_if_fail(BM_IS_EXTREMUM(self), NAN);
     return self->fit_rms_ev;
+}
+
+/**
+ * bm_extremum_get_dims:
+ * @self: a #BmExtremum
+ *
+ * Returns: the dimensions sampled: 3, 2 for a sheet, 1 for a line cut
+ */
+int bm_extremum_get_dims(BmExtremum *self)
+{
+    g_return_val_if_fail(BM_IS_EXTREMUM(self), 0);
+    return self->dims;
+}
+
+/**
+ * bm_extremum_get_divergent:
+ * @self: a #BmExtremum
+ *
+ * Returns: %TRUE when a direction has no finite inertial mass (vanishing
+ *   curvature or a conical point)
+ */
+gboolean bm_extremum_get_divergent(BmExtremum *self)
+{
+    g_return_val_if_fail(BM_IS_EXTREMUM(self), FALSE);
+    return self->divergent;
 }
 
 /**

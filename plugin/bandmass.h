@@ -70,6 +70,8 @@ const double *bm_extremum_get_principal_masses(BmExtremum *self);
 const double *bm_extremum_get_principal_axes(BmExtremum *self);
 const double *bm_extremum_get_inverse_mass_tensor(BmExtremum *self);
 double bm_extremum_get_fit_rms(BmExtremum *self);
+int bm_extremum_get_dims(BmExtremum *self);
+gboolean bm_extremum_get_divergent(BmExtremum *self);
 const char *const *bm_extremum_get_warnings(BmExtremum *self);
 const char *bm_extremum_get_json(BmExtremum *self);
 
@@ -84,6 +86,7 @@ BmBands *bm_bands_new_from_array(const double *energies, gsize n_values, guint n
 BmBands *bm_bands_new_from_lattice(const double *energies, gsize n_values, guint nbands,
                                    const guint mesh[3], const double lattice_vectors[9],
                                    GError **error);
+BmBands *bm_bands_new_from_file(const char *path, GError **error);
 guint bm_bands_get_nbands(BmBands *self);
 const guint *bm_bands_get_mesh(BmBands *self);
 const double *bm_bands_get_reciprocal_vectors(BmBands *self);
