@@ -286,6 +286,44 @@ const bm_material *bm_material_find(const char *name, bm_errbuf *err)
     return NULL;
 }
 
+const bm_material_dopant *bm_material_find_dopant(const bm_material *m, const char *element,
+                                                  bm_dopant_kind kind, bm_errbuf *err)
+{
+    if (!m || !element) {
+        bm_fail(err, BM_EINVAL, "materials: no material or dopant element given");
+        return NULL;
+    }
+    const char *what = kind == BM_DOPANT_DONOR ? "donor" : "acceptor";
+    int other = 0;
+    for (size_t i = 0; i < m->ndopants && i < BM_MATERIAL_MAX_DOPANTS; i++) {
+        if (!same_ci(element, m->dopants[i].element))
+            continue;
+        if (m->dopants[i].kind == kind)
+            return &m->dopants[i];
+        other = 1;
+    }
+    if (other) {
+        bm_fail(err, BM_EINVAL, "materials: '%.40s' is %s in %s, not %s", element,
+                kind == BM_DOPANT_DONOR ? "an acceptor" : "a donor", m->name,
+                kind == BM_DOPANT_DONOR ? "a donor" : "an acceptor");
+        return NULL;
+    }
+    char known[200] = "";
+    size_t len = 0;
+    for (size_t i = 0; i < m->ndopants && i < BM_MATERIAL_MAX_DOPANTS; i++) {
+        if (m->dopants[i].kind != kind || len >= sizeof known)
+            continue;
+        int w = snprintf(known + len, sizeof known - len, "%s%s", len ? ", " : "",
+                         m->dopants[i].element);
+        if (w < 0)
+            break;
+        len += (size_t)w;
+    }
+    bm_fail(err, BM_EINVAL, "materials: no %s '%.40s' in %s (known %ss: %s)", what, element,
+            m->name, what, len ? known : "none");
+    return NULL;
+}
+
 bm_status bm_material_band_gap(const bm_material *m, double t_k, double *eg_ev,
                                bm_warnings *w, bm_errbuf *err)
 {

@@ -77,6 +77,13 @@ const bm_material *bm_material_at(size_t i);   /* NULL past the end */
  * NULL and BM_EINVAL naming the material (and listing the known ones) if absent. */
 const bm_material *bm_material_find(const char *name, bm_errbuf *err);
 
+/* The dopant of that element and kind in m's table (element matched
+ * case-insensitively, "p" finds "P").  NULL and BM_EINVAL naming the element and
+ * listing the material's dopants of that kind (or saying the element is of the
+ * other kind) when absent. */
+const bm_material_dopant *bm_material_find_dopant(const bm_material *m, const char *element,
+                                                  bm_dopant_kind kind, bm_errbuf *err);
+
 /* Varshni gap of the material at t_k. */
 bm_status bm_material_band_gap(const bm_material *m, double t_k, double *eg_ev,
                                bm_warnings *w, bm_errbuf *err);

@@ -181,3 +181,43 @@ void bm_json_warn(JsonObject *o, const char *fmt, ...)
     va_end(ap);
     json_array_add_string_element(json_object_get_array_member(o, "warnings"), text);
 }
+
+char *bm_json_to_string(JsonNode *node, gboolean pretty)
+{
+    char *text = json_to_string(node, pretty);
+    char *w = text;
+    gboolean in_string = FALSE;
+    for (const char *r = text; *r;) {
+        if (in_string) {
+            if (*r == '\\' && r[1]) {
+                *w++ = *r++;
+            } else if (*r == '"') {
+                in_string = FALSE;
+            }
+            *w++ = *r++;
+            continue;
+        }
+        if (*r == '"') {
+            in_string = TRUE;
+            *w++ = *r++;
+            continue;
+        }
+        if ((*r == 'e' || *r == 'E') && r > text && g_ascii_isdigit(r[-1])) {
+            const char *q = r + 1;
+            if (*q == '+' || *q == '-')
+                q++;
+            if (g_ascii_isdigit(*q)) {
+                while (g_ascii_isdigit(*q))
+                    q++;
+                while (r < q)
+                    *w++ = *r++;
+                if (q[0] == '.' && q[1] == '0' && !g_ascii_isdigit(q[2]))
+                    r += 2;
+                continue;
+            }
+        }
+        *w++ = *r++;
+    }
+    *w = '\0';
+    return text;
+}

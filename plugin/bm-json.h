@@ -33,6 +33,11 @@ void bm_json_set_vec3(JsonObject *o, const char *key, const double v[3]);
 void bm_json_set_mat3(JsonObject *o, const char *key, const double m[3][3]);
 void bm_json_set_numbers(JsonObject *o, const char *key, const double *v, gsize n);
 
+/* json_to_string, with numbers always valid JSON: json-glib 1.6 writes a double
+ * whose shortest form has an exponent and no point (5e19) as "5e+19.0"; the
+ * stray ".0" is removed here.  Use it wherever a response becomes text. */
+char *bm_json_to_string(JsonNode *node, gboolean pretty);
+
 /* Appends a warning string to the object's "warnings" array (created on demand). */
 void bm_json_warn(JsonObject *o, const char *fmt, ...) G_GNUC_PRINTF(2, 3);
 

@@ -1,6 +1,7 @@
 /* registry.c: operation lookup, request validation against the parameter
  * descriptions, and the JSON string path shared by every host. */
 #include "registry.h"
+#include "bm-json.h"
 #include "ops/ops.h"
 #include "bm-status.h"
 
@@ -171,7 +172,7 @@ char *bm_registry_call_json(const char *op_name, const char *request_json,
         return NULL;
     g_autoptr(JsonNode) out = json_node_new(JSON_NODE_OBJECT);
     json_node_set_object(out, response);
-    return json_to_string(out, pretty);
+    return bm_json_to_string(out, pretty);
 }
 
 JsonNode *bm_operation_describe(const BmOperation *op)

@@ -6,6 +6,7 @@
 #include <glib.h>
 
 #include "registry.h"
+#include "bm-json.h"
 
 #define EXIT_USAGE 2
 
@@ -92,7 +93,7 @@ static int cmd_ops(int argc, char **argv)
     }
     if (as_json) {
         g_autoptr(JsonNode) all = bm_registry_describe();
-        g_autofree char *text = json_to_string(all, TRUE);
+        g_autofree char *text = bm_json_to_string(all, TRUE);
         printf("%s\n", text);
         return 0;
     }
@@ -225,7 +226,7 @@ static char *csv_field(JsonNode *n)
         char buf[G_ASCII_DTOSTR_BUF_SIZE];
         return g_strdup(g_ascii_formatd(buf, sizeof buf, "%.10g", json_node_get_double(n)));
     }
-    return json_to_string(n, FALSE);
+    return bm_json_to_string(n, FALSE);
 }
 
 /* The response's "points" (one object per row) as CSV; arrays become
@@ -343,7 +344,7 @@ static int cmd_operation(const BmOperation *op, int argc, char **argv)
     if (view == JSON) {
         g_autoptr(JsonNode) node = json_node_new(JSON_NODE_OBJECT);
         json_node_set_object(node, response);
-        g_autofree char *text = json_to_string(node, TRUE);
+        g_autofree char *text = bm_json_to_string(node, TRUE);
         g_string_append_printf(out, "%s\n", text);
     } else if (view == CSV) {
         if (!render_csv(response, out, &error))

@@ -10,11 +10,23 @@ extern const BmOperation bm_op_constants;
 extern const BmOperation bm_op_mass_tensor;
 extern const BmOperation bm_op_valley_average;
 extern const BmOperation bm_op_hole_mass;
+extern const BmOperation bm_op_fermi_integral;
+extern const BmOperation bm_op_band_gap;
+extern const BmOperation bm_op_carrier_statistics;
+extern const BmOperation bm_op_sheet_density;
+extern const BmOperation bm_op_drude;
+extern const BmOperation bm_op_materials;
 
 #define BM_OPERATIONS_TABLE \
     &bm_op_constants, \
     &bm_op_mass_tensor, \
     &bm_op_valley_average, \
-    &bm_op_hole_mass,
+    &bm_op_hole_mass, \
+    &bm_op_fermi_integral, \
+    &bm_op_band_gap, \
+    &bm_op_carrier_statistics, \
+    &bm_op_sheet_density, \
+    &bm_op_drude, \
+    &bm_op_materials,
 
 #endif

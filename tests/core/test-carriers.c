@@ -233,6 +233,48 @@ static void test_mass_hook(void)
     g_assert_cmpfloat(st.m_dos_electron, ==, 1.05);
 }
 
+/* Tabulated masses: linear interpolation is exact on a straight line (identity:
+ * m(T) = 1 + T/1000 sampled at 100, 300, 600 K gives 1.2 at 200 K and 1.45 at
+ * 450 K), tabulated points come back unchanged, no extrapolation, and the hook
+ * feeds the solver (Nc from bm_effective_dos at the interpolated mass). */
+static void test_mass_table(void)
+{
+    const double t[3] = { 100.0, 300.0, 600.0 };
+    const double me[3] = { 1.1, 1.3, 1.6 };
+    const double mh[3] = { 0.5, 0.9, 0.9 };
+    bm_dos_mass_table tab = { 3, t, me, mh };
+    double a, b;
+    g_assert_cmpint(bm_dos_mass_table_eval(&tab, 200.0, &a, &b, NULL), ==, BM_OK);
+    g_assert_cmpfloat(fabs(a - 1.2), <, 1e-14);
+    g_assert_cmpfloat(fabs(b - 0.7), <, 1e-14);
+    g_assert_cmpint(bm_dos_mass_table_eval(&tab, 450.0, &a, &b, NULL), ==, BM_OK);
+    g_assert_cmpfloat(fabs(a - 1.45), <, 1e-14);
+    g_assert_cmpfloat(b, ==, 0.9);
+    g_assert_cmpint(bm_dos_mass_table_eval(&tab, 600.0, &a, &b, NULL), ==, BM_OK);
+    g_assert_cmpfloat(a, ==, 1.6);
+    bm_errbuf err;
+    g_assert_cmpint(bm_dos_mass_table_eval(&tab, 700.0, &a, &b, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "100..600 K"));
+    const double bad_t[3] = { 100.0, 100.0, 600.0 };
+    bm_dos_mass_table bad = { 3, bad_t, me, mh };
+    g_assert_cmpint(bm_dos_mass_table_check(&bad, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "entry 1"));
+    const double bad_m[3] = { 1.1, 0.0, 1.6 };
+    bm_dos_mass_table bad2 = { 3, t, bad_m, mh };
+    g_assert_cmpint(bm_dos_mass_table_check(&bad2, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "entry 1 electron"));
+
+    bm_semiconductor s = silicon();
+    s.dos_mass_hook = bm_dos_mass_table_hook;
+    s.hook_data = &tab;
+    bm_carrier_state st;
+    g_assert_cmpint(bm_carriers_solve(&s, 200.0, &st, NULL), ==, BM_OK);
+    double nc;
+    bm_effective_dos(1.2, 200.0, &nc, NULL);
+    g_assert_cmpfloat(rel(st.nc_cm3, nc), <, 1e-12);
+    g_assert_cmpint(bm_carriers_solve(&s, 50.0, &st, &err), ==, BM_EINVAL);
+}
+
 /* Charge balance of a state: the equation being solved (identity). */
 static double imbalance(const bm_carrier_state *st)
 {
@@ -401,6 +443,7 @@ int main(int argc, char **argv)
     g_test_add_func("/carriers/freeze-out-limits", test_freeze_out_limits);
     g_test_add_func("/carriers/degenerate-flag", test_degenerate_flag);
     g_test_add_func("/carriers/mass-hook", test_mass_hook);
+    g_test_add_func("/carriers/mass-table", test_mass_table);
     g_test_add_func("/carriers/robustness-sweep", test_robustness_sweep);
     g_test_add_func("/carriers/bad-input", test_bad_input);
     g_test_add_func("/carriers/two-dimensional", test_two_dimensional);

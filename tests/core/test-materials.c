@@ -165,6 +165,28 @@ static void test_derived_entries(void)
     }
 }
 
+/* Dopant lookup: P is a donor in Si at 0.045 eV and B an acceptor at 0.045 eV
+ * (Sze & Ng 2007 ionisation-energy chart; from memory); the wrong kind and an
+ * absent element are errors naming the element. */
+static void test_dopant_lookup(void)
+{
+    const bm_material *si = get("Si");
+    bm_errbuf err;
+    const bm_material_dopant *p = bm_material_find_dopant(si, "p", BM_DOPANT_DONOR, &err);
+    g_assert_nonnull(p);
+    g_assert_cmpstr(p->element, ==, "P");
+    g_assert_cmpfloat(p->ionisation_ev, ==, 0.045);
+    const bm_material_dopant *b = bm_material_find_dopant(si, "B", BM_DOPANT_ACCEPTOR, &err);
+    g_assert_nonnull(b);
+    g_assert_cmpfloat(b->ionisation_ev, ==, 0.045);
+    g_assert_cmpfloat(b->degeneracy, ==, 4.0);
+    g_assert_null(bm_material_find_dopant(si, "B", BM_DOPANT_DONOR, &err));
+    g_assert_nonnull(strstr(err.message, "'B' is an acceptor in Si"));
+    g_assert_null(bm_material_find_dopant(si, "Xx", BM_DOPANT_DONOR, &err));
+    g_assert_nonnull(strstr(err.message, "'Xx'"));
+    g_assert_nonnull(strstr(err.message, "P, As, Sb"));
+}
+
 int main(int argc, char **argv)
 {
     bm_core_init();
@@ -174,5 +196,6 @@ int main(int argc, char **argv)
     g_test_add_func("/materials/published-values", test_published_values);
     g_test_add_func("/materials/valleys", test_valleys);
     g_test_add_func("/materials/derived-entries", test_derived_entries);
+    g_test_add_func("/materials/dopant-lookup", test_dopant_lookup);
     return g_test_run();
 }

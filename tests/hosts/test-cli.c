@@ -112,6 +112,45 @@ static void test_output_is_atomic(void)
     g_rmdir(dir);
 }
 
+/* A list of temperatures becomes CSV: a header of the point keys (per-species
+ * arrays numbered) and one row per temperature. */
+static void test_carrier_csv(void)
+{
+    g_auto(Run) a = { 0 };
+    run_cli(&a, NULL, "carrier-statistics", "--material", "Si", "--temperatures-k", "200,300,400",
+            "--donors", "[{\"species\": \"P\", \"density_cm3\": 1e16}]", "--csv", NULL);
+    g_assert_cmpint(a.status, ==, 0);
+    g_auto(GStrv) lines = g_strsplit(a.out, "\n", -1);
+    g_assert_cmpuint(g_strv_length(lines), ==, 5);   /* header, 3 rows, empty tail */
+    g_assert_true(g_str_has_prefix(lines[0], "temperature_k,band_gap_ev,"));
+    g_assert_nonnull(strstr(lines[0], ",fermi_level_ev,"));
+    g_assert_nonnull(strstr(lines[0], ",ionized_donors_per_species_cm3_1,"));
+    g_assert_true(g_str_has_prefix(lines[1], "200,"));
+    g_assert_true(g_str_has_prefix(lines[3], "400,"));
+    g_auto(GStrv) head = g_strsplit(lines[0], ",", -1);
+    guint cols = g_strv_length(head);
+    for (int i = 1; i <= 3; i++) {
+        g_auto(GStrv) f = g_strsplit(lines[i], ",", -1);
+        g_assert_cmpuint(g_strv_length(f), ==, cols);
+    }
+    g_assert_cmpstr(lines[4], ==, "");
+}
+
+static void test_carrier_bad_input(void)
+{
+    g_auto(Run) a = { 0 };
+    run_cli(&a, NULL, "carrier-statistics", "--material", "Si", "--temperature-k", "-5", NULL);
+    assert_bad_input(&a, "\"temperature_k\"");
+    g_auto(Run) b = { 0 };
+    run_cli(&b, "{\"material\": \"Si\", \"temperature_k\": 300, \"donors\": "
+            "[{\"species\": \"Zz\", \"density_cm3\": 1e16}]}", "call", "carrier-statistics",
+            NULL);
+    assert_bad_input(&b, "donors[0]: key \"species\"");
+    g_auto(Run) c = { 0 };
+    run_cli(&c, NULL, "materials", "--name", "unobtainium", NULL);
+    assert_bad_input(&c, "unknown material");
+}
+
 int main(int argc, char **argv)
 {
     g_test_init(&argc, &argv, NULL);
@@ -119,5 +158,7 @@ int main(int argc, char **argv)
     g_test_add_func("/cli/bad-usage-exits-2", test_bad_usage);
     g_test_add_func("/cli/friendly-equals-call", test_friendly_equals_call);
     g_test_add_func("/cli/output-is-atomic", test_output_is_atomic);
+    g_test_add_func("/cli/carrier-csv", test_carrier_csv);
+    g_test_add_func("/cli/carrier-bad-input", test_carrier_bad_input);
     return g_test_run();
 }

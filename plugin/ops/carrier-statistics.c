@@ -1,0 +1,397 @@
+/* carrier-statistics.c: operation "carrier-statistics" -- Nc, Nv, ni, the
+ * charge-neutrality Fermi level and ionised dopants, from the core solver. */
+#include <math.h>
+#include <string.h>
+
+#include "ops.h"
+#include "bm-json.h"
+#include "bm-carriers.h"
+#include "material-input.h"
+
+static const BmParam params[] = {
+    { "material", BM_VALUE_STRING | BM_VALUE_OBJECT, TRUE, NULL,
+      "built-in name (bandmass materials), path of a material JSON file, or an object "
+      "{electron_dos_mass_me, hole_dos_mass_me, band_gap_ev or varshni {...}, name, dopants}" },
+    { "temperature_k", BM_VALUE_NUMBER, FALSE, NULL, "temperature, K (> 0)" },
+    { "temperatures_k", BM_VALUE_NUMBER | BM_VALUE_ARRAY, FALSE, NULL,
+      "list of temperatures, K: the response holds \"points\" (one row each, --csv)" },
+    { "donors", BM_VALUE_ARRAY, FALSE, "[]",
+      "donor species: {density_cm3, ionization_ev (Ec - E_D, eV), degeneracy (default 2)} "
+      "or {species (a dopant of the material, e.g. \"P\"), density_cm3}" },
+    { "acceptors", BM_VALUE_ARRAY, FALSE, "[]",
+      "acceptor species: {density_cm3, ionization_ev (E_A - Ev, eV), degeneracy (default 4)} "
+      "or {species, density_cm3}" },
+    { "statistics", BM_VALUE_STRING, FALSE, "\"fermi-dirac\"",
+      "band occupation: fermi-dirac or boltzmann" },
+    { "dos_mass_points", BM_VALUE_ARRAY, FALSE, NULL,
+      "temperature-dependent DOS masses, linearly interpolated: "
+      "[{temperature_k, electron_dos_mass_me, hole_dos_mass_me}, ...] in increasing temperature" },
+    { NULL, 0, FALSE, NULL, NULL }
+};
+
+typedef struct {
+    bm_dopant d[BM_MAX_DOPANTS];
+    const char *species[BM_MAX_DOPANTS];   /* NULL when given by ionization_ev */
+    const char *source[BM_MAX_DOPANTS];
+    size_t n;
+} Dopants;
+
+static gboolean read_dopants(JsonObject *request, const char *key, bm_dopant_kind kind,
+                             const BmMaterialInput *mat, Dopants *out, GError **error)
+{
+    static const char *const keys[] = { "species", "density_cm3", "ionization_ev",
+                                        "degeneracy", NULL };
+    JsonArray *a = json_object_get_array_member(request, key);
+    guint len = json_array_get_length(a);
+    if (len > BM_MAX_DOPANTS) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request: key \"%s\" holds %u species (at most %d)", key, len,
+                    BM_MAX_DOPANTS);
+        return FALSE;
+    }
+    out->n = len;
+    for (guint i = 0; i < len; i++) {
+        g_autofree char *where = g_strdup_printf("%s[%u]", key, i);
+        JsonNode *e = json_array_get_element(a, i);
+        if (!JSON_NODE_HOLDS_OBJECT(e)) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: must be an object",
+                        where);
+            return FALSE;
+        }
+        JsonObject *o = json_node_get_object(e);
+        g_autoptr(GList) members = json_object_get_members(o);
+        for (GList *l = members; l; l = l->next) {
+            gboolean ok = FALSE;
+            for (int k = 0; keys[k]; k++)
+                ok |= strcmp(l->data, keys[k]) == 0;
+            if (!ok) {
+                g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                            "%s: unknown key \"%s\" (expected species, density_cm3, "
+                            "ionization_ev, degeneracy)", where, (char *)l->data);
+                return FALSE;
+            }
+        }
+        bm_dopant *d = &out->d[i];
+        memset(d, 0, sizeof *d);
+        out->species[i] = NULL;
+        out->source[i] = "given in the request";
+        if (!bm_json_number(o, "density_cm3", where, &d->density_cm3, error))
+            return FALSE;
+        if (d->density_cm3 < 0) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                        "%s: key \"density_cm3\" must be >= 0 (got %g)", where, d->density_cm3);
+            return FALSE;
+        }
+        gboolean has_species = json_object_has_member(o, "species");
+        if (has_species) {
+            JsonNode *s = json_object_get_member(o, "species");
+            if (!JSON_NODE_HOLDS_VALUE(s) || json_node_get_value_type(s) != G_TYPE_STRING) {
+                g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                            "%s: key \"species\" must be a string", where);
+                return FALSE;
+            }
+            bm_errbuf err = {0};
+            const bm_material_dopant *md = bm_material_find_dopant(&mat->mat,
+                json_node_get_string(s), kind, &err);
+            if (!md) {
+                g_autofree char *ctx = g_strdup_printf("%s: key \"species\"", where);
+                bm_error_from_core(error, &err, ctx);
+                return FALSE;
+            }
+            d->ionisation_ev = md->ionisation_ev;
+            d->degeneracy = md->degeneracy;
+            out->species[i] = md->element;
+            out->source[i] = md->source;
+        } else if (!json_object_has_member(o, "ionization_ev")) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                        "%s: give \"ionization_ev\" or \"species\"", where);
+            return FALSE;
+        }
+        /* explicit values override the table's */
+        if (!bm_json_number_opt(o, "ionization_ev", where, &d->ionisation_ev, error)
+            || !bm_json_number_opt(o, "degeneracy", where, &d->degeneracy, error))
+            return FALSE;
+        if (d->degeneracy < 0) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                        "%s: key \"degeneracy\" must be > 0 (got %g)", where, d->degeneracy);
+            return FALSE;
+        }
+        if (has_species && (json_object_has_member(o, "ionization_ev")
+                            || json_object_has_member(o, "degeneracy")))
+            out->source[i] = "given in the request (overrides the table)";
+    }
+    return TRUE;
+}
+
+typedef struct {
+    gsize n;
+    double *t, *me, *mh;
+    bm_dos_mass_table table;
+} MassPoints;
+
+static gboolean read_mass_points(JsonObject *request, MassPoints *mp, GError **error)
+{
+    JsonArray *a = json_object_get_array_member(request, "dos_mass_points");
+    mp->n = json_array_get_length(a);
+    if (mp->n == 0) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request: key \"dos_mass_points\" is empty");
+        return FALSE;
+    }
+    mp->t = g_new(double, mp->n);
+    mp->me = g_new(double, mp->n);
+    mp->mh = g_new(double, mp->n);
+    for (gsize i = 0; i < mp->n; i++) {
+        g_autofree char *where = g_strdup_printf("dos_mass_points[%zu]", (size_t)i);
+        JsonNode *e = json_array_get_element(a, (guint)i);
+        if (!JSON_NODE_HOLDS_OBJECT(e)) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: must be an object",
+                        where);
+            return FALSE;
+        }
+        JsonObject *o = json_node_get_object(e);
+        if (!bm_json_positive(o, "temperature_k", where, &mp->t[i], error)
+            || !bm_json_positive(o, "electron_dos_mass_me", where, &mp->me[i], error)
+            || !bm_json_positive(o, "hole_dos_mass_me", where, &mp->mh[i], error))
+            return FALSE;
+    }
+    mp->table = (bm_dos_mass_table){ mp->n, mp->t, mp->me, mp->mh };
+    bm_errbuf err = {0};
+    if (bm_dos_mass_table_check(&mp->table, &err) != BM_OK) {
+        bm_error_from_core(error, &err, "request: key \"dos_mass_points\"");
+        return FALSE;
+    }
+    return TRUE;
+}
+
+static const char *statistics_name(bm_statistics s)
+{
+    return s == BM_BOLTZMANN ? "boltzmann" : "fermi-dirac";
+}
+
+static void set_state(JsonObject *o, const bm_carrier_state *st, const Dopants *don,
+                      const Dopants *acc)
+{
+    bm_json_set_number(o, "temperature_k", st->temperature_k);
+    bm_json_set_number(o, "band_gap_ev", st->band_gap_ev);
+    bm_json_set_number(o, "electron_dos_mass_me", st->m_dos_electron);
+    bm_json_set_number(o, "hole_dos_mass_me", st->m_dos_hole);
+    bm_json_set_number(o, "nc_cm3", st->nc_cm3);
+    bm_json_set_number(o, "nv_cm3", st->nv_cm3);
+    bm_json_set_number(o, "ni_cm3", st->ni_cm3);
+    bm_json_set_number(o, "fermi_level_ev", st->fermi_level_ev);
+    bm_json_set_number(o, "n_cm3", st->n_cm3);
+    bm_json_set_number(o, "p_cm3", st->p_cm3);
+    bm_json_set_number(o, "ionized_donors_cm3", st->donors_ionised_cm3);
+    bm_json_set_number(o, "ionized_acceptors_cm3", st->acceptors_ionised_cm3);
+    if (don->n)
+        bm_json_set_numbers(o, "ionized_donors_per_species_cm3", st->donor_ionised_cm3, don->n);
+    if (acc->n)
+        bm_json_set_numbers(o, "ionized_acceptors_per_species_cm3", st->acceptor_ionised_cm3,
+                            acc->n);
+    json_object_set_string_member(o, "regime", bm_regime_name(st->regime));
+    json_object_set_string_member(o, "statistics", statistics_name(st->statistics));
+    bm_json_set_number(o, "boltzmann_deviation", st->boltzmann_deviation);
+}
+
+static JsonArray *dopant_list(const Dopants *d)
+{
+    JsonArray *a = json_array_new();
+    for (size_t i = 0; i < d->n; i++) {
+        JsonObject *o = json_object_new();
+        if (d->species[i])
+            json_object_set_string_member(o, "species", d->species[i]);
+        bm_json_set_number(o, "density_cm3", d->d[i].density_cm3);
+        bm_json_set_number(o, "ionization_ev", d->d[i].ionisation_ev);
+        if (d->d[i].degeneracy > 0)
+            bm_json_set_number(o, "degeneracy", d->d[i].degeneracy);
+        else
+            json_object_set_string_member(o, "degeneracy", "default");
+        json_object_set_string_member(o, "source", d->source[i]);
+        json_array_add_object_element(a, o);
+    }
+    return a;
+}
+
+static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
+{
+    (void)inputs;
+    JsonObject *resp = NULL;
+    JsonArray *pts = NULL;
+    MassPoints mp = {0};
+    Dopants don = {0}, acc = {0};
+    g_autofree double *t = NULL;
+    gsize nt = 0;
+    BmMaterialInput mat;
+    gboolean have_mat = FALSE;
+
+    const char *stats = json_object_get_string_member(request, "statistics");
+    if (strcmp(stats, "fermi-dirac") && strcmp(stats, "boltzmann")) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request: key \"statistics\" must be fermi-dirac or boltzmann (got \"%s\")",
+                    stats);
+        return NULL;
+    }
+    gboolean one = json_object_has_member(request, "temperature_k");
+    gboolean list = json_object_has_member(request, "temperatures_k");
+    if (one == list) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request: give exactly one of \"temperature_k\" or \"temperatures_k\"");
+        return NULL;
+    }
+    const char *tkey = list ? "temperatures_k" : "temperature_k";
+    t = bm_json_numbers(request, tkey, NULL, &nt, error);
+    if (!t)
+        return NULL;
+    for (gsize i = 0; i < nt; i++)
+        if (!(t[i] > 0)) {
+            if (list)
+                g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                            "request: element %zu of \"temperatures_k\" must be > 0 (got %g)",
+                            (size_t)i, t[i]);
+            else
+                g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                            "request: key \"temperature_k\" must be > 0 (got %g)", t[i]);
+            return NULL;
+        }
+
+    have_mat = bm_material_input_read(request, "material", &mat, error);
+    if (!have_mat)
+        goto done;
+    gboolean use_points = json_object_has_member(request, "dos_mass_points");
+    if (use_points) {
+        if (!read_mass_points(request, &mp, error))
+            goto done;
+    } else if (!mat.has_electron_mass || !mat.has_hole_mass) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "%s: missing key \"%s\" (or give \"dos_mass_points\")", mat.origin,
+                    mat.has_electron_mass ? "hole_dos_mass_me" : "electron_dos_mass_me");
+        goto done;
+    }
+    if (!read_dopants(request, "donors", BM_DOPANT_DONOR, &mat, &don, error)
+        || !read_dopants(request, "acceptors", BM_DOPANT_ACCEPTOR, &mat, &acc, error))
+        goto done;
+
+    BmGapModel gap_model = bm_material_input_default_gap(&mat);
+    bm_semiconductor s = {0};
+    s.m_dos_electron = mat.mat.m_dos_electron;
+    s.m_dos_hole = mat.mat.m_dos_hole;
+    if (use_points) {
+        s.dos_mass_hook = bm_dos_mass_table_hook;
+        s.hook_data = &mp.table;
+    }
+    s.donors = don.d;
+    s.ndonors = don.n;
+    s.acceptors = acc.d;
+    s.nacceptors = acc.n;
+    s.statistics = strcmp(stats, "boltzmann") ? BM_FERMI_DIRAC : BM_BOLTZMANN;
+
+    resp = json_object_new();
+    pts = list ? json_array_new() : NULL;
+    for (gsize i = 0; i < nt; i++) {
+        g_autofree char *where = list
+            ? g_strdup_printf("request: element %zu of \"temperatures_k\"", (size_t)i)
+            : g_strdup("request: key \"temperature_k\"");
+        bm_warnings gw = {0};
+        bm_errbuf err = {0};
+        if (!bm_material_input_gap(&mat, gap_model, t[i], where, &s.band_gap_ev, &gw, error))
+            goto fail;
+        double me, mh;
+        if (use_points && bm_dos_mass_table_eval(&mp.table, t[i], &me, &mh, &err) != BM_OK) {
+            g_autofree char *ctx = g_strdup_printf("%s and \"dos_mass_points\"", where);
+            bm_error_from_core(error, &err, ctx);
+            goto fail;
+        }
+        bm_carrier_state st;
+        if (bm_carriers_solve(&s, t[i], &st, &err) != BM_OK) {
+            bm_error_from_core(error, &err, where);
+            goto fail;
+        }
+        JsonObject *row = list ? json_object_new() : resp;
+        set_state(row, &st, &don, &acc);
+        if (list)
+            json_array_add_object_element(pts, row);
+        g_autofree char *prefix = list ? g_strdup_printf("%g K: ", t[i]) : g_strdup("");
+        for (int k = 0; k < gw.count; k++)
+            bm_json_warn(resp, "%s%s", prefix, gw.text[k]);
+        /* the gap warning is already given by the band-gap model */
+        for (int k = 0; k < st.warnings.count; k++)
+            if (!(gw.count && strstr(st.warnings.text[k], "not positive")))
+                bm_json_warn(resp, "%s%s", prefix, st.warnings.text[k]);
+    }
+    json_object_set_string_member(resp, "material", mat.mat.name);
+    json_object_set_string_member(resp, "fermi_level_reference", "valence-band maximum");
+    json_object_set_string_member(resp, "band_gap_model", bm_gap_model_name(gap_model));
+    JsonObject *src = json_object_new();
+    json_object_set_string_member(src, "band_gap", bm_material_input_gap_source(&mat, gap_model));
+    json_object_set_string_member(src, "electron_dos_mass",
+                                  use_points ? "dos_mass_points (linear interpolation)"
+                                  : mat.mat.m_dos_electron_source);
+    json_object_set_string_member(src, "hole_dos_mass",
+                                  use_points ? "dos_mass_points (linear interpolation)"
+                                  : mat.mat.m_dos_hole_source);
+    json_object_set_object_member(resp, "sources", src);
+    json_object_set_array_member(resp, "donors", dopant_list(&don));
+    json_object_set_array_member(resp, "acceptors", dopant_list(&acc));
+    if (list) {
+        json_object_set_string_member(resp, "statistics", stats);
+        json_object_set_array_member(resp, "points", pts);
+        pts = NULL;
+    }
+    goto done;
+
+fail:
+    if (pts)
+        json_array_unref(pts);
+    json_object_unref(resp);
+    resp = NULL;
+done:
+    if (have_mat)
+        bm_material_input_clear(&mat);
+    else
+        bm_material_input_clear(&mat);
+    g_free(mp.t);
+    g_free(mp.me);
+    g_free(mp.mh);
+    return resp;
+}
+
+static void render_row(GString *out, JsonObject *o)
+{
+    g_string_append_printf(out, "%8g %8.4f %10.3e %10.3e %10.3e %9.4f %10.3e %10.3e  %s\n",
+                           json_object_get_double_member(o, "temperature_k"),
+                           json_object_get_double_member(o, "band_gap_ev"),
+                           json_object_get_double_member(o, "nc_cm3"),
+                           json_object_get_double_member(o, "nv_cm3"),
+                           json_object_get_double_member(o, "ni_cm3"),
+                           json_object_get_double_member(o, "fermi_level_ev"),
+                           json_object_get_double_member(o, "n_cm3"),
+                           json_object_get_double_member(o, "p_cm3"),
+                           json_object_get_string_member(o, "regime"));
+}
+
+static void render(JsonObject *response, GString *out)
+{
+    g_string_append_printf(out, "material %s, Fermi level from the %s, %s statistics\n",
+                           json_object_get_string_member(response, "material"),
+                           json_object_get_string_member(response, "fermi_level_reference"),
+                           json_object_get_string_member(response, "statistics"));
+    g_string_append_printf(out, "%8s %8s %10s %10s %10s %9s %10s %10s  %s\n", "T_K", "Eg_eV",
+                           "Nc_cm3", "Nv_cm3", "ni_cm3", "EF_eV", "n_cm3", "p_cm3", "regime");
+    if (json_object_has_member(response, "points")) {
+        JsonArray *pts = json_object_get_array_member(response, "points");
+        for (guint i = 0; i < json_array_get_length(pts); i++)
+            render_row(out, json_array_get_object_element(pts, i));
+    } else {
+        render_row(out, response);
+    }
+}
+
+const BmOperation bm_op_carrier_statistics = {
+    .name = "carrier-statistics",
+    .summary = "Effective densities of states, intrinsic density, Fermi level and ionised "
+               "dopants from charge neutrality",
+    .params = params,
+    .run = run,
+    .render = render,
+};

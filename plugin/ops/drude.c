@@ -1,0 +1,109 @@
+/* drude.c: operation "drude" -- mobility, scattering time, conductivity,
+ * thermal velocity and mean free path from a mass, from the core. */
+#include <math.h>
+
+#include "ops.h"
+#include "bm-json.h"
+#include "bm-drude.h"
+
+static const BmParam params[] = {
+    { "mass_me", BM_VALUE_NUMBER, TRUE, NULL, "conductivity effective mass, m_e (> 0)" },
+    { "scattering_time_s", BM_VALUE_NUMBER, FALSE, NULL,
+      "momentum relaxation time, s (give this or mobility_cm2_per_vs)" },
+    { "mobility_cm2_per_vs", BM_VALUE_NUMBER, FALSE, NULL,
+      "mobility, cm^2/(V s) (give this or scattering_time_s)" },
+    { "density_cm3", BM_VALUE_NUMBER, FALSE, NULL,
+      "carrier density, cm^-3 (>= 0): gives conductivity and resistivity" },
+    { "temperature_k", BM_VALUE_NUMBER, FALSE, NULL,
+      "temperature, K (> 0): gives thermal velocity and mean free path" },
+    { NULL, 0, FALSE, NULL, NULL }
+};
+
+static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
+{
+    (void)inputs;
+    bm_drude_input in = { 0.0, NAN, NAN, 0.0, 0.0 };
+    gboolean has_tau = json_object_has_member(request, "scattering_time_s");
+    gboolean has_mu = json_object_has_member(request, "mobility_cm2_per_vs");
+    gboolean has_n = json_object_has_member(request, "density_cm3");
+    gboolean has_t = json_object_has_member(request, "temperature_k");
+    if (has_tau == has_mu) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request: give exactly one of \"scattering_time_s\" or "
+                    "\"mobility_cm2_per_vs\"");
+        return NULL;
+    }
+    if (!bm_json_positive(request, "mass_me", NULL, &in.mass, error)
+        || (has_tau && !bm_json_positive(request, "scattering_time_s", NULL, &in.tau_s, error))
+        || (has_mu && !bm_json_positive(request, "mobility_cm2_per_vs", NULL,
+                                        &in.mobility_cm2_vs, error))
+        || (has_t && !bm_json_positive(request, "temperature_k", NULL, &in.temperature_k,
+                                       error))
+        || !bm_json_number_opt(request, "density_cm3", NULL, &in.density_cm3, error))
+        return NULL;
+    if (in.density_cm3 < 0) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request: key \"density_cm3\" must be >= 0 (got %g)", in.density_cm3);
+        return NULL;
+    }
+    bm_drude_result r;
+    bm_errbuf err = {0};
+    if (bm_drude(&in, &r, &err) != BM_OK) {
+        bm_error_from_core(error, &err, "request");
+        return NULL;
+    }
+    JsonObject *resp = json_object_new();
+    bm_json_set_number(resp, "mass_me", in.mass);
+    bm_json_set_number(resp, "scattering_time_s", r.tau_s);
+    bm_json_set_number(resp, "mobility_cm2_per_vs", r.mobility_cm2_vs);
+    if (has_n) {
+        bm_json_set_number(resp, "density_cm3", in.density_cm3);
+        bm_json_set_number(resp, "conductivity_s_per_cm", r.conductivity_s_cm);
+        bm_json_set_number(resp, "resistivity_ohm_cm", r.resistivity_ohm_cm);
+    }
+    if (has_t) {
+        bm_json_set_number(resp, "temperature_k", in.temperature_k);
+        bm_json_set_number(resp, "thermal_velocity_cm_per_s", r.thermal_velocity_cm_s);
+        bm_json_set_number(resp, "mean_free_path_nm", r.mean_free_path_nm);
+    }
+    if (in.mass < 0.01 || in.mass > 10.0)
+        bm_json_warn(resp, "mass %g m_e is outside 0.01..10 m_e", in.mass);
+    if (has_n && in.density_cm3 == 0)
+        bm_json_warn(resp, "density_cm3 is 0: no conductivity, resistivity is infinite "
+                     "(written as null)");
+    return resp;
+}
+
+static void line(GString *out, JsonObject *r, const char *key, const char *label,
+                 const char *unit)
+{
+    if (!json_object_has_member(r, key))
+        return;
+    JsonNode *n = json_object_get_member(r, key);
+    if (JSON_NODE_HOLDS_NULL(n))
+        g_string_append_printf(out, "%-22s -\n", label);
+    else
+        g_string_append_printf(out, "%-22s %.6g %s\n", label, json_node_get_double(n), unit);
+}
+
+static void render(JsonObject *response, GString *out)
+{
+    line(out, response, "mass_me", "mass", "m_e");
+    line(out, response, "scattering_time_s", "scattering time", "s");
+    line(out, response, "mobility_cm2_per_vs", "mobility", "cm^2/(V s)");
+    line(out, response, "density_cm3", "density", "cm^-3");
+    line(out, response, "conductivity_s_per_cm", "conductivity", "S/cm");
+    line(out, response, "resistivity_ohm_cm", "resistivity", "ohm cm");
+    line(out, response, "temperature_k", "temperature", "K");
+    line(out, response, "thermal_velocity_cm_per_s", "thermal velocity", "cm/s");
+    line(out, response, "mean_free_path_nm", "mean free path", "nm");
+}
+
+const BmOperation bm_op_drude = {
+    .name = "drude",
+    .summary = "Drude transport: mobility, scattering time, conductivity, thermal velocity, "
+               "mean free path",
+    .params = params,
+    .run = run,
+    .render = render,
+};

@@ -1,0 +1,149 @@
+/* sheet-density.c: operation "sheet-density" -- a two-dimensional electron
+ * gas: sheet density from a Fermi level, or the Fermi level of a density. */
+#include <math.h>
+#include <string.h>
+
+#include "ops.h"
+#include "bm-json.h"
+#include "bm-carriers.h"
+
+static const BmParam params[] = {
+    { "subbands", BM_VALUE_ARRAY, TRUE, NULL,
+      "subbands: [{energy_ev (edge), mass_me (in-plane DOS mass), valley_degeneracy "
+      "(default 1)}, ...]; spin degeneracy 2 is included" },
+    { "temperature_k", BM_VALUE_NUMBER, TRUE, NULL, "temperature, K (> 0)" },
+    { "fermi_level_ev", BM_VALUE_NUMBER, FALSE, NULL,
+      "Fermi level, eV, on the scale of the subband energies: gives the sheet density" },
+    { "sheet_density_cm2", BM_VALUE_NUMBER, FALSE, NULL,
+      "total sheet density, cm^-2 (> 0): gives the Fermi level" },
+    { NULL, 0, FALSE, NULL, NULL }
+};
+
+static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
+{
+    (void)inputs;
+    static const char *const keys[] = { "energy_ev", "mass_me", "valley_degeneracy", NULL };
+    gboolean has_ef = json_object_has_member(request, "fermi_level_ev");
+    gboolean has_ns = json_object_has_member(request, "sheet_density_cm2");
+    if (has_ef == has_ns) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request: give exactly one of \"fermi_level_ev\" or \"sheet_density_cm2\"");
+        return NULL;
+    }
+    double t, ef = 0, ns = 0;
+    if (!bm_json_positive(request, "temperature_k", NULL, &t, error))
+        return NULL;
+    if (has_ef && !bm_json_number(request, "fermi_level_ev", NULL, &ef, error))
+        return NULL;
+    if (has_ns && !bm_json_positive(request, "sheet_density_cm2", NULL, &ns, error))
+        return NULL;
+    JsonArray *a = json_object_get_array_member(request, "subbands");
+    guint n = json_array_get_length(a);
+    if (n == 0 || n > BM_MAX_SUBBANDS) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request: key \"subbands\" must hold 1 to %d subbands (got %u)",
+                    BM_MAX_SUBBANDS, n);
+        return NULL;
+    }
+    bm_subband sub[BM_MAX_SUBBANDS];
+    double dos[BM_MAX_SUBBANDS], per[BM_MAX_SUBBANDS];
+    bm_errbuf err = {0};
+    for (guint i = 0; i < n; i++) {
+        g_autofree char *where = g_strdup_printf("subbands[%u]", i);
+        JsonNode *e = json_array_get_element(a, i);
+        if (!JSON_NODE_HOLDS_OBJECT(e)) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: must be an object",
+                        where);
+            return NULL;
+        }
+        JsonObject *o = json_node_get_object(e);
+        g_autoptr(GList) members = json_object_get_members(o);
+        for (GList *l = members; l; l = l->next) {
+            gboolean ok = FALSE;
+            for (int k = 0; keys[k]; k++)
+                ok |= strcmp(l->data, keys[k]) == 0;
+            if (!ok) {
+                g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                            "%s: unknown key \"%s\" (expected energy_ev, mass_me, "
+                            "valley_degeneracy)", where, (char *)l->data);
+                return NULL;
+            }
+        }
+        sub[i].valley_degeneracy = 1.0;
+        if (!bm_json_number(o, "energy_ev", where, &sub[i].energy_ev, error)
+            || !bm_json_positive(o, "mass_me", where, &sub[i].mass, error)
+            || !bm_json_number_opt(o, "valley_degeneracy", where, &sub[i].valley_degeneracy,
+                                   error))
+            return NULL;
+        if (!(sub[i].valley_degeneracy >= 1.0)) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                        "%s: key \"valley_degeneracy\" must be >= 1 (got %g)", where,
+                        sub[i].valley_degeneracy);
+            return NULL;
+        }
+        if (bm_2d_dos(sub[i].mass, sub[i].valley_degeneracy, &dos[i], &err) != BM_OK) {
+            bm_error_from_core(error, &err, where);
+            return NULL;
+        }
+    }
+    bm_status st = has_ef ? bm_2d_sheet_density(sub, n, t, ef, &ns, per, &err)
+                          : bm_2d_fermi_level(sub, n, t, ns, &ef, per, &err);
+    if (st != BM_OK) {
+        bm_error_from_core(error, &err, "request");
+        return NULL;
+    }
+    JsonObject *resp = json_object_new();
+    bm_json_set_number(resp, "temperature_k", t);
+    bm_json_set_number(resp, "fermi_level_ev", ef);
+    bm_json_set_number(resp, "sheet_density_cm2", ns);
+    json_object_set_string_member(resp, "given", has_ef ? "fermi_level_ev" : "sheet_density_cm2");
+    JsonArray *out = json_array_new();
+    for (guint i = 0; i < n; i++) {
+        JsonObject *o = json_object_new();
+        bm_json_set_number(o, "energy_ev", sub[i].energy_ev);
+        bm_json_set_number(o, "mass_me", sub[i].mass);
+        bm_json_set_number(o, "valley_degeneracy", sub[i].valley_degeneracy);
+        bm_json_set_number(o, "dos_cm2_per_ev", dos[i]);
+        bm_json_set_number(o, "sheet_density_cm2", per[i]);
+        json_array_add_object_element(out, o);
+        if (sub[i].mass < 0.01 || sub[i].mass > 10.0)
+            bm_json_warn(resp, "subband %u: mass %g m_e is outside 0.01..10 m_e", i,
+                         sub[i].mass);
+    }
+    json_object_set_array_member(resp, "subbands", out);
+    return resp;
+}
+
+static void render(JsonObject *response, GString *out)
+{
+    g_string_append_printf(out, "temperature        %g K\nFermi level        %.6f eV%s\n"
+                           "sheet density      %.6e cm^-2%s\n",
+                           json_object_get_double_member(response, "temperature_k"),
+                           json_object_get_double_member(response, "fermi_level_ev"),
+                           strcmp(json_object_get_string_member(response, "given"),
+                                  "fermi_level_ev") ? "" : " (given)",
+                           json_object_get_double_member(response, "sheet_density_cm2"),
+                           strcmp(json_object_get_string_member(response, "given"),
+                                  "sheet_density_cm2") ? "" : " (given)");
+    JsonArray *a = json_object_get_array_member(response, "subbands");
+    g_string_append_printf(out, "%10s %8s %4s %14s %14s\n", "energy_ev", "mass_me", "g_v",
+                           "dos_cm2_per_ev", "density_cm2");
+    for (guint i = 0; i < json_array_get_length(a); i++) {
+        JsonObject *o = json_array_get_object_element(a, i);
+        g_string_append_printf(out, "%10.4f %8.4g %4g %14.5e %14.5e\n",
+                               json_object_get_double_member(o, "energy_ev"),
+                               json_object_get_double_member(o, "mass_me"),
+                               json_object_get_double_member(o, "valley_degeneracy"),
+                               json_object_get_double_member(o, "dos_cm2_per_ev"),
+                               json_object_get_double_member(o, "sheet_density_cm2"));
+    }
+}
+
+const BmOperation bm_op_sheet_density = {
+    .name = "sheet-density",
+    .summary = "Two-dimensional electron gas: sheet density from a Fermi level, or the "
+               "Fermi level of a sheet density",
+    .params = params,
+    .run = run,
+    .render = render,
+};

@@ -1,0 +1,407 @@
+/* test-carrier-ops.c: the carrier operations (fermi-integral, band-gap,
+ * carrier-statistics, sheet-density, drude, materials) through the JSON path. */
+#include <glib.h>
+#include <glib/gstdio.h>
+#include <math.h>
+#include <string.h>
+
+#include "registry.h"
+
+/* CODATA 2018 (exact SI values for e and k_B, m_e to the digits shown);
+ * GSL's headers carry an earlier set, hence relative tolerances near 1e-6. */
+#define E_CHARGE 1.602176634e-19
+#define M_E_KG   9.1093837015e-31
+#define K_B_J    1.380649e-23
+
+static JsonObject *call(const char *op, const char *request)
+{
+    g_autoptr(GError) error = NULL;
+    char *out = bm_registry_call_json(op, request, NULL, FALSE, &error);
+    g_assert_no_error(error);
+    JsonNode *n = json_from_string(out, NULL);
+    g_free(out);
+    JsonObject *o = json_object_ref(json_node_get_object(n));
+    json_node_unref(n);
+    return o;
+}
+
+static void expect_error(const char *op, const char *request, int code, const char *fragment)
+{
+    g_autoptr(GError) error = NULL;
+    char *out = bm_registry_call_json(op, request, NULL, FALSE, &error);
+    g_assert_null(out);
+    g_assert_error(error, BM_ERROR, code);
+    if (!strstr(error->message, fragment))
+        g_error("message \"%s\" lacks \"%s\"", error->message, fragment);
+}
+
+#define expect_invalid(op, req, frag) expect_error(op, req, BM_ERROR_INVALID_INPUT, frag)
+
+static double num(JsonObject *o, const char *key)
+{
+    return json_object_get_double_member(o, key);
+}
+
+static double rel(double a, double b)
+{
+    return fabs(a / b - 1.0);
+}
+
+static void test_fermi_integral(void)
+{
+    g_autoptr(JsonObject) r = call("fermi-integral", "{\"order\": 0.5, \"eta\": 0}");
+    /* F_1/2(0) = (1 - 2^(-1/2)) zeta(3/2) = 0.7651470246 (DLMF 25.12(iii) with the
+     * 1/Gamma(j+1) normalisation, the Dirichlet eta function; from memory) */
+    g_assert_cmpfloat(fabs(num(r, "values") - 0.7651470246), <, 1e-10);
+    g_assert_cmpstr(json_object_get_string_member(r, "normalisation"), ==, "1/Gamma(j+1)");
+
+    g_autoptr(JsonObject) z = call("fermi-integral", "{\"order\": 0, \"eta\": [-3, 0, 2.5]}");
+    JsonArray *v = json_object_get_array_member(z, "values");
+    const double eta[3] = { -3, 0, 2.5 };
+    for (guint i = 0; i < 3; i++)   /* F_0(eta) = ln(1 + e^eta) (identity) */
+        g_assert_cmpfloat(rel(json_array_get_double_element(v, i), log1p(exp(eta[i]))), <, 1e-14);
+    g_autoptr(JsonObject) one = call("fermi-integral", "{\"order\": 1, \"eta\": 0}");
+    /* F_1(0) = eta(2) = pi^2 / 12 (Dirichlet eta function at 2; identity) */
+    g_assert_cmpfloat(rel(num(one, "values"), G_PI * G_PI / 12.0), <, 1e-13);
+
+    /* inverse: round trip through F_1/2 (identity), array form */
+    g_autoptr(JsonObject) inv = call("fermi-integral",
+        "{\"order\": 0.5, \"values\": [0.7651470246254079, 1e-5], \"inverse\": true}");
+    JsonArray *e = json_object_get_array_member(inv, "eta");
+    g_assert_cmpfloat(fabs(json_array_get_double_element(e, 0)), <, 1e-12);
+    /* far below zero F_1/2(eta) = e^eta (1 - e^eta / 2^(3/2) + ...) (series; identity) */
+    double x = 1e-5;
+    g_assert_cmpfloat(fabs(json_array_get_double_element(e, 1) - log(x) - x / pow(2, 1.5)),
+                      <, 1e-9);
+
+    expect_invalid("fermi-integral", "{\"order\": 0.75, \"eta\": 0}", "\"order\"");
+    expect_invalid("fermi-integral", "{\"order\": 1, \"values\": 1, \"inverse\": true}",
+                   "order\" 0.5 only");
+    expect_invalid("fermi-integral", "{\"order\": 0.5, \"values\": [1, -2], \"inverse\": true}",
+                   "element 1 of \"values\"");
+    expect_invalid("fermi-integral", "{\"order\": 0.5, \"values\": 0, \"inverse\": true}",
+                   "key \"values\"");
+    expect_invalid("fermi-integral", "{\"order\": 0.5}", "missing key \"eta\"");
+}
+
+static void test_band_gap(void)
+{
+    /* Si Varshni at 300 K: 1.1245 eV (Thurmond 1975; from memory) */
+    g_autoptr(JsonObject) r = call("band-gap", "{\"material\": \"Si\", \"temperature_k\": 300}");
+    g_assert_cmpfloat(fabs(num(r, "band_gap_ev") - 1.1245), <, 1e-4);
+    g_assert_nonnull(strstr(json_object_get_string_member(r, "source"), "Thurmond"));
+
+    /* Bose-Einstein form, inline: Eg0 - 2 a_B / (exp(Theta/T) - 1) (the formula of
+     * Vina, Logothetidis & Cardona 1984; from memory), evaluated here */
+    g_autoptr(JsonObject) b = call("band-gap",
+        "{\"material\": {\"name\": \"X\", \"bose_einstein\": {\"eg0_ev\": 1.52, \"a_b_ev\": 0.057,"
+        " \"theta_k\": 240}}, \"model\": \"bose-einstein\", \"temperatures_k\": [0, 77, 300]}");
+    JsonArray *pts = json_object_get_array_member(b, "points");
+    g_assert_cmpuint(json_array_get_length(pts), ==, 3);
+    const double t[3] = { 0, 77, 300 };
+    for (guint i = 0; i < 3; i++) {
+        JsonObject *p = json_array_get_object_element(pts, i);
+        double want = t[i] == 0 ? 1.52 : 1.52 - 2 * 0.057 / expm1(240.0 / t[i]);
+        g_assert_cmpfloat(num(p, "temperature_k"), ==, t[i]);
+        g_assert_cmpfloat(fabs(num(p, "band_gap_ev") - want), <, 1e-12);
+    }
+
+    expect_invalid("band-gap", "{\"material\": \"Si\", \"temperature_k\": 300, "
+                   "\"model\": \"bose-einstein\"}", "material \"Si\" has no bose-einstein");
+    expect_invalid("band-gap", "{\"material\": \"Si\", \"temperatures_k\": [300, -4]}",
+                   "element 1 of \"temperatures_k\"");
+    expect_invalid("band-gap", "{\"material\": \"unobtainium\", \"temperature_k\": 300}",
+                   "key \"material\"");
+    expect_invalid("band-gap", "{\"material\": \"Si\"}", "\"temperature_k\"");
+}
+
+static const char *const P_SI =
+    "\"donors\": [{\"species\": \"P\", \"density_cm3\": 1e16}]";
+
+static void test_silicon(void)
+{
+    g_autofree char *req = g_strdup_printf("{\"material\": \"Si\", \"temperature_k\": 300, "
+                                           "\"statistics\": \"boltzmann\", %s}", P_SI);
+    g_autoptr(JsonObject) r = call("carrier-statistics", req);
+    /* Nc(Si, 300 K) = 2.8e19 cm^-3 (Sze & Ng 2007 App. G; from memory; 1 %) */
+    g_assert_cmpfloat(rel(num(r, "nc_cm3"), 2.8e19), <, 0.01);
+    /* ni(Si, 300 K) = 9.65e9 cm^-3 (Sze & Ng 2007 App. G; from memory); the textbook
+     * formula with these masses and gap lands within 3 % */
+    g_assert_cmpfloat(rel(num(r, "ni_cm3"), 9.65e9), <, 0.03);
+    /* n-Si, N_D = 1e16: Ec - EF = kT ln(Nc / N_D) = 0.2052 eV (textbook worked example,
+     * Sze & Ng 2007 ch. 1; from memory). The example assumes full ionisation and
+     * Nc = 2.8e19; P at 45 meV is 99.6 % ionised here: 1 meV tolerance. */
+    g_assert_cmpfloat(fabs(num(r, "band_gap_ev") - num(r, "fermi_level_ev") - 0.2052), <, 1e-3);
+    g_assert_cmpstr(json_object_get_string_member(r, "regime"), ==, "extrinsic");
+    g_assert_cmpstr(json_object_get_string_member(r, "statistics"), ==, "boltzmann");
+    /* charge neutrality n + N_A- = p + N_D+ (identity) */
+    g_assert_cmpfloat(rel(num(r, "n_cm3"), num(r, "p_cm3") + num(r, "ionized_donors_cm3")),
+                      <, 1e-10);
+    /* n p = ni^2 with Boltzmann statistics (mass-action law; identity) */
+    g_assert_cmpfloat(rel(num(r, "n_cm3") * num(r, "p_cm3"),
+                          num(r, "ni_cm3") * num(r, "ni_cm3")), <, 1e-9);
+    JsonArray *per = json_object_get_array_member(r, "ionized_donors_per_species_cm3");
+    g_assert_cmpuint(json_array_get_length(per), ==, 1);
+    JsonObject *d0 = json_array_get_object_element(json_object_get_array_member(r, "donors"), 0);
+    g_assert_cmpfloat(num(d0, "ionization_ev"), ==, 0.045);
+    g_assert_nonnull(strstr(json_object_get_string_member(d0, "source"), "Sze"));
+    g_assert_cmpstr(json_object_get_string_member(r, "fermi_level_reference"), ==,
+                    "valence-band maximum");
+
+    /* the same donor by its numbers gives the same Fermi level (round trip) */
+    g_autoptr(JsonObject) r2 = call("carrier-statistics",
+        "{\"material\": \"silicon\", \"temperature_k\": 300, \"statistics\": \"boltzmann\","
+        " \"donors\": [{\"density_cm3\": 1e16, \"ionization_ev\": 0.045, \"degeneracy\": 2}]}");
+    g_assert_cmpfloat(num(r2, "fermi_level_ev"), ==, num(r, "fermi_level_ev"));
+}
+
+/* Heavily doped n-Si at 300 K: Boltzmann overestimates n; the core's > 5 %
+ * warning travels to the response (Fermi level near the band edge, common
+ * practice, no source). */
+static void test_degenerate_warning(void)
+{
+    g_autoptr(JsonObject) r = call("carrier-statistics",
+        "{\"material\": \"Si\", \"temperature_k\": 300, \"donors\": "
+        "[{\"density_cm3\": 5e19, \"ionization_ev\": 0.0}]}");
+    JsonArray *w = json_object_get_array_member(r, "warnings");
+    gboolean found = FALSE;
+    for (guint i = 0; i < json_array_get_length(w); i++)
+        found |= strstr(json_array_get_string_element(w, i), "Boltzmann") != NULL;
+    g_assert_true(found);
+    g_assert_cmpfloat(num(r, "boltzmann_deviation"), >, 0.05);
+    /* 5e19 is echoed as valid JSON text (json-glib alone writes "5e+19.0") */
+    JsonObject *d0 = json_array_get_object_element(json_object_get_array_member(r, "donors"), 0);
+    g_assert_cmpfloat(num(d0, "density_cm3"), ==, 5e19);
+}
+
+static void test_points(void)
+{
+    g_autofree char *req = g_strdup_printf("{\"material\": \"Si\", \"temperatures_k\": "
+                                           "[50, 300, 700], %s}", P_SI);
+    g_autoptr(JsonObject) r = call("carrier-statistics", req);
+    JsonArray *pts = json_object_get_array_member(r, "points");
+    g_assert_cmpuint(json_array_get_length(pts), ==, 3);
+    JsonObject *cold = json_array_get_object_element(pts, 0);
+    JsonObject *room = json_array_get_object_element(pts, 1);
+    JsonObject *hot = json_array_get_object_element(pts, 2);
+    /* the three regimes of a doped semiconductor with temperature (freeze-out,
+     * extrinsic, intrinsic: Sze & Ng 2007 ch. 1 figure of n against 1000/T; from memory) */
+    g_assert_cmpstr(json_object_get_string_member(cold, "regime"), ==, "freeze-out");
+    g_assert_cmpstr(json_object_get_string_member(room, "regime"), ==, "extrinsic");
+    g_assert_cmpstr(json_object_get_string_member(hot, "regime"), ==, "intrinsic");
+    /* Nc scales as T^(3/2) at fixed mass (identity) */
+    g_assert_cmpfloat(rel(num(hot, "nc_cm3") / num(room, "nc_cm3"), pow(700.0 / 300.0, 1.5)),
+                      <, 1e-12);
+    /* each row carries the single-temperature keys */
+    g_autofree char *one = g_strdup_printf("{\"material\": \"Si\", \"temperature_k\": 300, %s}",
+                                           P_SI);
+    g_autoptr(JsonObject) single = call("carrier-statistics", one);
+    g_assert_cmpfloat(num(room, "fermi_level_ev"), ==, num(single, "fermi_level_ev"));
+    g_assert_true(json_object_has_member(room, "ionized_donors_cm3"));
+}
+
+/* Tabulated DOS masses: two equal entries reproduce the built-in masses, and an
+ * interpolated mass gives Nc (m/m0)^(3/2) scaling (identity). */
+static void test_dos_mass_points(void)
+{
+    g_autoptr(JsonObject) a = call("carrier-statistics",
+        "{\"material\": \"Si\", \"temperature_k\": 300}");
+    g_autoptr(JsonObject) b = call("carrier-statistics",
+        "{\"material\": \"Si\", \"temperature_k\": 300, \"dos_mass_points\": ["
+        "{\"temperature_k\": 200, \"electron_dos_mass_me\": 1.00, \"hole_dos_mass_me\": 1.04},"
+        "{\"temperature_k\": 400, \"electron_dos_mass_me\": 1.16, \"hole_dos_mass_me\": 1.04}]}");
+    g_assert_cmpfloat(fabs(num(b, "electron_dos_mass_me") - 1.08), <, 1e-14);
+    g_assert_cmpfloat(rel(num(b, "nc_cm3"), num(a, "nc_cm3")), <, 1e-12);
+    expect_invalid("carrier-statistics",
+        "{\"material\": \"Si\", \"temperature_k\": 500, \"dos_mass_points\": ["
+        "{\"temperature_k\": 200, \"electron_dos_mass_me\": 1.0, \"hole_dos_mass_me\": 1.0},"
+        "{\"temperature_k\": 400, \"electron_dos_mass_me\": 1.2, \"hole_dos_mass_me\": 1.0}]}",
+        "dos_mass_points");
+    expect_invalid("carrier-statistics",
+        "{\"material\": \"Si\", \"temperature_k\": 300, \"dos_mass_points\": ["
+        "{\"temperature_k\": 200, \"electron_dos_mass_me\": 0, \"hole_dos_mass_me\": 1.0}]}",
+        "dos_mass_points[0]: key \"electron_dos_mass_me\"");
+}
+
+/* A material file with Si's values answers exactly as the built-in name does
+ * (round trip), including a dopant named by species. */
+static void test_material_file(void)
+{
+    g_autoptr(GError) error = NULL;
+    g_autofree char *dir = g_dir_make_tmp("bandmass-mat-XXXXXX", &error);
+    g_assert_no_error(error);
+    g_autofree char *path = g_build_filename(dir, "si-like.json", NULL);
+    const char *doc =
+        "{\"name\": \"si-like\", \"electron_dos_mass_me\": 1.08, \"hole_dos_mass_me\": 1.04,"
+        " \"varshni\": {\"eg0_ev\": 1.170, \"alpha_ev_per_k\": 4.73e-4, \"beta_k\": 636},"
+        " \"dopants\": [{\"species\": \"P\", \"kind\": \"donor\", \"ionization_ev\": 0.045}]}";
+    g_assert_true(g_file_set_contents(path, doc, -1, NULL));
+    g_autofree char *req = g_strdup_printf("{\"material\": \"%s\", \"temperature_k\": 300, %s}",
+                                           path, P_SI);
+    g_autoptr(JsonObject) f = call("carrier-statistics", req);
+    g_autofree char *req2 = g_strdup_printf("{\"material\": \"Si\", \"temperature_k\": 300, %s}",
+                                            P_SI);
+    g_autoptr(JsonObject) s = call("carrier-statistics", req2);
+    g_assert_cmpstr(json_object_get_string_member(f, "material"), ==, "si-like");
+    g_assert_cmpfloat(num(f, "fermi_level_ev"), ==, num(s, "fermi_level_ev"));
+    g_assert_cmpfloat(num(f, "ni_cm3"), ==, num(s, "ni_cm3"));
+    g_autofree char *req3 = g_strdup_printf("{\"material\": \"%s\", \"temperature_k\": 300}",
+                                            path);
+    g_autoptr(JsonObject) g = call("band-gap", req3);
+    g_assert_cmpfloat(fabs(num(g, "band_gap_ev") - 1.1245), <, 1e-4);  /* as above */
+
+    /* a bad key in the file is named with the file */
+    g_autofree char *bad = g_build_filename(dir, "bad.json", NULL);
+    g_assert_true(g_file_set_contents(bad, "{\"electron_mass\": 1}", -1, NULL));
+    g_autofree char *req4 = g_strdup_printf("{\"material\": \"%s\", \"temperature_k\": 300}",
+                                            bad);
+    expect_invalid("carrier-statistics", req4, "unknown key \"electron_mass\"");
+    expect_invalid("carrier-statistics", req4, "bad.json");
+    expect_error("carrier-statistics",
+                 "{\"material\": \"/nonexistent/m.json\", \"temperature_k\": 300}",
+                 BM_ERROR_IO, "/nonexistent/m.json");
+    g_remove(path);
+    g_remove(bad);
+    g_rmdir(dir);
+}
+
+static void test_carrier_bad_input(void)
+{
+    const char *op = "carrier-statistics";
+    expect_invalid(op, "{\"material\": \"Si\", \"temperature_k\": 0}", "\"temperature_k\"");
+    expect_invalid(op, "{\"material\": \"Si\", \"temperature_k\": -10}", "\"temperature_k\"");
+    expect_invalid(op, "{\"material\": \"Si\", \"temperatures_k\": [300, 0]}",
+                   "element 1 of \"temperatures_k\"");
+    expect_invalid(op, "{\"material\": \"Si\", \"temperature_k\": 300, \"donors\": "
+                   "[{\"density_cm3\": -1e16, \"ionization_ev\": 0.045}]}",
+                   "donors[0]: key \"density_cm3\"");
+    expect_invalid(op, "{\"material\": \"Si\", \"temperature_k\": 300, \"acceptors\": "
+                   "[{\"species\": \"B\", \"density_cm3\": 1e15}, {\"species\": \"Q\", "
+                   "\"density_cm3\": 1e15}]}", "acceptors[1]: key \"species\"");
+    expect_invalid(op, "{\"material\": \"Si\", \"temperature_k\": 300, \"donors\": "
+                   "[{\"species\": \"B\", \"density_cm3\": 1e15}]}", "'B' is an acceptor in Si");
+    expect_invalid(op, "{\"material\": \"Unobtainium\", \"temperature_k\": 300}",
+                   "unknown material 'Unobtainium'");
+    expect_invalid(op, "{\"material\": {\"electron_dos_mass_me\": 0, \"hole_dos_mass_me\": 1,"
+                   " \"band_gap_ev\": 1}, \"temperature_k\": 300}",
+                   "key \"electron_dos_mass_me\" must be greater than zero");
+    expect_invalid(op, "{\"material\": {\"electron_dos_mass_me\": 1, \"band_gap_ev\": 1},"
+                   " \"temperature_k\": 300}", "missing key \"hole_dos_mass_me\"");
+    expect_invalid(op, "{\"material\": \"Si\", \"temperature_k\": 300, \"statistics\": \"x\"}",
+                   "key \"statistics\"");
+    expect_invalid(op, "{\"material\": \"Si\", \"temperature_k\": 300, \"donors\": "
+                   "[{\"density_cm3\": 1e15}]}", "donors[0]: give \"ionization_ev\"");
+}
+
+/* GaAs 2DEG, m = 0.067: DOS m/(pi hbar^2) = 2.80e10 cm^-2 meV^-1 (textbook value
+ * for GaAs heterostructures, e.g. Davies, The Physics of Low-Dimensional
+ * Semiconductors (1998); from memory).  Degenerate limit: n = DOS (EF - E0)
+ * (identity when EF - E0 >> kT). */
+static void test_sheet_density(void)
+{
+    g_autoptr(JsonObject) r = call("sheet-density",
+        "{\"subbands\": [{\"energy_ev\": 0.0, \"mass_me\": 0.067}], \"temperature_k\": 1.5,"
+        " \"sheet_density_cm2\": 3e11}");
+    JsonObject *s0 = json_array_get_object_element(json_object_get_array_member(r, "subbands"), 0);
+    double dos = num(s0, "dos_cm2_per_ev");
+    g_assert_cmpfloat(rel(dos * 1e-3, 2.80e10), <, 0.002);
+    g_assert_cmpfloat(rel(num(r, "fermi_level_ev"), 3e11 / dos), <, 1e-9);
+    /* two subbands, Fermi level given: per-subband densities add up (identity), and
+     * a subband below EF by x holds DOS x in the degenerate limit */
+    g_autoptr(JsonObject) t = call("sheet-density",
+        "{\"subbands\": [{\"energy_ev\": 0.0, \"mass_me\": 0.067}, {\"energy_ev\": 0.02,"
+        " \"mass_me\": 0.067, \"valley_degeneracy\": 2}], \"temperature_k\": 1.5,"
+        " \"fermi_level_ev\": 0.03}");
+    JsonArray *sb = json_object_get_array_member(t, "subbands");
+    double n0 = num(json_array_get_object_element(sb, 0), "sheet_density_cm2");
+    double n1 = num(json_array_get_object_element(sb, 1), "sheet_density_cm2");
+    g_assert_cmpfloat(rel(n0 + n1, num(t, "sheet_density_cm2")), <, 1e-12);
+    g_assert_cmpfloat(rel(n0, dos * 0.03), <, 1e-9);
+    g_assert_cmpfloat(rel(n1, 2 * dos * 0.01), <, 1e-9);
+
+    expect_invalid("sheet-density", "{\"subbands\": [{\"energy_ev\": 0, \"mass_me\": 0}],"
+                   " \"temperature_k\": 4, \"fermi_level_ev\": 0}", "subbands[0]: key \"mass_me\"");
+    expect_invalid("sheet-density", "{\"subbands\": [{\"energy_ev\": 0, \"mass_me\": 0.067}],"
+                   " \"temperature_k\": 4, \"sheet_density_cm2\": -1}", "\"sheet_density_cm2\"");
+    expect_invalid("sheet-density", "{\"subbands\": [{\"energy_ev\": 0, \"mass_me\": 0.067}],"
+                   " \"temperature_k\": 4}", "exactly one of");
+}
+
+static void test_drude(void)
+{
+    g_autoptr(JsonObject) r = call("drude", "{\"mass_me\": 0.26, \"mobility_cm2_per_vs\": 1400,"
+                                            " \"density_cm3\": 1e16, \"temperature_k\": 300}");
+    /* tau = mu m / e, sigma = n e mu, v_th = sqrt(3 kT / m), l = v_th tau (Drude model,
+     * textbook definitions; CODATA constants above) */
+    double tau = 1400e-4 * 0.26 * M_E_KG / E_CHARGE;
+    g_assert_cmpfloat(rel(num(r, "scattering_time_s"), tau), <, 1e-6);
+    g_assert_cmpfloat(rel(num(r, "conductivity_s_per_cm"), 1e16 * E_CHARGE * 1400), <, 1e-6);
+    g_assert_cmpfloat(rel(num(r, "resistivity_ohm_cm"), 1 / (1e16 * E_CHARGE * 1400)), <, 1e-6);
+    double vth = sqrt(3 * K_B_J * 300 / (0.26 * M_E_KG));
+    g_assert_cmpfloat(rel(num(r, "thermal_velocity_cm_per_s"), vth * 100), <, 1e-6);
+    g_assert_cmpfloat(rel(num(r, "mean_free_path_nm"), vth * tau * 1e9), <, 1e-6);
+    /* and back: the scattering time gives the same mobility (round trip) */
+    g_autofree char *req = g_strdup_printf("{\"mass_me\": 0.26, \"scattering_time_s\": %.17g}",
+                                           num(r, "scattering_time_s"));
+    g_autoptr(JsonObject) b = call("drude", req);
+    g_assert_cmpfloat(rel(num(b, "mobility_cm2_per_vs"), 1400), <, 1e-12);
+    g_assert_false(json_object_has_member(b, "conductivity_s_per_cm"));
+
+    expect_invalid("drude", "{\"mass_me\": 0, \"scattering_time_s\": 1e-13}", "\"mass_me\"");
+    expect_invalid("drude", "{\"mass_me\": 0.2, \"scattering_time_s\": 1e-13,"
+                   " \"mobility_cm2_per_vs\": 100}", "exactly one of");
+    expect_invalid("drude", "{\"mass_me\": 0.2, \"scattering_time_s\": 1e-13,"
+                   " \"density_cm3\": -5}", "\"density_cm3\"");
+}
+
+static void test_materials(void)
+{
+    g_autoptr(JsonObject) all = call("materials", "{}");
+    JsonArray *pts = json_object_get_array_member(all, "points");
+    g_assert_cmpuint(json_array_get_length(pts), >=, 10);
+    for (guint i = 0; i < json_array_get_length(pts); i++) {
+        JsonObject *o = json_array_get_object_element(pts, i);
+        g_assert_cmpuint(strlen(json_object_get_string_member(o, "band_gap_source")), >, 10);
+    }
+    g_autoptr(JsonObject) ga = call("materials", "{\"name\": \"gaas\"}");
+    JsonObject *m = json_object_get_object_member(ga, "material");
+    g_assert_cmpstr(json_object_get_string_member(m, "name"), ==, "GaAs");
+    JsonObject *me = json_object_get_object_member(m, "electron_dos_mass_me");
+    /* GaAs Gamma mass 0.067 (Vurgaftman, Meyer & Ram-Mohan 2001; from memory) */
+    g_assert_cmpfloat(num(me, "value"), ==, 0.067);
+    g_assert_nonnull(strstr(json_object_get_string_member(me, "source"), "Vurgaftman"));
+    /* every value object and dopant carries a non-empty source */
+    g_autoptr(GList) keys = json_object_get_members(m);
+    int with_source = 0;
+    for (GList *l = keys; l; l = l->next) {
+        JsonNode *n = json_object_get_member(m, l->data);
+        if (JSON_NODE_HOLDS_OBJECT(n)) {
+            g_assert_true(json_object_has_member(json_node_get_object(n), "source"));
+            with_source++;
+        }
+    }
+    g_assert_cmpint(with_source, >=, 9);
+    JsonArray *d = json_object_get_array_member(m, "dopants");
+    g_assert_cmpuint(json_array_get_length(d), >, 0);
+    for (guint i = 0; i < json_array_get_length(d); i++)
+        g_assert_true(json_object_has_member(json_array_get_object_element(d, i), "source"));
+    expect_invalid("materials", "{\"name\": \"kryptonite\"}", "key \"name\"");
+}
+
+int main(int argc, char **argv)
+{
+    g_test_init(&argc, &argv, NULL);
+    bm_registry_init();
+    g_test_add_func("/carrier-ops/fermi-integral", test_fermi_integral);
+    g_test_add_func("/carrier-ops/band-gap", test_band_gap);
+    g_test_add_func("/carrier-ops/silicon", test_silicon);
+    g_test_add_func("/carrier-ops/degenerate-warning", test_degenerate_warning);
+    g_test_add_func("/carrier-ops/points", test_points);
+    g_test_add_func("/carrier-ops/dos-mass-points", test_dos_mass_points);
+    g_test_add_func("/carrier-ops/material-file", test_material_file);
+    g_test_add_func("/carrier-ops/bad-input", test_carrier_bad_input);
+    g_test_add_func("/carrier-ops/sheet-density", test_sheet_density);
+    g_test_add_func("/carrier-ops/drude", test_drude);
+    g_test_add_func("/carrier-ops/materials", test_materials);
+    return g_test_run();
+}
