@@ -157,9 +157,20 @@ else
   printf('mass-tensor: not in the registry yet, not checked\n');
 end
 if has('carrier-statistics')
-  req = fileread(fullfile(getenv('BANDMASS_TEST_DIR'), 'requests', 'carrier-statistics.json'));
-  got = bandmass('carrier-statistics', req);
-  same(got, cli('call carrier-statistics', req), 'carrier-statistics');
+  % JSON text request, as in tests/hosts/requests/
+  text = fileread(fullfile(getenv('BANDMASS_TEST_DIR'), 'requests', 'carrier-statistics.json'));
+  got = bandmass('carrier-statistics', text);
+  same(got, cli('call carrier-statistics', text), 'carrier-statistics (JSON request)');
+  check(isstruct(got.points) && isequal(size(got.points), [1 3]), 'points are a 1x3 struct array');
+  % the same request as an Octave struct: a one-element list of objects is a cell
+  req = struct('material', 'Si', 'temperatures_k', [200 300 400], ...
+               'donors', {{struct('species', 'P', 'density_cm3', 1e16)}});
+  same(bandmass('carrier-statistics', req), got, 'carrier-statistics (struct request)');
+  % a point at 300 K through the struct route equals the CLI's
+  one = bandmass('carrier-statistics', struct('material', 'Si', 'temperature_k', 300));
+  same(one, cli('call carrier-statistics', '{"material": "Si", "temperature_k": 300}'), ...
+       'carrier-statistics at 300 K');
+  check(one.ni_cm3 > 0 && one.ni_cm3 < one.nc_cm3, 'ni below Nc');
   printf('carrier-statistics: checked against the CLI\n');
 else
   printf('carrier-statistics: not in the registry yet, not checked\n');
