@@ -47,9 +47,10 @@ if "$bm" ops | grep -q carrier-statistics; then
     me=$(json "$work/valleys.json" 'r["dos_mass_me"]')
     mh=$(json "$work/vb.json" 'abs(r["extrema"][0]["principal_masses_me"][0])')
     material="{\"name\": \"OrTe\", \"electron_dos_mass_me\": $me, \"hole_dos_mass_me\": $mh, \"band_gap_ev\": 0.85}"
-    "$bm" carrier-statistics --material "$material" --temperatures-k 100,200,300,400,500 \
-        --donors '[{"density_cm3": 1e17, "ionization_ev": 0.04}]' --csv --output "$work/orte-carriers.csv"
-    column -s, -t < "$work/orte-carriers.csv" 2>/dev/null | cut -c1-150 || cat "$work/orte-carriers.csv"
+    args=(--material "$material" --temperatures-k 100,200,300,400,500
+          --donors '[{"density_cm3": 1e17, "ionization_ev": 0.04}]')
+    "$bm" carrier-statistics "${args[@]}"
+    "$bm" carrier-statistics "${args[@]}" --csv --output "$work/orte-carriers.csv"
     section "6. Silicon, phosphorus 1e16 cm^-3, 300 K"
     "$bm" carrier-statistics --material Si --temperature-k 300 \
         --donors '[{"density_cm3": 1e16, "ionization_ev": 0.045}]'
