@@ -1,7 +1,19 @@
 /* bm-error.c: the bandmass GError domain. */
 #include "bm-error.h"
 
-G_DEFINE_QUARK(bandmass-error-quark, bm_error)
+/* Not G_DEFINE_QUARK: its cached static is written unsynchronised on first
+ * use from several threads at once. The lookup is cheap and thread-safe. */
+GQuark bm_error_quark(void)
+{
+    return g_quark_from_static_string("bandmass-error-quark");
+}
+
+G_DEFINE_ENUM_TYPE(BmError, bm_error,
+    G_DEFINE_ENUM_VALUE(BM_ERROR_INVALID_INPUT, "invalid-input"),
+    G_DEFINE_ENUM_VALUE(BM_ERROR_IO, "io"),
+    G_DEFINE_ENUM_VALUE(BM_ERROR_UNKNOWN_OPERATION, "unknown-operation"),
+    G_DEFINE_ENUM_VALUE(BM_ERROR_NO_CONVERGENCE, "no-convergence"),
+    G_DEFINE_ENUM_VALUE(BM_ERROR_INTERNAL, "internal"))
 
 void bm_error_from_core(GError **error, const bm_errbuf *err, const char *context)
 {

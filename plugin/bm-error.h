@@ -3,7 +3,7 @@
 #ifndef BM_ERROR_H
 #define BM_ERROR_H
 
-#include <glib.h>
+#include <glib-object.h>
 #include "bm-status.h"
 
 G_BEGIN_DECLS
@@ -30,7 +30,15 @@ typedef enum {
 
 GQuark bm_error_quark(void);
 
-/* Turns a core error buffer into a GError, prefixing context (may be NULL). */
+/* The BmError enum as a GType, so introspection maps the domain to it. */
+GType bm_error_get_type(void);
+#define BM_TYPE_ERROR (bm_error_get_type())
+
+/**
+ * bm_error_from_core: (skip)
+ *
+ * Turns a core error buffer into a GError, prefixing context (may be NULL).
+ */
 void bm_error_from_core(GError **error, const bm_errbuf *err, const char *context);
 
 G_END_DECLS

@@ -1,0 +1,256 @@
+#!/usr/bin/python3
+# test_gi.py: the GObject-introspection API (Bandmass-1.0) from Python: it must
+# answer as the command line does, raise GLib.Error on bad input, and take NumPy grids.
+import json
+import math
+import os
+import subprocess
+import tempfile
+import unittest
+
+import gi
+gi.require_version('Bandmass', '1.0')
+from gi.repository import Bandmass, GLib  # noqa: E402
+import numpy as np  # noqa: E402
+
+CLI = os.environ['BANDMASS_CLI']
+
+
+def cli(*args, stdin='{}', ok=True):
+    p = subprocess.run([CLI, *args], input=stdin, capture_output=True, text=True)
+    if ok and p.returncode != 0:
+        raise AssertionError(f'bandmass {" ".join(args)} failed: {p.stderr}')
+    return p
+
+
+def has_operation(name):
+    return any(o.get_name() == name for o in Bandmass.list_operations())
+
+
+def cosine_band(t_ev, a, n, e0=0.0):
+    """A simple-cubic nearest-neighbour band E = e0 + sum_i 2 t_i (1 - cos(k_i a))
+    on an n^3 mesh over the reciprocal cell; shape (1, n, n, n), eV."""
+    f = np.arange(n) / n
+    k = 2 * np.pi / a * f                       # k_i for reduced coordinate f
+    kx, ky, kz = np.meshgrid(k, k, k, indexing='ij')
+    e = e0 + sum(2 * t * (1 - np.cos(kk * a)) for t, kk in zip(t_ev, (kx, ky, kz)))
+    return e[np.newaxis]
+
+
+def write_band_grid_document(path, energies, recip, names):
+    """The file route for a grid: a band grid document (README, "File
+    formats") whose energies sit in a .npy file beside it."""
+    npy = os.path.splitext(path)[0] + '.npy'
+    np.save(npy, np.ascontiguousarray(energies, dtype=float))
+    doc = {
+        'format': 'bandmass-grid-1',
+        'reciprocal_vectors_inv_angstrom': np.asarray(recip).reshape(3, 3).tolist(),
+        'mesh': list(energies.shape[1:]),
+        'energies_ev': os.path.basename(npy),
+        'band_names': names,
+    }
+    with open(path, 'w') as f:
+        json.dump(doc, f)
+
+
+class Calls(unittest.TestCase):
+    def test_call_equals_cli(self):
+        gi_answer = Bandmass.call('constants', '{}')
+        cli_answer = cli('call', 'constants', '--compact').stdout.strip()
+        self.assertEqual(gi_answer, cli_answer)
+        self.assertEqual(Bandmass.call('constants', None), cli_answer)   # NULL means {}
+
+    def test_errors_are_glib_errors(self):
+        for op, request, code in [
+                ('constants', '{"colour": 1}', Bandmass.Error.INVALID_INPUT),
+                ('constants', '{"a": ', Bandmass.Error.INVALID_INPUT),
+                ('nonesuch', '{}', Bandmass.Error.UNKNOWN_OPERATION)]:
+            with self.assertRaises(GLib.Error) as caught:
+                Bandmass.call(op, request)
+            e = caught.exception
+            self.assertEqual(e.domain, 'bandmass-error-quark')
+            self.assertEqual(e.code, int(code))
+            self.assertTrue(e.matches(Bandmass.Error.quark(), code))
+            # the same words as the command line prints
+            p = cli('call', op, stdin=request, ok=False)
+            self.assertEqual(p.returncode, 2)
+            self.assertEqual(p.stderr.strip(), 'bandmass: error: ' + e.message)
+
+
+class OperationList(unittest.TestCase):
+    def test_matches_cli_ops_json(self):
+        cli_ops = json.loads(cli('ops', '--json').stdout)
+        gi_ops = Bandmass.list_operations()
+        self.assertEqual([o.get_name() for o in gi_ops], [o['name'] for o in cli_ops])
+        self.assertEqual(json.loads(Bandmass.describe_operations()), cli_ops)
+        for info, want in zip(gi_ops, cli_ops):
+            self.assertEqual(info.get_summary(), want['summary'])
+            params = info.get_params()
+            self.assertEqual(len(params), len(want['params']))
+            for p, w in zip(params, want['params']):
+                self.assertEqual(p.get_name(), w['name'])
+                self.assertEqual(' or '.join(p.get_kinds()), w['kinds'])
+                self.assertEqual(p.get_required(), w['required'])
+                d = p.get_default_json()
+                self.assertEqual(None if d is None else json.loads(d), w['default'])
+                self.assertEqual(p.get_summary(), w['summary'])
+
+    def test_lookup(self):
+        self.assertEqual(Bandmass.lookup_operation('constants').get_name(), 'constants')
+        self.assertIsNone(Bandmass.lookup_operation('nonesuch'))
+
+
+class Bands(unittest.TestCase):
+    def test_numpy_array_goes_straight_in(self):
+        e = cosine_band((0.5, 1.0, 2.0), 4.0, 6)
+        recip = np.eye(3) * 2 * np.pi / 4.0
+        b = Bandmass.Bands.new_from_array(e.ravel(), 1, e.shape[1:], recip.ravel())
+        self.assertEqual(b.get_nbands(), 1)
+        self.assertEqual(list(b.get_mesh()), [6, 6, 6])
+        np.testing.assert_array_equal(b.get_reciprocal_vectors(), recip.ravel())
+        self.assertFalse(b.get_band_names())   # NULL: no names (PyGObject gives [])
+        self.assertTrue(b.set_band_names(['cb']))
+        self.assertEqual(b.get_band_names(), ['cb'])
+        with self.assertRaises(GLib.Error) as caught:
+            b.set_band_names(['cb', 'vb'])
+        self.assertIn('2 band names given for 1 bands', caught.exception.message)
+
+    def test_size_mismatch_is_named(self):
+        with self.assertRaises(GLib.Error) as caught:
+            Bandmass.Bands.new_from_array([0.0] * 5, 2, [2, 3, 2], np.eye(3).ravel())
+        e = caught.exception
+        self.assertTrue(e.matches(Bandmass.Error.quark(), Bandmass.Error.INVALID_INPUT))
+        self.assertIn('5 energies given', e.message)
+        self.assertIn('24 expected', e.message)
+
+    def test_lattice_gives_reciprocal_vectors(self):
+        # face-centred cubic primitive vectors, a = 5.43 A
+        a = 5.43
+        lat = 0.5 * a * np.array([[0, 1, 1], [1, 0, 1], [1, 1, 0]])
+        e = np.zeros((1, 2, 2, 2))
+        b = Bandmass.Bands.new_from_lattice(e.ravel(), 1, [2, 2, 2], lat.ravel())
+        recip = np.array(b.get_reciprocal_vectors()).reshape(3, 3)
+        # identity a_i . b_j = 2 pi delta_ij, and NumPy's own inverse
+        np.testing.assert_allclose(lat @ recip.T, 2 * np.pi * np.eye(3), atol=1e-12)
+        np.testing.assert_allclose(recip, 2 * np.pi * np.linalg.inv(lat).T, rtol=1e-12)
+        with self.assertRaises(GLib.Error) as caught:
+            Bandmass.Bands.new_from_lattice(e.ravel(), 1, [2, 2, 2],
+                                            np.array([[1, 0, 0], [2, 0, 0], [0, 0, 1.0]]).ravel())
+        self.assertIn('singular', caught.exception.message)
+
+
+EXAMPLE_EXTREMUM = {
+    'kind': 'maximum', 'dims': 3, 'divergent': False, 'energy_ev': -0.25,
+    'k_inv_angstrom': [0.1, 0.0, -0.2], 'k_fractional': [0.05, 0.0, None],
+    'principal_masses_me': [-0.5, None, -1.25],
+    'principal_axes': [[0, 0, 1], [0, 1, 0], [1, 0, 0]],
+    'inverse_mass_tensor_per_me': [[-0.8, 0, 0], [0, 0, 0], [0, 0, -2.0]],
+    'fit_rms_ev': 2e-5, 'warnings': ['a direction is not sampled'],
+}
+
+
+class Extremum(unittest.TestCase):
+    def test_reads_every_field(self):
+        x = Bandmass.Extremum.new_from_json(json.dumps(EXAMPLE_EXTREMUM))
+        self.assertEqual(x.get_kind(), 'maximum')
+        self.assertEqual(x.get_energy(), -0.25)
+        self.assertEqual(list(x.get_k()), [0.1, 0.0, -0.2])
+        kf = x.get_k_fractional()
+        self.assertEqual(kf[:2], [0.05, 0.0])
+        self.assertTrue(math.isnan(kf[2]))               # null reads as NaN
+        m = x.get_principal_masses()
+        self.assertEqual((m[0], m[2]), (-0.5, -1.25))
+        self.assertTrue(math.isnan(m[1]))
+        self.assertEqual(list(x.get_principal_axes()), [0, 0, 1, 0, 1, 0, 1, 0, 0])
+        self.assertEqual(list(x.get_inverse_mass_tensor()), [-0.8, 0, 0, 0, 0, 0, 0, 0, -2.0])
+        self.assertEqual(x.get_fit_rms(), 2e-5)
+        self.assertEqual(x.get_warnings(), ['a direction is not sampled'])
+        self.assertEqual(json.loads(x.get_json()), EXAMPLE_EXTREMUM)
+
+    def test_divergent_and_table_extremum(self):
+        x = Bandmass.Extremum.new_from_json(json.dumps(dict(
+            EXAMPLE_EXTREMUM, k_fractional=None, divergent=True, dims=2,
+            principal_masses_me=[0.2, 'divergent', None])))
+        self.assertTrue(all(math.isnan(v) for v in x.get_k_fractional()))
+        m = x.get_principal_masses()
+        self.assertEqual(m[0], 0.2)
+        self.assertEqual(m[1], math.inf)                 # "divergent"
+        self.assertTrue(math.isnan(m[2]))                # not sampled
+        self.assertTrue(x.get_divergent())
+        self.assertEqual(x.get_dims(), 2)
+
+    def test_wrong_shape_names_the_key(self):
+        bad = dict(EXAMPLE_EXTREMUM, principal_axes=[[0, 0, 1], [0, 1, 0]])
+        with self.assertRaises(GLib.Error) as caught:
+            Bandmass.Extremum.new_from_json(json.dumps(bad))
+        self.assertIn('"principal_axes"', caught.exception.message)
+        with self.assertRaises(GLib.Error) as caught:
+            Bandmass.Extremum.new_from_json('[1, 2]')
+        self.assertTrue(caught.exception.matches(Bandmass.Error.quark(),
+                                                 Bandmass.Error.INVALID_INPUT))
+
+
+@unittest.skipUnless(has_operation('mass-tensor'),
+                     'the registry has no mass-tensor operation yet')
+class MassTensorFromNumpy(unittest.TestCase):
+    T = (0.5, 1.0, 2.0)   # eV, hopping energies along x, y, z
+    A = 4.0               # Angstrom
+    N = 24
+
+    def setUp(self):
+        self.e = cosine_band(self.T, self.A, self.N, e0=1.1)
+        self.recip = np.eye(3) * 2 * np.pi / self.A
+        self.bands = Bandmass.Bands.new_from_array(self.e.ravel(), 1,
+                                                   self.e.shape[1:], self.recip.ravel())
+
+    def test_round_trip_masses(self):
+        extrema = self.bands.find_extrema(None)   # one band: band 0, every extremum
+        minima = [x for x in extrema if x.get_kind() == 'minimum']
+        self.assertEqual(len(minima), 1)
+        x = minima[0]
+        self.assertAlmostEqual(x.get_energy(), 1.1, places=6)
+        # near k = 0, 2 t (1 - cos ka) = t a^2 k^2 + O(k^4) (Taylor series), so
+        # hbar^2 / (2 m) = t a^2 and m / m_e = (hbar^2 / m_e) / (2 t a^2);
+        # hbar^2 / m_e from the constants operation (CODATA via GSL).
+        consts = json.loads(Bandmass.call('constants', None))['constants']
+        h2m = consts['hbar2_over_me_ev_a2']['value']
+        want = sorted(h2m / (2 * t * self.A ** 2) for t in self.T)
+        got = sorted(x.get_principal_masses())
+        np.testing.assert_allclose(got, want, rtol=1e-6)
+
+    def test_numpy_route_equals_file_route(self):
+        with tempfile.TemporaryDirectory() as tmp:
+            path = os.path.join(tmp, 'grid.json')
+            write_band_grid_document(path, self.e, self.recip, ['cb'])
+            request = {'grid': path, 'band': 'cb', 'extremum': 'minimum'}
+            by_cli = json.loads(cli('call', 'mass-tensor', '--compact',
+                                    stdin=json.dumps(request)).stdout)
+            from_file = Bandmass.Bands.new_from_file(path)
+            self.assertEqual(from_file.get_band_names(), ['cb'])
+            by_file = from_file.find_extrema('{"band": "cb", "extremum": "minimum"}')
+        self.bands.set_band_names(['cb'])
+        from_numpy = self.bands.find_extrema('{"band": "cb", "extremum": "minimum"}')
+        self.assertEqual(len(by_cli['extrema']), 1)
+        self.assertEqual(len(from_numpy), 1)
+        self.assertEqual(len(by_file), 1)
+        for x in (from_numpy[0], by_file[0]):
+            # the same numbers, bit for bit, whichever way the grid came in
+            self.assertEqual(json.loads(x.get_json()), by_cli['extrema'][0])
+            self.assertEqual(x.get_kind(), 'minimum')
+            np.testing.assert_array_equal(
+                x.get_inverse_mass_tensor(),
+                np.array(by_cli['extrema'][0]['inverse_mass_tensor_per_me']).ravel())
+
+    def test_missing_file_is_an_error(self):
+        with self.assertRaises(GLib.Error) as caught:
+            Bandmass.Bands.new_from_file('/nonexistent/grid.json')
+        self.assertIn('/nonexistent/grid.json', caught.exception.message)
+
+    def test_bad_request_is_an_error(self):
+        with self.assertRaises(GLib.Error) as caught:
+            self.bands.find_extrema('{"band": 3}')
+        self.assertTrue(caught.exception.matches(Bandmass.Error.quark(),
+                                                 Bandmass.Error.INVALID_INPUT))
+
+if __name__ == '__main__':
+    unittest.main(verbosity=2)
