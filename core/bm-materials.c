@@ -1,6 +1,7 @@
 /* bm-materials.c: the built-in semiconductor parameter table. Every value
  * carries its source here and in the matching source string. */
 #include "bm-materials.h"
+#include "bm-mat3.h"
 
 #include <math.h>
 #include <stdio.h>
@@ -36,7 +37,8 @@ static const bm_material table[] = {
         .gap = { 1.170, 4.73e-4, 636.0 }, .gap_source = THURMOND,
         /* six Delta valleys near X along <100>, m_l 0.98, m_t 0.19: Sze & Ng 2007 App. G,
          * from memory */
-        .electron = { "Delta", BM_SITE_INTERIOR, { 1, 0, 0 }, 6, 6.0, 0.98, 0.19, 0.19, SZE },
+        .electron = { "Delta", BM_SITE_INTERIOR, { 1, 0, 0 }, BM_DIRECTION_CARTESIAN,
+                      6, 6.0, 0.98, 0.19, 0.19, SZE },
         /* 1.08: Sze & Ng 2007 App. G, from memory */
         .m_dos_electron = 1.08, .m_dos_electron_source = SZE,
         /* Nv = 2.65e19 cm^-3 at 300 K (Sze & Ng 2007 App. G, from memory) gives
@@ -63,7 +65,8 @@ static const bm_material table[] = {
         .gap = { 0.7437, 4.774e-4, 235.0 }, .gap_source = THURMOND,
         /* eight L half-valleys on the zone faces = 4; m_l 1.64, m_t 0.082: Sze & Ng 2007
          * App. G, from memory */
-        .electron = { "L", BM_SITE_FACE, { 1, 1, 1 }, 8, 4.0, 1.64, 0.082, 0.082, SZE },
+        .electron = { "L", BM_SITE_FACE, { 1, 1, 1 }, BM_DIRECTION_CARTESIAN,
+                      8, 4.0, 1.64, 0.082, 0.082, SZE },
         /* 4^(2/3) (1.64 * 0.082^2)^(1/3) = 0.561 */
         .m_dos_electron = 0.561, .m_dos_electron_source = DERIVED_DOS_E,
         /* (0.28^1.5 + 0.044^1.5)^(2/3) = 0.292 */
@@ -86,7 +89,8 @@ static const bm_material table[] = {
         /* Eg0 1.519 eV, alpha 5.405e-4 eV/K, beta 204 K: Vurgaftman et al. 2001, from memory */
         .gap = { 1.519, 5.405e-4, 204.0 }, .gap_source = VMR,
         /* Gamma valley, m_e 0.067: Vurgaftman et al. 2001, from memory */
-        .electron = { "Gamma", BM_SITE_GAMMA, { 0, 0, 0 }, 1, 1.0, 0.067, 0.067, 0.067, VMR },
+        .electron = { "Gamma", BM_SITE_GAMMA, { 0, 0, 0 }, BM_DIRECTION_CARTESIAN,
+                      1, 1.0, 0.067, 0.067, 0.067, VMR },
         .m_dos_electron = 0.067,
         .m_dos_electron_source = "single isotropic valley: the valley mass, " VMR,
         /* (0.3497^1.5 + 0.0901^1.5)^(2/3) = 0.380 */
@@ -108,7 +112,8 @@ static const bm_material table[] = {
         .point_group = "Td", .direct_gap = 1,
         /* 1.4236 eV, 3.63e-4 eV/K, 162 K: Vurgaftman et al. 2001, from memory */
         .gap = { 1.4236, 3.63e-4, 162.0 }, .gap_source = VMR,
-        .electron = { "Gamma", BM_SITE_GAMMA, { 0, 0, 0 }, 1, 1.0, 0.0795, 0.0795, 0.0795, VMR },
+        .electron = { "Gamma", BM_SITE_GAMMA, { 0, 0, 0 }, BM_DIRECTION_CARTESIAN,
+                      1, 1.0, 0.0795, 0.0795, 0.0795, VMR },
         .m_dos_electron = 0.0795,
         .m_dos_electron_source = "single isotropic valley: the valley mass, " VMR,
         .m_dos_hole = 0.570, .m_dos_hole_source = DERIVED_DOS_H,
@@ -124,7 +129,8 @@ static const bm_material table[] = {
         .point_group = "Td", .direct_gap = 1,
         /* 0.417 eV, 2.76e-4 eV/K, 93 K: Vurgaftman et al. 2001, from memory */
         .gap = { 0.417, 2.76e-4, 93.0 }, .gap_source = VMR,
-        .electron = { "Gamma", BM_SITE_GAMMA, { 0, 0, 0 }, 1, 1.0, 0.026, 0.026, 0.026, VMR },
+        .electron = { "Gamma", BM_SITE_GAMMA, { 0, 0, 0 }, BM_DIRECTION_CARTESIAN,
+                      1, 1.0, 0.026, 0.026, 0.026, VMR },
         .m_dos_electron = 0.026,
         .m_dos_electron_source = "single isotropic valley: the valley mass, " VMR,
         .m_dos_hole = 0.338, .m_dos_hole_source = DERIVED_DOS_H,
@@ -139,7 +145,8 @@ static const bm_material table[] = {
         .point_group = "Td", .direct_gap = 1,
         /* 0.235 eV, 3.2e-4 eV/K, 170 K: Vurgaftman et al. 2001, from memory */
         .gap = { 0.235, 3.2e-4, 170.0 }, .gap_source = VMR,
-        .electron = { "Gamma", BM_SITE_GAMMA, { 0, 0, 0 }, 1, 1.0, 0.0135, 0.0135, 0.0135, VMR },
+        .electron = { "Gamma", BM_SITE_GAMMA, { 0, 0, 0 }, BM_DIRECTION_CARTESIAN,
+                      1, 1.0, 0.0135, 0.0135, 0.0135, VMR },
         .m_dos_electron = 0.0135,
         .m_dos_electron_source = "single isotropic valley: the valley mass, " VMR,
         .m_dos_hole = 0.266, .m_dos_hole_source = DERIVED_DOS_H,
@@ -155,7 +162,8 @@ static const bm_material table[] = {
         /* 3.510 eV, 9.09e-4 eV/K, 830 K: Vurgaftman et al. 2001 (wurtzite), from memory */
         .gap = { 3.510, 9.09e-4, 830.0 }, .gap_source = VMR,
         /* m_e 0.20, taken isotropic: Vurgaftman et al. 2001, from memory */
-        .electron = { "Gamma", BM_SITE_GAMMA, { 0, 0, 0 }, 1, 1.0, 0.20, 0.20, 0.20, VMR },
+        .electron = { "Gamma", BM_SITE_GAMMA, { 0, 0, 0 }, BM_DIRECTION_HEXAGONAL,
+                      1, 1.0, 0.20, 0.20, 0.20, VMR },
         .m_dos_electron = 0.20,
         .m_dos_electron_source = "single isotropic valley: the valley mass, " VMR,
         /* (1.4^1.5 + 0.3^1.5)^(2/3) = 1.49 */
@@ -175,9 +183,11 @@ static const bm_material table[] = {
         .point_group = "C6v", .direct_gap = 0,
         /* Eg(T) = 3.265 - 6.5e-4 T^2 / (T + 1300): Levinshtein 2001, from memory */
         .gap = { 3.265, 6.5e-4, 1300.0 }, .gap_source = LEVINSHTEIN,
-        /* three M valleys (six M points on the zone face, counted 1/2): m along
-         * Gamma-M 0.58, along M-K 0.31, along c 0.33: Volm et al. 1996, from memory */
-        .electron = { "M", BM_SITE_FACE, { 1, 0, 0 }, 6, 3.0, 0.58, 0.31, 0.33, VOLM },
+        /* three M valleys (six M points on the zone face, counted 1/2), M along a1*:
+         * m along Gamma-M 0.58, along M-K 0.31, along c 0.33 (the axis order of
+         * bm_valley_info): Volm et al. 1996, from memory */
+        .electron = { "M", BM_SITE_FACE, { 1, 0, 0 }, BM_DIRECTION_HEXAGONAL,
+                      6, 3.0, 0.58, 0.31, 0.33, VOLM },
         /* 3^(2/3) (0.58 * 0.31 * 0.33)^(1/3) = 0.811 */
         .m_dos_electron = 0.811, .m_dos_electron_source = DERIVED_DOS_E,
         /* 1.0: Levinshtein 2001, from memory */
@@ -198,7 +208,8 @@ static const bm_material table[] = {
         .gap = { 2.24, 7.0e-4, 530.0 }, .gap_source = VMR,
         /* X valleys (six on the zone faces, counted 1/2): m_l 0.97, m_t 0.22:
          * Vurgaftman et al. 2001, from memory */
-        .electron = { "X", BM_SITE_FACE, { 1, 0, 0 }, 6, 3.0, 0.97, 0.22, 0.22, VMR },
+        .electron = { "X", BM_SITE_FACE, { 1, 0, 0 }, BM_DIRECTION_CARTESIAN,
+                      6, 3.0, 0.97, 0.22, 0.22, VMR },
         /* 3^(2/3) (0.97 * 0.22^2)^(1/3) = 0.750 */
         .m_dos_electron = 0.750, .m_dos_electron_source = DERIVED_DOS_E,
         .m_dos_hole = 0.546, .m_dos_hole_source = DERIVED_DOS_H,
@@ -214,7 +225,8 @@ static const bm_material table[] = {
         /* X gap 2.35 eV, 5.771e-4 eV/K, 372 K: Vurgaftman et al. 2001, from memory */
         .gap = { 2.35, 5.771e-4, 372.0 }, .gap_source = VMR,
         /* X valleys: m_l 2.0, m_t 0.253: Vurgaftman et al. 2001, from memory */
-        .electron = { "X", BM_SITE_FACE, { 1, 0, 0 }, 6, 3.0, 2.0, 0.253, 0.253, VMR },
+        .electron = { "X", BM_SITE_FACE, { 1, 0, 0 }, BM_DIRECTION_CARTESIAN,
+                      6, 3.0, 2.0, 0.253, 0.253, VMR },
         /* 3^(2/3) (2.0 * 0.253^2)^(1/3) = 1.048 */
         .m_dos_electron = 1.048, .m_dos_electron_source = DERIVED_DOS_E,
         .m_dos_hole = 0.422, .m_dos_hole_source = DERIVED_DOS_H,
@@ -330,4 +342,80 @@ bm_status bm_material_band_gap(const bm_material *m, double t_k, double *eg_ev,
     if (!m)
         return bm_fail(err, BM_EINVAL, "materials: no material given");
     return bm_bandgap_varshni(&m->gap, t_k, eg_ev, w, err);
+}
+
+static void cross(const double a[3], const double b[3], double out[3])
+{
+    out[0] = a[1] * b[2] - a[2] * b[1];
+    out[1] = a[2] * b[0] - a[0] * b[2];
+    out[2] = a[0] * b[1] - a[1] * b[0];
+}
+
+static int normalise(double v[3])
+{
+    double n = bm_v3_norm(v);
+    if (!(n > 1e-12) || !isfinite(n))
+        return 0;
+    for (int i = 0; i < 3; i++)
+        v[i] /= n;
+    return 1;
+}
+
+bm_status bm_valley_info_direction(const bm_valley_info *v, double out[3], bm_errbuf *err)
+{
+    if (!v)
+        return bm_fail(err, BM_EINVAL, "materials: no valley given");
+    const double *d = v->direction;
+    if (v->basis == BM_DIRECTION_HEXAGONAL) {
+        if ((d[0] != 0.0 || d[1] != 0.0) && d[2] != 0.0)
+            return bm_fail(err, BM_EINVAL, "materials: valley %s: a hexagonal direction mixing "
+                           "in-plane and c* components needs c/a", v->label);
+        /* a1* ~ (sqrt 3/2, 1/2, 0), a2* ~ (0, 1, 0) for a1 = a (1, 0, 0),
+         * a2 = a (-1/2, sqrt 3/2, 0); equal lengths 4 pi / (sqrt 3 a) */
+        out[0] = 0.5 * sqrt(3.0) * d[0];
+        out[1] = 0.5 * d[0] + d[1];
+        out[2] = d[2];
+    } else {
+        memcpy(out, d, 3 * sizeof *out);
+    }
+    int ok = normalise(out);
+    if (!ok && v->site == BM_SITE_GAMMA && bm_v3_norm(d) == 0.0) {
+        out[0] = out[1] = out[2] = 0.0;
+        return BM_OK;
+    }
+    if (!ok)
+        return bm_fail(err, BM_EINVAL, "materials: valley %s: direction [%g %g %g] is zero or "
+                       "not finite", v->label, d[0], d[1], d[2]);
+    return BM_OK;
+}
+
+bm_status bm_valley_info_shape(const bm_valley_info *v, bm_valley_shape *shape,
+                               double dir[3], bm_errbuf *err)
+{
+    bm_status st = bm_valley_info_direction(v, dir, err);
+    if (st != BM_OK)
+        return st;
+    double e1[3] = { 0, 0, 1 }, e2[3], e3[3];
+    if (bm_v3_norm(dir) > 0.0)
+        memcpy(e1, dir, sizeof e1);
+    if (v->m_transverse == v->m_transverse2)
+        return bm_valley_shape_spheroid(v->m_longitudinal, v->m_transverse, e1, shape, err);
+    static const double z[3] = { 0, 0, 1 }, y[3] = { 0, 1, 0 };
+    cross(z, e1, e2);
+    if (!normalise(e2)) {
+        cross(y, e1, e2);
+        normalise(e2);
+    }
+    cross(e1, e2, e3);
+    const double m[3] = { v->m_longitudinal, v->m_transverse, v->m_transverse2 };
+    for (int i = 0; i < 3; i++) {
+        if (!(m[i] > 0.0) || !isfinite(m[i]))
+            return bm_fail(err, BM_EINVAL, "materials: valley %s: masses must be positive "
+                           "and finite (got %g, %g, %g)", v->label, m[0], m[1], m[2]);
+        shape->masses[i] = m[i];
+        shape->axes[0][i] = e1[i];
+        shape->axes[1][i] = e2[i];
+        shape->axes[2][i] = e3[i];
+    }
+    return BM_OK;
 }

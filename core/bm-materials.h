@@ -6,25 +6,40 @@
 #include <stddef.h>
 #include "bm-bandgap.h"
 #include "bm-status.h"
+#include "bm-valleys.h"
 
-typedef enum {
-    BM_SITE_GAMMA,      /* at the zone centre: one valley */
-    BM_SITE_INTERIOR,   /* on a symmetry line inside the zone: each star member counts 1 */
-    BM_SITE_FACE        /* on the zone face: each member shared with its partner, counts 1/2 */
-} bm_valley_site;
-
+/* bm_valley_site (gamma, interior, face) comes from bm-valleys.h. */
 const char *bm_valley_site_name(bm_valley_site s);  /* "gamma", "interior", "face" */
 
+/* How bm_valley_info.direction is written. */
+typedef enum {
+    BM_DIRECTION_CARTESIAN,   /* Cartesian, in the frame of bm-symmetry.h for the
+                                 material's point group (cube axes for cubic groups) */
+    BM_DIRECTION_HEXAGONAL    /* components along the reciprocal vectors (a1*, a2*, c*)
+                                 of the hexagonal lattice a1 = a (1, 0, 0),
+                                 a2 = a (-1/2, sqrt 3/2, 0), c along z: a1 along x, the
+                                 mirror normal / secondary two-fold axis of bm-symmetry.h
+                                 (the standard setting of 6mm and 622) */
+} bm_direction_basis;
+
 /* Lowest conduction-band valley.  direction: a representative valley
- * direction, Cartesian cubic axes for the cubic crystals, (a*, a*, c*) for the
- * hexagonal ones (4H-SiC's M point lies along a*).  Masses in m_e:
- * m_longitudinal along the direction, m_transverse (and m_transverse2 for
- * valleys without axial symmetry, else equal to m_transverse) across it;
- * all three equal for an isotropic valley. */
+ * direction in the given basis (Cartesian for the cubic crystals, (a1*, a2*, c*)
+ * for the hexagonal ones: 4H-SiC's M point lies along a1*); at Gamma the
+ * longitudinal axis (zero: z).  Masses in m_e, principal values of the valley
+ * whose axes are, as rows,
+ *   e1 = d (the Cartesian unit direction): m_longitudinal,
+ *   e2 = z x d normalised (y x d when d is along z): m_transverse,
+ *   e3 = d x e2: m_transverse2 (equal to m_transverse for a valley with axial
+ *        symmetry, which is then a spheroid about d);
+ * all three equal for an isotropic valley.  For a valley on the zone face of a
+ * hexagonal crystal at M (d along Gamma-M in the basal plane), e2 lies along
+ * M-K and e3 along c.  star_size and valleys are 0 and NAN in a material read
+ * from a file (the star built from the point group gives them). */
 typedef struct {
     const char *label;            /* "Delta", "L", "X", "Gamma", "M" */
     bm_valley_site site;
     double direction[3];
+    bm_direction_basis basis;
     int star_size;                /* distinct positions in the star */
     double valleys;               /* equivalent full valleys (face members count 1/2) */
     double m_longitudinal, m_transverse, m_transverse2;
@@ -87,5 +102,18 @@ const bm_material_dopant *bm_material_find_dopant(const bm_material *m, const ch
 /* Varshni gap of the material at t_k. */
 bm_status bm_material_band_gap(const bm_material *m, double t_k, double *eg_ev,
                                bm_warnings *w, bm_errbuf *err);
+
+/* The Cartesian unit direction of v (frame of bm-symmetry.h); zero when v
+ * sits at Gamma with no axis given.  BM_EINVAL for a non-finite or zero
+ * direction off Gamma, and for a hexagonal direction mixing in-plane and c*
+ * components (converting it needs c/a, which the table does not hold). */
+bm_status bm_valley_info_direction(const bm_valley_info *v, double out[3], bm_errbuf *err);
+
+/* The valley shape of v by the axis convention above (a spheroid when
+ * m_transverse == m_transverse2) and its Cartesian position direction dir
+ * (zero at Gamma), ready for bm_valley_star_build.  BM_EINVAL for
+ * non-positive masses or a bad direction. */
+bm_status bm_valley_info_shape(const bm_valley_info *v, bm_valley_shape *shape,
+                               double dir[3], bm_errbuf *err);
 
 #endif

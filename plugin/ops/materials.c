@@ -49,6 +49,12 @@ static JsonObject *full(const bm_material *m, double t, double eg)
     json_object_set_string_member(v, "label", m->electron.label);
     json_object_set_string_member(v, "site", bm_valley_site_name(m->electron.site));
     bm_json_set_vec3(v, "direction", m->electron.direction);
+    json_object_set_string_member(v, "direction_basis",
+                                  m->electron.basis == BM_DIRECTION_HEXAGONAL
+                                  ? "reciprocal (a1*, a2*, c*)" : "cartesian");
+    double cart[3];
+    if (bm_valley_info_direction(&m->electron, cart, NULL) == BM_OK)
+        bm_json_set_vec3(v, "direction_cartesian", cart);
     json_object_set_int_member(v, "star_size", m->electron.star_size);
     bm_json_set_number(v, "valleys", m->electron.valleys);
     bm_json_set_number(v, "longitudinal_mass_me", m->electron.m_longitudinal);

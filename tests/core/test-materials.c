@@ -6,6 +6,7 @@
 
 #include "bm-carriers.h"
 #include "bm-materials.h"
+#include "bm-valleys.h"
 
 static const bm_material *get(const char *name)
 {
@@ -140,6 +141,91 @@ static void test_valleys(void)
     g_assert_cmpfloat(fabs(md / si->m_dos_electron - 1.0), <, 0.005);
 }
 
+static void star_of(const bm_material *m, bm_valley_star *star)
+{
+    bm_errbuf err = {0};
+    bm_valley_shape shape;
+    bm_point_group g;
+    double dir[3];
+    g_assert_cmpint(bm_valley_info_shape(&m->electron, &shape, dir, &err), ==, BM_OK);
+    g_assert_cmpint(bm_point_group_get(m->point_group, &g, &err), ==, BM_OK);
+    g_assert_cmpint(bm_valley_star_build(&shape, m->electron.site, dir, &g, star, &err), ==,
+                    BM_OK);
+}
+
+/* Every built-in valley, expanded by its material's point group, gives the
+ * star listed beside it (6 Delta in Si, 8 L half-valleys = 4 in Ge, 6 X
+ * half-valleys = 3 in AlAs and GaP, one Gamma valley: METHODS, valley stars;
+ * textbook); 4H-SiC's six M points on the zone face count 3 valleys (Volm et
+ * al. 1996, from memory) and wurtzite GaN's Gamma valley 1. */
+static void test_valley_stars(void)
+{
+    for (size_t i = 0; i < bm_material_count(); i++) {
+        const bm_material *m = bm_material_at(i);
+        bm_valley_star *star = g_new0(bm_valley_star, 1);
+        star_of(m, star);
+        g_assert_cmpuint(star->n, ==, (size_t)m->electron.star_size);
+        g_assert_cmpfloat(star->valley_count, ==, m->electron.valleys);
+        g_assert_cmpint(star->warnings.count, ==, 0);
+        g_free(star);
+    }
+    bm_valley_star *star = g_new0(bm_valley_star, 1);
+    star_of(get("4H-SiC"), star);
+    g_assert_cmpuint(star->n, ==, 6);
+    g_assert_cmpfloat(star->valley_count, ==, 3.0);
+    star_of(get("GaN"), star);
+    g_assert_cmpuint(star->n, ==, 1);
+    g_assert_cmpfloat(star->valley_count, ==, 1.0);
+    g_free(star);
+}
+
+/* 4H-SiC's valley axes against the zone built here from the lattice:
+ * a1 = (1, 0, 0), a2 = (-1/2, sqrt 3/2, 0), c = z (a = 1); b_i = 2 pi (a_j x a_k)
+ * / V; M = b1 / 2; the corner K next to it solves K.b1 = |b1|^2/2 and
+ * K.b2 = |b2|^2/2 (Bragg planes; textbook).  The table's masses are given
+ * along Gamma-M, M-K and c (Volm et al. 1996, from memory). */
+static void test_hexagonal_axes(void)
+{
+    const double s3 = sqrt(3.0), tau = 2.0 * G_PI;
+    const double b1[2] = { tau, tau / s3 }, b2[2] = { 0.0, 2.0 * tau / s3 };
+    double bb1 = b1[0] * b1[0] + b1[1] * b1[1], bb2 = b2[0] * b2[0] + b2[1] * b2[1];
+    /* K = solution of [b1; b2] K = [bb1/2; bb2/2] */
+    double det = b1[0] * b2[1] - b1[1] * b2[0];
+    double k[2] = { (bb1 / 2 * b2[1] - b1[1] * bb2 / 2) / det,
+                    (b1[0] * bb2 / 2 - bb1 / 2 * b2[0]) / det };
+    double mk[2] = { k[0] - b1[0] / 2, k[1] - b1[1] / 2 };
+    double nb = sqrt(bb1), nmk = hypot(mk[0], mk[1]);
+
+    const bm_material *sic = get("4H-SiC");
+    bm_errbuf err = {0};
+    bm_valley_shape shape;
+    double dir[3];
+    g_assert_cmpint(bm_valley_info_shape(&sic->electron, &shape, dir, &err), ==, BM_OK);
+    const double gm[3] = { b1[0] / nb, b1[1] / nb, 0 }, mkd[3] = { mk[0] / nmk, mk[1] / nmk, 0 };
+    const double c[3] = { 0, 0, 1 };
+    for (int i = 0; i < 3; i++) {
+        g_assert_cmpfloat(fabs(dir[i] - gm[i]), <, 1e-12);
+        g_assert_cmpfloat(fabs(shape.axes[0][i] - gm[i]), <, 1e-12);
+    }
+    /* e2 along M-K, e3 along c (signs free) */
+    double d2 = 0, d3 = 0;
+    for (int i = 0; i < 3; i++) {
+        d2 += shape.axes[1][i] * mkd[i];
+        d3 += shape.axes[2][i] * c[i];
+    }
+    g_assert_cmpfloat(fabs(fabs(d2) - 1.0), <, 1e-12);
+    g_assert_cmpfloat(fabs(fabs(d3) - 1.0), <, 1e-12);
+    g_assert_cmpfloat(shape.masses[0], ==, 0.58);
+    g_assert_cmpfloat(shape.masses[1], ==, 0.31);
+    g_assert_cmpfloat(shape.masses[2], ==, 0.33);
+
+    /* a direction mixing basal and c* components is refused, naming the valley */
+    bm_valley_info bad = sic->electron;
+    bad.direction[2] = 0.5;
+    g_assert_cmpint(bm_valley_info_direction(&bad, dir, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "valley M"));
+}
+
 static void test_derived_entries(void)
 {
     /* Entries marked "derived" must equal their formula (to the 3-digit rounding
@@ -195,6 +281,8 @@ int main(int argc, char **argv)
     g_test_add_func("/materials/every-value-has-a-source", test_every_value_has_a_source);
     g_test_add_func("/materials/published-values", test_published_values);
     g_test_add_func("/materials/valleys", test_valleys);
+    g_test_add_func("/materials/valley-stars", test_valley_stars);
+    g_test_add_func("/materials/hexagonal-axes", test_hexagonal_axes);
     g_test_add_func("/materials/derived-entries", test_derived_entries);
     g_test_add_func("/materials/dopant-lookup", test_dopant_lookup);
     return g_test_run();
