@@ -252,6 +252,18 @@ const char *bm_valley_site_name(bm_valley_site s)
     return "unknown";
 }
 
+bm_status bm_valley_site_parse(const char *name, bm_valley_site *out, bm_errbuf *err)
+{
+    static const bm_valley_site all[] = { BM_SITE_GAMMA, BM_SITE_INTERIOR, BM_SITE_FACE };
+    for (size_t i = 0; name && i < sizeof all / sizeof all[0]; i++)
+        if (!strcmp(name, bm_valley_site_name(all[i]))) {
+            *out = all[i];
+            return BM_OK;
+        }
+    return bm_fail(err, BM_EINVAL, "must be gamma, interior or face (got \"%.40s\")",
+                   name ? name : "nothing");
+}
+
 size_t bm_material_count(void)
 {
     return NTABLE;

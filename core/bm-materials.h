@@ -10,6 +10,8 @@
 
 /* bm_valley_site (gamma, interior, face) comes from bm-valleys.h. */
 const char *bm_valley_site_name(bm_valley_site s);  /* "gamma", "interior", "face" */
+/* The site of one of those names (exact); BM_EINVAL naming it otherwise. */
+bm_status bm_valley_site_parse(const char *name, bm_valley_site *out, bm_errbuf *err);
 
 /* How bm_valley_info.direction is written. */
 typedef enum {

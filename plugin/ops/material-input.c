@@ -9,7 +9,9 @@
 
 static const char *const material_keys[] = {
     "name", "electron_dos_mass_me", "hole_dos_mass_me", "band_gap_ev", "varshni",
-    "bose_einstein", "dopants", "comment", NULL
+    "bose_einstein", "dopants", "comment", "point_group", "conduction_valley",
+    "heavy_hole_mass_me", "light_hole_mass_me", "split_off_mass_me", "split_off_ev",
+    "luttinger_parameters", NULL
 };
 
 static gboolean only_keys(JsonObject *o, const char *const *allowed, const char *where,
@@ -108,6 +110,99 @@ static gboolean read_dopants(BmMaterialInput *in, JsonObject *o, const char *whe
     return TRUE;
 }
 
+static gboolean string_member(JsonObject *o, const char *key, const char *where,
+                              const char **out, GError **error)
+{
+    JsonNode *n = json_object_get_member(o, key);
+    if (!n || !JSON_NODE_HOLDS_VALUE(n) || json_node_get_value_type(n) != G_TYPE_STRING) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "%s: key \"%s\" must be a string", where, key);
+        return FALSE;
+    }
+    *out = json_node_get_string(n);
+    return TRUE;
+}
+
+/* "conduction_valley": position, Cartesian direction, masses (bm_valley_info). */
+static gboolean read_valley(BmMaterialInput *in, JsonObject *o, const char *where,
+                           GError **error)
+{
+    static const char *const keys[] = { "position", "direction", "longitudinal_mass_me",
+                                        "transverse_mass_me", "transverse2_mass_me",
+                                        "source", NULL };
+    g_autofree char *w = g_strdup_printf("%s: conduction_valley", where);
+    JsonObject *v = sub_object(o, "conduction_valley", where, error);
+    bm_valley_info *e = &in->mat.electron;
+    const char *pos = NULL;
+    bm_errbuf err = {0};
+    if (!v || !only_keys(v, keys, w, error) || !string_member(v, "position", w, &pos, error))
+        return FALSE;
+    if (bm_valley_site_parse(pos, &e->site, &err) != BM_OK) {
+        g_autofree char *ctx = g_strdup_printf("%s: key \"position\"", w);
+        bm_error_from_core(error, &err, ctx);
+        return FALSE;
+    }
+    e->label = bm_valley_site_name(e->site);
+    e->basis = BM_DIRECTION_CARTESIAN;
+    e->star_size = 0;
+    e->valleys = NAN;
+    memset(e->direction, 0, sizeof e->direction);
+    if ((e->site != BM_SITE_GAMMA || json_object_has_member(v, "direction"))
+        && !bm_json_vec3(v, "direction", w, e->direction, error))
+        return FALSE;
+    if (!bm_json_positive(v, "longitudinal_mass_me", w, &e->m_longitudinal, error)
+        || !bm_json_positive(v, "transverse_mass_me", w, &e->m_transverse, error))
+        return FALSE;
+    e->m_transverse2 = e->m_transverse;
+    if (json_object_has_member(v, "transverse2_mass_me")
+        && !bm_json_positive(v, "transverse2_mass_me", w, &e->m_transverse2, error))
+        return FALSE;
+    e->source = in->origin;
+    if (json_object_has_member(v, "source")) {
+        const char *src;
+        if (!string_member(v, "source", w, &src, error))
+            return FALSE;
+        e->source = keep(in, src);
+    }
+    in->has_valley = TRUE;
+    return TRUE;
+}
+
+static gboolean read_positive_opt(JsonObject *o, const char *key, const char *where,
+                                  double *out, GError **error)
+{
+    return !json_object_has_member(o, key) || bm_json_positive(o, key, where, out, error);
+}
+
+/* Hole masses, split-off energy and Luttinger parameters (NAN when absent). */
+static gboolean read_holes(BmMaterialInput *in, JsonObject *o, const char *where,
+                          GError **error)
+{
+    bm_material *m = &in->mat;
+    m->m_heavy_hole = m->m_light_hole = m->m_split_off = m->split_off_ev = NAN;
+    m->luttinger[0] = m->luttinger[1] = m->luttinger[2] = NAN;
+    m->hole_masses_source = m->split_off_source = m->luttinger_source = in->origin;
+    if (!read_positive_opt(o, "heavy_hole_mass_me", where, &m->m_heavy_hole, error)
+        || !read_positive_opt(o, "light_hole_mass_me", where, &m->m_light_hole, error)
+        || !read_positive_opt(o, "split_off_mass_me", where, &m->m_split_off, error)
+        || !read_positive_opt(o, "split_off_ev", where, &m->split_off_ev, error))
+        return FALSE;
+    if (!json_object_has_member(o, "luttinger_parameters"))
+        return TRUE;
+    gsize n = 0;
+    g_autofree double *g = bm_json_numbers(o, "luttinger_parameters", where, &n, error);
+    if (!g)
+        return FALSE;
+    if (n != 3) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "%s: key \"luttinger_parameters\" must hold 3 numbers [gamma1, gamma2, "
+                    "gamma3] (got %zu)", where, (size_t)n);
+        return FALSE;
+    }
+    memcpy(m->luttinger, g, sizeof m->luttinger);
+    return TRUE;
+}
+
 static gboolean read_object(BmMaterialInput *in, JsonObject *o, const char *where,
                             GError **error)
 {
@@ -172,7 +267,14 @@ static gboolean read_object(BmMaterialInput *in, JsonObject *o, const char *wher
     }
     if (json_object_has_member(o, "dopants") && !read_dopants(in, o, where, error))
         return FALSE;
-    return TRUE;
+    if (json_object_has_member(o, "point_group")
+        && !string_member(o, "point_group", where, &m->point_group, error))
+        return FALSE;
+    if (m->point_group)
+        m->point_group = keep(in, m->point_group);
+    if (json_object_has_member(o, "conduction_valley") && !read_valley(in, o, where, error))
+        return FALSE;
+    return read_holes(in, o, where, error);
 }
 
 static gboolean looks_like_path(const char *s)
@@ -204,6 +306,7 @@ gboolean bm_material_input_read(JsonObject *request, const char *key,
         out->mat = *m;
         out->builtin = TRUE;
         out->has_varshni = out->has_electron_mass = out->has_hole_mass = TRUE;
+        out->has_valley = m->electron.label != NULL;
         out->origin = g_strdup("built-in table");
         return TRUE;
     }

@@ -1,5 +1,5 @@
-/* material-input.h: the "material" request value shared by the carrier
- * operations: a built-in name, an inline object, or a JSON file holding one. */
+/* material-input.h: the "material" request value shared by the carrier, valley
+ * and hole operations: a built-in name, an inline object, or a JSON file holding one. */
 #ifndef BM_MATERIAL_INPUT_H
 #define BM_MATERIAL_INPUT_H
 
@@ -15,11 +15,14 @@ typedef enum {
     BM_GAP_FIXED
 } BmGapModel;
 
+/* A material from an object has NAN for the hole masses, split-off energy and
+ * Luttinger parameters it does not give, and point_group NULL if not given. */
 typedef struct {
     bm_material mat;            /* the built-in entry, or one filled from the object */
     gboolean builtin;
     gboolean has_varshni, has_bose_einstein, has_fixed_gap;
     gboolean has_electron_mass, has_hole_mass;
+    gboolean has_valley;        /* mat.electron filled (point_group may still be NULL) */
     bm_bose_einstein_gap bose_einstein;
     double fixed_gap_ev;
     char *origin;               /* "built-in table", "request" or the file path */
