@@ -1,12 +1,18 @@
 /* hole-mass.c: operation "hole-mass" -- the hole DOS mass from heavy, light
- * and split-off bands, and masses from Luttinger parameters. */
+ * and split-off bands, and masses from Luttinger parameters (given or a material's). */
 #include <math.h>
+#include <string.h>
 
 #include "ops.h"
 #include "bm-json.h"
 #include "bm-holes.h"
+#include "material-input.h"
 
 static const BmParam params[] = {
+    { "material", BM_VALUE_STRING | BM_VALUE_OBJECT, FALSE, NULL,
+      "a built-in material name, an object or a JSON file: its heavy/light/split-off "
+      "masses, split-off energy and Luttinger parameters; any of the keys below given "
+      "explicitly overrides the material's value" },
     { "heavy_hole_mass_me", BM_VALUE_NUMBER, FALSE, NULL, "heavy-hole DOS mass, m_e" },
     { "light_hole_mass_me", BM_VALUE_NUMBER, FALSE, NULL, "light-hole DOS mass, m_e" },
     { "split_off_mass_me", BM_VALUE_NUMBER, FALSE, NULL,
@@ -35,84 +41,223 @@ static void set_dirs(JsonObject *o, const char *key, const double m[3])
     json_object_set_object_member(o, key, d);
 }
 
+/* One input value and where it came from (NAN and NULL when absent). */
+typedef struct {
+    double v;
+    const char *source;
+} Sourced;
+
+typedef struct {
+    Sourced hh, lh, so, delta;
+    double lutt[3];
+    const char *lutt_source;       /* NULL: no Luttinger parameters */
+    gboolean has_mat;
+    BmMaterialInput mat;
+} HoleInputs;
+
+/* request[key] if given, else the material's value when finite. */
+static gboolean take(JsonObject *request, const char *key, const HoleInputs *in,
+                     double mat_value, const char *mat_source, Sourced *out, GError **error)
+{
+    out->v = NAN;
+    out->source = NULL;
+    if (json_object_has_member(request, key)) {
+        out->source = "request";
+        return bm_json_number(request, key, NULL, &out->v, error);
+    }
+    if (in->has_mat && isfinite(mat_value)) {
+        out->v = mat_value;
+        out->source = mat_source;
+    }
+    return TRUE;
+}
+
+static gboolean take_luttinger(JsonObject *request, HoleInputs *in, GError **error)
+{
+    const bm_material *m = &in->mat.mat;
+    if (!json_object_has_member(request, "luttinger_parameters")) {
+        gboolean have = in->has_mat && isfinite(m->luttinger[0]) && isfinite(m->luttinger[1])
+                     && isfinite(m->luttinger[2]);
+        if (have) {
+            memcpy(in->lutt, m->luttinger, sizeof in->lutt);
+            in->lutt_source = m->luttinger_source;
+        }
+        return TRUE;
+    }
+    gsize n = 0;
+    g_autofree double *g = bm_json_numbers(request, "luttinger_parameters", NULL, &n, error);
+    if (!g)
+        return FALSE;
+    if (n != 3) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request: key \"luttinger_parameters\" must hold 3 numbers "
+                    "[gamma1, gamma2, gamma3] (got %zu)", (size_t)n);
+        return FALSE;
+    }
+    memcpy(in->lutt, g, sizeof in->lutt);
+    in->lutt_source = "request";
+    return TRUE;
+}
+
+static gboolean read_inputs(JsonObject *request, HoleInputs *in, GError **error)
+{
+    if (json_object_has_member(request, "material")) {
+        if (!bm_material_input_read(request, "material", &in->mat, error))
+            return FALSE;
+        in->has_mat = TRUE;
+    }
+    const bm_material *m = &in->mat.mat;
+    return take(request, "heavy_hole_mass_me", in, m->m_heavy_hole, m->hole_masses_source,
+                &in->hh, error)
+        && take(request, "light_hole_mass_me", in, m->m_light_hole, m->hole_masses_source,
+                &in->lh, error)
+        && take(request, "split_off_mass_me", in, m->m_split_off, m->split_off_source,
+                &in->so, error)
+        && take(request, "spin_orbit_splitting_ev", in, m->split_off_ev, m->split_off_source,
+                &in->delta, error)
+        && take_luttinger(request, in, error);
+}
+
+static gboolean check_bands(const HoleInputs *in, GError **error)
+{
+    if (!in->hh.source || !in->lh.source) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request: \"heavy_hole_mass_me\" and \"light_hole_mass_me\" go together "
+                    "(missing \"%s\"%s%s%s)",
+                    in->hh.source ? "light_hole_mass_me" : "heavy_hole_mass_me",
+                    in->has_mat ? " in the request and in material \"" : "",
+                    in->has_mat ? in->mat.mat.name : "", in->has_mat ? "\"" : "");
+        return FALSE;
+    }
+    if (in->so.source && !in->delta.source) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request: \"split_off_mass_me\" needs \"spin_orbit_splitting_ev\"");
+        return FALSE;
+    }
+    if (!in->so.source && in->delta.source) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request: \"spin_orbit_splitting_ev\" needs \"split_off_mass_me\"");
+        return FALSE;
+    }
+    if (in->so.source && in->so.v <= 0.0) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request: key \"split_off_mass_me\" must be greater than zero "
+                    "(got %g); leave it out to ignore the band", in->so.v);
+        return FALSE;
+    }
+    return TRUE;
+}
+
+static gboolean bands_json(JsonObject *resp, const HoleInputs *in, double t_k, GError **error)
+{
+    bm_errbuf err = {0};
+    if (!check_bands(in, error))
+        return FALSE;
+    bm_hole_bands b = { .m_hh = in->hh.v, .m_lh = in->lh.v, .temperature_k = t_k };
+    if (in->so.source) {
+        b.m_so = in->so.v;
+        b.delta_so_ev = in->delta.v;
+    }
+    bm_hole_dos d;
+    if (bm_hole_dos_mass(&b, &d, &err) != BM_OK) {
+        bm_error_from_core(error, &err, "hole-mass");
+        return FALSE;
+    }
+    bm_json_set_number(resp, "dos_mass_me", d.dos_mass);
+    JsonObject *f = json_object_new();
+    bm_json_set_number(f, "heavy", d.fraction_hh);
+    bm_json_set_number(f, "light", d.fraction_lh);
+    bm_json_set_number(f, "split_off", d.fraction_so);
+    json_object_set_object_member(resp, "band_fractions", f);
+    copy_warnings(resp, &d.warnings);
+    return TRUE;
+}
+
+static gboolean luttinger_json(JsonObject *resp, const HoleInputs *in, GError **error)
+{
+    bm_errbuf err = {0};
+    bm_luttinger L = {in->lutt[0], in->lutt[1], in->lutt[2]};
+    bm_luttinger_masses m;
+    if (bm_luttinger_masses_compute(&L, &m, &err) != BM_OK) {
+        bm_error_from_core(error, &err, "hole-mass");
+        return FALSE;
+    }
+    JsonObject *o = json_object_new();
+    set_dirs(o, "heavy_hole_mass_me", m.heavy);
+    set_dirs(o, "light_hole_mass_me", m.light);
+    /* non-finite values (open heavy-hole surface) become null */
+    bm_json_set_number(o, "heavy_hole_dos_mass_me", m.heavy_dos_mass);
+    bm_json_set_number(o, "light_hole_dos_mass_me", m.light_dos_mass);
+    bm_json_set_number(o, "combined_dos_mass_me", m.combined_dos_mass);
+    json_object_set_boolean_member(o, "heavy_hole_convex", m.heavy_convex);
+    json_object_set_object_member(resp, "luttinger", o);
+    copy_warnings(resp, &m.warnings);
+    return TRUE;
+}
+
+static void add_source(JsonObject *sources, const char *key, const Sourced *s)
+{
+    if (!s->source)
+        return;
+    JsonObject *o = json_object_new();
+    bm_json_set_number(o, "value", s->v);
+    json_object_set_string_member(o, "source", s->source);
+    json_object_set_object_member(sources, key, o);
+}
+
+/* "material" and, per value used, {value, source} ("request" for a key given). */
+static void material_json(JsonObject *resp, const HoleInputs *in)
+{
+    json_object_set_string_member(resp, "material", in->mat.mat.name);
+    JsonObject *s = json_object_new();
+    add_source(s, "heavy_hole_mass_me", &in->hh);
+    add_source(s, "light_hole_mass_me", &in->lh);
+    add_source(s, "split_off_mass_me", &in->so);
+    add_source(s, "spin_orbit_splitting_ev", &in->delta);
+    if (in->lutt_source) {
+        JsonObject *o = json_object_new();
+        bm_json_set_vec3(o, "value", in->lutt);
+        json_object_set_string_member(o, "source", in->lutt_source);
+        json_object_set_object_member(s, "luttinger_parameters", o);
+    }
+    json_object_set_object_member(resp, "sources", s);
+}
+
 static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
 {
     (void)inputs;
-    bm_errbuf err = {0};
-    gboolean bands = json_object_has_member(request, "heavy_hole_mass_me")
-                  || json_object_has_member(request, "light_hole_mass_me");
-    gboolean lutt = json_object_has_member(request, "luttinger_parameters");
-    if (!bands && !lutt) {
-        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "request: give heavy_hole_mass_me and light_hole_mass_me, or "
-                    "luttinger_parameters [gamma1, gamma2, gamma3], or both");
-        return NULL;
-    }
-    g_autoptr(JsonObject) resp = json_object_new();
-    if (bands) {
-        bm_hole_bands b = {0};
-        bm_hole_dos d;
-        if (!bm_json_number(request, "heavy_hole_mass_me", NULL, &b.m_hh, error)
-            || !bm_json_number(request, "light_hole_mass_me", NULL, &b.m_lh, error)
-            || !bm_json_number(request, "temperature_k", NULL, &b.temperature_k, error))
-            return NULL;
-        if (json_object_has_member(request, "split_off_mass_me")) {
-            if (!bm_json_number(request, "split_off_mass_me", NULL, &b.m_so, error)
-                || !bm_json_number(request, "spin_orbit_splitting_ev", NULL, &b.delta_so_ev,
-                                   error))
-                return NULL;
-            if (b.m_so <= 0.0) {
-                g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                            "request: key \"split_off_mass_me\" must be greater than zero "
-                            "(got %g); leave it out to ignore the band", b.m_so);
-                return NULL;
-            }
-        } else if (json_object_has_member(request, "spin_orbit_splitting_ev")) {
+    HoleInputs in = {0};
+    JsonObject *resp = NULL;
+    double t_k;
+    if (!read_inputs(request, &in, error)
+        || !bm_json_number(request, "temperature_k", NULL, &t_k, error))
+        goto done;
+    gboolean bands = in.hh.source || in.lh.source;
+    if (!bands && !in.lutt_source) {
+        if (in.has_mat)
             g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                        "request: \"spin_orbit_splitting_ev\" needs \"split_off_mass_me\"");
-            return NULL;
-        }
-        if (bm_hole_dos_mass(&b, &d, &err) != BM_OK) {
-            bm_error_from_core(error, &err, "hole-mass");
-            return NULL;
-        }
-        bm_json_set_number(resp, "dos_mass_me", d.dos_mass);
-        JsonObject *f = json_object_new();
-        bm_json_set_number(f, "heavy", d.fraction_hh);
-        bm_json_set_number(f, "light", d.fraction_lh);
-        bm_json_set_number(f, "split_off", d.fraction_so);
-        json_object_set_object_member(resp, "band_fractions", f);
-        copy_warnings(resp, &d.warnings);
-    }
-    if (lutt) {
-        gsize n = 0;
-        g_autofree double *g = bm_json_numbers(request, "luttinger_parameters", NULL, &n, error);
-        if (!g)
-            return NULL;
-        if (n != 3) {
+                        "material \"%s\" (%s) has no hole masses or Luttinger parameters: "
+                        "give heavy_hole_mass_me and light_hole_mass_me, or "
+                        "luttinger_parameters", in.mat.mat.name, in.mat.origin);
+        else
             g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                        "request: key \"luttinger_parameters\" must hold 3 numbers "
-                        "[gamma1, gamma2, gamma3] (got %zu)", (size_t)n);
-            return NULL;
-        }
-        bm_luttinger L = {g[0], g[1], g[2]};
-        bm_luttinger_masses m;
-        if (bm_luttinger_masses_compute(&L, &m, &err) != BM_OK) {
-            bm_error_from_core(error, &err, "hole-mass");
-            return NULL;
-        }
-        JsonObject *o = json_object_new();
-        set_dirs(o, "heavy_hole_mass_me", m.heavy);
-        set_dirs(o, "light_hole_mass_me", m.light);
-        /* non-finite values (open heavy-hole surface) become null */
-        bm_json_set_number(o, "heavy_hole_dos_mass_me", m.heavy_dos_mass);
-        bm_json_set_number(o, "light_hole_dos_mass_me", m.light_dos_mass);
-        bm_json_set_number(o, "combined_dos_mass_me", m.combined_dos_mass);
-        json_object_set_boolean_member(o, "heavy_hole_convex", m.heavy_convex);
-        json_object_set_object_member(resp, "luttinger", o);
-        copy_warnings(resp, &m.warnings);
+                        "request: give heavy_hole_mass_me and light_hole_mass_me, or "
+                        "luttinger_parameters [gamma1, gamma2, gamma3], or both, or a "
+                        "material");
+        goto done;
     }
-    return g_steal_pointer(&resp);
+    resp = json_object_new();
+    if ((bands && !bands_json(resp, &in, t_k, error))
+        || (in.lutt_source && !luttinger_json(resp, &in, error))) {
+        g_clear_pointer(&resp, json_object_unref);
+        goto done;
+    }
+    if (in.has_mat)
+        material_json(resp, &in);
+done:
+    if (in.has_mat)
+        bm_material_input_clear(&in.mat);
+    return resp;
 }
 
 const BmOperation bm_op_hole_mass = {
