@@ -219,6 +219,20 @@ static void test_mass_tensor_bad_files(void)
     g_rmdir(dir);
 }
 
+/* A built-in material in valley-average: silicon's six Delta valleys
+ * (textbook; Sze & Ng 2007, App. G, from memory). */
+static void test_valley_material(void)
+{
+    g_auto(Run) r = { 0 };
+    run_cli(&r, NULL, "valley-average", "--material", "Si", "--json", NULL);
+    g_assert_cmpint(r.status, ==, 0);
+    g_autoptr(JsonNode) n = json_from_string(r.out, NULL);
+    g_assert_nonnull(n);
+    JsonObject *o = json_node_get_object(n);
+    g_assert_cmpfloat(json_object_get_double_member(o, "valley_count"), ==, 6.0);
+    g_assert_cmpstr(json_object_get_string_member(o, "material"), ==, "Si");
+}
+
 int main(int argc, char **argv)
 {
     g_test_init(&argc, &argv, NULL);
@@ -229,5 +243,6 @@ int main(int argc, char **argv)
     g_test_add_func("/cli/carrier-csv", test_carrier_csv);
     g_test_add_func("/cli/carrier-bad-input", test_carrier_bad_input);
     g_test_add_func("/cli/mass-tensor-bad-files", test_mass_tensor_bad_files);
+    g_test_add_func("/cli/valley-material", test_valley_material);
     return g_test_run();
 }
