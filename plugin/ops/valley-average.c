@@ -418,6 +418,11 @@ done:
 
 static void render(JsonObject *response, GString *out)
 {
+    if (json_object_has_member(response, "material"))
+        g_string_append_printf(out, "material                %s (%s %s)\n",
+                               json_object_get_string_member(response, "material"),
+                               json_object_get_string_member(response, "point_group"),
+                               json_object_get_string_member(response, "position"));
     g_string_append_printf(out, "valleys                 %g\n",
                            json_object_get_double_member(response, "valley_count"));
     g_string_append_printf(out, "DOS mass                %.6g m_e\n",
@@ -459,8 +464,8 @@ static void render(JsonObject *response, GString *out)
 
 const BmOperation bm_op_valley_average = {
     .name = "valley-average",
-    .summary = "Valley star from a point group (or an explicit list) and its conductivity "
-               "and density-of-states masses",
+    .summary = "Valley star from a point group or a material (or an explicit list) and its "
+               "conductivity and density-of-states masses",
     .params = params,
     .run = run,
     .render = render,
