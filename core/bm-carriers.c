@@ -102,6 +102,23 @@ typedef struct {
     double n, p, d[BM_MAX_DOPANTS], a[BM_MAX_DOPANTS];
 } ndens;
 
+/* ln sum_i exp(lt_i) and its derivative, given each term's d(lt_i)/du in dl,
+ * without overflow: the largest term is factored out. */
+static void log_sum_exp(const double *lt, const double *dl, size_t k, double *ln, double *dln)
+{
+    double m = lt[0];
+    for (size_t i = 1; i < k; i++)
+        m = fmax(m, lt[i]);
+    double s = 0.0, ds = 0.0;
+    for (size_t i = 0; i < k; i++) {
+        double w = exp(lt[i] - m);
+        s += w;
+        ds += w * dl[i];
+    }
+    *ln = m + log(s);
+    *dln = ds / s;
+}
+
 static void neutrality_eval(const nctx *c, double u, double *g, double *gp, ndens *dens)
 {
     double eta_n = u - c->eg_kt, eta_p = -u;
@@ -150,17 +167,7 @@ static void neutrality_eval(const nctx *c, double u, double *g, double *gp, nden
             lt[k] = log(c->dens_d[i]) - softplus(u - c->off_d[i]);
             dl[k++] = -cd[i];
         }
-        double m = lt[0];
-        for (size_t i = 1; i < k; i++)
-            m = fmax(m, lt[i]);
-        double s = 0.0, ds = 0.0;
-        for (size_t i = 0; i < k; i++) {
-            double w = exp(lt[i] - m);
-            s += w;
-            ds += w * dl[i];
-        }
-        lnP = m + log(s);
-        dlnP = ds / s;
+        log_sum_exp(lt, dl, k, &lnP, &dlnP);
     }
     {
         size_t k = 0;
@@ -173,17 +180,7 @@ static void neutrality_eval(const nctx *c, double u, double *g, double *gp, nden
             lt[k] = log(c->dens_a[i]) - softplus(c->off_a[i] - u);
             dl[k++] = ca[i];
         }
-        double m = lt[0];
-        for (size_t i = 1; i < k; i++)
-            m = fmax(m, lt[i]);
-        double s = 0.0, ds = 0.0;
-        for (size_t i = 0; i < k; i++) {
-            double w = exp(lt[i] - m);
-            s += w;
-            ds += w * dl[i];
-        }
-        lnN = m + log(s);
-        dlnN = ds / s;
+        log_sum_exp(lt, dl, k, &lnN, &dlnN);
     }
     *g = lnP - lnN;
     *gp = dlnP - dlnN;

@@ -3,6 +3,7 @@
 #include "bm-linalg.h"
 
 #include <math.h>
+#include <gsl/gsl_math.h>
 #include <string.h>
 #include <gsl/gsl_eigen.h>
 #include <gsl/gsl_errno.h>
@@ -12,6 +13,22 @@ double bm_det3(double a[3][3])
     return a[0][0] * (a[1][1] * a[2][2] - a[1][2] * a[2][1])
          - a[0][1] * (a[1][0] * a[2][2] - a[1][2] * a[2][0])
          + a[0][2] * (a[1][0] * a[2][1] - a[1][1] * a[2][0]);
+}
+
+int bm_reciprocal3(double a[3][3], double b[3][3])
+{
+    double det = bm_det3(a);
+    double scale = bm_norm3(a[0]) * bm_norm3(a[1]) * bm_norm3(a[2]);
+    if (!isfinite(det) || !(scale > 0.0) || fabs(det) <= 1e-10 * scale)
+        return -1;
+    double c[3][3];
+    bm_cross3(a[1], a[2], c[0]);
+    bm_cross3(a[2], a[0], c[1]);
+    bm_cross3(a[0], a[1], c[2]);
+    for (int i = 0; i < 3; i++)
+        for (int j = 0; j < 3; j++)
+            b[i][j] = 2.0 * M_PI * c[i][j] / det;
+    return 0;
 }
 
 int bm_inv3(double a[3][3], double out[3][3])

@@ -10,6 +10,12 @@ double bm_det3(double a[3][3]);
  * product of its row norms). out may alias a. */
 int bm_inv3(double a[3][3], double out[3][3]);
 
+/* Reciprocal vectors of a cell with lattice vectors in the rows of a:
+ * rows b_i = 2 pi (a_j x a_k) / (a1 . a2 x a3), i.e. B = 2 pi A^-T, so that
+ * a_i . b_j = 2 pi delta_ij. Returns 0, or -1 when the cell is singular or
+ * nearly so (|det| below 1e-10 times the product of its row norms). */
+int bm_reciprocal3(double a[3][3], double b[3][3]);
+
 /* out = a b (out may alias a or b). */
 void bm_matmul3(double a[3][3], double b[3][3], double out[3][3]);
 

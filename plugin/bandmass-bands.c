@@ -1,6 +1,7 @@
 /* bandmass-bands.c: BmBands, a band grid held in memory (for example from a
  * NumPy array) and handed to grid operations through BmCallInputs. */
 #include "bandmass-private.h"
+#include "bm-linalg.h"
 #include "registry.h"
 #include "band-grid.h"
 #include <math.h>
@@ -128,25 +129,15 @@ BmBands *bm_bands_new_from_lattice(const double *energies, gsize n_values, guint
                                    GError **error)
 {
     g_return_val_if_fail(mesh != NULL && lattice_vectors != NULL, NULL);
-    const double *a = lattice_vectors;
-    double recip[9], scale = 0;
-    for (int i = 0; i < 3; i++) {
-        const double *u = a + 3 * ((i + 1) % 3), *v = a + 3 * ((i + 2) % 3);
-        recip[3 * i + 0] = u[1] * v[2] - u[2] * v[1];
-        recip[3 * i + 1] = u[2] * v[0] - u[0] * v[2];
-        recip[3 * i + 2] = u[0] * v[1] - u[1] * v[0];
-        scale += a[3 * i] * a[3 * i] + a[3 * i + 1] * a[3 * i + 1] + a[3 * i + 2] * a[3 * i + 2];
-    }
-    double volume = a[0] * recip[0] + a[1] * recip[1] + a[2] * recip[2];
-    /* singular when the volume is negligible against the edge lengths cubed */
-    if (!isfinite(volume) || fabs(volume) <= 1e-12 * pow(scale / 3, 1.5)) {
+    double a[3][3], b[3][3], recip[9];
+    memcpy(a, lattice_vectors, sizeof a);
+    if (bm_reciprocal3(a, b) != 0) {
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
                     "band grid: the lattice vectors are singular or not finite "
-                    "(cell volume %g A^3)", volume);
+                    "(cell volume %g A^3)", bm_det3(a));
         return NULL;
     }
-    for (int i = 0; i < 9; i++)
-        recip[i] *= 2 * G_PI / volume;
+    memcpy(recip, b, sizeof recip);
     return bands_new(energies, n_values, nbands, mesh, recip, error);
 }
 

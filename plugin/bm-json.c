@@ -2,6 +2,7 @@
 #include "bm-json.h"
 
 #include <math.h>
+#include <string.h>
 
 #define WHERE(w) ((w) ? (w) : "request")
 
@@ -131,6 +132,38 @@ double *bm_json_numbers(JsonObject *o, const char *key, const char *where,
     }
     *n_out = len;
     return v;
+}
+
+gboolean bm_json_only_keys(JsonObject *o, const char *const *allowed, const char *where,
+                           GError **error)
+{
+    g_autoptr(GList) keys = json_object_get_members(o);
+    for (GList *l = keys; l; l = l->next) {
+        gboolean ok = FALSE;
+        for (int i = 0; allowed[i] && !ok; i++)
+            ok = strcmp(l->data, allowed[i]) == 0;
+        if (!ok) {
+            g_autofree char *list = g_strjoinv(", ", (char **)allowed);
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                        "%s: unknown key \"%s\" (expected %s)", WHERE(where),
+                        (char *)l->data, list);
+            return FALSE;
+        }
+    }
+    return TRUE;
+}
+
+JsonObject *bm_json_element_object(JsonArray *a, guint i, const char *const *allowed,
+                                   const char *where, GError **error)
+{
+    JsonNode *e = json_array_get_element(a, i);
+    if (!JSON_NODE_HOLDS_OBJECT(e)) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: must be an object",
+                    WHERE(where));
+        return NULL;
+    }
+    JsonObject *o = json_node_get_object(e);
+    return bm_json_only_keys(o, allowed, where, error) ? o : NULL;
 }
 
 static JsonNode *number_node(double v)

@@ -27,6 +27,15 @@ gboolean bm_json_mat3(JsonObject *o, const char *key, const char *where,
 double *bm_json_numbers(JsonObject *o, const char *key, const char *where,
                         gsize *n, GError **error);
 
+/* Fails unless every key of o is in allowed (NULL-terminated); the message
+ * names the key and lists the allowed ones. */
+gboolean bm_json_only_keys(JsonObject *o, const char *const *allowed, const char *where,
+                           GError **error);
+/* Element i of a, which must be an object holding only allowed keys; `where`
+ * names the element ("donors[2]") in messages. NULL with error otherwise. */
+JsonObject *bm_json_element_object(JsonArray *a, guint i, const char *const *allowed,
+                                   const char *where, GError **error);
+
 /* Setters. Non-finite values are written as null (JSON has no NaN). */
 void bm_json_set_number(JsonObject *o, const char *key, double v);
 void bm_json_set_vec3(JsonObject *o, const char *key, const double v[3]);

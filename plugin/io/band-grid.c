@@ -25,6 +25,7 @@
 #include "band-grid.h"
 #include "npy.h"
 #include "bm-error.h"
+#include "bm-linalg.h"
 
 #include <math.h>
 #include <string.h>
@@ -119,42 +120,12 @@ static gboolean get_matrix3(JsonNode *node, const char *name, const char *key,
     return TRUE;
 }
 
-static double det3(double m[3][3])
-{
-    return m[0][0] * (m[1][1] * m[2][2] - m[1][2] * m[2][1])
-         - m[0][1] * (m[1][0] * m[2][2] - m[1][2] * m[2][0])
-         + m[0][2] * (m[1][0] * m[2][1] - m[1][1] * m[2][0]);
-}
-
-static double row_norm(const double r[3])
-{
-    return sqrt(r[0] * r[0] + r[1] * r[1] + r[2] * r[2]);
-}
-
 /* |det| small against the product of row lengths: singular or nearly so. */
 static gboolean singular3(double m[3][3], double *det)
 {
-    *det = det3(m);
-    double scale = row_norm(m[0]) * row_norm(m[1]) * row_norm(m[2]);
-    return !(scale > 0.0) || fabs(*det) <= 1e-10 * scale;
-}
-
-static void cross(const double a[3], const double b[3], double out[3])
-{
-    out[0] = a[1] * b[2] - a[2] * b[1];
-    out[1] = a[2] * b[0] - a[0] * b[2];
-    out[2] = a[0] * b[1] - a[1] * b[0];
-}
-
-/* b_i = 2 pi (a_j x a_k) / (a1 . (a2 x a3)), i.e. B = 2 pi A^-T. */
-static void reciprocal_from_lattice(double a[3][3], double det, double b[3][3])
-{
-    cross(a[1], a[2], b[0]);
-    cross(a[2], a[0], b[1]);
-    cross(a[0], a[1], b[2]);
-    for (int i = 0; i < 3; i++)
-        for (int j = 0; j < 3; j++)
-            b[i][j] *= 2.0 * G_PI / det;
+    *det = bm_det3(m);
+    double scale = bm_norm3(m[0]) * bm_norm3(m[1]) * bm_norm3(m[2]);
+    return !(scale > 0.0) || !isfinite(*det) || fabs(*det) <= 1e-10 * scale;
 }
 
 static gboolean get_mesh(JsonNode *node, const char *name, size_t mesh[3], GError **error)
@@ -367,10 +338,9 @@ static gboolean parse_document(JsonNode *root, const char *name, const char *bas
         double a[3][3];
         if (!get_matrix3(latt, name, "lattice_vectors_angstrom", a, error))
             return FALSE;
-        if (singular3(a, &det))
+        if (singular3(a, &det) || bm_reciprocal3(a, g->grid.recip) != 0)
             return invalid(error, name, "'lattice_vectors_angstrom' is singular (determinant "
                            "%g Angstrom^3): a1, a2, a3 must be linearly independent", det);
-        reciprocal_from_lattice(a, det, g->grid.recip);
     }
 
     JsonNode *mesh = json_object_get_member(o, "mesh");

@@ -52,25 +52,9 @@ static gboolean read_dopants(JsonObject *request, const char *key, bm_dopant_kin
     out->n = len;
     for (guint i = 0; i < len; i++) {
         g_autofree char *where = g_strdup_printf("%s[%u]", key, i);
-        JsonNode *e = json_array_get_element(a, i);
-        if (!JSON_NODE_HOLDS_OBJECT(e)) {
-            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: must be an object",
-                        where);
+        JsonObject *o = bm_json_element_object(a, i, keys, where, error);
+        if (!o)
             return FALSE;
-        }
-        JsonObject *o = json_node_get_object(e);
-        g_autoptr(GList) members = json_object_get_members(o);
-        for (GList *l = members; l; l = l->next) {
-            gboolean ok = FALSE;
-            for (int k = 0; keys[k]; k++)
-                ok |= strcmp(l->data, keys[k]) == 0;
-            if (!ok) {
-                g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                            "%s: unknown key \"%s\" (expected species, density_cm3, "
-                            "ionization_ev, degeneracy)", where, (char *)l->data);
-                return FALSE;
-            }
-        }
         bm_dopant *d = &out->d[i];
         memset(d, 0, sizeof *d);
         out->species[i] = NULL;

@@ -50,25 +50,9 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     bm_errbuf err = {0};
     for (guint i = 0; i < n; i++) {
         g_autofree char *where = g_strdup_printf("subbands[%u]", i);
-        JsonNode *e = json_array_get_element(a, i);
-        if (!JSON_NODE_HOLDS_OBJECT(e)) {
-            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: must be an object",
-                        where);
+        JsonObject *o = bm_json_element_object(a, i, keys, where, error);
+        if (!o)
             return NULL;
-        }
-        JsonObject *o = json_node_get_object(e);
-        g_autoptr(GList) members = json_object_get_members(o);
-        for (GList *l = members; l; l = l->next) {
-            gboolean ok = FALSE;
-            for (int k = 0; keys[k]; k++)
-                ok |= strcmp(l->data, keys[k]) == 0;
-            if (!ok) {
-                g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                            "%s: unknown key \"%s\" (expected energy_ev, mass_me, "
-                            "valley_degeneracy)", where, (char *)l->data);
-                return NULL;
-            }
-        }
         sub[i].valley_degeneracy = 1.0;
         if (!bm_json_number(o, "energy_ev", where, &sub[i].energy_ev, error)
             || !bm_json_positive(o, "mass_me", where, &sub[i].mass, error)
