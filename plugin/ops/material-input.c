@@ -14,24 +14,6 @@ static const char *const material_keys[] = {
     "luttinger_parameters", NULL
 };
 
-static gboolean only_keys(JsonObject *o, const char *const *allowed, const char *where,
-                          GError **error)
-{
-    g_autoptr(GList) keys = json_object_get_members(o);
-    for (GList *l = keys; l; l = l->next) {
-        gboolean ok = FALSE;
-        for (int i = 0; allowed[i]; i++)
-            ok |= strcmp(l->data, allowed[i]) == 0;
-        if (!ok) {
-            g_autofree char *list = g_strjoinv(", ", (char **)allowed);
-            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                        "%s: unknown key \"%s\" (expected %s)", where, (char *)l->data, list);
-            return FALSE;
-        }
-    }
-    return TRUE;
-}
-
 static const char *keep(BmMaterialInput *in, const char *s)
 {
     char *c = g_strdup(s);
@@ -78,7 +60,7 @@ static gboolean read_dopants(BmMaterialInput *in, JsonObject *o, const char *whe
             return FALSE;
         }
         JsonObject *d = json_node_get_object(e);
-        if (!only_keys(d, keys, w, error))
+        if (!bm_json_only_keys(d, keys, w, error))
             return FALSE;
         bm_material_dopant *md = &in->mat.dopants[i];
         const char *species = json_object_has_member(d, "species")
@@ -135,7 +117,7 @@ static gboolean read_valley(BmMaterialInput *in, JsonObject *o, const char *wher
     bm_valley_info *e = &in->mat.electron;
     const char *pos = NULL;
     bm_errbuf err = {0};
-    if (!v || !only_keys(v, keys, w, error) || !string_member(v, "position", w, &pos, error))
+    if (!v || !bm_json_only_keys(v, keys, w, error) || !string_member(v, "position", w, &pos, error))
         return FALSE;
     if (bm_valley_site_parse(pos, &e->site, &err) != BM_OK) {
         g_autofree char *ctx = g_strdup_printf("%s: key \"position\"", w);
@@ -208,7 +190,7 @@ static gboolean read_object(BmMaterialInput *in, JsonObject *o, const char *wher
 {
     static const char *const vkeys[] = { "eg0_ev", "alpha_ev_per_k", "beta_k", NULL };
     static const char *const bkeys[] = { "eg0_ev", "a_b_ev", "theta_k", NULL };
-    if (!only_keys(o, material_keys, where, error))
+    if (!bm_json_only_keys(o, material_keys, where, error))
         return FALSE;
     bm_material *m = &in->mat;
     m->name = "custom";
@@ -242,7 +224,7 @@ static gboolean read_object(BmMaterialInput *in, JsonObject *o, const char *wher
     if (json_object_has_member(o, "varshni")) {
         g_autofree char *w = g_strdup_printf("%s: varshni", where);
         JsonObject *v = sub_object(o, "varshni", where, error);
-        if (!v || !only_keys(v, vkeys, w, error)
+        if (!v || !bm_json_only_keys(v, vkeys, w, error)
             || !bm_json_number(v, "eg0_ev", w, &m->gap.eg0_ev, error)
             || !bm_json_number(v, "alpha_ev_per_k", w, &m->gap.alpha_ev_per_k, error)
             || !bm_json_number(v, "beta_k", w, &m->gap.beta_k, error))
@@ -252,7 +234,7 @@ static gboolean read_object(BmMaterialInput *in, JsonObject *o, const char *wher
     if (json_object_has_member(o, "bose_einstein")) {
         g_autofree char *w = g_strdup_printf("%s: bose_einstein", where);
         JsonObject *v = sub_object(o, "bose_einstein", where, error);
-        if (!v || !only_keys(v, bkeys, w, error)
+        if (!v || !bm_json_only_keys(v, bkeys, w, error)
             || !bm_json_number(v, "eg0_ev", w, &in->bose_einstein.eg0_ev, error)
             || !bm_json_number(v, "a_b_ev", w, &in->bose_einstein.a_b_ev, error)
             || !bm_json_number(v, "theta_k", w, &in->bose_einstein.theta_k, error))

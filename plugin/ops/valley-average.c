@@ -36,32 +36,15 @@ static const BmParam params[] = {
     { NULL, 0, FALSE, NULL, NULL }
 };
 
+/* A single valley takes the shape keys; an entry of a list also its offset and weight. */
 static const char *const valley_keys[] = {
+    "longitudinal_mass_me", "transverse_mass_me", "axis", "principal_masses_me", "axes",
+    "direction", NULL
+};
+static const char *const list_entry_keys[] = {
     "longitudinal_mass_me", "transverse_mass_me", "axis", "principal_masses_me", "axes",
     "direction", "energy_offset_ev", "weight", NULL
 };
-
-static gboolean check_keys(JsonObject *v, const char *where, gboolean list_entry,
-                           GError **error)
-{
-    g_autoptr(GList) keys = json_object_get_members(v);
-    for (GList *l = keys; l; l = l->next) {
-        const char *k = l->data;
-        gboolean ok = FALSE;
-        for (int i = 0; valley_keys[i]; i++)
-            ok |= strcmp(k, valley_keys[i]) == 0;
-        if (ok && !list_entry && (!strcmp(k, "energy_offset_ev") || !strcmp(k, "weight")))
-            ok = FALSE;
-        if (!ok) {
-            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                        "%s: key \"%s\" is not a valley key (expected longitudinal_mass_me, "
-                        "transverse_mass_me, axis, or principal_masses_me, axes; direction%s)",
-                        where, k, list_entry ? "; energy_offset_ev, weight" : "");
-            return FALSE;
-        }
-    }
-    return TRUE;
-}
 
 /* Reads a valley shape; *has_dir tells whether a position direction is known. */
 static gboolean parse_valley(JsonObject *v, const char *where, gboolean list_entry,
@@ -69,7 +52,7 @@ static gboolean parse_valley(JsonObject *v, const char *where, gboolean list_ent
                              bm_warnings *warn, GError **error)
 {
     bm_errbuf err = {0};
-    if (!check_keys(v, where, list_entry, error))
+    if (!bm_json_only_keys(v, list_entry ? list_entry_keys : valley_keys, where, error))
         return FALSE;
     gboolean spheroid = json_object_has_member(v, "longitudinal_mass_me")
                      || json_object_has_member(v, "transverse_mass_me");
