@@ -28,3 +28,13 @@ void bm_error_from_core(GError **error, const bm_errbuf *err, const char *contex
     else
         g_set_error_literal(error, BM_ERROR, code, err->message);
 }
+
+gboolean bm_error_invalid(GError **error, const char *context, const char *fmt, ...)
+{
+    va_list ap;
+    va_start(ap, fmt);
+    g_autofree char *msg = g_strdup_vprintf(fmt, ap);
+    va_end(ap);
+    g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: %s", context, msg);
+    return FALSE;
+}

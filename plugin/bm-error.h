@@ -41,6 +41,11 @@ GType bm_error_get_type(void);
  */
 void bm_error_from_core(GError **error, const bm_errbuf *err, const char *context);
 
+/* Sets BM_ERROR_INVALID_INPUT with "context: message" and returns FALSE, so
+ * readers can write `return bm_error_invalid(error, path, "...", ...);`. */
+gboolean bm_error_invalid(GError **error, const char *context, const char *fmt, ...)
+    G_GNUC_PRINTF(3, 4);
+
 G_END_DECLS
 
 #endif

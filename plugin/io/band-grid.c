@@ -44,19 +44,6 @@ void bm_band_grid_free(BmBandGrid *grid)
     g_free(grid);
 }
 
-static gboolean invalid(GError **error, const char *name, const char *fmt, ...)
-    G_GNUC_PRINTF(3, 4);
-
-static gboolean invalid(GError **error, const char *name, const char *fmt, ...)
-{
-    va_list ap;
-    va_start(ap, fmt);
-    g_autofree char *msg = g_strdup_vprintf(fmt, ap);
-    va_end(ap);
-    g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: %s", name, msg);
-    return FALSE;
-}
-
 static const char *node_kind(JsonNode *node)
 {
     switch (JSON_NODE_TYPE(node)) {
@@ -86,10 +73,10 @@ static gboolean get_number(JsonNode *node, const char *name, const char *what,
                            double *out, GError **error)
 {
     if (!node_is_number(node))
-        return invalid(error, name, "%s: expected a number, found %s", what, node_kind(node));
+        return bm_error_invalid(error, name, "%s: expected a number, found %s", what, node_kind(node));
     double v = json_node_get_double(node);
     if (!isfinite(v))
-        return invalid(error, name, "%s: the number is not finite (out of range)", what);
+        return bm_error_invalid(error, name, "%s: the number is not finite (out of range)", what);
     *out = v;
     return TRUE;
 }
@@ -98,17 +85,17 @@ static gboolean get_matrix3(JsonNode *node, const char *name, const char *key,
                             double m[3][3], GError **error)
 {
     if (JSON_NODE_TYPE(node) != JSON_NODE_ARRAY)
-        return invalid(error, name, "'%s': expected an array of 3 rows of 3 numbers, found %s",
+        return bm_error_invalid(error, name, "'%s': expected an array of 3 rows of 3 numbers, found %s",
                        key, node_kind(node));
     JsonArray *rows = json_node_get_array(node);
     if (json_array_get_length(rows) != 3)
-        return invalid(error, name, "'%s': expected 3 rows, found %u", key,
+        return bm_error_invalid(error, name, "'%s': expected 3 rows, found %u", key,
                        json_array_get_length(rows));
     for (guint i = 0; i < 3; i++) {
         JsonNode *row = json_array_get_element(rows, i);
         if (JSON_NODE_TYPE(row) != JSON_NODE_ARRAY ||
             json_array_get_length(json_node_get_array(row)) != 3)
-            return invalid(error, name, "'%s'[%u]: expected a row of 3 numbers", key, i);
+            return bm_error_invalid(error, name, "'%s'[%u]: expected a row of 3 numbers", key, i);
         for (guint j = 0; j < 3; j++) {
             char what[128];
             g_snprintf(what, sizeof what, "'%s'[%u][%u]", key, i, j);
@@ -132,16 +119,16 @@ static gboolean get_mesh(JsonNode *node, const char *name, size_t mesh[3], GErro
 {
     if (JSON_NODE_TYPE(node) != JSON_NODE_ARRAY ||
         json_array_get_length(json_node_get_array(node)) != 3)
-        return invalid(error, name, "'mesh': expected an array of 3 positive integers [n1, n2, n3]");
+        return bm_error_invalid(error, name, "'mesh': expected an array of 3 positive integers [n1, n2, n3]");
     JsonArray *a = json_node_get_array(node);
     for (guint i = 0; i < 3; i++) {
         JsonNode *e = json_array_get_element(a, i);
         if (JSON_NODE_TYPE(e) != JSON_NODE_VALUE || json_node_get_value_type(e) != G_TYPE_INT64)
-            return invalid(error, name, "'mesh'[%u]: expected a positive integer, found %s",
+            return bm_error_invalid(error, name, "'mesh'[%u]: expected a positive integer, found %s",
                            i, node_kind(e));
         gint64 v = json_node_get_int(e);
         if (v < 1 || v > (gint64)1 << 24)
-            return invalid(error, name, "'mesh'[%u]: expected a positive integer (at most 2^24), "
+            return bm_error_invalid(error, name, "'mesh'[%u]: expected a positive integer (at most 2^24), "
                            "found %" G_GINT64_FORMAT, i, v);
         mesh[i] = (size_t)v;
     }
@@ -154,7 +141,7 @@ static gboolean checked_count(const char *name, size_t nbands, const size_t mesh
     size_t c = nbands;
     for (int i = 0; i < 3; i++) {
         if (c > G_MAXSIZE / sizeof(double) / mesh[i])
-            return invalid(error, name, "%zu bands on a %zu x %zu x %zu mesh is too large",
+            return bm_error_invalid(error, name, "%zu bands on a %zu x %zu x %zu mesh is too large",
                            nbands, mesh[0], mesh[1], mesh[2]);
         c *= mesh[i];
     }
@@ -168,13 +155,13 @@ static gboolean read_inline(JsonArray *bands, const char *name, const size_t mes
 {
     size_t nb = json_array_get_length(bands);
     if (nb == 0)
-        return invalid(error, name, "'energies_ev' is empty; expected [band][i][j][l]");
+        return bm_error_invalid(error, name, "'energies_ev' is empty; expected [band][i][j][l]");
     size_t count = 0;
     if (!checked_count(name, nb, mesh, &count, error))
         return FALSE;
     g->inline_energies = g_try_new(double, count);
     if (!g->inline_energies)
-        return invalid(error, name, "cannot allocate %zu energies", count);
+        return bm_error_invalid(error, name, "cannot allocate %zu energies", count);
     static const char *level_name[4] = { "band", "n1", "n2", "n3" };
     size_t idx[4] = { 0 };
     size_t len[4] = { nb, mesh[0], mesh[1], mesh[2] };
@@ -200,12 +187,12 @@ static gboolean read_inline(JsonArray *bands, const char *name, const size_t mes
                     g_string_append_printf(path, "[%zu]", idx[d]);
                 gboolean arr = JSON_NODE_TYPE(e) == JSON_NODE_ARRAY;
                 if (arr)
-                    invalid(error, name, "%s: expected %zu entries (%s = %zu), found %u; "
+                    bm_error_invalid(error, name, "%s: expected %zu entries (%s = %zu), found %u; "
                             "nesting is [band][i][j][l] on the mesh", path->str,
                             len[depth + 1], level_name[depth + 1], len[depth + 1],
                             json_array_get_length(json_node_get_array(e)));
                 else
-                    invalid(error, name, "%s: expected an array of %zu entries, found %s; "
+                    bm_error_invalid(error, name, "%s: expected an array of %zu entries, found %s; "
                             "nesting is [band][i][j][l] (4 levels)", path->str,
                             len[depth + 1], node_kind(e));
                 g_string_free(path, TRUE);
@@ -221,9 +208,9 @@ static gboolean read_inline(JsonArray *bands, const char *name, const size_t mes
             for (int d = 0; d <= 3; d++)
                 g_string_append_printf(path, "[%zu]", idx[d]);
             if (node_is_number(e))
-                invalid(error, name, "%s: the number is not finite (out of range)", path->str);
+                bm_error_invalid(error, name, "%s: the number is not finite (out of range)", path->str);
             else
-                invalid(error, name, "%s: expected a number (eV), found %s%s", path->str,
+                bm_error_invalid(error, name, "%s: expected a number (eV), found %s%s", path->str,
                         node_kind(e), JSON_NODE_TYPE(e) == JSON_NODE_ARRAY
                         ? "; nesting is [band][i][j][l] (4 levels)" : "");
             g_string_free(path, TRUE);
@@ -240,7 +227,7 @@ static gboolean read_npy(const char *file, const char *name, const char *base_di
                          const size_t mesh[3], BmBandGrid *g, GError **error)
 {
     if (!*file)
-        return invalid(error, name, "'energies_ev' is an empty file name");
+        return bm_error_invalid(error, name, "'energies_ev' is an empty file name");
     g_autofree char *path = g_path_is_absolute(file) || !base_dir
         ? g_strdup(file) : g_build_filename(base_dir, file, NULL);
     GError *local = NULL;
@@ -253,7 +240,7 @@ static gboolean read_npy(const char *file, const char *name, const char *base_di
     if (arr->ndim != 4 || arr->shape[1] != mesh[0] || arr->shape[2] != mesh[1] ||
         arr->shape[3] != mesh[2] || arr->shape[0] == 0) {
         g_autofree char *s = bm_npy_shape_string(arr->shape, arr->ndim);
-        return invalid(error, name, "'mesh' [%zu, %zu, %zu] disagrees with the shape %s of "
+        return bm_error_invalid(error, name, "'mesh' [%zu, %zu, %zu] disagrees with the shape %s of "
                        "'energies_ev' file %s; expected (nbands, %zu, %zu, %zu) with nbands >= 1",
                        mesh[0], mesh[1], mesh[2], s, path, mesh[0], mesh[1], mesh[2]);
     }
@@ -266,24 +253,24 @@ static gboolean read_npy(const char *file, const char *name, const char *base_di
 static gboolean read_names(JsonNode *node, const char *name, BmBandGrid *g, GError **error)
 {
     if (JSON_NODE_TYPE(node) != JSON_NODE_ARRAY)
-        return invalid(error, name, "'band_names': expected an array of strings, found %s",
+        return bm_error_invalid(error, name, "'band_names': expected an array of strings, found %s",
                        node_kind(node));
     JsonArray *a = json_node_get_array(node);
     if (json_array_get_length(a) != g->grid.nbands)
-        return invalid(error, name, "'band_names' has %u names but 'energies_ev' has %zu bands",
+        return bm_error_invalid(error, name, "'band_names' has %u names but 'energies_ev' has %zu bands",
                        json_array_get_length(a), g->grid.nbands);
     g->band_names = g_new0(char *, g->grid.nbands + 1);
     for (guint i = 0; i < g->grid.nbands; i++) {
         JsonNode *e = json_array_get_element(a, i);
         if (JSON_NODE_TYPE(e) != JSON_NODE_VALUE || json_node_get_value_type(e) != G_TYPE_STRING)
-            return invalid(error, name, "'band_names'[%u]: expected a string, found %s",
+            return bm_error_invalid(error, name, "'band_names'[%u]: expected a string, found %s",
                            i, node_kind(e));
         const char *s = json_node_get_string(e);
         if (!*s)
-            return invalid(error, name, "'band_names'[%u] is empty", i);
+            return bm_error_invalid(error, name, "'band_names'[%u] is empty", i);
         for (guint k = 0; k < i; k++)
             if (strcmp(g->band_names[k], s) == 0)
-                return invalid(error, name, "'band_names'[%u] repeats the name '%s' of band %u",
+                return bm_error_invalid(error, name, "'band_names'[%u] repeats the name '%s' of band %u",
                                i, s, k);
         g->band_names[i] = g_strdup(s);
     }
@@ -298,60 +285,60 @@ static gboolean parse_document(JsonNode *root, const char *name, const char *bas
         "mesh", "energies_ev", "band_names", "comment", "description", NULL
     };
     if (JSON_NODE_TYPE(root) != JSON_NODE_OBJECT)
-        return invalid(error, name, "expected a JSON object (a band grid document), found %s",
+        return bm_error_invalid(error, name, "expected a JSON object (a band grid document), found %s",
                        node_kind(root));
     JsonObject *o = json_node_get_object(root);
 
     JsonNode *fmt = json_object_get_member(o, "format");
     if (!fmt)
-        return invalid(error, name, "missing key 'format' (expected \"" GRID_FORMAT "\")");
+        return bm_error_invalid(error, name, "missing key 'format' (expected \"" GRID_FORMAT "\")");
     if (JSON_NODE_TYPE(fmt) != JSON_NODE_VALUE || json_node_get_value_type(fmt) != G_TYPE_STRING)
-        return invalid(error, name, "'format': expected the string \"" GRID_FORMAT "\", found %s",
+        return bm_error_invalid(error, name, "'format': expected the string \"" GRID_FORMAT "\", found %s",
                        node_kind(fmt));
     if (strcmp(json_node_get_string(fmt), GRID_FORMAT) != 0)
-        return invalid(error, name, "unknown 'format' \"%s\" (expected \"" GRID_FORMAT "\")",
+        return bm_error_invalid(error, name, "unknown 'format' \"%s\" (expected \"" GRID_FORMAT "\")",
                        json_node_get_string(fmt));
 
     g_autoptr(GList) members = json_object_get_members(o);
     for (GList *m = members; m; m = m->next)
         if (!g_strv_contains(known, m->data))
-            return invalid(error, name, "unknown key '%s' (a band grid document takes 'format', "
+            return bm_error_invalid(error, name, "unknown key '%s' (a band grid document takes 'format', "
                            "'reciprocal_vectors_inv_angstrom' or 'lattice_vectors_angstrom', "
                            "'mesh', 'energies_ev', 'band_names')", (const char *)m->data);
 
     JsonNode *recip = json_object_get_member(o, "reciprocal_vectors_inv_angstrom");
     JsonNode *latt = json_object_get_member(o, "lattice_vectors_angstrom");
     if (recip && latt)
-        return invalid(error, name, "give either 'reciprocal_vectors_inv_angstrom' or "
+        return bm_error_invalid(error, name, "give either 'reciprocal_vectors_inv_angstrom' or "
                        "'lattice_vectors_angstrom', not both");
     if (!recip && !latt)
-        return invalid(error, name, "missing key 'reciprocal_vectors_inv_angstrom' "
+        return bm_error_invalid(error, name, "missing key 'reciprocal_vectors_inv_angstrom' "
                        "(or 'lattice_vectors_angstrom')");
     double det;
     if (recip) {
         if (!get_matrix3(recip, name, "reciprocal_vectors_inv_angstrom", g->grid.recip, error))
             return FALSE;
         if (singular3(g->grid.recip, &det))
-            return invalid(error, name, "'reciprocal_vectors_inv_angstrom' is singular "
+            return bm_error_invalid(error, name, "'reciprocal_vectors_inv_angstrom' is singular "
                            "(determinant %g): b1, b2, b3 must be linearly independent", det);
     } else {
         double a[3][3];
         if (!get_matrix3(latt, name, "lattice_vectors_angstrom", a, error))
             return FALSE;
         if (singular3(a, &det) || bm_reciprocal3(a, g->grid.recip) != 0)
-            return invalid(error, name, "'lattice_vectors_angstrom' is singular (determinant "
+            return bm_error_invalid(error, name, "'lattice_vectors_angstrom' is singular (determinant "
                            "%g Angstrom^3): a1, a2, a3 must be linearly independent", det);
     }
 
     JsonNode *mesh = json_object_get_member(o, "mesh");
     if (!mesh)
-        return invalid(error, name, "missing key 'mesh' (expected [n1, n2, n3])");
+        return bm_error_invalid(error, name, "missing key 'mesh' (expected [n1, n2, n3])");
     if (!get_mesh(mesh, name, g->grid.mesh, error))
         return FALSE;
 
     JsonNode *en = json_object_get_member(o, "energies_ev");
     if (!en)
-        return invalid(error, name, "missing key 'energies_ev' (expected a nested array "
+        return bm_error_invalid(error, name, "missing key 'energies_ev' (expected a nested array "
                        "[band][i][j][l] or the name of a .npy file)");
     if (JSON_NODE_TYPE(en) == JSON_NODE_ARRAY) {
         if (!read_inline(json_node_get_array(en), name, g->grid.mesh, g, error))
@@ -361,7 +348,7 @@ static gboolean parse_document(JsonNode *root, const char *name, const char *bas
         if (!read_npy(json_node_get_string(en), name, base_dir, g->grid.mesh, g, error))
             return FALSE;
     } else {
-        return invalid(error, name, "'energies_ev': expected a nested array [band][i][j][l] "
+        return bm_error_invalid(error, name, "'energies_ev': expected a nested array [band][i][j][l] "
                        "or a .npy file name, found %s", node_kind(en));
     }
     if (g->inline_energies)

@@ -41,19 +41,6 @@ void bm_ktable_free(BmKTable *t)
     g_free(t);
 }
 
-static gboolean invalid(GError **error, const char *name, const char *fmt, ...)
-    G_GNUC_PRINTF(3, 4);
-
-static gboolean invalid(GError **error, const char *name, const char *fmt, ...)
-{
-    va_list ap;
-    va_start(ap, fmt);
-    g_autofree char *msg = g_strdup_vprintf(fmt, ap);
-    va_end(ap);
-    g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: %s", name, msg);
-    return FALSE;
-}
-
 static gboolean has_ev_suffix(const char *h)
 {
     size_t n = strlen(h);
@@ -105,7 +92,7 @@ BmKTable *bm_ktable_load_from_data(const char *data, gsize length, const char *n
     if (!name)
         name = "<k-table>";
     if (memchr(data, '\0', length)) {
-        invalid(error, name, "the table contains a NUL byte; expected CSV or TSV text");
+        bm_error_invalid(error, name, "the table contains a NUL byte; expected CSV or TSV text");
         return NULL;
     }
     g_autofree char *text = g_strndup(data, length);
@@ -121,7 +108,7 @@ BmKTable *bm_ktable_load_from_data(const char *data, gsize length, const char *n
     while (hline < nlines && is_skippable(lines[hline]))
         hline++;
     if (hline == nlines) {
-        invalid(error, name, "missing header row (expected e.g. "
+        bm_error_invalid(error, name, "missing header row (expected e.g. "
                 "kx_inv_angstrom,ky_inv_angstrom,kz_inv_angstrom,band_ev)");
         return NULL;
     }
@@ -144,7 +131,7 @@ BmKTable *bm_ktable_load_from_data(const char *data, gsize length, const char *n
         all_numbers = parse_field(header->pdata[c], &v);
     }
     if (all_numbers) {
-        invalid(error, name, "missing header row: line %zu holds numbers; expected column "
+        bm_error_invalid(error, name, "missing header row: line %zu holds numbers; expected column "
                 "names kx_inv_angstrom, ky_inv_angstrom, kz_inv_angstrom and band columns "
                 "ending in _ev", hline + 1);
         return NULL;
@@ -156,7 +143,7 @@ BmKTable *bm_ktable_load_from_data(const char *data, gsize length, const char *n
         const char *h = header->pdata[c];
         for (size_t d = 0; d < c; d++)
             if (*h && strcmp(h, header->pdata[d]) == 0) {
-                invalid(error, name, "line %zu: column %zu repeats the header '%s' of column %zu",
+                bm_error_invalid(error, name, "line %zu: column %zu repeats the header '%s' of column %zu",
                         hline + 1, c + 1, h, d + 1);
                 return NULL;
             }
@@ -176,7 +163,7 @@ BmKTable *bm_ktable_load_from_data(const char *data, gsize length, const char *n
             GString *list = g_string_new(NULL);
             for (size_t c = 0; c < ncol; c++)
                 g_string_append_printf(list, c ? ", '%s'" : "'%s'", (char *)header->pdata[c]);
-            invalid(error, name, "line %zu: the header lacks the column '%s' (found %s; "
+            bm_error_invalid(error, name, "line %zu: the header lacks the column '%s' (found %s; "
                     "expected kx_inv_angstrom, ky_inv_angstrom, kz_inv_angstrom and band "
                     "columns ending in _ev, separated by %ss)", hline + 1, k_columns[d],
                     list->str, sep_name);
@@ -184,7 +171,7 @@ BmKTable *bm_ktable_load_from_data(const char *data, gsize length, const char *n
             return NULL;
         }
     if (band_cols->len == 0) {
-        invalid(error, name, "line %zu: no band columns; expected at least one header "
+        bm_error_invalid(error, name, "line %zu: no band columns; expected at least one header "
                 "ending in _ev (energies in eV)", hline + 1);
         return NULL;
     }
@@ -194,13 +181,13 @@ BmKTable *bm_ktable_load_from_data(const char *data, gsize length, const char *n
         if (!is_skippable(lines[i]))
             npoints++;
     if (npoints == 0) {
-        invalid(error, name, "the table is empty: no data rows after the header on line %zu",
+        bm_error_invalid(error, name, "the table is empty: no data rows after the header on line %zu",
                 hline + 1);
         return NULL;
     }
     size_t nbands = band_cols->len;
     if (npoints > G_MAXSIZE / sizeof(double) / (nbands + 3)) {
-        invalid(error, name, "the table is too large");
+        bm_error_invalid(error, name, "the table is too large");
         return NULL;
     }
 
@@ -222,7 +209,7 @@ BmKTable *bm_ktable_load_from_data(const char *data, gsize length, const char *n
             continue;
         g_autoptr(GPtrArray) f = split_fields(lines[i], sep);
         if (f->len != ncol) {
-            invalid(error, name, "line %zu: expected %zu %s-separated columns (as in the "
+            bm_error_invalid(error, name, "line %zu: expected %zu %s-separated columns (as in the "
                     "header on line %zu), found %u", i + 1, ncol, sep_name, hline + 1, f->len);
             goto fail;
         }
@@ -239,12 +226,12 @@ BmKTable *bm_ktable_load_from_data(const char *data, gsize length, const char *n
             const char *s = f->pdata[c];
             double v;
             if (!parse_field(s, &v)) {
-                invalid(error, name, "line %zu, column %zu ('%s'): '%s' is not a number",
+                bm_error_invalid(error, name, "line %zu, column %zu ('%s'): '%s' is not a number",
                         i + 1, c + 1, (char *)header->pdata[c], s);
                 goto fail;
             }
             if (!isfinite(v)) {
-                invalid(error, name, "line %zu, column %zu ('%s'): '%s' is not a finite number",
+                bm_error_invalid(error, name, "line %zu, column %zu ('%s'): '%s' is not a finite number",
                         i + 1, c + 1, (char *)header->pdata[c], s);
                 goto fail;
             }

@@ -1,5 +1,6 @@
 /* test-carrier-ops.c: the carrier operations (fermi-integral, band-gap,
  * carrier-statistics, sheet-density, drude, materials) through the JSON path. */
+#include "op-test.h"
 #include <glib.h>
 #include <glib/gstdio.h>
 #include <math.h>
@@ -13,29 +14,6 @@
 #define M_E_KG   9.1093837015e-31
 #define K_B_J    1.380649e-23
 
-static JsonObject *call(const char *op, const char *request)
-{
-    g_autoptr(GError) error = NULL;
-    char *out = bm_registry_call_json(op, request, NULL, FALSE, &error);
-    g_assert_no_error(error);
-    JsonNode *n = json_from_string(out, NULL);
-    g_free(out);
-    JsonObject *o = json_object_ref(json_node_get_object(n));
-    json_node_unref(n);
-    return o;
-}
-
-static void expect_error(const char *op, const char *request, int code, const char *fragment)
-{
-    g_autoptr(GError) error = NULL;
-    char *out = bm_registry_call_json(op, request, NULL, FALSE, &error);
-    g_assert_null(out);
-    g_assert_error(error, BM_ERROR, code);
-    if (!strstr(error->message, fragment))
-        g_error("message \"%s\" lacks \"%s\"", error->message, fragment);
-}
-
-#define expect_invalid(op, req, frag) expect_error(op, req, BM_ERROR_INVALID_INPUT, frag)
 
 static double num(JsonObject *o, const char *key)
 {
@@ -49,23 +27,23 @@ static double rel(double a, double b)
 
 static void test_fermi_integral(void)
 {
-    g_autoptr(JsonObject) r = call("fermi-integral", "{\"order\": 0.5, \"eta\": 0}");
+    g_autoptr(JsonObject) r = op_call("fermi-integral", "{\"order\": 0.5, \"eta\": 0}");
     /* F_1/2(0) = (1 - 2^(-1/2)) zeta(3/2) = 0.7651470246 (DLMF 25.12(iii) with the
      * 1/Gamma(j+1) normalisation, the Dirichlet eta function; from memory) */
     g_assert_cmpfloat(fabs(num(r, "values") - 0.7651470246), <, 1e-10);
     g_assert_cmpstr(json_object_get_string_member(r, "normalisation"), ==, "1/Gamma(j+1)");
 
-    g_autoptr(JsonObject) z = call("fermi-integral", "{\"order\": 0, \"eta\": [-3, 0, 2.5]}");
+    g_autoptr(JsonObject) z = op_call("fermi-integral", "{\"order\": 0, \"eta\": [-3, 0, 2.5]}");
     JsonArray *v = json_object_get_array_member(z, "values");
     const double eta[3] = { -3, 0, 2.5 };
     for (guint i = 0; i < 3; i++)   /* F_0(eta) = ln(1 + e^eta) (identity) */
         g_assert_cmpfloat(rel(json_array_get_double_element(v, i), log1p(exp(eta[i]))), <, 1e-14);
-    g_autoptr(JsonObject) one = call("fermi-integral", "{\"order\": 1, \"eta\": 0}");
+    g_autoptr(JsonObject) one = op_call("fermi-integral", "{\"order\": 1, \"eta\": 0}");
     /* F_1(0) = eta(2) = pi^2 / 12 (Dirichlet eta function at 2; identity) */
     g_assert_cmpfloat(rel(num(one, "values"), G_PI * G_PI / 12.0), <, 1e-13);
 
     /* inverse: round trip through F_1/2 (identity), array form */
-    g_autoptr(JsonObject) inv = call("fermi-integral",
+    g_autoptr(JsonObject) inv = op_call("fermi-integral",
         "{\"order\": 0.5, \"values\": [0.7651470246254079, 1e-5], \"inverse\": true}");
     JsonArray *e = json_object_get_array_member(inv, "eta");
     g_assert_cmpfloat(fabs(json_array_get_double_element(e, 0)), <, 1e-12);
@@ -74,26 +52,26 @@ static void test_fermi_integral(void)
     g_assert_cmpfloat(fabs(json_array_get_double_element(e, 1) - log(x) - x / pow(2, 1.5)),
                       <, 1e-9);
 
-    expect_invalid("fermi-integral", "{\"order\": 0.75, \"eta\": 0}", "\"order\"");
-    expect_invalid("fermi-integral", "{\"order\": 1, \"values\": 1, \"inverse\": true}",
+    op_expect_invalid("fermi-integral", "{\"order\": 0.75, \"eta\": 0}", "\"order\"");
+    op_expect_invalid("fermi-integral", "{\"order\": 1, \"values\": 1, \"inverse\": true}",
                    "order\" 0.5 only");
-    expect_invalid("fermi-integral", "{\"order\": 0.5, \"values\": [1, -2], \"inverse\": true}",
+    op_expect_invalid("fermi-integral", "{\"order\": 0.5, \"values\": [1, -2], \"inverse\": true}",
                    "element 1 of \"values\"");
-    expect_invalid("fermi-integral", "{\"order\": 0.5, \"values\": 0, \"inverse\": true}",
+    op_expect_invalid("fermi-integral", "{\"order\": 0.5, \"values\": 0, \"inverse\": true}",
                    "key \"values\"");
-    expect_invalid("fermi-integral", "{\"order\": 0.5}", "missing key \"eta\"");
+    op_expect_invalid("fermi-integral", "{\"order\": 0.5}", "missing key \"eta\"");
 }
 
 static void test_band_gap(void)
 {
     /* Si Varshni at 300 K: 1.1245 eV (Thurmond 1975; from memory) */
-    g_autoptr(JsonObject) r = call("band-gap", "{\"material\": \"Si\", \"temperature_k\": 300}");
+    g_autoptr(JsonObject) r = op_call("band-gap", "{\"material\": \"Si\", \"temperature_k\": 300}");
     g_assert_cmpfloat(fabs(num(r, "band_gap_ev") - 1.1245), <, 1e-4);
     g_assert_nonnull(strstr(json_object_get_string_member(r, "source"), "Thurmond"));
 
     /* Bose-Einstein form, inline: Eg0 - 2 a_B / (exp(Theta/T) - 1) (the formula of
      * Vina, Logothetidis & Cardona 1984; from memory), evaluated here */
-    g_autoptr(JsonObject) b = call("band-gap",
+    g_autoptr(JsonObject) b = op_call("band-gap",
         "{\"material\": {\"name\": \"X\", \"bose_einstein\": {\"eg0_ev\": 1.52, \"a_b_ev\": 0.057,"
         " \"theta_k\": 240}}, \"model\": \"bose-einstein\", \"temperatures_k\": [0, 77, 300]}");
     JsonArray *pts = json_object_get_array_member(b, "points");
@@ -106,13 +84,13 @@ static void test_band_gap(void)
         g_assert_cmpfloat(fabs(num(p, "band_gap_ev") - want), <, 1e-12);
     }
 
-    expect_invalid("band-gap", "{\"material\": \"Si\", \"temperature_k\": 300, "
+    op_expect_invalid("band-gap", "{\"material\": \"Si\", \"temperature_k\": 300, "
                    "\"model\": \"bose-einstein\"}", "material \"Si\" has no bose-einstein");
-    expect_invalid("band-gap", "{\"material\": \"Si\", \"temperatures_k\": [300, -4]}",
+    op_expect_invalid("band-gap", "{\"material\": \"Si\", \"temperatures_k\": [300, -4]}",
                    "element 1 of \"temperatures_k\"");
-    expect_invalid("band-gap", "{\"material\": \"unobtainium\", \"temperature_k\": 300}",
+    op_expect_invalid("band-gap", "{\"material\": \"unobtainium\", \"temperature_k\": 300}",
                    "key \"material\"");
-    expect_invalid("band-gap", "{\"material\": \"Si\"}", "\"temperature_k\"");
+    op_expect_invalid("band-gap", "{\"material\": \"Si\"}", "\"temperature_k\"");
 }
 
 static const char *const P_SI =
@@ -122,7 +100,7 @@ static void test_silicon(void)
 {
     g_autofree char *req = g_strdup_printf("{\"material\": \"Si\", \"temperature_k\": 300, "
                                            "\"statistics\": \"boltzmann\", %s}", P_SI);
-    g_autoptr(JsonObject) r = call("carrier-statistics", req);
+    g_autoptr(JsonObject) r = op_call("carrier-statistics", req);
     /* Nc(Si, 300 K) = 2.8e19 cm^-3 (Sze & Ng 2007 App. G; from memory; 1 %) */
     g_assert_cmpfloat(rel(num(r, "nc_cm3"), 2.8e19), <, 0.01);
     /* ni(Si, 300 K) = 9.65e9 cm^-3 (Sze & Ng 2007 App. G; from memory); the textbook
@@ -149,7 +127,7 @@ static void test_silicon(void)
                     "valence-band maximum");
 
     /* the same donor by its numbers gives the same Fermi level (round trip) */
-    g_autoptr(JsonObject) r2 = call("carrier-statistics",
+    g_autoptr(JsonObject) r2 = op_call("carrier-statistics",
         "{\"material\": \"silicon\", \"temperature_k\": 300, \"statistics\": \"boltzmann\","
         " \"donors\": [{\"density_cm3\": 1e16, \"ionization_ev\": 0.045, \"degeneracy\": 2}]}");
     g_assert_cmpfloat(num(r2, "fermi_level_ev"), ==, num(r, "fermi_level_ev"));
@@ -160,7 +138,7 @@ static void test_silicon(void)
  * practice, no source). */
 static void test_degenerate_warning(void)
 {
-    g_autoptr(JsonObject) r = call("carrier-statistics",
+    g_autoptr(JsonObject) r = op_call("carrier-statistics",
         "{\"material\": \"Si\", \"temperature_k\": 300, \"donors\": "
         "[{\"density_cm3\": 5e19, \"ionization_ev\": 0.0}]}");
     JsonArray *w = json_object_get_array_member(r, "warnings");
@@ -178,7 +156,7 @@ static void test_points(void)
 {
     g_autofree char *req = g_strdup_printf("{\"material\": \"Si\", \"temperatures_k\": "
                                            "[50, 300, 700], %s}", P_SI);
-    g_autoptr(JsonObject) r = call("carrier-statistics", req);
+    g_autoptr(JsonObject) r = op_call("carrier-statistics", req);
     JsonArray *pts = json_object_get_array_member(r, "points");
     g_assert_cmpuint(json_array_get_length(pts), ==, 3);
     JsonObject *cold = json_array_get_object_element(pts, 0);
@@ -195,7 +173,7 @@ static void test_points(void)
     /* each row carries the single-temperature keys */
     g_autofree char *one = g_strdup_printf("{\"material\": \"Si\", \"temperature_k\": 300, %s}",
                                            P_SI);
-    g_autoptr(JsonObject) single = call("carrier-statistics", one);
+    g_autoptr(JsonObject) single = op_call("carrier-statistics", one);
     g_assert_cmpfloat(num(room, "fermi_level_ev"), ==, num(single, "fermi_level_ev"));
     g_assert_true(json_object_has_member(room, "ionized_donors_cm3"));
 }
@@ -204,20 +182,20 @@ static void test_points(void)
  * interpolated mass gives Nc (m/m0)^(3/2) scaling (identity). */
 static void test_dos_mass_points(void)
 {
-    g_autoptr(JsonObject) a = call("carrier-statistics",
+    g_autoptr(JsonObject) a = op_call("carrier-statistics",
         "{\"material\": \"Si\", \"temperature_k\": 300}");
-    g_autoptr(JsonObject) b = call("carrier-statistics",
+    g_autoptr(JsonObject) b = op_call("carrier-statistics",
         "{\"material\": \"Si\", \"temperature_k\": 300, \"dos_mass_points\": ["
         "{\"temperature_k\": 200, \"electron_dos_mass_me\": 1.00, \"hole_dos_mass_me\": 1.04},"
         "{\"temperature_k\": 400, \"electron_dos_mass_me\": 1.16, \"hole_dos_mass_me\": 1.04}]}");
     g_assert_cmpfloat(fabs(num(b, "electron_dos_mass_me") - 1.08), <, 1e-14);
     g_assert_cmpfloat(rel(num(b, "nc_cm3"), num(a, "nc_cm3")), <, 1e-12);
-    expect_invalid("carrier-statistics",
+    op_expect_invalid("carrier-statistics",
         "{\"material\": \"Si\", \"temperature_k\": 500, \"dos_mass_points\": ["
         "{\"temperature_k\": 200, \"electron_dos_mass_me\": 1.0, \"hole_dos_mass_me\": 1.0},"
         "{\"temperature_k\": 400, \"electron_dos_mass_me\": 1.2, \"hole_dos_mass_me\": 1.0}]}",
         "dos_mass_points");
-    expect_invalid("carrier-statistics",
+    op_expect_invalid("carrier-statistics",
         "{\"material\": \"Si\", \"temperature_k\": 300, \"dos_mass_points\": ["
         "{\"temperature_k\": 200, \"electron_dos_mass_me\": 0, \"hole_dos_mass_me\": 1.0}]}",
         "dos_mass_points[0]: key \"electron_dos_mass_me\"");
@@ -238,16 +216,16 @@ static void test_material_file(void)
     g_assert_true(g_file_set_contents(path, doc, -1, NULL));
     g_autofree char *req = g_strdup_printf("{\"material\": \"%s\", \"temperature_k\": 300, %s}",
                                            path, P_SI);
-    g_autoptr(JsonObject) f = call("carrier-statistics", req);
+    g_autoptr(JsonObject) f = op_call("carrier-statistics", req);
     g_autofree char *req2 = g_strdup_printf("{\"material\": \"Si\", \"temperature_k\": 300, %s}",
                                             P_SI);
-    g_autoptr(JsonObject) s = call("carrier-statistics", req2);
+    g_autoptr(JsonObject) s = op_call("carrier-statistics", req2);
     g_assert_cmpstr(json_object_get_string_member(f, "material"), ==, "si-like");
     g_assert_cmpfloat(num(f, "fermi_level_ev"), ==, num(s, "fermi_level_ev"));
     g_assert_cmpfloat(num(f, "ni_cm3"), ==, num(s, "ni_cm3"));
     g_autofree char *req3 = g_strdup_printf("{\"material\": \"%s\", \"temperature_k\": 300}",
                                             path);
-    g_autoptr(JsonObject) g = call("band-gap", req3);
+    g_autoptr(JsonObject) g = op_call("band-gap", req3);
     g_assert_cmpfloat(fabs(num(g, "band_gap_ev") - 1.1245), <, 1e-4);  /* as above */
 
     /* a bad key in the file is named with the file */
@@ -255,9 +233,9 @@ static void test_material_file(void)
     g_assert_true(g_file_set_contents(bad, "{\"electron_mass\": 1}", -1, NULL));
     g_autofree char *req4 = g_strdup_printf("{\"material\": \"%s\", \"temperature_k\": 300}",
                                             bad);
-    expect_invalid("carrier-statistics", req4, "unknown key \"electron_mass\"");
-    expect_invalid("carrier-statistics", req4, "bad.json");
-    expect_error("carrier-statistics",
+    op_expect_invalid("carrier-statistics", req4, "unknown key \"electron_mass\"");
+    op_expect_invalid("carrier-statistics", req4, "bad.json");
+    op_expect_error("carrier-statistics",
                  "{\"material\": \"/nonexistent/m.json\", \"temperature_k\": 300}",
                  BM_ERROR_IO, "/nonexistent/m.json");
     g_remove(path);
@@ -268,28 +246,28 @@ static void test_material_file(void)
 static void test_carrier_bad_input(void)
 {
     const char *op = "carrier-statistics";
-    expect_invalid(op, "{\"material\": \"Si\", \"temperature_k\": 0}", "\"temperature_k\"");
-    expect_invalid(op, "{\"material\": \"Si\", \"temperature_k\": -10}", "\"temperature_k\"");
-    expect_invalid(op, "{\"material\": \"Si\", \"temperatures_k\": [300, 0]}",
+    op_expect_invalid(op, "{\"material\": \"Si\", \"temperature_k\": 0}", "\"temperature_k\"");
+    op_expect_invalid(op, "{\"material\": \"Si\", \"temperature_k\": -10}", "\"temperature_k\"");
+    op_expect_invalid(op, "{\"material\": \"Si\", \"temperatures_k\": [300, 0]}",
                    "element 1 of \"temperatures_k\"");
-    expect_invalid(op, "{\"material\": \"Si\", \"temperature_k\": 300, \"donors\": "
+    op_expect_invalid(op, "{\"material\": \"Si\", \"temperature_k\": 300, \"donors\": "
                    "[{\"density_cm3\": -1e16, \"ionization_ev\": 0.045}]}",
                    "donors[0]: key \"density_cm3\"");
-    expect_invalid(op, "{\"material\": \"Si\", \"temperature_k\": 300, \"acceptors\": "
+    op_expect_invalid(op, "{\"material\": \"Si\", \"temperature_k\": 300, \"acceptors\": "
                    "[{\"species\": \"B\", \"density_cm3\": 1e15}, {\"species\": \"Q\", "
                    "\"density_cm3\": 1e15}]}", "acceptors[1]: key \"species\"");
-    expect_invalid(op, "{\"material\": \"Si\", \"temperature_k\": 300, \"donors\": "
+    op_expect_invalid(op, "{\"material\": \"Si\", \"temperature_k\": 300, \"donors\": "
                    "[{\"species\": \"B\", \"density_cm3\": 1e15}]}", "'B' is an acceptor in Si");
-    expect_invalid(op, "{\"material\": \"Unobtainium\", \"temperature_k\": 300}",
+    op_expect_invalid(op, "{\"material\": \"Unobtainium\", \"temperature_k\": 300}",
                    "unknown material 'Unobtainium'");
-    expect_invalid(op, "{\"material\": {\"electron_dos_mass_me\": 0, \"hole_dos_mass_me\": 1,"
+    op_expect_invalid(op, "{\"material\": {\"electron_dos_mass_me\": 0, \"hole_dos_mass_me\": 1,"
                    " \"band_gap_ev\": 1}, \"temperature_k\": 300}",
                    "key \"electron_dos_mass_me\" must be greater than zero");
-    expect_invalid(op, "{\"material\": {\"electron_dos_mass_me\": 1, \"band_gap_ev\": 1},"
+    op_expect_invalid(op, "{\"material\": {\"electron_dos_mass_me\": 1, \"band_gap_ev\": 1},"
                    " \"temperature_k\": 300}", "missing key \"hole_dos_mass_me\"");
-    expect_invalid(op, "{\"material\": \"Si\", \"temperature_k\": 300, \"statistics\": \"x\"}",
+    op_expect_invalid(op, "{\"material\": \"Si\", \"temperature_k\": 300, \"statistics\": \"x\"}",
                    "key \"statistics\"");
-    expect_invalid(op, "{\"material\": \"Si\", \"temperature_k\": 300, \"donors\": "
+    op_expect_invalid(op, "{\"material\": \"Si\", \"temperature_k\": 300, \"donors\": "
                    "[{\"density_cm3\": 1e15}]}", "donors[0]: give \"ionization_ev\"");
 }
 
@@ -299,7 +277,7 @@ static void test_carrier_bad_input(void)
  * (identity when EF - E0 >> kT). */
 static void test_sheet_density(void)
 {
-    g_autoptr(JsonObject) r = call("sheet-density",
+    g_autoptr(JsonObject) r = op_call("sheet-density",
         "{\"subbands\": [{\"energy_ev\": 0.0, \"mass_me\": 0.067}], \"temperature_k\": 1.5,"
         " \"sheet_density_cm2\": 3e11}");
     JsonObject *s0 = json_array_get_object_element(json_object_get_array_member(r, "subbands"), 0);
@@ -308,7 +286,7 @@ static void test_sheet_density(void)
     g_assert_cmpfloat(rel(num(r, "fermi_level_ev"), 3e11 / dos), <, 1e-9);
     /* two subbands, Fermi level given: per-subband densities add up (identity), and
      * a subband below EF by x holds DOS x in the degenerate limit */
-    g_autoptr(JsonObject) t = call("sheet-density",
+    g_autoptr(JsonObject) t = op_call("sheet-density",
         "{\"subbands\": [{\"energy_ev\": 0.0, \"mass_me\": 0.067}, {\"energy_ev\": 0.02,"
         " \"mass_me\": 0.067, \"valley_degeneracy\": 2}], \"temperature_k\": 1.5,"
         " \"fermi_level_ev\": 0.03}");
@@ -319,17 +297,17 @@ static void test_sheet_density(void)
     g_assert_cmpfloat(rel(n0, dos * 0.03), <, 1e-9);
     g_assert_cmpfloat(rel(n1, 2 * dos * 0.01), <, 1e-9);
 
-    expect_invalid("sheet-density", "{\"subbands\": [{\"energy_ev\": 0, \"mass_me\": 0}],"
+    op_expect_invalid("sheet-density", "{\"subbands\": [{\"energy_ev\": 0, \"mass_me\": 0}],"
                    " \"temperature_k\": 4, \"fermi_level_ev\": 0}", "subbands[0]: key \"mass_me\"");
-    expect_invalid("sheet-density", "{\"subbands\": [{\"energy_ev\": 0, \"mass_me\": 0.067}],"
+    op_expect_invalid("sheet-density", "{\"subbands\": [{\"energy_ev\": 0, \"mass_me\": 0.067}],"
                    " \"temperature_k\": 4, \"sheet_density_cm2\": -1}", "\"sheet_density_cm2\"");
-    expect_invalid("sheet-density", "{\"subbands\": [{\"energy_ev\": 0, \"mass_me\": 0.067}],"
+    op_expect_invalid("sheet-density", "{\"subbands\": [{\"energy_ev\": 0, \"mass_me\": 0.067}],"
                    " \"temperature_k\": 4}", "exactly one of");
 }
 
 static void test_drude(void)
 {
-    g_autoptr(JsonObject) r = call("drude", "{\"mass_me\": 0.26, \"mobility_cm2_per_vs\": 1400,"
+    g_autoptr(JsonObject) r = op_call("drude", "{\"mass_me\": 0.26, \"mobility_cm2_per_vs\": 1400,"
                                             " \"density_cm3\": 1e16, \"temperature_k\": 300}");
     /* tau = mu m / e, sigma = n e mu, v_th = sqrt(3 kT / m), l = v_th tau (Drude model,
      * textbook definitions; CODATA constants above) */
@@ -343,27 +321,27 @@ static void test_drude(void)
     /* and back: the scattering time gives the same mobility (round trip) */
     g_autofree char *req = g_strdup_printf("{\"mass_me\": 0.26, \"scattering_time_s\": %.17g}",
                                            num(r, "scattering_time_s"));
-    g_autoptr(JsonObject) b = call("drude", req);
+    g_autoptr(JsonObject) b = op_call("drude", req);
     g_assert_cmpfloat(rel(num(b, "mobility_cm2_per_vs"), 1400), <, 1e-12);
     g_assert_false(json_object_has_member(b, "conductivity_s_per_cm"));
 
-    expect_invalid("drude", "{\"mass_me\": 0, \"scattering_time_s\": 1e-13}", "\"mass_me\"");
-    expect_invalid("drude", "{\"mass_me\": 0.2, \"scattering_time_s\": 1e-13,"
+    op_expect_invalid("drude", "{\"mass_me\": 0, \"scattering_time_s\": 1e-13}", "\"mass_me\"");
+    op_expect_invalid("drude", "{\"mass_me\": 0.2, \"scattering_time_s\": 1e-13,"
                    " \"mobility_cm2_per_vs\": 100}", "exactly one of");
-    expect_invalid("drude", "{\"mass_me\": 0.2, \"scattering_time_s\": 1e-13,"
+    op_expect_invalid("drude", "{\"mass_me\": 0.2, \"scattering_time_s\": 1e-13,"
                    " \"density_cm3\": -5}", "\"density_cm3\"");
 }
 
 static void test_materials(void)
 {
-    g_autoptr(JsonObject) all = call("materials", "{}");
+    g_autoptr(JsonObject) all = op_call("materials", "{}");
     JsonArray *pts = json_object_get_array_member(all, "points");
     g_assert_cmpuint(json_array_get_length(pts), >=, 10);
     for (guint i = 0; i < json_array_get_length(pts); i++) {
         JsonObject *o = json_array_get_object_element(pts, i);
         g_assert_cmpuint(strlen(json_object_get_string_member(o, "band_gap_source")), >, 10);
     }
-    g_autoptr(JsonObject) ga = call("materials", "{\"name\": \"gaas\"}");
+    g_autoptr(JsonObject) ga = op_call("materials", "{\"name\": \"gaas\"}");
     JsonObject *m = json_object_get_object_member(ga, "material");
     g_assert_cmpstr(json_object_get_string_member(m, "name"), ==, "GaAs");
     JsonObject *me = json_object_get_object_member(m, "electron_dos_mass_me");
@@ -385,7 +363,7 @@ static void test_materials(void)
     g_assert_cmpuint(json_array_get_length(d), >, 0);
     for (guint i = 0; i < json_array_get_length(d); i++)
         g_assert_true(json_object_has_member(json_array_get_object_element(d, i), "source"));
-    expect_invalid("materials", "{\"name\": \"kryptonite\"}", "key \"name\"");
+    op_expect_invalid("materials", "{\"name\": \"kryptonite\"}", "key \"name\"");
 }
 
 int main(int argc, char **argv)

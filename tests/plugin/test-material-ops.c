@@ -1,5 +1,6 @@
 /* test-material-ops.c: valley-average and hole-mass given a material (built-in
  * name, inline object, JSON file) through the registry's JSON path. */
+#include "op-test.h"
 #include <glib.h>
 #include <glib/gstdio.h>
 #include <math.h>
@@ -9,27 +10,6 @@
 #include "bm-json.h"
 #include "bm-materials.h"
 
-static JsonObject *call(const char *op, const char *request)
-{
-    g_autoptr(GError) error = NULL;
-    char *out = bm_registry_call_json(op, request, NULL, FALSE, &error);
-    g_assert_no_error(error);
-    JsonNode *n = json_from_string(out, NULL);
-    g_free(out);
-    JsonObject *o = json_object_ref(json_node_get_object(n));
-    json_node_unref(n);
-    return o;
-}
-
-static void expect_invalid(const char *op, const char *request, const char *fragment)
-{
-    g_autoptr(GError) error = NULL;
-    char *out = bm_registry_call_json(op, request, NULL, FALSE, &error);
-    g_assert_null(out);
-    g_assert_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT);
-    if (!strstr(error->message, fragment))
-        g_error("message \"%s\" lacks \"%s\"", error->message, fragment);
-}
 
 static double num(JsonObject *o, const char *key)
 {
@@ -46,7 +26,7 @@ static const bm_material *table(const char *name)
 static JsonObject *valleys_of(const char *material)
 {
     g_autofree char *req = g_strdup_printf("{\"material\": \"%s\"}", material);
-    return call("valley-average", req);
+    return op_call("valley-average", req);
 }
 
 /* Si: six Delta valleys.  Against the table's own masses through the textbook
@@ -145,11 +125,11 @@ static void test_user_file(void)
     g_autofree char *path = g_build_filename(dir, "my-si.json", NULL);
     g_assert_true(g_file_set_contents(path, obj, -1, NULL));
     g_autofree char *req = g_strdup_printf("{\"material\": \"%s\"}", path);
-    g_autoptr(JsonObject) f = call("valley-average", req);
+    g_autoptr(JsonObject) f = op_call("valley-average", req);
     g_assert_cmpstr(json_object_get_string_member(f, "material"), ==, "my-si");
     g_assert_cmpstr(json_object_get_string_member(f, "valley_source"), ==, "my notes");
     g_autofree char *req2 = g_strdup_printf("{\"material\": %s}", obj);
-    g_autoptr(JsonObject) i = call("valley-average", req2);
+    g_autoptr(JsonObject) i = op_call("valley-average", req2);
     g_autoptr(JsonObject) s = valleys_of("Si");
     g_autofree char *ft = numbers_only(f), *it = numbers_only(i), *st = numbers_only(s);
     g_assert_cmpstr(ft, ==, st);
@@ -161,30 +141,30 @@ static void test_user_file(void)
 static void test_valley_bad_input(void)
 {
     const char *op = "valley-average";
-    expect_invalid(op, "{\"material\": \"Si\", \"valley\": {\"longitudinal_mass_me\": 1,"
+    op_expect_invalid(op, "{\"material\": \"Si\", \"valley\": {\"longitudinal_mass_me\": 1,"
                    " \"transverse_mass_me\": 0.2, \"axis\": [1,0,0]}, \"point_group\": \"Oh\"}",
                    "got \"valley\" and \"material\"");
-    expect_invalid(op, "{\"material\": \"Si\", \"valleys\": []}", "\"valleys\" and \"material\"");
-    expect_invalid(op, "{\"material\": \"Si\", \"point_group\": \"D4h\"}", "point_group");
-    expect_invalid(op, "{\"material\": {\"name\": \"bare\", \"point_group\": \"Oh\"}}",
+    op_expect_invalid(op, "{\"material\": \"Si\", \"valleys\": []}", "\"valleys\" and \"material\"");
+    op_expect_invalid(op, "{\"material\": \"Si\", \"point_group\": \"D4h\"}", "point_group");
+    op_expect_invalid(op, "{\"material\": {\"name\": \"bare\", \"point_group\": \"Oh\"}}",
                    "material \"bare\"");
-    expect_invalid(op, "{\"material\": {\"name\": \"nogroup\", \"conduction_valley\":"
+    op_expect_invalid(op, "{\"material\": {\"name\": \"nogroup\", \"conduction_valley\":"
                    " {\"position\": \"gamma\", \"longitudinal_mass_me\": 0.1,"
                    " \"transverse_mass_me\": 0.1}}}", "material \"nogroup\" (given in the "
                    "request) has no point_group");
-    expect_invalid(op, "{\"material\": {\"point_group\": \"Oh\", \"conduction_valley\":"
+    op_expect_invalid(op, "{\"material\": {\"point_group\": \"Oh\", \"conduction_valley\":"
                    " {\"position\": \"interior\", \"longitudinal_mass_me\": 0.1,"
                    " \"transverse_mass_me\": 0.1}}}", "conduction_valley: key \"direction\"");
-    expect_invalid(op, "{\"material\": {\"point_group\": \"Oh\", \"conduction_valley\":"
+    op_expect_invalid(op, "{\"material\": {\"point_group\": \"Oh\", \"conduction_valley\":"
                    " {\"position\": \"edge\", \"direction\": [1,0,0], \"longitudinal_mass_me\": 1,"
                    " \"transverse_mass_me\": 0.1}}}", "key \"position\": must be gamma");
-    expect_invalid(op, "{\"material\": {\"point_group\": \"Oh\", \"conduction_valley\":"
+    op_expect_invalid(op, "{\"material\": {\"point_group\": \"Oh\", \"conduction_valley\":"
                    " {\"position\": \"gamma\", \"longitudinal_mass_me\": 0.1,"
                    " \"transverse_mass_me\": 0.1, \"colour\": 1}}}", "unknown key \"colour\"");
-    expect_invalid(op, "{\"material\": {\"point_group\": \"C5v\", \"conduction_valley\":"
+    op_expect_invalid(op, "{\"material\": {\"point_group\": \"C5v\", \"conduction_valley\":"
                    " {\"position\": \"gamma\", \"longitudinal_mass_me\": 0.1,"
                    " \"transverse_mass_me\": 0.1}}}", "point_group");
-    expect_invalid(op, "{\"material\": {\"hue\": 1}}", "unknown key \"hue\"");
+    op_expect_invalid(op, "{\"material\": {\"hue\": 1}}", "unknown key \"hue\"");
 }
 
 /* GaAs from the table: the Luttinger directional masses are 1/(g1 -+ 2 g2)
@@ -195,7 +175,7 @@ static void test_holes_material(void)
 {
     const bm_material *m = table("GaAs");
     const double g1 = m->luttinger[0], g2 = m->luttinger[1], g3 = m->luttinger[2];
-    g_autoptr(JsonObject) r = call("hole-mass", "{\"material\": \"GaAs\"}");
+    g_autoptr(JsonObject) r = op_call("hole-mass", "{\"material\": \"GaAs\"}");
     JsonObject *l = json_object_get_object_member(r, "luttinger");
     JsonObject *h = json_object_get_object_member(l, "heavy_hole_mass_me");
     JsonObject *lh = json_object_get_object_member(l, "light_hole_mass_me");
@@ -215,7 +195,7 @@ static void test_holes_material(void)
         m->luttinger_source);
 
     /* an explicit key wins over the material's value, and says so */
-    g_autoptr(JsonObject) o = call("hole-mass", "{\"material\": \"GaAs\", "
+    g_autoptr(JsonObject) o = op_call("hole-mass", "{\"material\": \"GaAs\", "
                                    "\"heavy_hole_mass_me\": 0.5, "
                                    "\"luttinger_parameters\": [7, 2, 3]}");
     double mo = pow(pow(0.5, 1.5) + pow(m->m_light_hole, 1.5)
@@ -235,7 +215,7 @@ static void test_holes_material(void)
  * error naming it. */
 static void test_holes_user_and_errors(void)
 {
-    g_autoptr(JsonObject) r = call("hole-mass", "{\"material\": {\"name\": \"mine\","
+    g_autoptr(JsonObject) r = op_call("hole-mass", "{\"material\": {\"name\": \"mine\","
                                    " \"heavy_hole_mass_me\": 0.49, \"light_hole_mass_me\": 0.16}}");
     g_assert_cmpfloat_with_epsilon(num(r, "dos_mass_me"),
                                    pow(pow(0.49, 1.5) + pow(0.16, 1.5), 2.0 / 3.0), 1e-12);
@@ -243,12 +223,12 @@ static void test_holes_user_and_errors(void)
     JsonObject *hh = json_object_get_object_member(
         json_object_get_object_member(r, "sources"), "heavy_hole_mass_me");
     g_assert_cmpstr(json_object_get_string_member(hh, "source"), ==, "given in the request");
-    expect_invalid("hole-mass", "{\"material\": \"4H-SiC\"}", "material \"4H-SiC\"");
-    expect_invalid("hole-mass", "{\"material\": {\"name\": \"half\", \"heavy_hole_mass_me\": 0.5}}",
+    op_expect_invalid("hole-mass", "{\"material\": \"4H-SiC\"}", "material \"4H-SiC\"");
+    op_expect_invalid("hole-mass", "{\"material\": {\"name\": \"half\", \"heavy_hole_mass_me\": 0.5}}",
                    "material \"half\"");
-    expect_invalid("hole-mass", "{\"material\": {\"luttinger_parameters\": [1, 2]}}",
+    op_expect_invalid("hole-mass", "{\"material\": {\"luttinger_parameters\": [1, 2]}}",
                    "3 numbers");
-    expect_invalid("hole-mass", "{\"material\": {\"split_off_ev\": -0.1}}", "split_off_ev");
+    op_expect_invalid("hole-mass", "{\"material\": {\"split_off_ev\": -0.1}}", "split_off_ev");
 }
 
 int main(int argc, char **argv)

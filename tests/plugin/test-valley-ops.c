@@ -1,38 +1,18 @@
 /* test-valley-ops.c: the valley-average and hole-mass operations through the
  * registry's JSON path: Si and Ge stars, strained Si, holes, bad input. */
+#include "op-test.h"
 #include <math.h>
 #include <string.h>
 
 #include "registry.h"
 
-static JsonObject *call(const char *op, const char *request)
-{
-    g_autoptr(GError) error = NULL;
-    char *out = bm_registry_call_json(op, request, NULL, FALSE, &error);
-    g_assert_no_error(error);
-    JsonNode *n = json_from_string(out, NULL);
-    g_free(out);
-    JsonObject *o = json_object_ref(json_node_get_object(n));
-    json_node_unref(n);
-    return o;
-}
-
-static void expect_invalid(const char *op, const char *request, const char *fragment)
-{
-    g_autoptr(GError) error = NULL;
-    char *out = bm_registry_call_json(op, request, NULL, FALSE, &error);
-    g_assert_null(out);
-    g_assert_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT);
-    if (!strstr(error->message, fragment))
-        g_error("message \"%s\" lacks \"%s\"", error->message, fragment);
-}
 
 /* Si X valleys m_l = 0.98, m_t = 0.19 (Sze & Ng 2007, Appendix G; from
  * memory): 6 valleys, conductivity mass 3/(1/m_l + 2/m_t) = 0.2598, DOS mass
  * 6^(2/3) (m_l m_t^2)^(1/3) = 1.084 (textbook formulas). */
 static void test_silicon(void)
 {
-    g_autoptr(JsonObject) r = call("valley-average",
+    g_autoptr(JsonObject) r = op_call("valley-average",
         "{\"valley\": {\"longitudinal_mass_me\": 0.98, \"transverse_mass_me\": 0.19,"
         " \"axis\": [1,0,0]}, \"point_group\": \"Oh\", \"position\": \"interior\"}");
     g_assert_cmpfloat(json_object_get_double_member(r, "valley_count"), ==, 6.0);
@@ -47,7 +27,7 @@ static void test_silicon(void)
  * half-valleys count 4; DOS mass 0.55-0.56. */
 static void test_germanium(void)
 {
-    g_autoptr(JsonObject) r = call("valley-average",
+    g_autoptr(JsonObject) r = op_call("valley-average",
         "{\"valley\": {\"longitudinal_mass_me\": 1.64, \"transverse_mass_me\": 0.082,"
         " \"axis\": [1,1,1]}, \"point_group\": \"m-3m\", \"position\": \"face\"}");
     g_assert_cmpfloat(json_object_get_double_member(r, "valley_count"), ==, 4.0);
@@ -68,7 +48,7 @@ static void test_strained(void)
                                "0.19, \"axis\": %s, \"energy_offset_ev\": %s}", i ? "," : "",
                                ax[i], i >= 4 ? "-0.1" : "0");
     g_string_append(req, "]}");
-    g_autoptr(JsonObject) r = call("valley-average", req->str);
+    g_autoptr(JsonObject) r = op_call("valley-average", req->str);
     g_string_free(req, TRUE);
     JsonArray *v = json_object_get_array_member(r, "valleys");
     double pair = json_object_get_double_member(json_array_get_object_element(v, 4),
@@ -91,7 +71,7 @@ static void test_strained(void)
  * [111] heavy 0.893. Si m_hh = 0.49, m_lh = 0.16: (0.49^1.5 + 0.16^1.5)^(2/3). */
 static void test_holes(void)
 {
-    g_autoptr(JsonObject) r = call("hole-mass",
+    g_autoptr(JsonObject) r = op_call("hole-mass",
         "{\"luttinger_parameters\": [6.98, 2.06, 2.93], \"heavy_hole_mass_me\": 0.49,"
         " \"light_hole_mass_me\": 0.16}");
     JsonObject *l = json_object_get_object_member(r, "luttinger");
@@ -104,7 +84,7 @@ static void test_holes(void)
                                    pow(pow(0.49, 1.5) + pow(0.16, 1.5), 2.0 / 3.0), 1e-12);
 
     /* open heavy-hole surface: null DOS mass and a warning, never NaN */
-    g_autoptr(JsonObject) o = call("hole-mass", "{\"luttinger_parameters\": [3, 1, 2]}");
+    g_autoptr(JsonObject) o = op_call("hole-mass", "{\"luttinger_parameters\": [3, 1, 2]}");
     JsonObject *ol = json_object_get_object_member(o, "luttinger");
     g_assert_true(json_object_get_null_member(ol, "heavy_hole_dos_mass_me"));
     g_assert_cmpuint(json_array_get_length(json_object_get_array_member(o, "warnings")), >=, 1);
@@ -115,34 +95,34 @@ static void test_bad_input(void)
     const char *si = "{\"longitudinal_mass_me\": 0.98, \"transverse_mass_me\": 0.19,"
                      " \"axis\": [1,0,0]}";
     g_autofree char *r1 = g_strdup_printf("{\"valley\": %s, \"point_group\": \"C5v\"}", si);
-    expect_invalid("valley-average", r1, "point_group");
+    op_expect_invalid("valley-average", r1, "point_group");
     g_autofree char *r2 = g_strdup_printf("{\"valley\": %s}", si);
-    expect_invalid("valley-average", r2, "point_group");
+    op_expect_invalid("valley-average", r2, "point_group");
     g_autofree char *r3 = g_strdup_printf("{\"valley\": %s, \"point_group\": \"Oh\", "
                                           "\"position\": \"edge\"}", si);
-    expect_invalid("valley-average", r3, "position");
-    expect_invalid("valley-average",
+    op_expect_invalid("valley-average", r3, "position");
+    op_expect_invalid("valley-average",
                    "{\"valley\": {\"longitudinal_mass_me\": 0, \"transverse_mass_me\": 0.19,"
                    " \"axis\": [1,0,0]}, \"point_group\": \"Oh\"}", "longitudinal mass");
-    expect_invalid("valley-average",
+    op_expect_invalid("valley-average",
                    "{\"valleys\": [{\"principal_masses_me\": [0.2, 0.3, 0.4],"
                    " \"axes\": [[1,0.2,0],[0,1,0],[0,0,1]]}]}", "valleys[0]");
-    expect_invalid("valley-average",
+    op_expect_invalid("valley-average",
                    "{\"valleys\": [{\"principal_masses_me\": [0.2, 0.3, 0.4],"
                    " \"axes\": [[1,0,0],[0,1,0],[0,0,1]], \"energy_offset_ev\": 0.1},"
                    " {\"principal_masses_me\": [0.2, 0.3, 0.4],"
                    " \"axes\": [[1,0,0],[0,1,0],[0,0,1]]}]}", "temperature_k");
-    expect_invalid("valley-average",
+    op_expect_invalid("valley-average",
                    "{\"valleys\": [{\"principal_masses_me\": [0.2, 0.3, 0.4],"
                    " \"axes\": [[1,0,0],[0,1,0],[0,0,1]], \"energy_offset_ev\": 0.1},"
                    " {\"principal_masses_me\": [0.2, 0.3, 0.4],"
                    " \"axes\": [[1,0,0],[0,1,0],[0,0,1]]}], \"temperature_k\": 0}", "0 K");
-    expect_invalid("valley-average",
+    op_expect_invalid("valley-average",
                    "{\"valleys\": [{\"principal_masses_me\": [0.2, 0.3, 0.4], \"colour\": 1,"
                    " \"axes\": [[1,0,0],[0,1,0],[0,0,1]]}]}", "colour");
-    expect_invalid("hole-mass", "{}", "luttinger_parameters");
-    expect_invalid("hole-mass", "{\"luttinger_parameters\": [1, 2]}", "3 numbers");
-    expect_invalid("hole-mass", "{\"heavy_hole_mass_me\": -0.5, \"light_hole_mass_me\": 0.16}",
+    op_expect_invalid("hole-mass", "{}", "luttinger_parameters");
+    op_expect_invalid("hole-mass", "{\"luttinger_parameters\": [1, 2]}", "3 numbers");
+    op_expect_invalid("hole-mass", "{\"heavy_hole_mass_me\": -0.5, \"light_hole_mass_me\": 0.16}",
                    "heavy-hole");
 }
 
