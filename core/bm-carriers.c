@@ -289,9 +289,11 @@ static bm_status check_dopants(const char *kind, const bm_dopant *d, size_t nd, 
         return bm_fail(err, BM_EINVAL, "carrier statistics: %zu %s species but no array",
                        nd, kind);
     for (size_t i = 0; i < nd; i++) {
-        if (!(d[i].density_cm3 >= 0.0) || !isfinite(d[i].density_cm3))
+        if (!(d[i].density_cm3 >= 0.0) || !(d[i].density_cm3 <= BM_CARRIERS_MAX_DENSITY_CM3))
             return bm_fail(err, BM_EINVAL, "carrier statistics: %s %zu density %g cm^-3 "
-                           "must be finite and >= 0", kind, i, d[i].density_cm3);
+                           "must be >= 0 and at most %g (beyond the atomic density of "
+                           "any solid)", kind, i, d[i].density_cm3,
+                           BM_CARRIERS_MAX_DENSITY_CM3);
         if (!isfinite(d[i].ionisation_ev))
             return bm_fail(err, BM_EINVAL, "carrier statistics: %s %zu ionisation energy "
                            "%g eV is not finite", kind, i, d[i].ionisation_ev);
@@ -310,9 +312,9 @@ static bm_status setup(const bm_semiconductor *s, double t_k, bm_statistics stat
     if (!s || !out)
         return bm_fail(err, BM_EINVAL, "carrier statistics: missing input or result");
     out->warnings.count = 0;
-    if (!(t_k > 0.0) || !isfinite(t_k))
-        return bm_fail(err, BM_EINVAL, "carrier statistics: temperature %g K must be "
-                       "finite and > 0", t_k);
+    if (!(t_k >= BM_CARRIERS_MIN_T_K) || !(t_k <= BM_CARRIERS_MAX_T_K))
+        return bm_fail(err, BM_EINVAL, "carrier statistics: temperature %g K must lie "
+                       "between %g and %g K", t_k, BM_CARRIERS_MIN_T_K, BM_CARRIERS_MAX_T_K);
     if (!isfinite(s->band_gap_ev))
         return bm_fail(err, BM_EINVAL, "carrier statistics: band gap %g eV is not finite",
                        s->band_gap_ev);
@@ -394,7 +396,8 @@ static void fill_state(const nctx *c, double u, bm_carrier_state *out)
     }
     double maj = fmax(d.n, d.p), mino = fmin(d.n, d.p);
     double net = fabs(c->sum_d - c->sum_a);
-    if (mino >= 0.1 * maj || net == 0.0)
+    /* both densities may underflow to 0 deep in freeze-out: that is not intrinsic */
+    if (net == 0.0 || (maj > 0.0 && mino >= 0.1 * maj))
         out->regime = BM_REGIME_INTRINSIC;
     else if (maj < 0.9 * net)
         out->regime = BM_REGIME_FREEZE_OUT;

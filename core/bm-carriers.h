@@ -11,6 +11,13 @@
 
 #define BM_MAX_DOPANTS 8
 
+/* The solver's domain: below 1 mK kT underflows against eV-scale energies;
+ * above 1e6 K no band model means anything; no solid holds more than about
+ * 1e23 atoms per cm^3, so larger dopant densities are input errors. */
+#define BM_CARRIERS_MIN_T_K 1e-3
+#define BM_CARRIERS_MAX_T_K 1e6
+#define BM_CARRIERS_MAX_DENSITY_CM3 1e24
+
 /* Effective density of states 2 (2 pi m k T / h^2)^(3/2) in cm^-3
  * (2.50941e19 cm^-3 at m = 1, T = 300 K).  m, T > 0, else BM_EINVAL. */
 bm_status bm_effective_dos(double mass, double t_k, double *n_cm3, bm_errbuf *err);

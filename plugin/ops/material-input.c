@@ -264,8 +264,8 @@ static gboolean looks_like_path(const char *s)
     return strchr(s, '/') || g_str_has_suffix(s, ".json") || g_file_test(s, G_FILE_TEST_EXISTS);
 }
 
-gboolean bm_material_input_read(JsonObject *request, const char *key,
-                                BmMaterialInput *out, GError **error)
+static gboolean read_input(JsonObject *request, const char *key, BmMaterialInput *out,
+                           GError **error)
 {
     memset(out, 0, sizeof *out);
     out->strings = g_ptr_array_new_with_free_func(g_free);
@@ -313,6 +313,15 @@ gboolean bm_material_input_read(JsonObject *request, const char *key,
     out->origin = g_strdup_printf("material file %s", name);
     g_autofree char *where = g_strdup_printf("material file %s", name);
     return read_object(out, json_node_get_object(root), where, error);
+}
+
+gboolean bm_material_input_read(JsonObject *request, const char *key,
+                                BmMaterialInput *out, GError **error)
+{
+    if (read_input(request, key, out, error))
+        return TRUE;
+    bm_material_input_clear(out);   /* a failed read owns nothing */
+    return FALSE;
 }
 
 void bm_material_input_clear(BmMaterialInput *in)

@@ -30,7 +30,8 @@ typedef struct {
 } BmMaterialInput;
 
 /* Reads request[key] (a string: built-in name or path of a JSON file; or an
- * object).  Errors name the key, the file or the object key at fault. */
+ * object).  Errors name the key, the file or the object key at fault; on
+ * failure *out owns nothing (clearing it again is harmless). */
 gboolean bm_material_input_read(JsonObject *request, const char *key,
                                 BmMaterialInput *out, GError **error);
 void bm_material_input_clear(BmMaterialInput *in);

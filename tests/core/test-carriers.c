@@ -182,6 +182,13 @@ static void test_freeze_out_limits(void)
     a.density_cm3 = 0.0;
     g_assert_cmpint(bm_carriers_solve(&s, 1000.0, &st, NULL), ==, BM_OK);
     g_assert_cmpint(st.regime, ==, BM_REGIME_INTRINSIC);
+    /* Deep freeze-out (10 mK): n underflows to 0, the electrons sit on the
+     * donors, and EF lies between the donor level and the band edge (the
+     * T -> 0 limit of the uncompensated formula above, EF -> (Ec + E_D)/2). */
+    d.density_cm3 = 1e17;
+    g_assert_cmpint(bm_carriers_solve(&s, 0.01, &st, NULL), ==, BM_OK);
+    g_assert_cmpint(st.regime, ==, BM_REGIME_FREEZE_OUT);
+    g_assert_cmpfloat(fabs(st.fermi_level_ev - (1.12 - 0.045 / 2)), <, 1e-3);
 }
 
 static void test_degenerate_flag(void)
@@ -330,11 +337,16 @@ static void test_bad_input(void)
     g_assert_nonnull(strstr(err.message, "temperature 0 K"));
     g_assert_cmpint(bm_carriers_solve(&s, -5.0, &st, &err), ==, BM_EINVAL);
     g_assert_nonnull(strstr(err.message, "temperature -5 K"));
+    g_assert_cmpint(bm_carriers_solve(&s, 1e-320, &st, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "between 0.001 and 1e+06 K"));
     bm_dopant d = { -1e15, 0.045, 2.0 };
     s.donors = &d;
     s.ndonors = 1;
     g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, &err), ==, BM_EINVAL);
     g_assert_nonnull(strstr(err.message, "donor 0 density -1e+15"));
+    d.density_cm3 = 1e308;
+    g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "atomic density"));
     s.ndonors = 0;
     s.m_dos_electron = 0.0;
     g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, &err), ==, BM_EINVAL);
