@@ -1,6 +1,8 @@
-/* bm-linalg.c: 3x3 determinant, inverse and products; symmetric eigen-
- * decomposition through GSL's gsl_eigen_symmv; orthonormal basis completion. */
+/* bm-linalg.c: the double[3][3] interface to the 3x3 arithmetic of bm-mat3.h,
+ * symmetric eigen-decomposition through GSL's gsl_eigen_symmv, reciprocal
+ * vectors and orthonormal basis completion. */
 #include "bm-linalg.h"
+#include "bm-mat3.h"
 
 #include <math.h>
 #include <gsl/gsl_math.h>
@@ -10,9 +12,7 @@
 
 double bm_det3(double a[3][3])
 {
-    return a[0][0] * (a[1][1] * a[2][2] - a[1][2] * a[2][1])
-         - a[0][1] * (a[1][0] * a[2][2] - a[1][2] * a[2][0])
-         + a[0][2] * (a[1][0] * a[2][1] - a[1][1] * a[2][0]);
+    return bm_m3_det(BM_M3CP(a));
 }
 
 int bm_reciprocal3(double a[3][3], double b[3][3])
@@ -37,29 +37,12 @@ int bm_inv3(double a[3][3], double out[3][3])
     double scale = bm_norm3(a[0]) * bm_norm3(a[1]) * bm_norm3(a[2]);
     if (!isfinite(det) || scale == 0.0 || fabs(det) <= 1e-14 * scale)
         return -1;
-    double c[3][3];
-    c[0][0] = a[1][1] * a[2][2] - a[1][2] * a[2][1];
-    c[0][1] = a[0][2] * a[2][1] - a[0][1] * a[2][2];
-    c[0][2] = a[0][1] * a[1][2] - a[0][2] * a[1][1];
-    c[1][0] = a[1][2] * a[2][0] - a[1][0] * a[2][2];
-    c[1][1] = a[0][0] * a[2][2] - a[0][2] * a[2][0];
-    c[1][2] = a[0][2] * a[1][0] - a[0][0] * a[1][2];
-    c[2][0] = a[1][0] * a[2][1] - a[1][1] * a[2][0];
-    c[2][1] = a[0][1] * a[2][0] - a[0][0] * a[2][1];
-    c[2][2] = a[0][0] * a[1][1] - a[0][1] * a[1][0];
-    for (int i = 0; i < 3; i++)
-        for (int j = 0; j < 3; j++)
-            out[i][j] = c[i][j] / det;
-    return 0;
+    return bm_m3_inverse(BM_M3P(out), BM_M3CP(a), 0.0) ? 0 : -1;
 }
 
 void bm_matmul3(double a[3][3], double b[3][3], double out[3][3])
 {
-    double r[3][3];
-    for (int i = 0; i < 3; i++)
-        for (int j = 0; j < 3; j++)
-            r[i][j] = a[i][0] * b[0][j] + a[i][1] * b[1][j] + a[i][2] * b[2][j];
-    memcpy(out, r, sizeof r);
+    bm_m3_mul(BM_M3P(out), BM_M3CP(a), BM_M3CP(b));
 }
 
 void bm_transpose3(double a[3][3], double out[3][3])
@@ -81,7 +64,7 @@ void bm_cross3(const double a[3], const double b[3], double out[3])
 
 double bm_dot3(const double a[3], const double b[3])
 {
-    return a[0] * b[0] + a[1] * b[1] + a[2] * b[2];
+    return bm_v3_dot(a, b);
 }
 
 double bm_norm3(const double a[3])

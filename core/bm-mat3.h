@@ -1,5 +1,5 @@
-/* bm-mat3.h: small static-inline 3x3 helpers (products, rotations of tensors,
- * determinant, orthonormality checks) for the symmetry and valley code. */
+/* bm-mat3.h: the static-inline 3x3 arithmetic (products, tensor rotation,
+ * determinant, inverse) on flat row-major arrays; bm-linalg wraps it for double[3][3]. */
 #ifndef BM_MAT3_H
 #define BM_MAT3_H
 
