@@ -249,9 +249,12 @@ static void render(JsonObject *response, GString *out)
                            json_object_get_string_member(response, "source"));
     JsonArray *list = json_object_get_array_member(response, "extrema");
     guint n = json_array_get_length(list);
+    /* grids give fractional k; scattered tables only Cartesian k */
+    gboolean fractional = n > 0 && JSON_NODE_HOLDS_ARRAY(json_object_get_member(
+        json_array_get_object_element(list, 0), "k_fractional"));
     g_string_append_printf(out, "%-3s %-8s %12s  %-28s %10s %10s %10s %10s\n", "#", "kind",
-                           "energy_ev", "k_fractional", "m1_me", "m2_me", "m3_me",
-                           "fit_rms_ev");
+                           "energy_ev", fractional ? "k_fractional" : "k_inv_angstrom",
+                           "m1_me", "m2_me", "m3_me", "fit_rms_ev");
     for (guint i = 0; i < n; i++) {
         JsonObject *e = json_array_get_object_element(list, i);
         double energy = json_object_get_double_member(e, "energy_ev");
@@ -259,14 +262,12 @@ static void render(JsonObject *response, GString *out)
             energy = 0.0;   /* a rounding error below the printed digits is not "-0" */
         g_string_append_printf(out, "%-3u %-8s %12.6f  ", i,
                                json_object_get_string_member(e, "kind"), energy);
-        JsonNode *kf = json_object_get_member(e, "k_fractional");
-        JsonNode *kc = JSON_NODE_HOLDS_ARRAY(kf) ? kf : json_object_get_member(e, "k_inv_angstrom");
-        JsonArray *k = json_node_get_array(kc);
-        g_autofree char *ktext = g_strdup_printf("(%.4f, %.4f, %.4f)%s",
+        JsonArray *k = json_object_get_array_member(e, fractional ? "k_fractional"
+                                                                  : "k_inv_angstrom");
+        g_autofree char *ktext = g_strdup_printf("(%.4f, %.4f, %.4f)",
                                                  json_array_get_double_element(k, 0),
                                                  json_array_get_double_element(k, 1),
-                                                 json_array_get_double_element(k, 2),
-                                                 JSON_NODE_HOLDS_ARRAY(kf) ? "" : " 1/A");
+                                                 json_array_get_double_element(k, 2));
         g_string_append_printf(out, "%-28s", ktext);
         JsonArray *m = json_object_get_array_member(e, "principal_masses_me");
         for (guint c = 0; c < 3; c++)
