@@ -473,31 +473,31 @@ static int grid_scan(const bm_grid *g, const double *band, candidate **list, siz
     size_t n1 = g->mesh[0], n2 = g->mesh[1], n3 = g->mesh[2];
     size_t cap = 64, cnt = 0;
     candidate *cl = malloc(cap * sizeof *cl);
-    unsigned char *rowflag = malloc(n3);
-    if (!cl || !rowflag) {
-        free(cl);
-        free(rowflag);
+    if (!cl)
         return -1;
-    }
     int use[3] = { n1 > 1, n2 > 1, n3 > 1 };
     for (size_t i = 0; i < n1; i++) {
         size_t ip = (i + 1) % n1, im = (i + n1 - 1) % n1;
         for (size_t j = 0; j < n2; j++) {
             size_t jp = (j + 1) % n2, jm = (j + n2 - 1) % n2;
             const double *row = band + (i * n2 + j) * n3;
-            if (use[2] && n3 > 2) {
-                /* Branch-free row pass (vectorises): an interior point stays a
-                 * candidate only if it beats both row neighbours under the
-                 * same tie rule as below (equal to the later point is allowed). */
-                for (size_t l = 1; l + 1 < n3; l++) {
-                    double a = row[l - 1], x = row[l], b = row[l + 1];
-                    rowflag[l] = (unsigned char)(((x < a) & (x <= b)) | ((x > a) & (x >= b)));
-                }
-                rowflag[0] = rowflag[n3 - 1] = 1;
-            }
+            /* Along the row, a point where the band rises (or falls) on both
+             * sides cannot be an extremum: one subtraction and one product per
+             * point rule out almost all of them. Ties and tiny differences
+             * pass on to the full test, so nothing is missed. */
+            int prefilter = use[2] && n3 > 2;
+            double dprev = prefilter ? row[1] - row[0] : 0.0;
             for (size_t l = 0; l < n3; l++) {
-                if (use[2] && n3 > 2 && !rowflag[l])
-                    continue;
+                /* tight skip over the monotone run; stops at a sign change
+                 * or at the last point, which wraps and gets the full test */
+                while (prefilter && l > 0 && l + 1 < n3) {
+                    double dn = row[l + 1] - row[l];
+                    int monotone = dprev * dn > 0.0;
+                    dprev = dn;
+                    if (!monotone)
+                        break;
+                    l++;
+                }
                 size_t p = (i * n2 + j) * n3 + l;
                 double ep = row[l];
                 int mn = 1, mx = 1;
@@ -558,7 +558,6 @@ static int grid_scan(const bm_grid *g, const double *band, candidate **list, siz
                     candidate *nl = realloc(cl, cap * sizeof *cl);
                     if (!nl) {
                         free(cl);
-                        free(rowflag);
                         return -1;
                     }
                     cl = nl;
@@ -569,7 +568,6 @@ static int grid_scan(const bm_grid *g, const double *band, candidate **list, siz
             }
         }
     }
-    free(rowflag);
     *list = cl;
     *count = cnt;
     return 0;
