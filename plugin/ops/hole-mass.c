@@ -260,11 +260,61 @@ done:
     return resp;
 }
 
+/* A number member of o, or NAN when it is absent or null. */
+static double member(JsonObject *o, const char *key)
+{
+    JsonNode *n = o ? json_object_get_member(o, key) : NULL;
+    return n && JSON_NODE_HOLDS_VALUE(n) ? json_node_get_double(n) : NAN;
+}
+
+/* A mass column; "-" where there is none (an open surface: see the warnings). */
+static void append_mass(GString *out, double v)
+{
+    if (isfinite(v))
+        g_string_append_printf(out, "  %8.4f", v);
+    else
+        g_string_append(out, "         -");
+}
+
+static void render(JsonObject *response, GString *out)
+{
+    if (json_object_has_member(response, "material"))
+        g_string_append_printf(out, "material %s\n",
+                               json_object_get_string_member(response, "material"));
+    if (json_object_has_member(response, "dos_mass_me")) {
+        JsonObject *f = json_object_get_object_member(response, "band_fractions");
+        g_string_append_printf(out, "hole DOS mass            %.4f m_e   (population: heavy "
+                               "%.3f, light %.3f, split-off %.3g)\n",
+                               member(response, "dos_mass_me"), member(f, "heavy"),
+                               member(f, "light"), member(f, "split_off"));
+    }
+    if (!json_object_has_member(response, "luttinger"))
+        return;
+    JsonObject *l = json_object_get_object_member(response, "luttinger");
+    JsonObject *hh = json_object_get_object_member(l, "heavy_hole_mass_me");
+    JsonObject *lh = json_object_get_object_member(l, "light_hole_mass_me");
+    g_string_append(out, "Luttinger masses, m_e     [100]     [110]     [111]   DOS (angle average)\n");
+    const char *rows[2] = { "heavy hole", "light hole" };
+    JsonObject *dirs[2] = { hh, lh };
+    const char *dos[2] = { "heavy_hole_dos_mass_me", "light_hole_dos_mass_me" };
+    for (int r = 0; r < 2; r++) {
+        double v[4] = { member(dirs[r], "100"), member(dirs[r], "110"), member(dirs[r], "111"),
+                        member(l, dos[r]) };
+        g_string_append_printf(out, "  %-20s", rows[r]);
+        for (int c = 0; c < 4; c++)
+            append_mass(out, v[c]);
+        g_string_append_c(out, '\n');
+    }
+    g_string_append_printf(out, "  %-50s", "heavy + light DOS mass");
+    append_mass(out, member(l, "combined_dos_mass_me"));
+    g_string_append_c(out, '\n');
+}
+
 const BmOperation bm_op_hole_mass = {
     .name = "hole-mass",
     .summary = "Hole DOS mass from heavy/light/split-off bands; directional and DOS "
                "masses from Luttinger parameters",
     .params = params,
     .run = run,
-    .render = NULL,
+    .render = render,
 };

@@ -126,6 +126,23 @@ static void test_bad_input(void)
                    "heavy-hole");
 }
 
+/* The readable view shows the response's numbers, and "-" (never "nan") for
+ * the DOS mass of an open heavy-hole surface. GaAs [100] heavy hole
+ * 1/(g1 - 2 g2) = 0.3497 (Vurgaftman et al. 2001 parameters, from memory). */
+static void test_hole_render(void)
+{
+    const BmOperation *op = bm_registry_lookup("hole-mass");
+    g_autoptr(JsonObject) r = op_call("hole-mass", "{\"luttinger_parameters\": [6.98, 2.06, 2.93]}");
+    g_autoptr(GString) out = g_string_new(NULL);
+    op->render(r, out);
+    g_assert_nonnull(strstr(out->str, "0.3497"));
+    g_autoptr(JsonObject) open = op_call("hole-mass", "{\"luttinger_parameters\": [4, 2.5, 2.5]}");
+    g_autoptr(GString) out2 = g_string_new(NULL);
+    op->render(open, out2);
+    g_assert_null(strstr(out2->str, "nan"));
+    g_assert_nonnull(strstr(out2->str, "         -"));
+}
+
 int main(int argc, char **argv)
 {
     g_test_init(&argc, &argv, NULL);
@@ -134,6 +151,7 @@ int main(int argc, char **argv)
     g_test_add_func("/plugin/valley-average/germanium", test_germanium);
     g_test_add_func("/plugin/valley-average/strained", test_strained);
     g_test_add_func("/plugin/hole-mass/values", test_holes);
+    g_test_add_func("/plugin/hole-mass/render", test_hole_render);
     g_test_add_func("/plugin/valley-ops/bad-input", test_bad_input);
     return g_test_run();
 }
