@@ -519,12 +519,6 @@ bm_status bm_carriers_intrinsic(const bm_semiconductor *s, double t_k,
 
 /* ------------------------------------------------------------------------ 2D */
 
-/* m / (pi hbar^2) in cm^-2 eV^-1 for m = 1: J^-1 m^-2 -> eV^-1 cm^-2. */
-static double dos2d_unit(void)
-{
-    return BM_DOS2D_PER_EV_CM2;
-}
-
 bm_status bm_2d_dos(double mass, double valley_degeneracy, double *dos_cm2_ev,
                     bm_errbuf *err)
 {
@@ -538,7 +532,7 @@ bm_status bm_2d_dos(double mass, double valley_degeneracy, double *dos_cm2_ev,
         return bm_fail(err, BM_EINVAL, "2D density of states: valley degeneracy %g must "
                        "be >= 1 (0 for 1)", valley_degeneracy);
     double gv = valley_degeneracy > 0.0 ? valley_degeneracy : 1.0;
-    *dos_cm2_ev = gv * mass * dos2d_unit();
+    *dos_cm2_ev = gv * mass * BM_DOS2D_PER_EV_CM2;
     return BM_OK;
 }
 
@@ -577,7 +571,7 @@ static double sub_log(const bm_subband *s, double kt, double u, double *dlog)
     /* d ln(softplus x)/dx = sigma(x) / softplus(x); softplus ~ e^x far below. */
     *dlog = x < -700.0 ? 1.0 : occ / sp;
     double lsp = x < -700.0 ? x : log(sp);
-    return log(gv * s->mass * dos2d_unit() * kt) + lsp;
+    return log(gv * s->mass * BM_DOS2D_PER_EV_CM2 * kt) + lsp;
 }
 
 bm_status bm_2d_sheet_density(const bm_subband *sub, size_t nsub, double t_k,
@@ -624,7 +618,7 @@ bm_status bm_2d_fermi_level(const bm_subband *sub, size_t nsub, double t_k,
     double emin = sub[0].energy_ev, emax = sub[0].energy_ev, dmin = INFINITY, dmax = 0.0;
     for (size_t i = 0; i < nsub; i++) {
         double gv = sub[i].valley_degeneracy > 0.0 ? sub[i].valley_degeneracy : 1.0;
-        double dk = gv * sub[i].mass * dos2d_unit() * kt;
+        double dk = gv * sub[i].mass * BM_DOS2D_PER_EV_CM2 * kt;
         emin = fmin(emin, sub[i].energy_ev);
         emax = fmax(emax, sub[i].energy_ev);
         dmin = fmin(dmin, dk);

@@ -254,3 +254,12 @@ char *bm_json_to_string(JsonNode *node, gboolean pretty)
     *w = '\0';
     return text;
 }
+
+void bm_json_warn_all(JsonObject *o, const bm_warnings *w)
+{
+    if (!json_object_has_member(o, "warnings"))
+        json_object_set_array_member(o, "warnings", json_array_new());
+    JsonArray *a = json_object_get_array_member(o, "warnings");
+    for (int i = 0; i < w->count; i++)
+        json_array_add_string_element(a, w->text[i]);
+}

@@ -5,6 +5,7 @@
 
 #include <json-glib/json-glib.h>
 #include "bm-error.h"
+#include "bm-status.h"
 
 G_BEGIN_DECLS
 
@@ -46,6 +47,10 @@ void bm_json_set_numbers(JsonObject *o, const char *key, const double *v, gsize 
  * whose shortest form has an exponent and no point (5e19) as "5e+19.0"; the
  * stray ".0" is removed here.  Use it wherever a response becomes text. */
 char *bm_json_to_string(JsonNode *node, gboolean pretty);
+
+/* Appends every warning of a core result to o's "warnings" array, creating
+ * the array (empty if there are none) so the key is always present. */
+void bm_json_warn_all(JsonObject *o, const bm_warnings *w);
 
 /* Appends a warning string to the object's "warnings" array (created on demand). */
 void bm_json_warn(JsonObject *o, const char *fmt, ...) G_GNUC_PRINTF(2, 3);

@@ -98,8 +98,7 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
         json_object_set_array_member(resp, "points", pts);
     else
         json_array_unref(pts);
-    for (int i = 0; i < w.count; i++)
-        bm_json_warn(resp, "%s", w.text[i]);
+    bm_json_warn_all(resp, &w);
     bm_material_input_clear(&mat);
     return resp;
 }

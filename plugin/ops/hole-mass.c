@@ -26,12 +26,6 @@ static const BmParam params[] = {
     { NULL, 0, FALSE, NULL, NULL }
 };
 
-static void copy_warnings(JsonObject *resp, const bm_warnings *w)
-{
-    for (int i = 0; i < w->count; i++)
-        bm_json_warn(resp, "%s", w->text[i]);
-}
-
 static void set_dirs(JsonObject *o, const char *key, const double m[3])
 {
     JsonObject *d = json_object_new();
@@ -169,7 +163,7 @@ static gboolean bands_json(JsonObject *resp, const HoleInputs *in, double t_k, G
     bm_json_set_number(f, "light", d.fraction_lh);
     bm_json_set_number(f, "split_off", d.fraction_so);
     json_object_set_object_member(resp, "band_fractions", f);
-    copy_warnings(resp, &d.warnings);
+    bm_json_warn_all(resp, &d.warnings);
     return TRUE;
 }
 
@@ -191,7 +185,7 @@ static gboolean luttinger_json(JsonObject *resp, const HoleInputs *in, GError **
     bm_json_set_number(o, "combined_dos_mass_me", m.combined_dos_mass);
     json_object_set_boolean_member(o, "heavy_hole_convex", m.heavy_convex);
     json_object_set_object_member(resp, "luttinger", o);
-    copy_warnings(resp, &m.warnings);
+    bm_json_warn_all(resp, &m.warnings);
     return TRUE;
 }
 

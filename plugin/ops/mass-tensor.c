@@ -91,10 +91,7 @@ static JsonObject *tensor_object(const bm_mass_tensor *t, gboolean fractional)
     bm_json_set_mat3(o, "inverse_mass_tensor_per_me", t->inv_mass);
     bm_json_set_number(o, "fit_rms_ev", t->fit_rms_ev);
     json_object_set_boolean_member(o, "divergent", t->divergent != 0);
-    JsonArray *w = json_array_new();
-    for (int i = 0; i < t->warnings.count; i++)
-        json_array_add_string_element(w, t->warnings.text[i]);
-    json_object_set_array_member(o, "warnings", w);
+    bm_json_warn_all(o, &t->warnings);
     return o;
 }
 

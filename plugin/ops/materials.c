@@ -147,8 +147,7 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
         bm_json_set_number(resp, "temperature_k", t);
         json_object_set_array_member(resp, "points", pts);
     }
-    for (int i = 0; i < w.count; i++)
-        bm_json_warn(resp, "%s", w.text[i]);
+    bm_json_warn_all(resp, &w);
     return resp;
 }
 

@@ -104,12 +104,6 @@ static gboolean parse_valley(JsonObject *v, const char *where, gboolean list_ent
     return TRUE;
 }
 
-static void copy_warnings(JsonObject *resp, const bm_warnings *w)
-{
-    for (int i = 0; i < w->count; i++)
-        bm_json_warn(resp, "%s", w->text[i]);
-}
-
 /* The valleys to average, from a star (valley or material) or a list. */
 typedef struct {
     bm_valley *valleys;          /* star->valleys, or an owned list */
@@ -343,10 +337,10 @@ static JsonObject *respond(const ValleySet *s, const bm_population *pop, gboolea
         json_object_set_string_member(resp, "position", s->site_name);
     }
     json_object_set_array_member(resp, "valleys", valleys_json(s));
-    copy_warnings(resp, &s->pw);
+    bm_json_warn_all(resp, &s->pw);
     if (s->star)
-        copy_warnings(resp, &s->star->warnings);
-    copy_warnings(resp, &avg->warnings);
+        bm_json_warn_all(resp, &s->star->warnings);
+    bm_json_warn_all(resp, &avg->warnings);
     return resp;
 }
 
