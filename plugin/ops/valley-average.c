@@ -1,5 +1,6 @@
 /* valley-average.c: operation "valley-average" -- the star of a valley under a
  * point group, or an explicit valley list, and its conductivity and DOS masses. */
+#include <math.h>
 #include <string.h>
 
 #include "ops.h"
@@ -13,14 +14,16 @@
 
 static const BmParam params[] = {
     { "valley", BM_VALUE_OBJECT, FALSE, NULL,
-      "one valley, expanded by symmetry: {longitudinal_mass_me, transverse_mass_me, axis} "
-      "or {principal_masses_me, axes}; optional direction (position, default the axis)" },
+      "one valley, expanded by symmetry: {longitudinal_mass_me, transverse_mass_me, axis}, "
+      "{principal_masses_me, axes} (optional direction: position, default the axis), or an "
+      "extremum of mass-tensor as it is (or its whole response when it holds one extremum)" },
     { "point_group", BM_VALUE_STRING, FALSE, NULL,
       "crystal point group for \"valley\" (Schoenflies, e.g. Oh, Td, D6h, C6v, D4h, "
       "or international, e.g. m-3m)" },
     { "position", BM_VALUE_STRING, FALSE, NULL,
       "where \"valley\" sits: gamma, interior (k and -k distinct; the default) or face "
-      "(zone boundary, each position counts one half)" },
+      "(zone boundary, each position counts one half); for an extremum of mass-tensor "
+      "the default comes from its k" },
     { "material", BM_VALUE_STRING | BM_VALUE_OBJECT, FALSE, NULL,
       "instead of \"valley\": a built-in material name, an object or a JSON file; its "
       "conduction valley and point group give the star" },
@@ -45,13 +48,172 @@ static const char *const list_entry_keys[] = {
     "longitudinal_mass_me", "transverse_mass_me", "axis", "principal_masses_me", "axes",
     "direction", "energy_offset_ev", "weight", NULL
 };
+/* An element of mass-tensor's "extrema", taken as it is (a list entry may add
+ * its offset and weight). */
+static const char *const extremum_keys[] = {
+    "kind", "dims", "energy_ev", "k_inv_angstrom", "k_fractional", "principal_masses_me",
+    "principal_axes", "inverse_mass_tensor_per_me", "fit_rms_ev", "divergent", "warnings",
+    "warning_codes", NULL
+};
+static const char *const extremum_entry_keys[] = {
+    "kind", "dims", "energy_ev", "k_inv_angstrom", "k_fractional", "principal_masses_me",
+    "principal_axes", "inverse_mass_tensor_per_me", "fit_rms_ev", "divergent", "warnings",
+    "warning_codes", "energy_offset_ev", "weight", NULL
+};
 
-/* Reads a valley shape; *has_dir tells whether a position direction is known. */
-static gboolean parse_valley(JsonObject *v, const char *where, gboolean list_entry,
-                             bm_valley_shape *shape, double dir[3], gboolean *has_dir,
-                             bm_warnings *warn, GError **error)
+/* Which carriers a valley holds: negative inertial masses (a band maximum)
+ * make a hole valley, averaged with the hole masses |m|. */
+typedef enum { CARRIER_UNKNOWN, CARRIER_ELECTRON, CARRIER_HOLE } Carrier;
+
+static const char *carrier_name(Carrier c)
+{
+    return c == CARRIER_HOLE ? "hole" : "electron";
+}
+
+/* One valley as parsed: its shape (positive masses), position and carriers. */
+typedef struct {
+    bm_valley_shape shape;
+    double dir[3];
+    gboolean has_dir;
+    Carrier carrier;
+    gboolean site_known;        /* an extremum's k fixes gamma / interior / face */
+    bm_valley_site site;
+} ParsedValley;
+
+/* Masses all of one sign: positive an electron valley, negative a hole valley
+ * (made positive here); mixed signs are a saddle, not a valley. */
+static gboolean signed_masses(double *m, int n, const char *where, Carrier *carrier,
+                              GError **error)
+{
+    int neg = 0, pos = 0;
+    for (int i = 0; i < n; i++) {
+        neg += m[i] < 0.0;
+        pos += m[i] > 0.0;
+    }
+    if (neg && pos) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "%s: masses of both signs describe a saddle point, not a valley", where);
+        return FALSE;
+    }
+    *carrier = neg ? CARRIER_HOLE : CARRIER_ELECTRON;
+    for (int i = 0; neg && i < n; i++)
+        m[i] = -m[i];
+    return TRUE;
+}
+
+static gboolean is_extremum(JsonObject *v)
+{
+    return json_object_has_member(v, "kind") || json_object_has_member(v, "principal_axes");
+}
+
+/* gamma when k vanishes, face when k and -k differ by a reciprocal-lattice
+ * vector (2 k_fractional integral), interior otherwise; without k_fractional
+ * (a k-table) only gamma is recognised. */
+static void extremum_site(JsonObject *v, const double k[3], ParsedValley *p)
+{
+    double kf[3];
+    gboolean has_frac = JSON_NODE_HOLDS_ARRAY(json_object_get_member(v, "k_fractional"))
+                     && bm_json_vec3(v, "k_fractional", NULL, kf, NULL);
+    double kn = sqrt(k[0] * k[0] + k[1] * k[1] + k[2] * k[2]);
+    p->site_known = TRUE;
+    if (kn < 1e-6) {
+        p->site = BM_SITE_GAMMA;
+        return;
+    }
+    p->site = BM_SITE_INTERIOR;
+    if (!has_frac) {
+        p->site_known = FALSE;
+        return;
+    }
+    gboolean half = TRUE;
+    for (int i = 0; i < 3; i++)
+        half = half && fabs(2.0 * kf[i] - nearbyint(2.0 * kf[i])) < 1e-6;
+    if (half)
+        p->site = BM_SITE_FACE;
+}
+
+/* An extremum of mass-tensor: a minimum is an electron valley, a maximum a hole
+ * valley; saddles, line cuts, sheets and divergent masses are refused. */
+static gboolean parse_extremum(JsonObject *v, const char *where, gboolean list_entry,
+                               ParsedValley *p, bm_warnings *warn, GError **error)
 {
     bm_errbuf err = {0};
+    if (!bm_json_only_keys(v, list_entry ? extremum_entry_keys : extremum_keys, where, error))
+        return FALSE;
+    JsonNode *kn = json_object_get_member(v, "kind");
+    const char *kind = kn && JSON_NODE_HOLDS_VALUE(kn)
+                    && json_node_get_value_type(kn) == G_TYPE_STRING
+                     ? json_node_get_string(kn) : NULL;
+    if (!kind || (strcmp(kind, "minimum") && strcmp(kind, "maximum"))) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "%s: an extremum of mass-tensor must have \"kind\" minimum or maximum "
+                    "(got %s%s%s)%s", where, kind ? "\"" : "", kind ? kind : "none",
+                    kind ? "\"" : "",
+                    kind && !strcmp(kind, "saddle")
+                    ? ": a saddle point (masses of both signs) is not a valley" : "");
+        return FALSE;
+    }
+    JsonNode *dn = json_object_get_member(v, "dims");
+    if (dn && JSON_NODE_HOLDS_VALUE(dn) && json_node_get_value_type(dn) == G_TYPE_INT64
+        && json_node_get_int(dn) != 3) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "%s: the extremum was found in %d dimension(s) (a line cut or a sheet); "
+                    "a valley average needs all three principal masses", where,
+                    (int)json_node_get_int(dn));
+        return FALSE;
+    }
+    JsonNode *mn = json_object_get_member(v, "principal_masses_me");
+    JsonArray *ma = mn && JSON_NODE_HOLDS_ARRAY(mn) ? json_node_get_array(mn) : NULL;
+    if (!ma || json_array_get_length(ma) != 3) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "%s: key \"principal_masses_me\" must hold 3 masses", where);
+        return FALSE;
+    }
+    for (guint i = 0; i < 3; i++) {
+        JsonNode *e = json_array_get_element(ma, i);
+        GType t = JSON_NODE_HOLDS_VALUE(e) ? json_node_get_value_type(e) : G_TYPE_INVALID;
+        if (t == G_TYPE_DOUBLE || t == G_TYPE_INT64) {
+            p->shape.masses[i] = json_node_get_double(e);
+            continue;
+        }
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "%s: principal_masses_me[%u] is %s: %s", where, i,
+                    t == G_TYPE_STRING ? "\"divergent\"" : "null",
+                    t == G_TYPE_STRING
+                    ? "a direction without a finite inertial mass (a conical or flat band) "
+                      "has no valley average"
+                    : "a direction the band data do not sample has no valley average");
+        return FALSE;
+    }
+    Carrier want = strcmp(kind, "minimum") ? CARRIER_HOLE : CARRIER_ELECTRON;
+    if (!signed_masses(p->shape.masses, 3, where, &p->carrier, error))
+        return FALSE;
+    if (p->carrier != want) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "%s: a %s must have %s masses", where, kind,
+                    want == CARRIER_HOLE ? "negative" : "positive");
+        return FALSE;
+    }
+    if (!bm_json_mat3(v, "principal_axes", where, p->shape.axes, error)
+        || !bm_json_vec3(v, "k_inv_angstrom", where, p->dir, error))
+        return FALSE;
+    if (bm_valley_shape_normalise(&p->shape, warn, &err) != BM_OK) {
+        bm_error_from_core(error, &err, where);
+        return FALSE;
+    }
+    extremum_site(v, p->dir, p);
+    p->has_dir = p->site != BM_SITE_GAMMA;
+    return TRUE;
+}
+
+/* Reads a valley: the spheroid or general form, or an extremum of mass-tensor. */
+static gboolean parse_valley(JsonObject *v, const char *where, gboolean list_entry,
+                             ParsedValley *p, bm_warnings *warn, GError **error)
+{
+    bm_errbuf err = {0};
+    memset(p, 0, sizeof *p);
+    if (is_extremum(v))
+        return parse_extremum(v, where, list_entry, p, warn, error);
     if (!bm_json_only_keys(v, list_entry ? list_entry_keys : valley_keys, where, error))
         return FALSE;
     gboolean spheroid = json_object_has_member(v, "longitudinal_mass_me")
@@ -61,22 +223,22 @@ static gboolean parse_valley(JsonObject *v, const char *where, gboolean list_ent
     if (spheroid == general) {
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
                     "%s: give either longitudinal_mass_me, transverse_mass_me and axis, "
-                    "or principal_masses_me and axes", where);
+                    "or principal_masses_me and axes (or an extremum of mass-tensor)", where);
         return FALSE;
     }
-    *has_dir = FALSE;
     if (spheroid) {
-        double ml, mt, ax[3];
-        if (!bm_json_number(v, "longitudinal_mass_me", where, &ml, error)
-            || !bm_json_number(v, "transverse_mass_me", where, &mt, error)
-            || !bm_json_vec3(v, "axis", where, ax, error))
+        double m[2], ax[3];
+        if (!bm_json_number(v, "longitudinal_mass_me", where, &m[0], error)
+            || !bm_json_number(v, "transverse_mass_me", where, &m[1], error)
+            || !bm_json_vec3(v, "axis", where, ax, error)
+            || !signed_masses(m, 2, where, &p->carrier, error))
             return FALSE;
-        if (bm_valley_shape_spheroid(ml, mt, ax, shape, &err) != BM_OK) {
+        if (bm_valley_shape_spheroid(m[0], m[1], ax, &p->shape, &err) != BM_OK) {
             bm_error_from_core(error, &err, where);
             return FALSE;
         }
-        memcpy(dir, ax, sizeof ax);
-        *has_dir = TRUE;
+        memcpy(p->dir, ax, sizeof ax);
+        p->has_dir = TRUE;
     } else {
         gsize n = 0;
         g_autofree double *m = bm_json_numbers(v, "principal_masses_me", where, &n, error);
@@ -88,18 +250,19 @@ static gboolean parse_valley(JsonObject *v, const char *where, gboolean list_ent
                         where, (size_t)n);
             return FALSE;
         }
-        if (!bm_json_mat3(v, "axes", where, shape->axes, error))
+        if (!signed_masses(m, 3, where, &p->carrier, error)
+            || !bm_json_mat3(v, "axes", where, p->shape.axes, error))
             return FALSE;
-        memcpy(shape->masses, m, sizeof shape->masses);
-        if (bm_valley_shape_normalise(shape, warn, &err) != BM_OK) {
+        memcpy(p->shape.masses, m, sizeof p->shape.masses);
+        if (bm_valley_shape_normalise(&p->shape, warn, &err) != BM_OK) {
             bm_error_from_core(error, &err, where);
             return FALSE;
         }
     }
     if (json_object_has_member(v, "direction")) {
-        if (!bm_json_vec3(v, "direction", where, dir, error))
+        if (!bm_json_vec3(v, "direction", where, p->dir, error))
             return FALSE;
-        *has_dir = TRUE;
+        p->has_dir = TRUE;
     }
     return TRUE;
 }
@@ -112,9 +275,12 @@ typedef struct {
     bm_valley_star *star;        /* owned when a star was built */
     const char *group_name;      /* star only */
     const char *site_name;
+    const char *site_from;       /* how the position was chosen (star only) */
     BmMaterialInput mat;         /* material path only */
     gboolean has_mat;
+    Carrier carrier;             /* one kind for all valleys */
     bm_warnings pw;              /* parsing warnings */
+    GPtrArray *carried;          /* warnings of extrema given as valleys */
 } ValleySet;
 
 static void valley_set_clear(ValleySet *s)
@@ -125,6 +291,36 @@ static void valley_set_clear(ValleySet *s)
         g_free(s->valleys);
     if (s->has_mat)
         bm_material_input_clear(&s->mat);
+    g_clear_pointer(&s->carried, g_ptr_array_unref);
+}
+
+/* Records p's carriers (all valleys must agree) and, for an extremum, the
+ * warnings it came with, so they stay beside the numbers made from it. */
+static gboolean adopt(ValleySet *s, const ParsedValley *p, JsonObject *v, const char *where,
+                      GError **error)
+{
+    if (s->carrier != CARRIER_UNKNOWN && s->carrier != p->carrier) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "%s: a %s valley among %s valleys (negative masses mean holes): "
+                    "average electron and hole valleys separately", where,
+                    carrier_name(p->carrier), carrier_name(s->carrier));
+        return FALSE;
+    }
+    s->carrier = p->carrier;
+    JsonNode *wn = json_object_get_member(v, "warnings");
+    if (!is_extremum(v) || !wn || !JSON_NODE_HOLDS_ARRAY(wn))
+        return TRUE;
+    JsonArray *wa = json_node_get_array(wn);
+    for (guint i = 0; i < json_array_get_length(wa); i++) {
+        JsonNode *e = json_array_get_element(wa, i);
+        if (!JSON_NODE_HOLDS_VALUE(e) || json_node_get_value_type(e) != G_TYPE_STRING)
+            continue;
+        if (!s->carried)
+            s->carried = g_ptr_array_new_with_free_func(g_free);
+        g_ptr_array_add(s->carried, g_strdup_printf("%s (from mass-tensor): %s", where,
+                                                    json_node_get_string(e)));
+    }
+    return TRUE;
 }
 
 /* The star of one valley under the named point group; group_where and where
@@ -152,6 +348,26 @@ static gboolean build_star(ValleySet *s, const bm_valley_shape *shape, bm_valley
     return TRUE;
 }
 
+/* "valley" may be a whole mass-tensor response holding a single extremum. */
+static JsonObject *single_valley(JsonObject *request, GError **error)
+{
+    JsonObject *v = json_object_get_object_member(request, "valley");
+    JsonNode *en = json_object_get_member(v, "extrema");
+    if (!en)
+        return v;
+    JsonArray *ea = JSON_NODE_HOLDS_ARRAY(en) ? json_node_get_array(en) : NULL;
+    guint n = ea ? json_array_get_length(ea) : 0;
+    JsonNode *first = n ? json_array_get_element(ea, 0) : NULL;
+    if (n != 1 || !JSON_NODE_HOLDS_OBJECT(first)) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "valley: a mass-tensor response given as the valley must hold exactly one "
+                    "extremum (it holds %u): pass one element of its \"extrema\", or run "
+                    "mass-tensor with \"extremum\": \"minimum\" or \"maximum\"", n);
+        return NULL;
+    }
+    return json_node_get_object(first);
+}
+
 /* "valley" + "point_group" + "position". */
 static gboolean from_valley(JsonObject *request, ValleySet *s, GError **error)
 {
@@ -161,26 +377,31 @@ static gboolean from_valley(JsonObject *request, ValleySet *s, GError **error)
                     "request: \"valley\" needs \"point_group\" (e.g. \"Oh\")");
         return FALSE;
     }
-    const char *site_name = json_object_has_member(request, "position")
-        ? json_object_get_string_member(request, "position") : "interior";
-    bm_valley_site site;
-    if (bm_valley_site_parse(site_name, &site, &err) != BM_OK) {
-        bm_error_from_core(error, &err, "request: key \"position\"");
+    JsonObject *v = single_valley(request, error);
+    ParsedValley p;
+    if (!v || !parse_valley(v, "valley", FALSE, &p, &s->pw, error) || !adopt(s, &p, v, "valley", error))
         return FALSE;
+    bm_valley_site site = BM_SITE_INTERIOR;
+    s->site_from = "default";
+    if (json_object_has_member(request, "position")) {
+        if (bm_valley_site_parse(json_object_get_string_member(request, "position"), &site,
+                                 &err) != BM_OK) {
+            bm_error_from_core(error, &err, "request: key \"position\"");
+            return FALSE;
+        }
+        s->site_from = "request";
+    } else if (p.site_known) {
+        site = p.site;
+        s->site_from = "the extremum's k (gamma at k = 0, face where 2 k_fractional is a "
+                       "reciprocal-lattice vector)";
     }
-    bm_valley_shape shape;
-    double dir[3];
-    gboolean has_dir;
-    if (!parse_valley(json_object_get_object_member(request, "valley"), "valley", FALSE,
-                      &shape, dir, &has_dir, &s->pw, error))
-        return FALSE;
-    if (site != BM_SITE_GAMMA && !has_dir) {
+    if (site != BM_SITE_GAMMA && !p.has_dir) {
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "valley: a general valley at position \"%s\" needs \"direction\"",
-                    site_name);
+                    "valley: a valley at position \"%s\" needs a direction (\"direction\", "
+                    "or k away from Gamma)", bm_valley_site_name(site));
         return FALSE;
     }
-    return build_star(s, &shape, site, dir,
+    return build_star(s, &p.shape, site, p.dir,
                       json_object_get_string_member(request, "point_group"),
                       "request: key \"point_group\"", "valley", error);
 }
@@ -237,14 +458,13 @@ static gboolean from_list(JsonObject *request, ValleySet *s, GError **error)
             return FALSE;
         }
         JsonObject *v = json_node_get_object(node);
-        bm_valley_shape shape;
-        double dir[3] = {0, 0, 0}, off = 0.0, w = 1.0;
-        gboolean has_dir;
-        if (!parse_valley(v, where, TRUE, &shape, dir, &has_dir, &s->pw, error)
+        ParsedValley p;
+        double off = 0.0, w = 1.0;
+        if (!parse_valley(v, where, TRUE, &p, &s->pw, error) || !adopt(s, &p, v, where, error)
             || !bm_json_number_opt(v, "energy_offset_ev", where, &off, error)
             || !bm_json_number_opt(v, "weight", where, &w, error))
             return FALSE;
-        if (bm_valley_from_shape(&shape, has_dir ? dir : NULL, w, off, &s->valleys[i], &err)
+        if (bm_valley_from_shape(&p.shape, p.has_dir ? p.dir : NULL, w, off, &s->valleys[i], &err)
             != BM_OK) {
             bm_error_from_core(error, &err, where);
             return FALSE;
@@ -335,9 +555,18 @@ static JsonObject *respond(const ValleySet *s, const bm_population *pop, gboolea
     if (s->group_name) {
         json_object_set_string_member(resp, "point_group", s->group_name);
         json_object_set_string_member(resp, "position", s->site_name);
+        if (s->site_from)
+            json_object_set_string_member(resp, "position_from", s->site_from);
     }
+    json_object_set_string_member(resp, "carrier", carrier_name(s->carrier));
+    if (s->carrier == CARRIER_HOLE)
+        json_object_set_string_member(resp, "carrier_note",
+                                      "negative inertial masses (a band maximum): a hole "
+                                      "valley, averaged with the hole masses |m|");
     json_object_set_array_member(resp, "valleys", valleys_json(s));
     bm_json_warn_all(resp, &s->pw);
+    for (guint i = 0; s->carried && i < s->carried->len; i++)
+        bm_json_warn(resp, "%s", (const char *)g_ptr_array_index(s->carried, i));
     if (s->star)
         bm_json_warn_all(resp, &s->star->warnings);
     bm_json_warn_all(resp, &avg->warnings);
@@ -400,6 +629,9 @@ static void render(JsonObject *response, GString *out)
                                json_object_get_string_member(response, "material"),
                                json_object_get_string_member(response, "point_group"),
                                json_object_get_string_member(response, "position"));
+    if (json_object_has_member(response, "carrier_note"))
+        g_string_append_printf(out, "carrier                 hole (%s)\n",
+                               json_object_get_string_member(response, "carrier_note"));
     g_string_append_printf(out, "valleys                 %g\n",
                            json_object_get_double_member(response, "valley_count"));
     g_string_append_printf(out, "DOS mass                %.6g m_e\n",
