@@ -7,6 +7,7 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "bm-bandfit.h"
 #include "bm-linalg.h"
 #include "bm-quadric.h"
 #include "bm-spectral.h"
@@ -24,6 +25,12 @@
  * the sampled directions below this flags a conical point. */
 #define CONE_RATIO 2.5
 #define NEWTON_MAX_ITER 50
+#define DEFAULT_CONVERGENCE_TOL 0.02
+/* A neighbouring band closer than this part of the band's own energy range
+ * near the extremum counts as crossing it: sorted bands have kinks there,
+ * and an interpolant of the band alone rings at them. */
+#define CROSSING_GAP_REL 0.25
+#define PARTNER_RADIUS_STEPS 3.5
 
 static const char *kind_name(bm_extremum_kind k)
 {
@@ -31,6 +38,19 @@ static const char *kind_name(bm_extremum_kind k)
 }
 
 /* ---------------------------------------------------------------- tensor */
+
+/* A cleared result: no partner band, errors not assessed. */
+static void tensor_init(bm_mass_tensor *t, int dims, bm_tensor_method method)
+{
+    memset(t, 0, sizeof *t);
+    t->dims = dims;
+    t->method = method;
+    t->partner_band = -1;
+    t->k_error = NAN;
+    t->converged = -1;
+    for (int m = 0; m < 3; m++)
+        t->mass_errors[m] = NAN;
+}
 
 /* Fills inv_mass, masses, axes, kind and divergent from the Cartesian Hessian
  * hk (eV A^2) restricted to the span of the first dims rows of the orthonormal
@@ -140,10 +160,11 @@ static void nonparabolic_check(bm_mass_tensor *t, const bm_quadric *q, double sp
 }
 
 static int check_options(const bm_fit_options *opt, bm_search which, const double *k_at,
-                         double *radius, double *degen, bm_errbuf *err)
+                         double *radius, double *degen, double *conv, bm_errbuf *err)
 {
     *radius = 0.0;
     *degen = DEFAULT_DEGENERACY_TOL_EV;
+    *conv = DEFAULT_CONVERGENCE_TOL;
     if (which != BM_SEARCH_MINIMUM && which != BM_SEARCH_MAXIMUM && which != BM_SEARCH_ALL)
         return bm_fail(err, BM_EINVAL, "search mode %d is not one of minimum, maximum, all", (int)which);
     if (opt) {
@@ -153,9 +174,14 @@ static int check_options(const bm_fit_options *opt, bm_search which, const doubl
         if (!isfinite(opt->degeneracy_tol_ev) || opt->degeneracy_tol_ev < 0.0)
             return bm_fail(err, BM_EINVAL, "degeneracy tolerance %g eV must be finite and >= 0 (0: 1 meV)",
                            opt->degeneracy_tol_ev);
+        if (!isfinite(opt->convergence_tol) || opt->convergence_tol < 0.0)
+            return bm_fail(err, BM_EINVAL, "convergence tolerance %g must be finite and >= 0 "
+                           "(0: 0.02)", opt->convergence_tol);
         *radius = opt->fit_radius_inv_angstrom;
         if (opt->degeneracy_tol_ev > 0.0)
             *degen = opt->degeneracy_tol_ev;
+        if (opt->convergence_tol > 0.0)
+            *conv = opt->convergence_tol;
     }
     if (k_at)
         for (int c = 0; c < 3; c++)
@@ -247,6 +273,7 @@ typedef struct {
     double p[3][3];      /* orthonormal basis: sampled directions first */
     double radius;       /* fit radius, 0 automatic */
     double degen;
+    double conv;         /* convergence tolerance, relative */
     bm_interp *ip;
 } grid_ctx;
 
@@ -362,14 +389,202 @@ static int grid_cone(grid_ctx *c, const double f[3], double e0, double *ratio, d
     return *ratio < CONE_RATIO;
 }
 
+/* The mass along the unit axis a of the Cartesian Hessian h (eV A^2). */
+static double axis_mass(double h[3][3], const double a[3])
+{
+    double c = 0.0;
+    for (int i = 0; i < 3; i++)
+        for (int j = 0; j < 3; j++)
+            c += a[i] * h[i][j] * a[j];
+    return BM_HBAR2_OVER_ME_EV_A2 / c;
+}
+
+/* +1 when every sampled curvature of h is positive, -1 when every one is
+ * negative, 0 for mixed signs. */
+static int curvature_sign(double h[3][3], double p[3][3], int dims)
+{
+    double hp[3][3] = { { 0 } }, ev[3], vec[3][3];
+    for (int a = 0; a < dims; a++)
+        for (int b = 0; b < dims; b++)
+            for (int i = 0; i < 3; i++)
+                for (int j = 0; j < 3; j++)
+                    hp[a][b] += p[a][i] * h[i][j] * p[b][j];
+    if (bm_symeig(hp, dims, ev, vec) != 0)
+        return 0;
+    int pos = 0, neg = 0;
+    for (int a = 0; a < dims; a++) {
+        pos += ev[a] > 0.0;
+        neg += ev[a] < 0.0;
+    }
+    return pos == dims ? 1 : neg == dims ? -1 : 0;
+}
+
+/* Errors of t from independent estimates: the local fits that held, beside
+ * t's own tensor (kc: t's unwrapped Cartesian point).  A mass's error is the
+ * spread (largest minus smallest) of its value along t's axis over all of
+ * them; converged when every error is within the tolerance, at least two
+ * estimates exist and all agree on the kind. */
+static void assess(grid_ctx *c, const bm_bandfit *fits, int nfits, const double kc[3],
+                   bm_mass_tensor *t)
+{
+    double lo[3], hi[3];
+    for (int m = 0; m < t->dims; m++)
+        lo[m] = hi[m] = t->masses[m];
+    int want = t->kind == BM_EXTREMUM_MINIMUM ? 1 : t->kind == BM_EXTREMUM_MAXIMUM ? -1 : 0;
+    int agree = 0, held = 0;
+    t->k_error = 0.0;
+    for (int f = 0; f < nfits; f++) {
+        if (!fits[f].ok)
+            continue;
+        held++;
+        double h[3][3], dk[3];
+        memcpy(h, fits[f].hessian, sizeof h);
+        agree += curvature_sign(h, c->p, c->dims) == want;
+        for (int m = 0; m < t->dims; m++) {
+            double mm = axis_mass(h, t->axes[m]);
+            lo[m] = fmin(lo[m], mm);
+            hi[m] = fmax(hi[m], mm);
+        }
+        for (int i = 0; i < 3; i++)
+            dk[i] = fits[f].k[i] - kc[i];
+        t->k_error = fmax(t->k_error, bm_norm3(dk));
+    }
+    t->nfits = held + (t->method == BM_METHOD_INTERPOLANT);
+    if (t->nfits < 2 || t->divergent) {
+        t->converged = 0;
+        t->k_error = NAN;
+        bm_warn(&t->warnings, "no error estimate: %s; a finer mesh or DFT energies at a "
+                "refinement stencil around this point would give one",
+                t->divergent ? "the mass is divergent here"
+                : "too few mesh points near this point for independent local fits");
+        return;
+    }
+    int ok = want != 0 && agree == held;
+    double worst = 0.0;
+    for (int m = 0; m < t->dims; m++) {
+        t->mass_errors[m] = hi[m] - lo[m];
+        if (!isfinite(t->mass_errors[m]) || !isfinite(t->masses[m])) {
+            t->mass_errors[m] = NAN;
+            ok = 0;
+            continue;
+        }
+        double rel = t->mass_errors[m] / fabs(t->masses[m]);
+        worst = fmax(worst, rel);
+        if (rel > c->conv)
+            ok = 0;
+    }
+    t->converged = ok;
+    if (want != 0 && agree != held)
+        bm_warn(&t->warnings, "the kind of this point is not certain: %d of %d independent "
+                "local fits give a %s, the others do not (ringing or a nearby feature); a "
+                "finer mesh or a refinement stencil would settle it", agree, held,
+                kind_name(t->kind));
+    else if (!ok)
+        bm_warn(&t->warnings, "masses not converged: the estimated error reaches %.1f%% of "
+                "a mass (tolerance %.1f%%); a finer mesh, or DFT energies at a refinement "
+                "stencil around this point fitted as a k-table, would converge them",
+                100.0 * worst, 100.0 * c->conv);
+}
+
+/* Fractional coordinates of the Cartesian k. */
+static void to_fractional(grid_ctx *c, const double k[3], double f[3])
+{
+    for (int a = 0; a < 3; a++)
+        f[a] = k[0] * c->binv[0][a] + k[1] * c->binv[1][a] + k[2] * c->binv[2][a];
+    if (c->dims == 2)
+        f[2] = 0.0;
+}
+
+static void set_position(grid_ctx *c, const double f[3], bm_mass_tensor *t)
+{
+    for (int a = 0; a < 3; a++) {
+        /* wrap into [0, 1); a value a rounding error below 1 is the point 0 */
+        double w = f[a] - floor(f[a]);
+        t->k_frac[a] = 1.0 - w < 1e-9 ? 0.0 : w;
+    }
+    for (int i = 0; i < 3; i++)
+        t->k[i] = t->k_frac[0] * c->b[0][i] + t->k_frac[1] * c->b[1][i] + t->k_frac[2] * c->b[2][i];
+}
+
+/* Across a crossing: the mean of the local fits of the band and its partner. */
+static int crossing_analyse(grid_ctx *c, const bm_bandfit *fits, int partner,
+                            bm_extremum_kind hint, bm_mass_tensor *t)
+{
+    double k[3] = { 0, 0, 0 }, h[3][3] = { { 0 } }, e = 0.0, gap = 0.0;
+    int held = 0;
+    for (int f = 0; f < BM_BANDFIT_NSETTINGS; f++) {
+        if (!fits[f].ok)
+            continue;
+        held++;
+        e += fits[f].energy_ev;
+        gap += fits[f].gap_ev;
+        for (int i = 0; i < 3; i++) {
+            k[i] += fits[f].k[i];
+            for (int j = 0; j < 3; j++)
+                h[i][j] += fits[f].hessian[i][j];
+        }
+    }
+    for (int i = 0; i < 3; i++) {
+        k[i] /= held;
+        for (int j = 0; j < 3; j++)
+            h[i][j] /= held;
+    }
+    e /= held;
+    gap /= held;
+    t->method = BM_METHOD_CROSSING_FIT;
+    t->partner_band = partner;
+    double f[3];
+    to_fractional(c, k, f);
+    set_position(c, f, t);
+    t->energy_ev = e;
+    if (finish_tensor(t, h, c->p, c->dims, hint) != 0)
+        return -1;
+    assess(c, fits, BM_BANDFIT_NSETTINGS, k, t);
+    grid_fit(c, f, k, e, t);
+    range_warnings(t);
+    if (gap <= c->degen)
+        bm_warn(&t->warnings, "band %d lies %.3g meV from band %zu at this %s (E = %.6f eV; "
+                "tolerance %.3g meV): the bands are degenerate here and the mass tensor is ill-defined",
+                partner, 1e3 * gap, c->band, kind_name(t->kind), e, 1e3 * c->degen);
+    return 0;
+}
+
 static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
                         bm_extremum_kind hint, bm_mass_tensor *t)
 {
-    memset(t, 0, sizeof *t);
-    t->dims = c->dims;
+    tensor_init(t, c->dims, BM_METHOD_INTERPOLANT);
     const size_t *n = c->g->mesh;
     double f[3] = { f_start[0], f_start[1], f_start[2] };
     double e, gf[3], hf[3][3];
+    /* Independent local fits around the start point: across a crossing with a
+     * neighbouring band they give the tensor, elsewhere its error estimate. */
+    bm_bandfit fits[BM_BANDFIT_NSETTINGS];
+    int nfits = 0;
+    if (refine) {
+        double kstart[3], gap, span;
+        for (int i = 0; i < 3; i++)
+            kstart[i] = f[0] * c->b[0][i] + f[1] * c->b[1][i] + f[2] * c->b[2][i];
+        int partner = bm_bandfit_partner(c->g, c->band, f, kstart,
+                                         PARTNER_RADIUS_STEPS * bm_bandfit_step(c->g),
+                                         &gap, &span);
+        if (partner >= 0 && !(gap < CROSSING_GAP_REL * span))
+            partner = -1;
+        for (int pass = 0; pass < 2; pass++) {
+            int held = 0;
+            for (int s = 0; s < BM_BANDFIT_NSETTINGS; s++) {
+                if (bm_bandfit_run(c->g, c->band, partner, f, kstart, c->dims, c->p,
+                                   &bm_bandfit_settings[s], &fits[s]) != 0)
+                    return -1;
+                held += fits[s].ok;
+            }
+            nfits = BM_BANDFIT_NSETTINGS;
+            if (partner >= 0 && held >= 2)
+                return crossing_analyse(c, fits, partner, hint, t);
+            if (partner < 0)
+                break;
+            partner = -1;   /* the pair closes (a degenerate or conical point): the band alone */
+        }
+    }
     if (refine) {
         int converged = 0, flat = 0;
         double last = 0.0;
@@ -420,14 +635,12 @@ static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
         gf[2] = 0.0;
         hf[2][2] = hf[0][2] = hf[2][0] = hf[1][2] = hf[2][1] = 0.0;
     }
-    for (int a = 0; a < 3; a++) {
-        /* wrap into [0, 1); a value a rounding error below 1 is the point 0 */
-        double w = f[a] - floor(f[a]);
-        t->k_frac[a] = 1.0 - w < 1e-9 ? 0.0 : w;
-    }
-    for (int i = 0; i < 3; i++)
-        t->k[i] = t->k_frac[0] * c->b[0][i] + t->k_frac[1] * c->b[1][i] + t->k_frac[2] * c->b[2][i];
+    set_position(c, f, t);
     t->energy_ev = e;
+    /* the unwrapped Cartesian point: the local fits see the mesh around f */
+    double kf[3];
+    for (int i = 0; i < 3; i++)
+        kf[i] = f[0] * c->b[0][i] + f[1] * c->b[1][i] + f[2] * c->b[2][i];
     /* Cartesian: g_k = B^-1 g_f, H_k = B^-1 H_f B^-T */
     double hk[3][3], tmp[3][3], binvt[3][3], gk[3];
     bm_matmul3(c->binv, hf, tmp);
@@ -440,12 +653,14 @@ static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
     if (!refine && bm_norm3(gk) > 1e-6)
         bm_warn(&t->warnings, "|dE/dk| = %.3g eV Angstrom at the given point: not a stationary "
                 "point, the tensor is the local curvature there", bm_norm3(gk));
-    grid_fit(c, f, t->k, e, t);
+    grid_fit(c, f, kf, e, t);
     double ratio, slope;
     if (grid_cone(c, f, e, &ratio, &slope))
         mark_conical(t, ratio, slope);
     else
         range_warnings(t);
+    if (nfits)
+        assess(c, fits, nfits, kf, t);
     for (size_t b = 0; b < c->g->nbands; b++) {
         if (b == c->band)
             continue;
@@ -595,7 +810,7 @@ bm_status bm_grid_mass_tensors(const bm_grid *g, size_t band, bm_search which,
                        band, g->nbands, g->nbands == 1 ? "" : "s", g->nbands - 1);
     grid_ctx c;
     memset(&c, 0, sizeof c);
-    if ((s = check_options(opt, which, k_at, &c.radius, &c.degen, err)) != BM_OK)
+    if ((s = check_options(opt, which, k_at, &c.radius, &c.degen, &c.conv, err)) != BM_OK)
         return s;
     if ((s = band_finite(g, band, err)) != BM_OK)
         return s;
@@ -796,8 +1011,7 @@ static double quad_norm(const bm_quadric *q)
 static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
                                bm_extremum_kind hint, bm_mass_tensor *t, bm_errbuf *err)
 {
-    memset(t, 0, sizeof *t);
-    t->dims = c->dims;
+    tensor_init(t, c->dims, BM_METHOD_TABLE_FIT);
     double centre[3] = { start[0], start[1], start[2] };
     bm_quadric q;
     double dmax, span;
@@ -927,7 +1141,8 @@ bm_status bm_ktable_mass_tensors(const bm_ktable *t, size_t band, bm_search whic
                        band, t->nbands, t->nbands == 1 ? "" : "s", t->nbands - 1);
     table_ctx c;
     memset(&c, 0, sizeof c);
-    bm_status s = check_options(opt, which, k_at, &c.radius, &c.degen, err);
+    double conv_unused;
+    bm_status s = check_options(opt, which, k_at, &c.radius, &c.degen, &conv_unused, err);
     if (s != BM_OK)
         return s;
     size_t np = t->npoints;

@@ -21,7 +21,15 @@ typedef enum {
 typedef struct {
     double fit_radius_inv_angstrom;  /* 0: automatic */
     double degeneracy_tol_ev;        /* 0: default (1 meV) */
+    double convergence_tol;          /* relative error a converged mass may have; 0: 0.02 */
 } bm_fit_options;
+
+/* How a grid tensor was obtained. */
+typedef enum {
+    BM_METHOD_INTERPOLANT,     /* Fourier / local-stencil interpolant of the band */
+    BM_METHOD_CROSSING_FIT,    /* local fits of the band and its crossing partner */
+    BM_METHOD_TABLE_FIT        /* quadric fit of scattered points */
+} bm_tensor_method;
 
 typedef struct {
     bm_extremum_kind kind;
@@ -37,6 +45,14 @@ typedef struct {
     double axes[3][3];        /* rows: unit principal axes, Cartesian, order of masses */
     double fit_rms_ev;        /* residual of the local quadratic fit */
     int divergent;            /* conical or flat: no finite inertial mass */
+    bm_tensor_method method;
+    int partner_band;         /* band fitted together with this one across a crossing, or -1 */
+    double mass_errors[3];    /* estimated error of each principal mass, m_e: the spread of
+                                 independent local fits (NAN where not assessed) */
+    double k_error;           /* estimated error of k, 1/Angstrom (NAN: not assessed) */
+    int nfits;                /* independent estimates behind the errors */
+    int converged;            /* 1: every error within the tolerance and the estimates agree
+                                 on the kind; 0: not; -1: not assessed */
     bm_warnings warnings;
 } bm_mass_tensor;
 

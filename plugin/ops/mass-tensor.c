@@ -45,6 +45,8 @@ static const BmParam params[] = {
       "radius of the local quadratic fit, 1/Angstrom (0: automatic)" },
     { "degeneracy_tolerance_ev", BM_VALUE_NUMBER, FALSE, "0.001",
       "energy within which another band counts as degenerate, eV" },
+    { "convergence_tolerance", BM_VALUE_NUMBER, FALSE, "0.02",
+      "relative error a converged mass may have (estimated from independent local fits)" },
     { NULL, 0, FALSE, NULL, NULL }
 };
 
@@ -75,6 +77,16 @@ static JsonArray *masses_array(const bm_mass_tensor *t)
     return a;
 }
 
+static const char *method_text(bm_tensor_method m)
+{
+    switch (m) {
+    case BM_METHOD_INTERPOLANT:   return "interpolant";
+    case BM_METHOD_CROSSING_FIT:  return "crossing-aware local fit";
+    case BM_METHOD_TABLE_FIT:     return "table fit";
+    }
+    return "unknown";
+}
+
 static JsonObject *tensor_object(const bm_mass_tensor *t, gboolean fractional)
 {
     JsonObject *o = json_object_new();
@@ -91,6 +103,23 @@ static JsonObject *tensor_object(const bm_mass_tensor *t, gboolean fractional)
     bm_json_set_mat3(o, "inverse_mass_tensor_per_me", t->inv_mass);
     bm_json_set_number(o, "fit_rms_ev", t->fit_rms_ev);
     json_object_set_boolean_member(o, "divergent", t->divergent != 0);
+    json_object_set_string_member(o, "method", method_text(t->method));
+    if (t->partner_band >= 0)
+        json_object_set_int_member(o, "crossing_partner_band", t->partner_band);
+    else
+        json_object_set_null_member(o, "crossing_partner_band");
+    JsonArray *err = json_array_new();
+    for (int m = 0; m < 3; m++)
+        if (m < t->dims && isfinite(t->mass_errors[m]))
+            json_array_add_double_element(err, t->mass_errors[m]);
+        else
+            json_array_add_null_element(err);
+    json_object_set_array_member(o, "principal_masses_error_me", err);
+    bm_json_set_number(o, "k_error_inv_angstrom", t->k_error);
+    if (t->converged < 0)
+        json_object_set_null_member(o, "converged");
+    else
+        json_object_set_boolean_member(o, "converged", t->converged != 0);
     bm_json_warn_all(o, &t->warnings);
     return o;
 }
@@ -129,9 +158,10 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     bm_search which;
     if (!parse_search(request, &which, error))
         return NULL;
-    bm_fit_options opt = { 0.0, 0.0 };
+    bm_fit_options opt = { 0.0, 0.0, 0.0 };
     if (!bm_json_number(request, "fit_radius_inv_angstrom", NULL,
                         &opt.fit_radius_inv_angstrom, error) ||
+        !bm_json_positive(request, "convergence_tolerance", NULL, &opt.convergence_tol, error) ||
         !bm_json_number(request, "degeneracy_tolerance_ev", NULL, &opt.degeneracy_tol_ev, error))
         return NULL;
     if (opt.fit_radius_inv_angstrom < 0.0) {
