@@ -41,7 +41,8 @@ static void test_germanium(void)
  * in-plane conductivity mass lies between m_t and the unstrained value. */
 static void test_strained(void)
 {
-    GString *req = g_string_new("{\"temperature_k\": 300, \"valleys\": [");
+    GString *req = g_string_new("{\"temperature_k\": 300, \"statistics\": \"boltzmann\","
+                                " \"valleys\": [");
     const char *ax[6] = {"[1,0,0]", "[-1,0,0]", "[0,1,0]", "[0,-1,0]", "[0,0,1]", "[0,0,-1]"};
     for (int i = 0; i < 6; i++)
         g_string_append_printf(req, "%s{\"longitudinal_mass_me\": 0.98, \"transverse_mass_me\": "
@@ -116,10 +117,20 @@ static void test_bad_input(void)
                    "{\"valleys\": [{\"principal_masses_me\": [0.2, 0.3, 0.4],"
                    " \"axes\": [[1,0,0],[0,1,0],[0,0,1]], \"energy_offset_ev\": 0.1},"
                    " {\"principal_masses_me\": [0.2, 0.3, 0.4],"
-                   " \"axes\": [[1,0,0],[0,1,0],[0,0,1]]}], \"temperature_k\": 0}", "0 K");
+                   " \"axes\": [[1,0,0],[0,1,0],[0,0,1]]}], \"temperature_k\": 0,"
+                   " \"statistics\": \"boltzmann\"}", "0 K");
     op_expect_invalid("valley-average",
                    "{\"valleys\": [{\"principal_masses_me\": [0.2, 0.3, 0.4], \"colour\": 1,"
                    " \"axes\": [[1,0,0],[0,1,0],[0,0,1]]}]}", "colour");
+    /* the default statistics (fermi-dirac) need a Fermi level for thermal populations */
+    op_expect_invalid("valley-average",
+                   "{\"valleys\": [{\"principal_masses_me\": [0.2, 0.3, 0.4],"
+                   " \"axes\": [[1,0,0],[0,1,0],[0,0,1]]}], \"temperature_k\": 300}",
+                   "\"fermi_level_ev\"");
+    op_expect_invalid("valley-average",
+                   "{\"valleys\": [{\"principal_masses_me\": [0.2, 0.3, 0.4],"
+                   " \"axes\": [[1,0,0],[0,1,0],[0,0,1]]}], \"statistics\": \"maxwell\"}",
+                   "key \"statistics\" must be one of fermi-dirac, boltzmann");
     op_expect_invalid("hole-mass", "{}", "luttinger_parameters");
     op_expect_invalid("hole-mass", "{\"luttinger_parameters\": [1, 2]}", "3 numbers");
     op_expect_invalid("hole-mass", "{\"heavy_hole_mass_me\": -0.5, \"light_hole_mass_me\": 0.16}",
