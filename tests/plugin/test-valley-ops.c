@@ -134,7 +134,7 @@ static void test_bad_input(void)
     op_expect_invalid("hole-mass", "{}", "luttinger_parameters");
     op_expect_invalid("hole-mass", "{\"luttinger_parameters\": [1, 2]}", "3 numbers");
     op_expect_invalid("hole-mass", "{\"heavy_hole_mass_me\": -0.5, \"light_hole_mass_me\": 0.16}",
-                   "heavy-hole");
+                   "key \"heavy_hole_mass_me\" must be > 0 m_e");
 }
 
 /* The readable view shows the response's numbers, and "-" (never "nan") for
