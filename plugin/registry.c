@@ -359,7 +359,10 @@ JsonNode *bm_operation_describe(const BmOperation *op)
         json_builder_begin_object(b);
         json_builder_set_member_name(b, "name");
         json_builder_add_string_value(b, p->name);
+        g_autofree char *kinds_words = kinds_text(p->kinds);
         json_builder_set_member_name(b, "kinds");
+        json_builder_add_string_value(b, kinds_words);
+        json_builder_set_member_name(b, "kind_names");
         json_builder_begin_array(b);
         for (guint i = 0; kinds[i]; i++)
             json_builder_add_string_value(b, kinds[i]);

@@ -151,9 +151,10 @@ char *bm_param_range_text(const BmParam *p);
 const BmChoice **bm_param_choices(const BmParam *p);
 
 /* Description of one operation / all operations as JSON: name, summary,
- * params (name, kinds, required, default, summary, unit, minimum/maximum
- * {value, inclusive} or null, choices [{name, description}] or null) and
- * response ([{name, unit, optional, meaning}], "warnings" included). */
+ * params (name, kinds ("number or array"), kind_names (["number", "array"]),
+ * required, default, summary, unit, minimum/maximum {value, inclusive} or
+ * null, choices [{name, description}] or null) and response
+ * ([{name, unit, optional, meaning}], "warnings" last). */
 JsonNode *bm_operation_describe(const BmOperation *op);
 JsonNode *bm_registry_describe(void);
 

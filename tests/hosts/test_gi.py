@@ -89,10 +89,11 @@ class OperationList(unittest.TestCase):
             self.assertEqual(len(params), len(want['params']))
             for p, w in zip(params, want['params']):
                 self.assertEqual(p.get_name(), w['name'])
-                self.assertEqual(list(p.get_kinds()), w['kinds'])
+                self.assertEqual(list(p.get_kinds()), w['kind_names'])
+                self.assertEqual(' or '.join(p.get_kinds()), w['kinds'])
                 names = ['string', 'number', 'integer', 'boolean', 'array', 'object']
                 self.assertEqual([k for i, k in enumerate(names) if p.get_kind_flags() & (1 << i)],
-                                 w['kinds'])
+                                 w['kind_names'])
                 self.assertEqual(p.get_required(), w['required'])
                 d = p.get_default_json()
                 self.assertEqual(None if d is None else json.loads(d), w['default'])
