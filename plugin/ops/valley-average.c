@@ -288,8 +288,15 @@ static gboolean read_population(JsonObject *request, bm_population *pop, gboolea
     /* the registry checked "statistics" against the one statistics table */
     pop->statistics = (bm_statistics)bm_enum_value(request, "statistics", &bm_enum_statistics);
     *has_t = json_object_has_member(request, "temperature_k");
-    if (!*has_t)
+    if (!*has_t) {
+        if (json_object_has_member(request, "fermi_level_ev")) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                        "request: \"fermi_level_ev\" needs \"temperature_k\" (without a "
+                        "temperature every valley is populated alike)");
+            return FALSE;
+        }
         return TRUE;   /* equal populations: the statistics do not enter */
+    }
     pop->thermal = 1;
     if (!bm_json_number(request, "temperature_k", NULL, &pop->temperature_k, error))
         return FALSE;
