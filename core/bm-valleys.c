@@ -336,7 +336,7 @@ bm_status bm_valley_average_compute(bm_valley *valleys, size_t n, const bm_popul
     if (!out)
         return bm_fail(err, BM_EINVAL, "valley average: no output given");
     memset(out, 0, sizeof *out);
-    bm_population eq = {BM_POPULATION_EQUAL, 0.0, 0.0};
+    bm_population eq = {0, BM_FERMI_DIRAC, 0.0, 0.0};
     if (!pop)
         pop = &eq;
 
@@ -365,15 +365,16 @@ bm_status bm_valley_average_compute(bm_valley *valleys, size_t n, const bm_popul
     int offsets = emax > emin;
 
     double kt = 0.0;
-    switch (pop->kind) {
-    case BM_POPULATION_EQUAL:
+    int fermi = pop->thermal && pop->statistics == BM_FERMI_DIRAC;
+    if (!pop->thermal) {
         if (offsets)
             return bm_fail(err, BM_EINVAL,
                            "valley average: energy offsets span %g eV but equal populations "
                            "were asked for; give a temperature", emax - emin);
-        break;
-    case BM_POPULATION_BOLTZMANN:
-    case BM_POPULATION_FERMI:
+    } else {
+        if (pop->statistics != BM_BOLTZMANN && pop->statistics != BM_FERMI_DIRAC)
+            return bm_fail(err, BM_EINVAL, "valley average: unknown statistics %d",
+                           (int)pop->statistics);
         if (!isfinite(pop->temperature_k) || pop->temperature_k < 0.0)
             return bm_fail(err, BM_EINVAL, "valley average: temperature %g K is not valid",
                            pop->temperature_k);
@@ -381,18 +382,14 @@ bm_status bm_valley_average_compute(bm_valley *valleys, size_t n, const bm_popul
             return bm_fail(err, BM_EINVAL,
                            "valley average: temperature is 0 K but the energy offsets differ "
                            "(by up to %g eV); populations need T > 0", emax - emin);
-        if (pop->kind == BM_POPULATION_FERMI && !isfinite(pop->fermi_level_ev))
+        if (fermi && !isfinite(pop->fermi_level_ev))
             return bm_fail(err, BM_EINVAL, "valley average: Fermi level is not finite");
         kt = BM_KB_EV * pop->temperature_k;
-        break;
-    default:
-        return bm_fail(err, BM_EINVAL, "valley average: unknown population kind %d",
-                       (int)pop->kind);
     }
 
     /* log occupation of each valley relative to one at the lowest edge */
     double lref = 0.0;
-    if (pop->kind == BM_POPULATION_FERMI && kt > 0.0)
+    if (fermi && kt > 0.0)
         lref = log_fd_half((pop->fermi_level_ev - emin) / kt);
 
     double ptot = 0.0;
@@ -401,7 +398,7 @@ bm_status bm_valley_average_compute(bm_valley *valleys, size_t n, const bm_popul
         bm_valley *x = &valleys[v];
         double lr = 0.0;
         if (kt > 0.0) {
-            if (pop->kind == BM_POPULATION_BOLTZMANN)
+            if (!fermi)
                 lr = -(x->energy_offset_ev - emin) / kt;
             else
                 lr = log_fd_half((pop->fermi_level_ev - x->energy_offset_ev) / kt) - lref;
@@ -451,7 +448,7 @@ bm_status bm_valley_average_compute(bm_valley *valleys, size_t n, const bm_popul
                 v = n;   /* once is enough */
                 break;
             }
-    if (pop->kind == BM_POPULATION_FERMI && kt > 0.0 && (pop->fermi_level_ev - emin) / kt > -3.0)
+    if (fermi && kt > 0.0 && (pop->fermi_level_ev - emin) / kt > -3.0)
         bm_warn(&out->warnings,
                 "the Fermi level lies %.3g kT from the lowest valley edge: degenerate "
                 "statistics, masses depend on the Fermi level",

@@ -7,6 +7,7 @@
 
 #include "bm-status.h"
 #include "bm-symmetry.h"
+#include "bm-carriers.h"   /* bm_statistics */
 
 /* One ellipsoidal valley: positive principal masses (m_e) along unit axes. */
 typedef struct {
@@ -72,17 +73,16 @@ bm_status bm_valley_from_shape(const bm_valley_shape *shape, const double direct
                                double weight, double energy_offset_ev,
                                bm_valley *out, bm_errbuf *err);
 
-/* How valleys are populated when their edges differ. */
-typedef enum {
-    BM_POPULATION_EQUAL,      /* every valley alike (offsets must all be 0) */
-    BM_POPULATION_BOLTZMANN,  /* n_v ~ w_v (m1 m2 m3)_v^(1/2) exp(-dE_v / kT) */
-    BM_POPULATION_FERMI       /* n_v ~ w_v (m1 m2 m3)_v^(1/2) F_1/2((E_F - E_v) / kT) */
-} bm_population_kind;
-
+/* How valleys are populated when their edges differ: equally (thermal = 0;
+ * the offsets must then all be 0), or thermally with the statistics of the
+ * carrier solver (bm_statistics, bm-carriers.h):
+ *   BM_BOLTZMANN    n_v ~ w_v (m1 m2 m3)_v^(1/2) exp(-dE_v / kT)
+ *   BM_FERMI_DIRAC  n_v ~ w_v (m1 m2 m3)_v^(1/2) F_1/2((E_F - E_v) / kT) */
 typedef struct {
-    bm_population_kind kind;
-    double temperature_k;     /* > 0 unless kind is EQUAL */
-    double fermi_level_ev;    /* BM_POPULATION_FERMI: measured like the offsets,
+    int thermal;              /* 0: every valley alike; 1: thermal populations */
+    bm_statistics statistics; /* thermal populations: their statistics */
+    double temperature_k;     /* >= 0 when thermal (> 0 when the offsets differ) */
+    double fermi_level_ev;    /* BM_FERMI_DIRAC: measured like the offsets,
                                  positive into the band (above the reference for
                                  electrons, below it for holes) */
 } bm_population;
@@ -108,7 +108,8 @@ typedef struct {
  *   for Boltzmann, F_1/2(eta_v)/F_1/2(eta_min) for Fermi-Dirac), so that
  *   n = N_c(m_d) F_1/2(eta_min) counts every carrier.
  * BM_EINVAL for n = 0, non-positive weights, non-finite offsets, a
- * non-positive temperature with offsets, or EQUAL with non-zero offsets. */
+ * non-positive temperature with offsets, or equal populations with non-zero
+ * offsets. */
 bm_status bm_valley_average_compute(bm_valley *valleys, size_t n, const bm_population *pop,
                                     bm_valley_average *out, bm_errbuf *err);
 

@@ -22,19 +22,25 @@ char *bm_describe_operations(void)
  * BmParamInfo:
  *
  * One request key of an operation: its name (which carries the unit), the
- * JSON kinds it accepts, whether it is required, its default and a summary.
+ * JSON kinds it accepts, whether it is required, its default, a summary,
+ * its unit, the bounds of its numbers and the names it may take.
  */
 struct _BmParamInfo {
     GObject parent_instance;
     const BmParam *param;   /* static, from the registry's table */
-    GStrv kinds;
+    const char **kinds;     /* static strings */
+    const char **choices;   /* static strings, or NULL */
+    const char **choice_descriptions;
 };
 
 G_DEFINE_FINAL_TYPE(BmParamInfo, bm_param_info, G_TYPE_OBJECT)
 
 static void bm_param_info_finalize(GObject *object)
 {
-    g_strfreev(BM_PARAM_INFO(object)->kinds);
+    BmParamInfo *self = BM_PARAM_INFO(object);
+    g_free(self->kinds);
+    g_free(self->choices);
+    g_free(self->choice_descriptions);
     G_OBJECT_CLASS(bm_param_info_parent_class)->finalize(object);
 }
 
@@ -48,12 +54,23 @@ static void bm_param_info_init(BmParamInfo *self)
     (void)self;
 }
 
-/* kinds_text is the registry's wording ("number or array"), split into words. */
-static BmParamInfo *param_info_new(const BmParam *p, const char *kinds_text)
+static BmParamInfo *param_info_new(const BmParam *p)
 {
     BmParamInfo *self = g_object_new(BM_TYPE_PARAM_INFO, NULL);
     self->param = p;
-    self->kinds = g_strsplit(kinds_text, " or ", -1);
+    self->kinds = bm_value_kind_names(p->kinds);
+    g_autofree const BmChoice **choices = bm_param_choices(p);
+    if (choices) {
+        guint n = 0;
+        while (choices[n])
+            n++;
+        self->choices = g_new0(const char *, n + 1);
+        self->choice_descriptions = g_new0(const char *, n + 1);
+        for (guint i = 0; i < n; i++) {
+            self->choices[i] = choices[i]->name;
+            self->choice_descriptions[i] = choices[i]->description;
+        }
+    }
     return self;
 }
 
@@ -80,6 +97,99 @@ const char *const *bm_param_info_get_kinds(BmParamInfo *self)
 {
     g_return_val_if_fail(BM_IS_PARAM_INFO(self), NULL);
     return (const char *const *)self->kinds;
+}
+
+/**
+ * bm_param_info_get_kind_flags:
+ * @self: a #BmParamInfo
+ *
+ * Returns: the same kinds as a mask: string 1, number 2, integer 4,
+ *   boolean 8, array 16, object 32
+ */
+guint bm_param_info_get_kind_flags(BmParamInfo *self)
+{
+    g_return_val_if_fail(BM_IS_PARAM_INFO(self), 0);
+    return self->param->kinds;
+}
+
+/**
+ * bm_param_info_get_unit:
+ * @self: a #BmParamInfo
+ *
+ * Returns: (transfer none) (nullable): the unit of the key's numbers, e.g.
+ *   "K", "eV", "cm^-3", "1/Angstrom", "m_e"; %NULL when it has none
+ */
+const char *bm_param_info_get_unit(BmParamInfo *self)
+{
+    g_return_val_if_fail(BM_IS_PARAM_INFO(self), NULL);
+    return self->param->unit;
+}
+
+static gboolean get_bound(const BmBound *b, double *value, gboolean *inclusive)
+{
+    if (value)
+        *value = b->kind == BM_BOUND_NONE ? 0.0 : b->value;
+    if (inclusive)
+        *inclusive = b->kind == BM_BOUND_CLOSED;
+    return b->kind != BM_BOUND_NONE;
+}
+
+/**
+ * bm_param_info_get_minimum:
+ * @self: a #BmParamInfo
+ * @value: (out) (optional): the lower bound (0 when there is none)
+ * @inclusive: (out) (optional): whether the bound itself is allowed
+ *
+ * The lower bound of the key's number, or of every number of its array.
+ *
+ * Returns: %TRUE when the key has a lower bound
+ */
+gboolean bm_param_info_get_minimum(BmParamInfo *self, double *value, gboolean *inclusive)
+{
+    g_return_val_if_fail(BM_IS_PARAM_INFO(self), FALSE);
+    return get_bound(&self->param->lower, value, inclusive);
+}
+
+/**
+ * bm_param_info_get_maximum:
+ * @self: a #BmParamInfo
+ * @value: (out) (optional): the upper bound (0 when there is none)
+ * @inclusive: (out) (optional): whether the bound itself is allowed
+ *
+ * The upper bound of the key's number, or of every number of its array.
+ *
+ * Returns: %TRUE when the key has an upper bound
+ */
+gboolean bm_param_info_get_maximum(BmParamInfo *self, double *value, gboolean *inclusive)
+{
+    g_return_val_if_fail(BM_IS_PARAM_INFO(self), FALSE);
+    return get_bound(&self->param->upper, value, inclusive);
+}
+
+/**
+ * bm_param_info_get_choices:
+ * @self: a #BmParamInfo
+ *
+ * Returns: (transfer none) (array zero-terminated=1) (nullable): the names
+ *   a string value may take, or %NULL when any string is accepted
+ */
+const char *const *bm_param_info_get_choices(BmParamInfo *self)
+{
+    g_return_val_if_fail(BM_IS_PARAM_INFO(self), NULL);
+    return (const char *const *)self->choices;
+}
+
+/**
+ * bm_param_info_get_choice_descriptions:
+ * @self: a #BmParamInfo
+ *
+ * Returns: (transfer none) (array zero-terminated=1) (nullable): one line
+ *   for each of bm_param_info_get_choices(), in the same order
+ */
+const char *const *bm_param_info_get_choice_descriptions(BmParamInfo *self)
+{
+    g_return_val_if_fail(BM_IS_PARAM_INFO(self), NULL);
+    return (const char *const *)self->choice_descriptions;
 }
 
 /**
@@ -119,17 +229,99 @@ const char *bm_param_info_get_summary(BmParamInfo *self)
     return self->param->summary;
 }
 
+/* ---- BmFieldInfo ---- */
+
+/**
+ * BmFieldInfo:
+ *
+ * One top-level key of an operation's response: name, unit, whether every
+ * response has it, and its meaning.
+ */
+struct _BmFieldInfo {
+    GObject parent_instance;
+    const BmField *field;   /* static, from the registry's table */
+};
+
+G_DEFINE_FINAL_TYPE(BmFieldInfo, bm_field_info, G_TYPE_OBJECT)
+
+static void bm_field_info_class_init(BmFieldInfoClass *klass)
+{
+    (void)klass;
+}
+
+static void bm_field_info_init(BmFieldInfo *self)
+{
+    (void)self;
+}
+
+static BmFieldInfo *field_info_new(const BmField *f)
+{
+    BmFieldInfo *self = g_object_new(BM_TYPE_FIELD_INFO, NULL);
+    self->field = f;
+    return self;
+}
+
+/**
+ * bm_field_info_get_name:
+ * @self: a #BmFieldInfo
+ *
+ * Returns: (transfer none): the response key, e.g. `fermi_level_ev`
+ */
+const char *bm_field_info_get_name(BmFieldInfo *self)
+{
+    g_return_val_if_fail(BM_IS_FIELD_INFO(self), NULL);
+    return self->field->name;
+}
+
+/**
+ * bm_field_info_get_unit:
+ * @self: a #BmFieldInfo
+ *
+ * Returns: (transfer none) (nullable): the unit of its numbers, or %NULL
+ */
+const char *bm_field_info_get_unit(BmFieldInfo *self)
+{
+    g_return_val_if_fail(BM_IS_FIELD_INFO(self), NULL);
+    return self->field->unit;
+}
+
+/**
+ * bm_field_info_get_optional:
+ * @self: a #BmFieldInfo
+ *
+ * Returns: %TRUE when only some responses carry the key
+ */
+gboolean bm_field_info_get_optional(BmFieldInfo *self)
+{
+    g_return_val_if_fail(BM_IS_FIELD_INFO(self), FALSE);
+    return self->field->optional;
+}
+
+/**
+ * bm_field_info_get_meaning:
+ * @self: a #BmFieldInfo
+ *
+ * Returns: (transfer none): one line saying what the key holds
+ */
+const char *bm_field_info_get_meaning(BmFieldInfo *self)
+{
+    g_return_val_if_fail(BM_IS_FIELD_INFO(self), NULL);
+    return self->field->meaning;
+}
+
 /* ---- BmOperationInfo ---- */
 
 /**
  * BmOperationInfo:
  *
- * One operation of the registry: name, summary and request keys.
+ * One operation of the registry: name, summary, request keys and response
+ * keys.
  */
 struct _BmOperationInfo {
     GObject parent_instance;
     const BmOperation *op;   /* static, from the registry */
     GPtrArray *params;       /* of BmParamInfo */
+    GPtrArray *response;     /* of BmFieldInfo */
 };
 
 G_DEFINE_FINAL_TYPE(BmOperationInfo, bm_operation_info, G_TYPE_OBJECT)
@@ -137,6 +329,7 @@ G_DEFINE_FINAL_TYPE(BmOperationInfo, bm_operation_info, G_TYPE_OBJECT)
 static void bm_operation_info_finalize(GObject *object)
 {
     g_ptr_array_unref(BM_OPERATION_INFO(object)->params);
+    g_ptr_array_unref(BM_OPERATION_INFO(object)->response);
     G_OBJECT_CLASS(bm_operation_info_parent_class)->finalize(object);
 }
 
@@ -148,21 +341,18 @@ static void bm_operation_info_class_init(BmOperationInfoClass *klass)
 static void bm_operation_info_init(BmOperationInfo *self)
 {
     self->params = g_ptr_array_new_with_free_func(g_object_unref);
+    self->response = g_ptr_array_new_with_free_func(g_object_unref);
 }
 
 static BmOperationInfo *operation_info_new(const BmOperation *op)
 {
     BmOperationInfo *self = g_object_new(BM_TYPE_OPERATION_INFO, NULL);
     self->op = op;
-    /* the kinds wording comes from the registry's own description */
-    g_autoptr(JsonNode) described = bm_operation_describe(op);
-    JsonArray *params = json_object_get_array_member(json_node_get_object(described), "params");
-    guint i = 0;
-    for (const BmParam *p = op->params; p && p->name; p++, i++) {
-        JsonObject *d = json_array_get_object_element(params, i);
-        g_ptr_array_add(self->params,
-                        param_info_new(p, json_object_get_string_member(d, "kinds")));
-    }
+    for (const BmParam *p = op->params; p && p->name; p++)
+        g_ptr_array_add(self->params, param_info_new(p));
+    for (const BmField *f = op->response; f && f->name; f++)
+        g_ptr_array_add(self->response, field_info_new(f));
+    g_ptr_array_add(self->response, field_info_new(&bm_field_warnings));
     return self;
 }
 
@@ -201,6 +391,19 @@ GPtrArray *bm_operation_info_get_params(BmOperationInfo *self)
 {
     g_return_val_if_fail(BM_IS_OPERATION_INFO(self), NULL);
     return self->params;
+}
+
+/**
+ * bm_operation_info_get_response:
+ * @self: a #BmOperationInfo
+ *
+ * Returns: (transfer none) (element-type BmFieldInfo): the top-level keys of
+ *   the operation's response, "warnings" last
+ */
+GPtrArray *bm_operation_info_get_response(BmOperationInfo *self)
+{
+    g_return_val_if_fail(BM_IS_OPERATION_INFO(self), NULL);
+    return self->response;
 }
 
 /**

@@ -89,10 +89,14 @@ typedef struct bandmass_plugin_api {
     const char *const *operation_summaries;   /* n_operations one-line summaries */
     /* n_operations JSON arrays, one object a request key:
      * {"name", "kinds" ("number or array"), "required", "default" (JSON or
-     * null), "summary" (meaning and unit)} */
+     * null), "summary" (meaning), "kind_names" (["number", "array"]),
+     * "unit" (or null), "minimum" and "maximum" ({"value", "inclusive"} or
+     * null), "choices" ([{"name", "description"}] or null)}; hosts ignore
+     * members they do not know */
     const char *const *operation_params_json;
-    /* every operation as a JSON array of {"name", "summary", "params"}, the
-     * same text as `bandmass ops --json` (compact) */
+    /* every operation as a JSON array of {"name", "summary", "params",
+     * "response" ([{"name", "unit", "optional", "meaning"}])}, the same text
+     * as `bandmass ops --json` (compact) */
     const char *operations_json;
 
     /* Runs operation op on request_json (a JSON object as text; NULL means

@@ -45,6 +45,20 @@ const char *const *bm_param_info_get_kinds(BmParamInfo *self);
 gboolean bm_param_info_get_required(BmParamInfo *self);
 const char *bm_param_info_get_default_json(BmParamInfo *self);
 const char *bm_param_info_get_summary(BmParamInfo *self);
+guint bm_param_info_get_kind_flags(BmParamInfo *self);
+const char *bm_param_info_get_unit(BmParamInfo *self);
+gboolean bm_param_info_get_minimum(BmParamInfo *self, double *value, gboolean *inclusive);
+gboolean bm_param_info_get_maximum(BmParamInfo *self, double *value, gboolean *inclusive);
+const char *const *bm_param_info_get_choices(BmParamInfo *self);
+const char *const *bm_param_info_get_choice_descriptions(BmParamInfo *self);
+
+#define BM_TYPE_FIELD_INFO (bm_field_info_get_type())
+G_DECLARE_FINAL_TYPE(BmFieldInfo, bm_field_info, BM, FIELD_INFO, GObject)
+
+const char *bm_field_info_get_name(BmFieldInfo *self);
+const char *bm_field_info_get_unit(BmFieldInfo *self);
+gboolean bm_field_info_get_optional(BmFieldInfo *self);
+const char *bm_field_info_get_meaning(BmFieldInfo *self);
 
 #define BM_TYPE_OPERATION_INFO (bm_operation_info_get_type())
 G_DECLARE_FINAL_TYPE(BmOperationInfo, bm_operation_info, BM, OPERATION_INFO, GObject)
@@ -52,6 +66,7 @@ G_DECLARE_FINAL_TYPE(BmOperationInfo, bm_operation_info, BM, OPERATION_INFO, GOb
 const char *bm_operation_info_get_name(BmOperationInfo *self);
 const char *bm_operation_info_get_summary(BmOperationInfo *self);
 GPtrArray *bm_operation_info_get_params(BmOperationInfo *self);
+GPtrArray *bm_operation_info_get_response(BmOperationInfo *self);
 
 GPtrArray *bm_list_operations(void);
 BmOperationInfo *bm_lookup_operation(const char *name);

@@ -43,18 +43,108 @@ static const BmParam *find_param(const BmOperation *op, const char *key)
     return NULL;
 }
 
+static const struct { guint bit; const char *word; } kind_words[] = {
+    { BM_VALUE_STRING, "string" }, { BM_VALUE_NUMBER, "number" },
+    { BM_VALUE_INTEGER, "integer" }, { BM_VALUE_BOOLEAN, "boolean" },
+    { BM_VALUE_ARRAY, "array" }, { BM_VALUE_OBJECT, "object" },
+};
+
+const char **bm_value_kind_names(guint kinds)
+{
+    const char **names = g_new0(const char *, G_N_ELEMENTS(kind_words) + 1);
+    guint n = 0;
+    for (guint i = 0; i < G_N_ELEMENTS(kind_words); i++)
+        if (kinds & kind_words[i].bit)
+            names[n++] = kind_words[i].word;
+    return names;
+}
+
 static char *kinds_text(guint kinds)
 {
-    static const struct { guint bit; const char *word; } words[] = {
-        { BM_VALUE_STRING, "string" }, { BM_VALUE_NUMBER, "number" },
-        { BM_VALUE_INTEGER, "integer" }, { BM_VALUE_BOOLEAN, "boolean" },
-        { BM_VALUE_ARRAY, "array" }, { BM_VALUE_OBJECT, "object" },
-    };
+    g_autofree const char **names = bm_value_kind_names(kinds);
+    return g_strjoinv(" or ", (char **)names);
+}
+
+const BmChoice **bm_param_choices(const BmParam *p)
+{
+    if (!p->choices)
+        return NULL;
+    GPtrArray *a = g_ptr_array_new();
+    for (const BmChoice *c = p->choices->choices; c->name; c++)
+        if (!p->choice_subset
+            || (c->value >= 0 && c->value < 32 && (p->choice_subset & (1u << c->value))))
+            g_ptr_array_add(a, (gpointer)c);
+    g_ptr_array_add(a, NULL);
+    return (const BmChoice **)g_ptr_array_free(a, FALSE);
+}
+
+static char *choices_text(const BmParam *p)
+{
+    g_autofree const BmChoice **c = bm_param_choices(p);
     GString *s = g_string_new(NULL);
-    for (guint i = 0; i < G_N_ELEMENTS(words); i++)
-        if (kinds & words[i].bit)
-            g_string_append_printf(s, "%s%s", s->len ? " or " : "", words[i].word);
+    for (guint i = 0; c[i]; i++)
+        g_string_append_printf(s, "%s%s", i ? ", " : "", c[i]->name);
     return g_string_free(s, FALSE);
+}
+
+static void append_number(GString *s, double v, const char *unit)
+{
+    char buf[G_ASCII_DTOSTR_BUF_SIZE];
+    g_string_append(s, g_ascii_formatd(buf, sizeof buf, "%.10g", v));
+    if (unit)
+        g_string_append_printf(s, " %s", unit);
+}
+
+char *bm_param_range_text(const BmParam *p)
+{
+    if (p->lower.kind == BM_BOUND_NONE && p->upper.kind == BM_BOUND_NONE)
+        return NULL;
+    GString *s = g_string_new(NULL);
+    if (p->lower.kind != BM_BOUND_NONE) {
+        g_string_append(s, p->lower.kind == BM_BOUND_OPEN ? "> " : ">= ");
+        append_number(s, p->lower.value, p->unit);
+    }
+    if (p->upper.kind != BM_BOUND_NONE) {
+        g_string_append(s, s->len ? " and " : "");
+        g_string_append(s, p->upper.kind == BM_BOUND_OPEN ? "< " : "<= ");
+        append_number(s, p->upper.value, p->unit);
+    }
+    return g_string_free(s, FALSE);
+}
+
+static gboolean in_range(const BmParam *p, double v)
+{
+    if (p->lower.kind == BM_BOUND_CLOSED && !(v >= p->lower.value))
+        return FALSE;
+    if (p->lower.kind == BM_BOUND_OPEN && !(v > p->lower.value))
+        return FALSE;
+    if (p->upper.kind == BM_BOUND_CLOSED && !(v <= p->upper.value))
+        return FALSE;
+    if (p->upper.kind == BM_BOUND_OPEN && !(v < p->upper.value))
+        return FALSE;
+    return TRUE;
+}
+
+static gboolean node_number(JsonNode *n, double *v)
+{
+    if (!JSON_NODE_HOLDS_VALUE(n))
+        return FALSE;
+    GType t = json_node_get_value_type(n);
+    if (t != G_TYPE_INT64 && t != G_TYPE_DOUBLE)
+        return FALSE;
+    *v = json_node_get_double(n);
+    return TRUE;
+}
+
+static gboolean range_error(const BmParam *p, const char *op_name, const char *what,
+                            double v, GError **error)
+{
+    g_autofree char *range = bm_param_range_text(p);
+    g_autoptr(GString) got = g_string_new(NULL);
+    append_number(got, v, p->unit);
+    g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                "request for %s: %s must be %s (got %s)", op_name, what, range, got->str);
+    return FALSE;
 }
 
 static gboolean node_has_kind(JsonNode *node, guint kinds)
@@ -81,6 +171,47 @@ static gboolean node_has_kind(JsonNode *node, guint kinds)
     return FALSE;
 }
 
+gboolean bm_param_check(const BmParam *p, const char *op_name, JsonNode *node,
+                        GError **error)
+{
+    if (!node_has_kind(node, p->kinds)) {
+        g_autofree char *want = kinds_text(p->kinds);
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request key \"%s\" of %s must be %s", p->name, op_name, want);
+        return FALSE;
+    }
+    double v;
+    if (p->lower.kind != BM_BOUND_NONE || p->upper.kind != BM_BOUND_NONE) {
+        if (node_number(node, &v) && !in_range(p, v)) {
+            g_autofree char *what = g_strdup_printf("key \"%s\"", p->name);
+            return range_error(p, op_name, what, v, error);
+        }
+        if (JSON_NODE_HOLDS_ARRAY(node)) {
+            JsonArray *a = json_node_get_array(node);
+            for (guint i = 0; i < json_array_get_length(a); i++)
+                if (node_number(json_array_get_element(a, i), &v) && !in_range(p, v)) {
+                    g_autofree char *what = g_strdup_printf("element %u of \"%s\"", i,
+                                                            p->name);
+                    return range_error(p, op_name, what, v, error);
+                }
+        }
+    }
+    if (p->choices && JSON_NODE_HOLDS_VALUE(node)
+        && json_node_get_value_type(node) == G_TYPE_STRING) {
+        const char *text = json_node_get_string(node);
+        g_autofree const BmChoice **c = bm_param_choices(p);
+        for (guint i = 0; c[i]; i++)
+            if (strcmp(c[i]->name, text) == 0)
+                return TRUE;
+        g_autofree char *want = choices_text(p);
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request for %s: key \"%s\" must be one of %s (got \"%s\")", op_name,
+                    p->name, want, text);
+        return FALSE;
+    }
+    return TRUE;
+}
+
 static gboolean validate(const BmOperation *op, JsonObject *request,
                          JsonObject *filled, GError **error)
 {
@@ -98,12 +229,8 @@ static gboolean validate(const BmOperation *op, JsonObject *request,
             return FALSE;
         }
         JsonNode *node = json_object_get_member(request, key);
-        if (!node_has_kind(node, p->kinds)) {
-            g_autofree char *want = kinds_text(p->kinds);
-            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                        "request key \"%s\" of %s must be %s", key, op->name, want);
+        if (!bm_param_check(p, op->name, node, error))
             return FALSE;
-        }
         json_object_set_member(filled, key, json_node_copy(node));
     }
     for (const BmParam *p = op->params; p && p->name; p++) {
@@ -175,6 +302,48 @@ char *bm_registry_call_json(const char *op_name, const char *request_json,
     return bm_json_to_string(out, pretty);
 }
 
+const BmField bm_field_warnings = {
+    "warnings", NULL, FALSE,
+    "findings that make a number doubtful or non-physical, as sentences (always present)"
+};
+
+static void add_bound(JsonBuilder *b, const char *member, const BmBound *bound)
+{
+    json_builder_set_member_name(b, member);
+    if (bound->kind == BM_BOUND_NONE) {
+        json_builder_add_null_value(b);
+        return;
+    }
+    json_builder_begin_object(b);
+    json_builder_set_member_name(b, "value");
+    json_builder_add_double_value(b, bound->value);
+    json_builder_set_member_name(b, "inclusive");
+    json_builder_add_boolean_value(b, bound->kind == BM_BOUND_CLOSED);
+    json_builder_end_object(b);
+}
+
+static void add_string_or_null(JsonBuilder *b, const char *member, const char *value)
+{
+    json_builder_set_member_name(b, member);
+    if (value)
+        json_builder_add_string_value(b, value);
+    else
+        json_builder_add_null_value(b);
+}
+
+static void add_field(JsonBuilder *b, const BmField *f)
+{
+    json_builder_begin_object(b);
+    json_builder_set_member_name(b, "name");
+    json_builder_add_string_value(b, f->name);
+    add_string_or_null(b, "unit", f->unit);
+    json_builder_set_member_name(b, "optional");
+    json_builder_add_boolean_value(b, f->optional);
+    json_builder_set_member_name(b, "meaning");
+    json_builder_add_string_value(b, f->meaning);
+    json_builder_end_object(b);
+}
+
 JsonNode *bm_operation_describe(const BmOperation *op)
 {
     g_autoptr(JsonBuilder) b = json_builder_new();
@@ -186,12 +355,18 @@ JsonNode *bm_operation_describe(const BmOperation *op)
     json_builder_set_member_name(b, "params");
     json_builder_begin_array(b);
     for (const BmParam *p = op->params; p && p->name; p++) {
-        g_autofree char *kinds = kinds_text(p->kinds);
+        g_autofree const char **kinds = bm_value_kind_names(p->kinds);
         json_builder_begin_object(b);
         json_builder_set_member_name(b, "name");
         json_builder_add_string_value(b, p->name);
+        g_autofree char *kinds_words = kinds_text(p->kinds);
         json_builder_set_member_name(b, "kinds");
-        json_builder_add_string_value(b, kinds);
+        json_builder_add_string_value(b, kinds_words);
+        json_builder_set_member_name(b, "kind_names");
+        json_builder_begin_array(b);
+        for (guint i = 0; kinds[i]; i++)
+            json_builder_add_string_value(b, kinds[i]);
+        json_builder_end_array(b);
         json_builder_set_member_name(b, "required");
         json_builder_add_boolean_value(b, p->required);
         json_builder_set_member_name(b, "default");
@@ -201,8 +376,33 @@ JsonNode *bm_operation_describe(const BmOperation *op)
             json_builder_add_null_value(b);
         json_builder_set_member_name(b, "summary");
         json_builder_add_string_value(b, p->summary);
+        add_string_or_null(b, "unit", p->unit);
+        add_bound(b, "minimum", &p->lower);
+        add_bound(b, "maximum", &p->upper);
+        json_builder_set_member_name(b, "choices");
+        g_autofree const BmChoice **choices = bm_param_choices(p);
+        if (choices) {
+            json_builder_begin_array(b);
+            for (guint i = 0; choices[i]; i++) {
+                json_builder_begin_object(b);
+                json_builder_set_member_name(b, "name");
+                json_builder_add_string_value(b, choices[i]->name);
+                json_builder_set_member_name(b, "description");
+                json_builder_add_string_value(b, choices[i]->description);
+                json_builder_end_object(b);
+            }
+            json_builder_end_array(b);
+        } else {
+            json_builder_add_null_value(b);
+        }
         json_builder_end_object(b);
     }
+    json_builder_end_array(b);
+    json_builder_set_member_name(b, "response");
+    json_builder_begin_array(b);
+    for (const BmField *f = op->response; f && f->name; f++)
+        add_field(b, f);
+    add_field(b, &bm_field_warnings);
     json_builder_end_array(b);
     json_builder_end_object(b);
     return json_builder_get_root(b);

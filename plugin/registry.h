@@ -19,15 +19,70 @@ typedef enum {
     BM_VALUE_OBJECT  = 1 << 5
 } BmValueKind;
 
+/* A bound of a numeric range: absent, closed (value allowed) or open. */
+typedef enum {
+    BM_BOUND_NONE = 0,
+    BM_BOUND_CLOSED,
+    BM_BOUND_OPEN
+} BmBoundKind;
+
+typedef struct {
+    BmBoundKind kind;
+    double value;
+} BmBound;
+
+/* Bounds for BmParam.lower / .upper: BM_GT(0) is "> 0", BM_GE(0) ">= 0",
+ * BM_LT(x) "< x", BM_LE(x) "<= x". */
+#define BM_GT(x) { BM_BOUND_OPEN, (x) }
+#define BM_GE(x) { BM_BOUND_CLOSED, (x) }
+#define BM_LT(x) { BM_BOUND_OPEN, (x) }
+#define BM_LE(x) { BM_BOUND_CLOSED, (x) }
+
+/* One value of an enumerated type: the enum constant, its name in requests
+ * and responses, and a short description. */
+typedef struct {
+    int value;
+    const char *name;
+    const char *description;
+} BmChoice;
+
+/* An enumerated type, registered once (plugin/bm-enums.h): the registry
+ * checks request strings against it and the operations map text <-> enum
+ * with bm_enum_value / bm_enum_name. */
+typedef struct {
+    const char *name;          /* e.g. "statistics" */
+    const BmChoice *choices;   /* terminated by an entry with name NULL */
+} BmEnum;
+
 /* One request key, described as data so that hosts can generate options,
- * help text and validation from it. Keys carry their unit in the name. */
+ * help text and validation from it. Keys carry their unit in the name; the
+ * unit, range and choices are also here, and the registry checks them. */
 typedef struct {
     const char *name;          /* JSON key, e.g. "temperature_k" */
     guint kinds;               /* BmValueKind mask */
     gboolean required;
     const char *default_json;  /* JSON text of the default, or NULL */
-    const char *summary;       /* one line: meaning and unit */
+    const char *summary;       /* one line: the meaning */
+    const char *unit;          /* "K", "eV", "cm^-3", "1/Angstrom", "m_e", ...;
+                                  NULL: none (dimensionless, text, structured) */
+    BmBound lower, upper;      /* on a number, or on every number of an array */
+    const BmEnum *choices;     /* a string must be one of these names, or NULL */
+    guint choice_subset;       /* bit v set: the choice of value v (< 32) is
+                                  accepted; 0: every choice */
 } BmParam;
+
+#define BM_PARAM_END { .name = NULL }
+
+/* One top-level key of an operation's response. "warnings" (always present)
+ * is common to every operation and not listed in the tables. */
+typedef struct {
+    const char *name;          /* e.g. "fermi_level_ev" */
+    const char *unit;          /* NULL: none */
+    gboolean optional;         /* present only for some requests */
+    const char *meaning;       /* one line */
+} BmField;
+
+#define BM_FIELD_END { .name = NULL }
 
 /* In-memory inputs a host may hand over beside the JSON request (for
  * example a band grid built from a NumPy array, so no file is written);
@@ -51,9 +106,10 @@ typedef void (*BmRenderFunc)(JsonObject *response, GString *out);
 typedef struct {
     const char *name;          /* e.g. "mass-tensor" */
     const char *summary;       /* one line */
-    const BmParam *params;     /* terminated by an entry with name NULL */
+    const BmParam *params;     /* terminated by BM_PARAM_END */
     BmOperationFunc run;
     BmRenderFunc render;       /* NULL: generic key/value rendering */
+    const BmField *response;   /* terminated by BM_FIELD_END */
 } BmOperation;
 
 /* Initialises the core once (GSL error handler off); idempotent and thread-safe. */
@@ -63,8 +119,9 @@ const BmOperation *const *bm_registry_operations(guint *n_ops);
 const BmOperation *bm_registry_lookup(const char *name);
 
 /* Validates request against op->params (unknown keys, missing required keys,
- * wrong kinds are errors that name the key), fills defaults, runs. The
- * response always carries a "warnings" array. */
+ * wrong kinds, values out of range and strings not among the choices are
+ * errors that name the key, the value and what is allowed), fills defaults,
+ * runs. The response always carries a "warnings" array. */
 JsonObject *bm_registry_invoke(const BmOperation *op, JsonObject *request,
                                const BmCallInputs *inputs, GError **error);
 
@@ -74,10 +131,35 @@ char *bm_registry_call_json(const char *op_name, const char *request_json,
                             const BmCallInputs *inputs, gboolean pretty,
                             GError **error);
 
-/* Description of one operation / all operations as JSON (name, summary,
- * params with kinds, required flags, defaults and summaries). */
+/* Checks one value against p (kind, range, choices); op_name goes into the
+ * message. The check bm_registry_invoke applies to every request key. */
+gboolean bm_param_check(const BmParam *p, const char *op_name, JsonNode *value,
+                        GError **error);
+
+/* The names of the kinds in a BmValueKind mask, in a fixed order
+ * ("string", "number", "integer", "boolean", "array", "object"); a new
+ * NULL-terminated array of static strings (free with g_free). */
+const char **bm_value_kind_names(guint kinds);
+
+/* A readable range, e.g. "> 0", ">= 0 and < 1", or NULL when p has none
+ * (free the result). */
+char *bm_param_range_text(const BmParam *p);
+
+/* The accepted choices of p (NULL-terminated, static strings; free the
+ * array with g_free), or NULL when p has none. Descriptions are in
+ * p->choices. */
+const BmChoice **bm_param_choices(const BmParam *p);
+
+/* Description of one operation / all operations as JSON: name, summary,
+ * params (name, kinds ("number or array"), kind_names (["number", "array"]),
+ * required, default, summary, unit, minimum/maximum {value, inclusive} or
+ * null, choices [{name, description}] or null) and response
+ * ([{name, unit, optional, meaning}], "warnings" last). */
 JsonNode *bm_operation_describe(const BmOperation *op);
 JsonNode *bm_registry_describe(void);
+
+/* The field every response carries beside an operation's own table. */
+extern const BmField bm_field_warnings;
 
 /* Generic readable rendering, used when an operation has no renderer. */
 void bm_render_generic(JsonObject *response, GString *out);

@@ -34,7 +34,8 @@ static void print_main_help(void)
 {
     printf("bandmass %s: effective masses from band data and measurements\n\n"
            "Usage:\n"
-           "  bandmass ops [--json]              list the operations\n"
+           "  bandmass ops [--json | --markdown] list the operations (--json, --markdown:\n"
+           "                                     every key, unit, range and response field)\n"
            "  bandmass call OP [--input FILE]    run OP on a JSON request (stdin by default)\n"
            "                [--output FILE] [--compact]\n"
            "  bandmass OP [--KEY VALUE]... [--json | --csv] [--output FILE]\n"
@@ -82,14 +83,22 @@ static char *read_all(const char *path, GError **error)
     return g_string_free(s, FALSE);
 }
 
+static void print_markdown(void);
+
 static int cmd_ops(int argc, char **argv)
 {
-    gboolean as_json = FALSE;
+    gboolean as_json = FALSE, as_markdown = FALSE;
     for (int i = 0; i < argc; i++) {
         if (strcmp(argv[i], "--json") == 0)
             as_json = TRUE;
+        else if (strcmp(argv[i], "--markdown") == 0)
+            as_markdown = TRUE;
         else
             return usage_error("ops: unknown option %s", argv[i]);
+    }
+    if (as_markdown) {
+        print_markdown();
+        return 0;
     }
     if (as_json) {
         g_autoptr(JsonNode) all = bm_registry_describe();
@@ -137,19 +146,123 @@ static int cmd_call(int argc, char **argv)
     return 0;
 }
 
+/* "[> 0 K]" (or "[K]"), "[required]", "[default X]": the attributes of a key. */
+static char *param_attributes(const BmParam *p)
+{
+    GString *s = g_string_new(NULL);
+    g_autofree char *range = bm_param_range_text(p);
+    if (range)
+        g_string_append_printf(s, " [%s]", range);   /* the range names the unit */
+    else if (p->unit)
+        g_string_append_printf(s, " [%s]", p->unit);
+    if (p->required)
+        g_string_append(s, " [required]");
+    if (p->default_json)
+        g_string_append_printf(s, " [default %s]", p->default_json);
+    return g_string_free(s, FALSE);
+}
+
 static void print_op_help(const BmOperation *op)
 {
     printf("bandmass %s: %s\n\nOptions (request keys):\n", op->name, op->summary);
     for (const BmParam *p = op->params; p && p->name; p++) {
         g_autofree char *opt = g_strdelimit(g_strdup(p->name), "_", '-');
-        printf("  --%-28s %s%s", opt, p->summary, p->required ? " [required]" : "");
-        if (p->default_json)
-            printf(" [default %s]", p->default_json);
-        putchar('\n');
+        g_autofree char *attr = param_attributes(p);
+        printf("  --%-28s %s%s\n", opt, p->summary, attr);
+        g_autofree const BmChoice **choices = bm_param_choices(p);
+        for (guint i = 0; choices && choices[i]; i++)
+            printf("  %-30s   %-14s %s\n", "", choices[i]->name, choices[i]->description);
     }
+    printf("\nResponse (keys of the JSON object; * only for some requests):\n");
+    for (const BmField *f = op->response; f && f->name; f++) {
+        g_autofree char *unit = f->unit ? g_strdup_printf(" [%s]", f->unit) : g_strdup("");
+        printf("  %-30s %s%s%s\n", f->name, f->optional ? "* " : "", f->meaning, unit);
+    }
+    printf("  %-30s %s\n", bm_field_warnings.name, bm_field_warnings.meaning);
     printf("\nOutput: a readable table; --json for the response object "
            "(as 'bandmass call %s'),\n--csv for its \"points\" as CSV, "
            "--output FILE to write it atomically.\n", op->name);
+}
+
+/* Markdown table cells: '|' escaped, no line breaks. */
+static void md_cell(GString *out, const char *text)
+{
+    g_string_append(out, " ");
+    for (const char *c = text ? text : ""; *c; c++) {
+        if (*c == '|')
+            g_string_append(out, "\\|");
+        else if (*c == '\n')
+            g_string_append_c(out, ' ');
+        else
+            g_string_append_c(out, *c);
+    }
+    g_string_append(out, " |");
+}
+
+static void md_operation(const BmOperation *op, GString *out)
+{
+    g_string_append_printf(out, "## %s\n\n%s.\n\nRequest:\n\n", op->name, op->summary);
+    if (!op->params || !op->params->name) {
+        g_string_append(out, "(no keys: `{}`)\n\n");
+    } else {
+        g_string_append(out, "| key | kinds | unit | range or choices | default | meaning |\n"
+                             "|---|---|---|---|---|---|\n");
+        for (const BmParam *p = op->params; p->name; p++) {
+            g_autofree char *key = g_strdup_printf("`%s`", p->name);
+            g_autofree const char **kinds = bm_value_kind_names(p->kinds);
+            g_autofree char *kinds_text = g_strjoinv(", ", (char **)kinds);
+            g_autofree char *range = bm_param_range_text(p);
+            g_autofree const BmChoice **choices = bm_param_choices(p);
+            g_autoptr(GString) allowed = g_string_new(range ? range : "");
+            for (guint i = 0; choices && choices[i]; i++)
+                g_string_append_printf(allowed, "%s`%s`: %s", i ? "; " : "", choices[i]->name,
+                                       choices[i]->description);
+            g_autofree char *def = p->required ? g_strdup("required")
+                : p->default_json ? g_strdup_printf("`%s`", p->default_json) : g_strdup("");
+            g_string_append(out, "|");
+            md_cell(out, key);
+            md_cell(out, kinds_text);
+            md_cell(out, p->unit);
+            md_cell(out, allowed->str);
+            md_cell(out, def);
+            md_cell(out, p->summary);
+            g_string_append_c(out, '\n');
+        }
+        g_string_append_c(out, '\n');
+    }
+    g_string_append(out, "Response:\n\n| key | unit | always | meaning |\n|---|---|---|---|\n");
+    for (const BmField *f = op->response; ; f++) {
+        const BmField *field = f && f->name ? f : &bm_field_warnings;
+        g_autofree char *key = g_strdup_printf("`%s`", field->name);
+        g_string_append(out, "|");
+        md_cell(out, key);
+        md_cell(out, field->unit);
+        md_cell(out, field->optional ? "no" : "yes");
+        md_cell(out, field->meaning);
+        g_string_append_c(out, '\n');
+        if (field == &bm_field_warnings)
+            break;
+    }
+    g_string_append_c(out, '\n');
+}
+
+static void print_markdown(void)
+{
+    g_autoptr(GString) out = g_string_new(
+        "# Operations\n\n"
+        "<!-- Generated by `bandmass ops --markdown` from the registry's tables; the "
+        "operations-doc test fails when this file and the tables disagree. Do not edit "
+        "by hand. -->\n\n"
+        "Every operation takes a JSON object and answers with one. The registry checks each "
+        "request key against the table below (kind, range, choices) and fills in defaults; "
+        "`bandmass OP --help` shows the same. Response keys marked \"no\" under *always* "
+        "appear only for some requests (the meaning says which).\n\n");
+    guint n;
+    const BmOperation *const *ops = bm_registry_operations(&n);
+    for (guint i = 0; i < n; i++)
+        md_operation(ops[i], out);
+    g_string_truncate(out, out->len - 1);   /* one newline at the end */
+    fputs(out->str, stdout);
 }
 
 /* Converts an option's text to a JSON node of a kind the parameter accepts. */

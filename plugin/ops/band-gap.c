@@ -6,16 +6,33 @@
 #include "ops.h"
 #include "bm-json.h"
 #include "material-input.h"
+#include "bm-enums.h"
 
 static const BmParam params[] = {
     { "material", BM_VALUE_STRING | BM_VALUE_OBJECT, TRUE, NULL,
       "built-in name (bandmass materials), path of a material JSON file, or an object with "
-      "varshni {eg0_ev, alpha_ev_per_k, beta_k} and/or bose_einstein {eg0_ev, a_b_ev, theta_k}" },
-    { "temperature_k", BM_VALUE_NUMBER, FALSE, NULL, "temperature, K (>= 0)" },
+      "varshni {eg0_ev, alpha_ev_per_k, beta_k} and/or bose_einstein {eg0_ev, a_b_ev, theta_k}",
+      .unit = NULL },
+    { "temperature_k", BM_VALUE_NUMBER, FALSE, NULL, "temperature", .unit = "K",
+      .lower = BM_GE(0) },
     { "temperatures_k", BM_VALUE_NUMBER | BM_VALUE_ARRAY, FALSE, NULL,
-      "list of temperatures, K: the response holds \"points\"" },
-    { "model", BM_VALUE_STRING, FALSE, "\"varshni\"", "varshni or bose-einstein" },
-    { NULL, 0, FALSE, NULL, NULL }
+      "list of temperatures: the response holds \"points\"", .unit = "K", .lower = BM_GE(0) },
+    { "model", BM_VALUE_STRING, FALSE, "\"varshni\"", "temperature dependence of the gap",
+      .choices = &bm_enum_gap_model,
+      .choice_subset = 1u << BM_GAP_VARSHNI | 1u << BM_GAP_BOSE_EINSTEIN },
+    BM_PARAM_END
+};
+
+static const BmField response[] = {
+    { "temperature_k", "K", TRUE, "the temperature (one temperature)" },
+    { "band_gap_ev", "eV", TRUE, "the gap at that temperature (one temperature)" },
+    { "points", NULL, TRUE, "one {temperature_k, band_gap_ev} per temperature (a list)" },
+    { "material", NULL, FALSE, "the material's name" },
+    { "model", NULL, FALSE, "the model used: varshni or bose-einstein" },
+    { "parameters", NULL, FALSE,
+      "the model's parameters: {eg0_ev, alpha_ev_per_k, beta_k} or {eg0_ev, a_b_ev, theta_k}" },
+    { "source", NULL, FALSE, "where the parameters come from" },
+    BM_FIELD_END
 };
 
 /* Reads temperature_k or temperatures_k (exactly one); *list tells which. */
@@ -34,18 +51,9 @@ static double *read_temperatures(JsonObject *request, gsize *n, gboolean *list, 
 static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
 {
     (void)inputs;
+    /* the registry checked "model" (varshni or bose-einstein) and the temperatures */
     const char *model_name = json_object_get_string_member(request, "model");
-    BmGapModel model;
-    if (!strcmp(model_name, "varshni"))
-        model = BM_GAP_VARSHNI;
-    else if (!strcmp(model_name, "bose-einstein"))
-        model = BM_GAP_BOSE_EINSTEIN;
-    else {
-        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "request: key \"model\" must be varshni or bose-einstein (got \"%s\")",
-                    model_name);
-        return NULL;
-    }
+    BmGapModel model = (BmGapModel)bm_enum_value(request, "model", &bm_enum_gap_model);
     gsize n = 0;
     gboolean list;
     g_autofree double *t = read_temperatures(request, &n, &list, error);
@@ -131,4 +139,5 @@ const BmOperation bm_op_band_gap = {
     .params = params,
     .run = run,
     .render = render,
+    .response = response,
 };

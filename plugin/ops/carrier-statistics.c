@@ -7,26 +7,64 @@
 #include "bm-json.h"
 #include "bm-carriers.h"
 #include "material-input.h"
+#include "bm-enums.h"
 
 static const BmParam params[] = {
     { "material", BM_VALUE_STRING | BM_VALUE_OBJECT, TRUE, NULL,
       "built-in name (bandmass materials), path of a material JSON file, or an object "
-      "{electron_dos_mass_me, hole_dos_mass_me, band_gap_ev or varshni {...}, name, dopants}" },
-    { "temperature_k", BM_VALUE_NUMBER, FALSE, NULL, "temperature, K (> 0)" },
+      "{electron_dos_mass_me, hole_dos_mass_me, band_gap_ev or varshni {...}, name, dopants}",
+      .unit = NULL },
+    { "temperature_k", BM_VALUE_NUMBER, FALSE, NULL, "temperature", .unit = "K",
+      .lower = BM_GT(0) },
     { "temperatures_k", BM_VALUE_NUMBER | BM_VALUE_ARRAY, FALSE, NULL,
-      "list of temperatures, K: the response holds \"points\" (one row each, --csv)" },
+      "list of temperatures: the response holds \"points\" (one row each, --csv)",
+      .unit = "K", .lower = BM_GT(0) },
     { "donors", BM_VALUE_ARRAY, FALSE, "[]",
       "donor species: {density_cm3, ionization_ev (Ec - E_D, eV), degeneracy (default 2)} "
-      "or {species (a dopant of the material, e.g. \"P\"), density_cm3}" },
+      "or {species (a dopant of the material, e.g. \"P\"), density_cm3}", .unit = NULL },
     { "acceptors", BM_VALUE_ARRAY, FALSE, "[]",
       "acceptor species: {density_cm3, ionization_ev (E_A - Ev, eV), degeneracy (default 4)} "
-      "or {species, density_cm3}" },
-    { "statistics", BM_VALUE_STRING, FALSE, "\"fermi-dirac\"",
-      "band occupation: fermi-dirac or boltzmann" },
+      "or {species, density_cm3}", .unit = NULL },
+    { "statistics", BM_VALUE_STRING, FALSE, BM_STATISTICS_DEFAULT_JSON, "band occupation",
+      .choices = &bm_enum_statistics },
     { "dos_mass_points", BM_VALUE_ARRAY, FALSE, NULL,
       "temperature-dependent DOS masses, linearly interpolated: "
-      "[{temperature_k, electron_dos_mass_me, hole_dos_mass_me}, ...] in increasing temperature" },
-    { NULL, 0, FALSE, NULL, NULL }
+      "[{temperature_k, electron_dos_mass_me, hole_dos_mass_me}, ...] in increasing temperature",
+      .unit = NULL },
+    BM_PARAM_END
+};
+
+/* One temperature's keys are at the top level, or in each row of "points". */
+static const BmField response[] = {
+    { "temperature_k", "K", TRUE, "temperature (one temperature; else in each point)" },
+    { "band_gap_ev", "eV", TRUE, "band gap at that temperature" },
+    { "electron_dos_mass_me", "m_e", TRUE, "conduction-band DOS mass used" },
+    { "hole_dos_mass_me", "m_e", TRUE, "valence-band DOS mass used" },
+    { "nc_cm3", "cm^-3", TRUE, "effective density of states of the conduction band" },
+    { "nv_cm3", "cm^-3", TRUE, "effective density of states of the valence band" },
+    { "ni_cm3", "cm^-3", TRUE, "intrinsic density sqrt(Nc Nv) exp(-Eg / 2kT)" },
+    { "fermi_level_ev", "eV", TRUE, "Fermi level from charge neutrality, above the "
+      "valence-band maximum" },
+    { "n_cm3", "cm^-3", TRUE, "electron density" },
+    { "p_cm3", "cm^-3", TRUE, "hole density" },
+    { "ionized_donors_cm3", "cm^-3", TRUE, "ionised donors, all species" },
+    { "ionized_acceptors_cm3", "cm^-3", TRUE, "ionised acceptors, all species" },
+    { "ionized_donors_per_species_cm3", "cm^-3", TRUE, "per donor species (when there are some)" },
+    { "ionized_acceptors_per_species_cm3", "cm^-3", TRUE,
+      "per acceptor species (when there are some)" },
+    { "regime", NULL, TRUE, "freeze-out, extrinsic or intrinsic" },
+    { "statistics", NULL, FALSE, "the statistics of the numbers: fermi-dirac or boltzmann" },
+    { "boltzmann_deviation", NULL, TRUE,
+      "largest relative change of n or p had the other statistics been used" },
+    { "points", NULL, TRUE, "one object per temperature with the keys above (a list)" },
+    { "material", NULL, FALSE, "the material's name" },
+    { "fermi_level_reference", NULL, FALSE, "the zero of fermi_level_ev" },
+    { "band_gap_model", NULL, FALSE, "varshni, bose-einstein or fixed" },
+    { "sources", NULL, FALSE, "where the gap and the DOS masses come from" },
+    { "donors", NULL, FALSE, "the donors as resolved: density_cm3, ionization_ev, degeneracy, "
+      "source (species when named)" },
+    { "acceptors", NULL, FALSE, "the acceptors as resolved, as donors" },
+    BM_FIELD_END
 };
 
 typedef struct {
@@ -148,11 +186,6 @@ static gboolean read_mass_points(JsonObject *request, MassPoints *mp, GError **e
     return TRUE;
 }
 
-static const char *statistics_name(bm_statistics s)
-{
-    return s == BM_BOLTZMANN ? "boltzmann" : "fermi-dirac";
-}
-
 static void set_state(JsonObject *o, const bm_carrier_state *st, const Dopants *don,
                       const Dopants *acc)
 {
@@ -173,8 +206,9 @@ static void set_state(JsonObject *o, const bm_carrier_state *st, const Dopants *
     if (acc->n)
         bm_json_set_numbers(o, "ionized_acceptors_per_species_cm3", st->acceptor_ionised_cm3,
                             acc->n);
-    json_object_set_string_member(o, "regime", bm_regime_name(st->regime));
-    json_object_set_string_member(o, "statistics", statistics_name(st->statistics));
+    json_object_set_string_member(o, "regime", bm_enum_name(&bm_enum_regime, (int)st->regime));
+    json_object_set_string_member(o, "statistics",
+                                  bm_enum_name(&bm_enum_statistics, (int)st->statistics));
     bm_json_set_number(o, "boltzmann_deviation", st->boltzmann_deviation);
 }
 
@@ -209,13 +243,10 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     BmMaterialInput mat;
     gboolean have_mat = FALSE;
 
+    /* the registry checked "statistics" and that every temperature is > 0 */
     const char *stats = json_object_get_string_member(request, "statistics");
-    if (strcmp(stats, "fermi-dirac") && strcmp(stats, "boltzmann")) {
-        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "request: key \"statistics\" must be fermi-dirac or boltzmann (got \"%s\")",
-                    stats);
-        return NULL;
-    }
+    bm_statistics statistics = (bm_statistics)bm_enum_value(request, "statistics",
+                                                            &bm_enum_statistics);
     gboolean one = json_object_has_member(request, "temperature_k");
     gboolean list = json_object_has_member(request, "temperatures_k");
     if (one == list) {
@@ -227,17 +258,6 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     t = bm_json_numbers(request, tkey, NULL, &nt, error);
     if (!t)
         return NULL;
-    for (gsize i = 0; i < nt; i++)
-        if (!(t[i] > 0)) {
-            if (list)
-                g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                            "request: element %zu of \"temperatures_k\" must be > 0 (got %g)",
-                            (size_t)i, t[i]);
-            else
-                g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                            "request: key \"temperature_k\" must be > 0 (got %g)", t[i]);
-            return NULL;
-        }
 
     have_mat = bm_material_input_read(request, "material", &mat, error);
     if (!have_mat)
@@ -268,7 +288,7 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     s.ndonors = don.n;
     s.acceptors = acc.d;
     s.nacceptors = acc.n;
-    s.statistics = strcmp(stats, "boltzmann") ? BM_FERMI_DIRAC : BM_BOLTZMANN;
+    s.statistics = statistics;
 
     resp = json_object_new();
     pts = list ? json_array_new() : NULL;
@@ -378,4 +398,5 @@ const BmOperation bm_op_carrier_statistics = {
     .params = params,
     .run = run,
     .render = render,
+    .response = response,
 };

@@ -5,7 +5,14 @@
 #include "bm-units.h"
 
 static const BmParam params[] = {
-    { NULL, 0, FALSE, NULL, NULL }
+    BM_PARAM_END
+};
+
+static const BmField response[] = {
+    { "constants", NULL, FALSE,
+      "one object per constant: {value, meaning}, the unit in the key name" },
+    { "source", NULL, FALSE, "where the values come from" },
+    BM_FIELD_END
 };
 
 static void add(JsonObject *all, const char *key, double value, const char *meaning)
@@ -63,4 +70,5 @@ const BmOperation bm_op_constants = {
     .params = params,
     .run = run,
     .render = render,
+    .response = response,
 };

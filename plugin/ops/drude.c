@@ -7,16 +7,34 @@
 #include "bm-drude.h"
 
 static const BmParam params[] = {
-    { "mass_me", BM_VALUE_NUMBER, TRUE, NULL, "conductivity effective mass, m_e (> 0)" },
+    { "mass_me", BM_VALUE_NUMBER, TRUE, NULL, "conductivity effective mass",
+      .unit = "m_e", .lower = BM_GT(0) },
     { "scattering_time_s", BM_VALUE_NUMBER, FALSE, NULL,
-      "momentum relaxation time, s (give this or mobility_cm2_per_vs)" },
+      "momentum relaxation time (give this or mobility_cm2_per_vs)",
+      .unit = "s", .lower = BM_GT(0) },
     { "mobility_cm2_per_vs", BM_VALUE_NUMBER, FALSE, NULL,
-      "mobility, cm^2/(V s) (give this or scattering_time_s)" },
+      "mobility (give this or scattering_time_s)", .unit = "cm^2/(V s)", .lower = BM_GT(0) },
     { "density_cm3", BM_VALUE_NUMBER, FALSE, NULL,
-      "carrier density, cm^-3 (>= 0): gives conductivity and resistivity" },
+      "carrier density: gives conductivity and resistivity", .unit = "cm^-3",
+      .lower = BM_GE(0) },
     { "temperature_k", BM_VALUE_NUMBER, FALSE, NULL,
-      "temperature, K (> 0): gives thermal velocity and mean free path" },
-    { NULL, 0, FALSE, NULL, NULL }
+      "temperature: gives thermal velocity and mean free path", .unit = "K",
+      .lower = BM_GT(0) },
+    BM_PARAM_END
+};
+
+static const BmField response[] = {
+    { "mass_me", "m_e", FALSE, "the mass used" },
+    { "scattering_time_s", "s", FALSE, "momentum relaxation time (given or from the mobility)" },
+    { "mobility_cm2_per_vs", "cm^2/(V s)", FALSE, "mobility e tau / m (given or computed)" },
+    { "density_cm3", "cm^-3", TRUE, "the density given" },
+    { "conductivity_s_per_cm", "S/cm", TRUE, "n e mu (with density_cm3)" },
+    { "resistivity_ohm_cm", "ohm cm", TRUE,
+      "1 / conductivity (with density_cm3; null when the density is 0)" },
+    { "temperature_k", "K", TRUE, "the temperature given" },
+    { "thermal_velocity_cm_per_s", "cm/s", TRUE, "sqrt(3 kT / m) (with temperature_k)" },
+    { "mean_free_path_nm", "nm", TRUE, "thermal velocity times tau (with temperature_k)" },
+    BM_FIELD_END
 };
 
 static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
@@ -33,19 +51,15 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
                     "\"mobility_cm2_per_vs\"");
         return NULL;
     }
-    if (!bm_json_positive(request, "mass_me", NULL, &in.mass, error)
-        || (has_tau && !bm_json_positive(request, "scattering_time_s", NULL, &in.tau_s, error))
-        || (has_mu && !bm_json_positive(request, "mobility_cm2_per_vs", NULL,
-                                        &in.mobility_cm2_vs, error))
-        || (has_t && !bm_json_positive(request, "temperature_k", NULL, &in.temperature_k,
-                                       error))
+    /* ranges (> 0, density >= 0) are checked by the registry */
+    if (!bm_json_number(request, "mass_me", NULL, &in.mass, error)
+        || (has_tau && !bm_json_number(request, "scattering_time_s", NULL, &in.tau_s, error))
+        || (has_mu && !bm_json_number(request, "mobility_cm2_per_vs", NULL,
+                                      &in.mobility_cm2_vs, error))
+        || (has_t && !bm_json_number(request, "temperature_k", NULL, &in.temperature_k,
+                                     error))
         || !bm_json_number_opt(request, "density_cm3", NULL, &in.density_cm3, error))
         return NULL;
-    if (in.density_cm3 < 0) {
-        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "request: key \"density_cm3\" must be >= 0 (got %g)", in.density_cm3);
-        return NULL;
-    }
     bm_drude_result r;
     bm_errbuf err = {0};
     if (bm_drude(&in, &r, &err) != BM_OK) {
@@ -106,4 +120,5 @@ const BmOperation bm_op_drude = {
     .params = params,
     .run = run,
     .render = render,
+    .response = response,
 };

@@ -9,14 +9,25 @@
 
 static const BmParam params[] = {
     { "order", BM_VALUE_NUMBER, TRUE, NULL,
-      "order j of F_j: -0.5, 0, 0.5, 1, 1.5 or 2" },
+      "order j of F_j: -0.5, 0, 0.5, 1, 1.5 or 2", .unit = NULL },
     { "eta", BM_VALUE_NUMBER | BM_VALUE_ARRAY, FALSE, NULL,
-      "reduced Fermi level(s) (E_F - E_c) / kT, dimensionless: a number or an array" },
+      "reduced Fermi level(s) (E_F - E_c) / kT: a number or an array", .unit = NULL },
     { "values", BM_VALUE_NUMBER | BM_VALUE_ARRAY, FALSE, NULL,
-      "F_1/2 value(s) to invert (> 0), with \"inverse\": true" },
+      "F_1/2 value(s) to invert, with \"inverse\": true", .unit = NULL,
+      .lower = BM_GT(0) },
     { "inverse", BM_VALUE_BOOLEAN, FALSE, "false",
-      "true: return the eta with F_1/2(eta) = each of \"values\" (order 0.5 only)" },
-    { NULL, 0, FALSE, NULL, NULL }
+      "true: return the eta with F_1/2(eta) = each of \"values\" (order 0.5 only)",
+      .unit = NULL },
+    BM_PARAM_END
+};
+
+static const BmField response[] = {
+    { "order", NULL, FALSE, "the order j" },
+    { "normalisation", NULL, FALSE, "\"1/Gamma(j+1)\"" },
+    { "definition", NULL, FALSE, "the integral, in words (DLMF 25.12.14)" },
+    { "eta", NULL, FALSE, "reduced Fermi level(s): given, or the inverse of \"values\"" },
+    { "values", NULL, FALSE, "F_j(eta): computed, or given for the inverse" },
+    BM_FIELD_END
 };
 
 static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
@@ -110,4 +121,5 @@ const BmOperation bm_op_fermi_integral = {
     .params = params,
     .run = run,
     .render = render,
+    .response = response,
 };

@@ -12,18 +12,36 @@ static const BmParam params[] = {
     { "material", BM_VALUE_STRING | BM_VALUE_OBJECT, FALSE, NULL,
       "a built-in material name, an object or a JSON file: its heavy/light/split-off "
       "masses, split-off energy and Luttinger parameters; any of the keys below given "
-      "explicitly overrides the material's value" },
-    { "heavy_hole_mass_me", BM_VALUE_NUMBER, FALSE, NULL, "heavy-hole DOS mass, m_e" },
-    { "light_hole_mass_me", BM_VALUE_NUMBER, FALSE, NULL, "light-hole DOS mass, m_e" },
+      "explicitly overrides the material's value", .unit = NULL },
+    { "heavy_hole_mass_me", BM_VALUE_NUMBER, FALSE, NULL, "heavy-hole DOS mass",
+      .unit = "m_e", .lower = BM_GT(0) },
+    { "light_hole_mass_me", BM_VALUE_NUMBER, FALSE, NULL, "light-hole DOS mass",
+      .unit = "m_e", .lower = BM_GT(0) },
     { "split_off_mass_me", BM_VALUE_NUMBER, FALSE, NULL,
-      "split-off band mass, m_e (optional; needs spin_orbit_splitting_ev)" },
+      "split-off band mass (optional; needs spin_orbit_splitting_ev)",
+      .unit = "m_e", .lower = BM_GT(0) },
     { "spin_orbit_splitting_ev", BM_VALUE_NUMBER, FALSE, NULL,
-      "spin-orbit splitting Delta_so, eV" },
+      "spin-orbit splitting Delta_so", .unit = "eV", .lower = BM_GE(0) },
     { "temperature_k", BM_VALUE_NUMBER, FALSE, "300",
-      "temperature for the split-off population, K" },
+      "temperature for the split-off population", .unit = "K", .lower = BM_GT(0) },
     { "luttinger_parameters", BM_VALUE_ARRAY, FALSE, NULL,
-      "[gamma1, gamma2, gamma3]: directional and warped-surface DOS masses" },
-    { NULL, 0, FALSE, NULL, NULL }
+      "[gamma1, gamma2, gamma3]: directional and warped-surface DOS masses", .unit = NULL },
+    BM_PARAM_END
+};
+
+static const BmField response[] = {
+    { "dos_mass_me", "m_e", TRUE,
+      "hole density-of-states mass of the heavy, light (and split-off) bands" },
+    { "band_fractions", NULL, TRUE,
+      "share of the holes in each band: {heavy, light, split_off}" },
+    { "luttinger", NULL, TRUE,
+      "from Luttinger parameters: heavy_hole_mass_me and light_hole_mass_me along 100, 110, "
+      "111 (m_e), heavy_hole_dos_mass_me, light_hole_dos_mass_me, combined_dos_mass_me "
+      "(null on an open surface), heavy_hole_convex" },
+    { "material", NULL, TRUE, "the material's name (with \"material\")" },
+    { "sources", NULL, TRUE,
+      "each value used, {value, source}; \"request\" for a key given (with \"material\")" },
+    BM_FIELD_END
 };
 
 static void set_dirs(JsonObject *o, const char *key, const double m[3])
@@ -131,12 +149,6 @@ static gboolean check_bands(const HoleInputs *in, GError **error)
     if (!in->so.source && in->delta.source) {
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
                     "request: \"spin_orbit_splitting_ev\" needs \"split_off_mass_me\"");
-        return FALSE;
-    }
-    if (in->so.source && in->so.v <= 0.0) {
-        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "request: key \"split_off_mass_me\" must be greater than zero "
-                    "(got %g); leave it out to ignore the band", in->so.v);
         return FALSE;
     }
     return TRUE;
@@ -311,4 +323,5 @@ const BmOperation bm_op_hole_mass = {
     .params = params,
     .run = run,
     .render = render,
+    .response = response,
 };

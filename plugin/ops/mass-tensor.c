@@ -21,6 +21,7 @@
  * "warnings". */
 #include "ops.h"
 #include "bm-json.h"
+#include "bm-enums.h"
 #include "bm-extrema.h"
 #include "band-grid.h"
 #include "ktable.h"
@@ -32,33 +33,43 @@
 
 static const BmParam params[] = {
     { "grid", BM_VALUE_STRING, FALSE, NULL,
-      "band grid document (JSON, format bandmass-grid-1); give this or table" },
+      "band grid document (JSON, format bandmass-grid-1); give this or table", .unit = NULL },
     { "table", BM_VALUE_STRING, FALSE, NULL,
-      "k-table (CSV or TSV: kx/ky/kz_inv_angstrom and NAME_ev columns); give this or grid" },
+      "k-table (CSV or TSV: kx/ky/kz_inv_angstrom and NAME_ev columns); give this or grid",
+      .unit = NULL },
     { "band", BM_VALUE_INTEGER | BM_VALUE_STRING, TRUE, NULL,
-      "band: 0-based index or name" },
-    { "extremum", BM_VALUE_STRING, FALSE, "\"all\"",
-      "minimum (lowest), maximum (highest) or all (every local extremum)" },
+      "band: 0-based index or name", .unit = NULL },
+    { "extremum", BM_VALUE_STRING, FALSE, "\"all\"", "which extrema to report",
+      .choices = &bm_enum_extremum_search },
     { "k_inv_angstrom", BM_VALUE_ARRAY, FALSE, NULL,
-      "evaluate the tensor at this Cartesian k, 1/Angstrom, instead of searching" },
+      "evaluate the tensor at this Cartesian k [kx, ky, kz] instead of searching",
+      .unit = "1/Angstrom" },
     { "fit_radius_inv_angstrom", BM_VALUE_NUMBER, FALSE, "0",
-      "radius of the local quadratic fit, 1/Angstrom (0: automatic)" },
+      "radius of the local quadratic fit (0: automatic)", .unit = "1/Angstrom",
+      .lower = BM_GE(0) },
     { "degeneracy_tolerance_ev", BM_VALUE_NUMBER, FALSE, "0.001",
-      "energy within which another band counts as degenerate, eV" },
+      "energy within which another band counts as degenerate", .unit = "eV",
+      .lower = BM_GT(0) },
     { "convergence_tolerance", BM_VALUE_NUMBER, FALSE, "0.02",
-      "relative error a converged mass may have (estimated from independent local fits)" },
-    { NULL, 0, FALSE, NULL, NULL }
+      "relative error a converged mass may have (errors are estimated from independent "
+      "local fits)", .lower = BM_GT(0), .upper = BM_LE(1) },
+    BM_PARAM_END
 };
 
-static const char *kind_text(bm_extremum_kind k)
-{
-    switch (k) {
-    case BM_EXTREMUM_MINIMUM: return "minimum";
-    case BM_EXTREMUM_MAXIMUM: return "maximum";
-    case BM_EXTREMUM_SADDLE:  return "saddle";
-    }
-    return "unknown";
-}
+static const BmField response[] = {
+    { "band", NULL, FALSE, "the band: {index (0-based), name (null when unnamed)}" },
+    { "source", NULL, FALSE, "where the band data came from (file, or \"in-memory grid\")" },
+    { "extrema", NULL, FALSE,
+      "one object per extremum: kind (minimum, maximum, saddle), dims, energy_ev, "
+      "k_inv_angstrom, k_fractional (null for a table), principal_masses_me (signed, m_e, "
+      "by increasing |m|; \"divergent\" or null where there is no finite mass), "
+      "principal_axes, inverse_mass_tensor_per_me, fit_rms_ev, divergent, method "
+      "(interpolant, crossing-aware local fit, table fit), crossing_partner_band (null "
+      "when none), principal_masses_error_me (estimated error of each mass, m_e: the "
+      "spread of independent local fits; null where not assessed), k_error_inv_angstrom, "
+      "converged (errors within convergence_tolerance; null where not assessed), warnings" },
+    BM_FIELD_END
+};
 
 /* The signed masses: finite numbers, "divergent" where the curvature
  * vanishes (or the point is conical), null where the data do not sample. */
@@ -90,7 +101,8 @@ static const char *method_text(bm_tensor_method m)
 static JsonObject *tensor_object(const bm_mass_tensor *t, gboolean fractional)
 {
     JsonObject *o = json_object_new();
-    json_object_set_string_member(o, "kind", kind_text(t->kind));
+    json_object_set_string_member(o, "kind",
+                                  bm_enum_name(&bm_enum_extremum_kind, (int)t->kind));
     json_object_set_int_member(o, "dims", t->dims);
     bm_json_set_number(o, "energy_ev", t->energy_ev);
     bm_json_set_vec3(o, "k_inv_angstrom", t->k);
@@ -124,24 +136,6 @@ static JsonObject *tensor_object(const bm_mass_tensor *t, gboolean fractional)
     return o;
 }
 
-static gboolean parse_search(JsonObject *request, bm_search *which, GError **error)
-{
-    const char *s = json_object_get_string_member(request, "extremum");
-    if (strcmp(s, "minimum") == 0)
-        *which = BM_SEARCH_MINIMUM;
-    else if (strcmp(s, "maximum") == 0)
-        *which = BM_SEARCH_MAXIMUM;
-    else if (strcmp(s, "all") == 0)
-        *which = BM_SEARCH_ALL;
-    else {
-        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "request: key \"extremum\" must be \"minimum\", \"maximum\" or \"all\" "
-                    "(got \"%s\")", s);
-        return FALSE;
-    }
-    return TRUE;
-}
-
 static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
 {
     gboolean have_grid = json_object_has_member(request, "grid");
@@ -155,27 +149,14 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
         return NULL;
     }
 
-    bm_search which;
-    if (!parse_search(request, &which, error))
-        return NULL;
+    /* the choice of "extremum" and the ranges are checked by the registry */
+    bm_search which = (bm_search)bm_enum_value(request, "extremum", &bm_enum_extremum_search);
     bm_fit_options opt = { 0.0, 0.0, 0.0 };
     if (!bm_json_number(request, "fit_radius_inv_angstrom", NULL,
                         &opt.fit_radius_inv_angstrom, error) ||
         !bm_json_positive(request, "convergence_tolerance", NULL, &opt.convergence_tol, error) ||
         !bm_json_number(request, "degeneracy_tolerance_ev", NULL, &opt.degeneracy_tol_ev, error))
         return NULL;
-    if (opt.fit_radius_inv_angstrom < 0.0) {
-        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "request: key \"fit_radius_inv_angstrom\" must be >= 0 (0: automatic), got %g",
-                    opt.fit_radius_inv_angstrom);
-        return NULL;
-    }
-    if (!(opt.degeneracy_tol_ev > 0.0)) {
-        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "request: key \"degeneracy_tolerance_ev\" must be greater than zero, got %g",
-                    opt.degeneracy_tol_ev);
-        return NULL;
-    }
     double k_at[3];
     gboolean have_k = json_object_has_member(request, "k_inv_angstrom");
     if (have_k && !bm_json_vec3(request, "k_inv_angstrom", NULL, k_at, error))
@@ -247,7 +228,8 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     for (size_t i = 0; i < nres; i++)
         if (res[i].warnings.count)
             bm_json_warn(response, "extremum %zu (%s at %.6g eV) carries %d warning%s",
-                         i, kind_text(res[i].kind), res[i].energy_ev, res[i].warnings.count,
+                         i, bm_enum_name(&bm_enum_extremum_kind, (int)res[i].kind),
+                         res[i].energy_ev, res[i].warnings.count,
                          res[i].warnings.count == 1 ? "" : "s");
     free(res);
     return response;
@@ -331,4 +313,5 @@ const BmOperation bm_op_mass_tensor = {
     .params = params,
     .run = run,
     .render = render,
+    .response = response,
 };

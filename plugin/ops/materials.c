@@ -10,10 +10,21 @@
 static const BmParam params[] = {
     { "name", BM_VALUE_STRING, FALSE, NULL,
       "material name or long name (case-insensitive): that material in full; "
-      "absent: the list" },
+      "absent: the list", .unit = NULL },
     { "temperature_k", BM_VALUE_NUMBER, FALSE, "300",
-      "temperature for the band gap listed beside the parameters, K" },
-    { NULL, 0, FALSE, NULL, NULL }
+      "temperature for the band gap listed beside the parameters", .unit = "K",
+      .lower = BM_GE(0) },
+    BM_PARAM_END
+};
+
+static const BmField response[] = {
+    { "material", NULL, TRUE,
+      "with \"name\": the set in full, every value as {value, source}" },
+    { "temperature_k", "K", TRUE, "without \"name\": the temperature of the listed gaps" },
+    { "points", NULL, TRUE,
+      "without \"name\": one row per material (name, long_name, structure, gap, band_gap_ev, "
+      "conduction_valley, DOS masses, dopants, sources)" },
+    BM_FIELD_END
 };
 
 static JsonObject *valued(double v, const char *source)
@@ -231,4 +242,5 @@ const BmOperation bm_op_materials = {
     .params = params,
     .run = run,
     .render = render,
+    .response = response,
 };

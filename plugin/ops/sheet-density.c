@@ -10,13 +10,25 @@
 static const BmParam params[] = {
     { "subbands", BM_VALUE_ARRAY, TRUE, NULL,
       "subbands: [{energy_ev (edge), mass_me (in-plane DOS mass), valley_degeneracy "
-      "(default 1)}, ...]; spin degeneracy 2 is included" },
-    { "temperature_k", BM_VALUE_NUMBER, TRUE, NULL, "temperature, K (> 0)" },
+      "(>= 1, default 1)}, ...]; spin degeneracy 2 is included", .unit = NULL },
+    { "temperature_k", BM_VALUE_NUMBER, TRUE, NULL, "temperature", .unit = "K",
+      .lower = BM_GT(0) },
     { "fermi_level_ev", BM_VALUE_NUMBER, FALSE, NULL,
-      "Fermi level, eV, on the scale of the subband energies: gives the sheet density" },
+      "Fermi level, on the scale of the subband energies: gives the sheet density",
+      .unit = "eV" },
     { "sheet_density_cm2", BM_VALUE_NUMBER, FALSE, NULL,
-      "total sheet density, cm^-2 (> 0): gives the Fermi level" },
-    { NULL, 0, FALSE, NULL, NULL }
+      "total sheet density: gives the Fermi level", .unit = "cm^-2", .lower = BM_GT(0) },
+    BM_PARAM_END
+};
+
+static const BmField response[] = {
+    { "temperature_k", "K", FALSE, "the temperature" },
+    { "fermi_level_ev", "eV", FALSE, "Fermi level (given or solved for)" },
+    { "sheet_density_cm2", "cm^-2", FALSE, "total sheet density (given or computed)" },
+    { "given", NULL, FALSE, "which of the two was given: fermi_level_ev or sheet_density_cm2" },
+    { "subbands", NULL, FALSE,
+      "per subband: energy_ev, mass_me, valley_degeneracy, dos_cm2_per_ev, sheet_density_cm2" },
+    BM_FIELD_END
 };
 
 static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
@@ -31,11 +43,12 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
         return NULL;
     }
     double t, ef = 0, ns = 0;
-    if (!bm_json_positive(request, "temperature_k", NULL, &t, error))
+    /* temperature_k > 0 and sheet_density_cm2 > 0: checked by the registry */
+    if (!bm_json_number(request, "temperature_k", NULL, &t, error))
         return NULL;
     if (has_ef && !bm_json_number(request, "fermi_level_ev", NULL, &ef, error))
         return NULL;
-    if (has_ns && !bm_json_positive(request, "sheet_density_cm2", NULL, &ns, error))
+    if (has_ns && !bm_json_number(request, "sheet_density_cm2", NULL, &ns, error))
         return NULL;
     JsonArray *a = json_object_get_array_member(request, "subbands");
     guint n = json_array_get_length(a);
@@ -130,4 +143,5 @@ const BmOperation bm_op_sheet_density = {
     .params = params,
     .run = run,
     .render = render,
+    .response = response,
 };

@@ -8,6 +8,7 @@
 #include "bm-valleys.h"
 #include "bm-materials.h"
 #include "material-input.h"
+#include "bm-enums.h"
 
 /* const view of a double[3][3] for the setters (C11 qualifier rules) */
 #define CM3(m) ((const double (*)[3])(m))
@@ -16,27 +17,62 @@ static const BmParam params[] = {
     { "valley", BM_VALUE_OBJECT, FALSE, NULL,
       "one valley, expanded by symmetry: {longitudinal_mass_me, transverse_mass_me, axis}, "
       "{principal_masses_me, axes} (optional direction: position, default the axis), or an "
-      "extremum of mass-tensor as it is (or its whole response when it holds one extremum)" },
+      "extremum of mass-tensor as it is (or its whole response when it holds one extremum)",
+      .unit = NULL },
     { "point_group", BM_VALUE_STRING, FALSE, NULL,
       "crystal point group for \"valley\" (Schoenflies, e.g. Oh, Td, D6h, C6v, D4h, "
-      "or international, e.g. m-3m)" },
+      "or international, e.g. m-3m)", .unit = NULL },
     { "position", BM_VALUE_STRING, FALSE, NULL,
-      "where \"valley\" sits: gamma, interior (k and -k distinct; the default) or face "
-      "(zone boundary, each position counts one half); for an extremum of mass-tensor "
-      "the default comes from its k" },
+      "where \"valley\" sits (default interior; for an extremum of mass-tensor, from "
+      "its k)", .choices = &bm_enum_valley_site },
     { "material", BM_VALUE_STRING | BM_VALUE_OBJECT, FALSE, NULL,
       "instead of \"valley\": a built-in material name, an object or a JSON file; its "
-      "conduction valley and point group give the star" },
+      "conduction valley and point group give the star", .unit = NULL },
     { "valleys", BM_VALUE_ARRAY, FALSE, NULL,
       "explicit valley list, each a valley object plus energy_offset_ev (default 0, "
-      "positive away from the band edge) and weight (default 1)" },
+      "positive away from the band edge) and weight (default 1)", .unit = NULL },
     { "temperature_k", BM_VALUE_NUMBER, FALSE, NULL,
-      "temperature for valley populations, K (needed when offsets differ)" },
-    { "statistics", BM_VALUE_STRING, FALSE, "\"boltzmann\"",
-      "valley populations: boltzmann or fermi-dirac" },
+      "temperature for thermal valley populations (needed when offsets differ)",
+      .unit = "K", .lower = BM_GE(0) },
+    { "statistics", BM_VALUE_STRING, FALSE, BM_STATISTICS_DEFAULT_JSON,
+      "statistics of the thermal populations (fermi-dirac needs fermi_level_ev)",
+      .choices = &bm_enum_statistics },
     { "fermi_level_ev", BM_VALUE_NUMBER, FALSE, NULL,
-      "Fermi level for fermi-dirac, eV, measured like the offsets (positive into the band)" },
-    { NULL, 0, FALSE, NULL, NULL }
+      "Fermi level for fermi-dirac, measured like the offsets (positive into the band)",
+      .unit = "eV" },
+    BM_PARAM_END
+};
+
+static const BmField response[] = {
+    { "valley_count", NULL, FALSE, "number of valleys (sum of the weights)" },
+    { "dos_mass_me", "m_e", FALSE, "density-of-states mass of all valleys together" },
+    { "dos_mass_reference", NULL, FALSE, "the edge the DOS mass refers to" },
+    { "conductivity_mass_tensor_me", "m_e", FALSE,
+      "conductivity mass tensor: inverse of the population-weighted mean inverse tensor" },
+    { "conductivity_mass_me", "m_e", FALSE, "3 / trace of the inverse tensor" },
+    { "conductivity_isotropic", NULL, FALSE, "whether the tensor is a scalar" },
+    { "conductivity_mass_meaning", NULL, TRUE,
+      "what conductivity_mass_me is when the tensor is not isotropic" },
+    { "conductivity_principal_masses_me", "m_e", TRUE,
+      "principal values of the tensor (not isotropic)" },
+    { "conductivity_principal_axes", NULL, TRUE,
+      "their axes, rows of Cartesian unit vectors (not isotropic)" },
+    { "population", NULL, FALSE,
+      "how the valleys are populated: {statistics (equal, boltzmann, fermi-dirac), "
+      "temperature_k, fermi_level_ev}" },
+    { "material", NULL, TRUE, "the material's name (with \"material\")" },
+    { "valley_source", NULL, TRUE, "source of the material's valley (with \"material\")" },
+    { "point_group", NULL, TRUE, "the point group of the star (with \"valley\" or \"material\")" },
+    { "position", NULL, TRUE, "the valley site of the star (with \"valley\" or \"material\")" },
+    { "position_from", NULL, TRUE,
+      "how the site was chosen: request, default, or the extremum's k (with \"valley\")" },
+    { "carrier", NULL, FALSE,
+      "electron, or hole when the valleys have negative masses (a band maximum)" },
+    { "carrier_note", NULL, TRUE, "for holes: how the negative masses were taken" },
+    { "valleys", NULL, FALSE,
+      "each valley: direction, weight, principal_masses_me, axes, energy_offset_ev, "
+      "population_fraction" },
+    BM_FIELD_END
 };
 
 /* A single valley takes the shape keys; an entry of a list also its offset and weight. */
@@ -52,13 +88,15 @@ static const char *const list_entry_keys[] = {
  * its offset and weight). */
 static const char *const extremum_keys[] = {
     "kind", "dims", "energy_ev", "k_inv_angstrom", "k_fractional", "principal_masses_me",
-    "principal_axes", "inverse_mass_tensor_per_me", "fit_rms_ev", "divergent", "warnings",
-    "warning_codes", NULL
+    "principal_axes", "inverse_mass_tensor_per_me", "fit_rms_ev", "divergent", "method",
+    "crossing_partner_band", "principal_masses_error_me", "k_error_inv_angstrom", "converged",
+    "warnings", "warning_codes", NULL
 };
 static const char *const extremum_entry_keys[] = {
     "kind", "dims", "energy_ev", "k_inv_angstrom", "k_fractional", "principal_masses_me",
-    "principal_axes", "inverse_mass_tensor_per_me", "fit_rms_ev", "divergent", "warnings",
-    "warning_codes", "energy_offset_ev", "weight", NULL
+    "principal_axes", "inverse_mass_tensor_per_me", "fit_rms_ev", "divergent", "method",
+    "crossing_partner_band", "principal_masses_error_me", "k_error_inv_angstrom", "converged",
+    "warnings", "warning_codes", "energy_offset_ev", "weight", NULL
 };
 
 /* Which carriers a valley holds: negative inertial masses (a band maximum)
@@ -344,7 +382,7 @@ static gboolean build_star(ValleySet *s, const bm_valley_shape *shape, bm_valley
     s->n = s->star->n;
     s->count = s->star->valley_count;
     s->group_name = group_name;
-    s->site_name = bm_valley_site_name(site);
+    s->site_name = bm_enum_name(&bm_enum_valley_site, (int)site);
     return TRUE;
 }
 
@@ -371,7 +409,6 @@ static JsonObject *single_valley(JsonObject *request, GError **error)
 /* "valley" + "point_group" + "position". */
 static gboolean from_valley(JsonObject *request, ValleySet *s, GError **error)
 {
-    bm_errbuf err = {0};
     if (!json_object_has_member(request, "point_group")) {
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
                     "request: \"valley\" needs \"point_group\" (e.g. \"Oh\")");
@@ -381,14 +418,11 @@ static gboolean from_valley(JsonObject *request, ValleySet *s, GError **error)
     ParsedValley p;
     if (!v || !parse_valley(v, "valley", FALSE, &p, &s->pw, error) || !adopt(s, &p, v, "valley", error))
         return FALSE;
+    /* the registry checked "position" against the valley sites */
     bm_valley_site site = BM_SITE_INTERIOR;
     s->site_from = "default";
     if (json_object_has_member(request, "position")) {
-        if (bm_valley_site_parse(json_object_get_string_member(request, "position"), &site,
-                                 &err) != BM_OK) {
-            bm_error_from_core(error, &err, "request: key \"position\"");
-            return FALSE;
-        }
+        site = (bm_valley_site)bm_enum_value(request, "position", &bm_enum_valley_site);
         s->site_from = "request";
     } else if (p.site_known) {
         site = p.site;
@@ -398,7 +432,7 @@ static gboolean from_valley(JsonObject *request, ValleySet *s, GError **error)
     if (site != BM_SITE_GAMMA && !p.has_dir) {
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
                     "valley: a valley at position \"%s\" needs a direction (\"direction\", "
-                    "or k away from Gamma)", bm_valley_site_name(site));
+                    "or k away from Gamma)", bm_enum_name(&bm_enum_valley_site, (int)site));
         return FALSE;
     }
     return build_star(s, &p.shape, site, p.dir,
@@ -477,39 +511,41 @@ static gboolean from_list(JsonObject *request, ValleySet *s, GError **error)
 static gboolean read_population(JsonObject *request, bm_population *pop, gboolean *has_t,
                                 GError **error)
 {
-    const char *stats = json_object_get_string_member(request, "statistics");
+    /* the registry checked "statistics" against the one statistics table */
+    pop->statistics = (bm_statistics)bm_enum_value(request, "statistics", &bm_enum_statistics);
     *has_t = json_object_has_member(request, "temperature_k");
-    if (strcmp(stats, "boltzmann") != 0 && strcmp(stats, "fermi-dirac") != 0) {
-        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "request: key \"statistics\" must be boltzmann or fermi-dirac (got \"%s\")",
-                    stats);
-        return FALSE;
-    }
-    if (*has_t) {
-        if (!bm_json_number(request, "temperature_k", NULL, &pop->temperature_k, error))
+    if (!*has_t) {
+        if (json_object_has_member(request, "fermi_level_ev")) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                        "request: \"fermi_level_ev\" needs \"temperature_k\" (without a "
+                        "temperature every valley is populated alike)");
             return FALSE;
-        pop->kind = strcmp(stats, "fermi-dirac") ? BM_POPULATION_BOLTZMANN : BM_POPULATION_FERMI;
-        return pop->kind != BM_POPULATION_FERMI
-            || bm_json_number(request, "fermi_level_ev", NULL, &pop->fermi_level_ev, error);
+        }
+        return TRUE;   /* equal populations: the statistics do not enter */
     }
-    if (!strcmp(stats, "fermi-dirac")) {
+    pop->thermal = 1;
+    if (!bm_json_number(request, "temperature_k", NULL, &pop->temperature_k, error))
+        return FALSE;
+    if (pop->statistics != BM_FERMI_DIRAC)
+        return TRUE;
+    if (!json_object_has_member(request, "fermi_level_ev")) {
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "request: fermi-dirac statistics need \"temperature_k\" and \"fermi_level_ev\"");
+                    "request: fermi-dirac populations (the default \"statistics\") need "
+                    "\"fermi_level_ev\"; give it, or \"statistics\": \"boltzmann\" for "
+                    "non-degenerate carriers");
         return FALSE;
     }
-    return TRUE;
+    return bm_json_number(request, "fermi_level_ev", NULL, &pop->fermi_level_ev, error);
 }
 
 static JsonObject *population_json(const bm_population *pop, gboolean has_t)
 {
     JsonObject *p = json_object_new();
-    json_object_set_string_member(p, "statistics",
-                                  pop->kind == BM_POPULATION_EQUAL ? "equal"
-                                  : pop->kind == BM_POPULATION_BOLTZMANN ? "boltzmann"
-                                  : "fermi-dirac");
+    json_object_set_string_member(p, "statistics", !pop->thermal ? "equal"
+                                  : bm_enum_name(&bm_enum_statistics, (int)pop->statistics));
     if (has_t)
         bm_json_set_number(p, "temperature_k", pop->temperature_k);
-    if (pop->kind == BM_POPULATION_FERMI)
+    if (pop->thermal && pop->statistics == BM_FERMI_DIRAC)
         bm_json_set_number(p, "fermi_level_ev", pop->fermi_level_ev);
     return p;
 }
@@ -602,7 +638,7 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     (void)inputs;
     bm_errbuf err = {0};
     ValleySet s = {0};
-    bm_population pop = {BM_POPULATION_EQUAL, 0.0, 0.0};
+    bm_population pop = {0, BM_FERMI_DIRAC, 0.0, 0.0};
     gboolean has_t = FALSE;
     JsonObject *resp = NULL;
     if (!read_valleys(request, &s, error) || !read_population(request, &pop, &has_t, error))
@@ -678,4 +714,5 @@ const BmOperation bm_op_valley_average = {
     .params = params,
     .run = run,
     .render = render,
+    .response = response,
 };

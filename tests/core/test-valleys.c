@@ -214,7 +214,7 @@ static void test_hexagonal(void)
  * grows the in-plane conductivity mass tends to m_t and the DOS mass to
  * 2^(2/3) (m_l m_t^2)^(1/3) (two valleys; textbook formula). Populations
  * follow Boltzmann: lowered pair share 2 e^x / (2 e^x + 4), x = dE / kT. */
-static void strained(double de, double t, bm_population_kind kind, double ef,
+static void strained(double de, double t, bm_statistics stats, double ef,
                      bm_valley_average *avg, double frac[6])
 {
     bm_valley v[6];
@@ -226,7 +226,7 @@ static void strained(double de, double t, bm_population_kind kind, double ef,
         g_assert_cmpint(bm_valley_from_shape(&s, axes[i], 1.0, i >= 4 ? -de : 0.0, &v[i], &err),
                         ==, BM_OK);
     }
-    bm_population pop = {kind, t, ef};
+    bm_population pop = {1, stats, t, ef};
     g_assert_cmpint(bm_valley_average_compute(v, 6, &pop, avg, &err), ==, BM_OK);
     for (int i = 0; i < 6; i++)
         frac[i] = v[i].population;
@@ -240,7 +240,7 @@ static void test_strained_silicon(void)
     const double des[] = {0.0, 0.05, 0.1, 0.2, 0.6};
     double md2 = pow(2.0, 2.0 / 3.0) * cbrt(SI_ML * SI_MT * SI_MT);
     for (size_t k = 0; k < G_N_ELEMENTS(des); k++) {
-        strained(des[k], 300.0, BM_POPULATION_BOLTZMANN, 0.0, &avg, frac);
+        strained(des[k], 300.0, BM_BOLTZMANN, 0.0, &avg, frac);
         double x = des[k] / (BM_KB_EV * 300.0);
         double share = 2.0 * exp(x) / (2.0 * exp(x) + 4.0);
         g_assert_cmpfloat_with_epsilon(frac[4] + frac[5], share, 1e-12);
@@ -264,8 +264,8 @@ static void test_strained_silicon(void)
     /* Fermi-Dirac far below the edges reduces to Boltzmann (F_1/2(eta) -> e^eta) */
     bm_valley_average fd;
     double ffd[6];
-    strained(0.1, 300.0, BM_POPULATION_BOLTZMANN, 0.0, &avg, frac);
-    strained(0.1, 300.0, BM_POPULATION_FERMI, -0.1 - 0.6, &fd, ffd);
+    strained(0.1, 300.0, BM_BOLTZMANN, 0.0, &avg, frac);
+    strained(0.1, 300.0, BM_FERMI_DIRAC, -0.1 - 0.6, &fd, ffd);
     g_assert_cmpfloat_with_epsilon(fd.dos_mass, avg.dos_mass, 1e-8);
     g_assert_cmpfloat_with_epsilon(ffd[4], frac[4], 1e-9);
     g_assert_cmpfloat_with_epsilon(fd.conductivity_mass_tensor[0][0],
@@ -273,7 +273,7 @@ static void test_strained_silicon(void)
     /* Degenerate: the lowered pair fills up while F_1/2 grows only as
      * eta^(3/2), so the upper valleys gain share relative to Boltzmann
      * (F_1/2 is sub-exponential above eta ~ 0), with a warning. */
-    strained(0.1, 300.0, BM_POPULATION_FERMI, -0.1 + 0.1, &fd, ffd);
+    strained(0.1, 300.0, BM_FERMI_DIRAC, -0.1 + 0.1, &fd, ffd);
     g_assert_cmpfloat(ffd[0], >, frac[0]);
     g_assert_cmpint(fd.warnings.count, >=, 1);
 }
@@ -321,10 +321,10 @@ static void test_bad_input(void)
     g_assert_cmpint(bm_valley_from_shape(&s, ax, 1.0, 0.0, &v[0], &err), ==, BM_OK);
     g_assert_cmpint(bm_valley_from_shape(&s, ax, 1.0, 0.05, &v[1], &err), ==, BM_OK);
     bm_valley_average avg;
-    bm_population p0 = {BM_POPULATION_BOLTZMANN, 0.0, 0.0};
+    bm_population p0 = {1, BM_BOLTZMANN, 0.0, 0.0};
     g_assert_cmpint(bm_valley_average_compute(v, 2, &p0, &avg, &err), ==, BM_EINVAL);
     g_assert_nonnull(strstr(err.message, "0 K"));
-    bm_population pn = {BM_POPULATION_FERMI, -5.0, 0.0};
+    bm_population pn = {1, BM_FERMI_DIRAC, -5.0, 0.0};
     g_assert_cmpint(bm_valley_average_compute(v, 2, &pn, &avg, &err), ==, BM_EINVAL);
     g_assert_nonnull(strstr(err.message, "-5 K"));
     g_assert_cmpint(bm_valley_average_compute(v, 2, NULL, &avg, &err), ==, BM_EINVAL);

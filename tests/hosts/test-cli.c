@@ -233,6 +233,30 @@ static void test_valley_material(void)
     g_assert_cmpstr(json_object_get_string_member(o, "material"), ==, "Si");
 }
 
+/* OP --help shows each key's unit, range, choices and default from the
+ * table, and the response keys; a value outside the range is refused. */
+static void test_help_from_tables(void)
+{
+    g_auto(Run) h = { 0 };
+    run_cli(&h, NULL, "carrier-statistics", "--help", NULL);
+    g_assert_cmpint(h.status, ==, 0);
+    const char *want[] = { "--temperature-k", "[> 0 K]", "[default \"fermi-dirac\"]",
+                           "boltzmann", "the non-degenerate limit", "Response",
+                           "ni_cm3", "[cm^-3]", "warnings" };
+    for (gsize i = 0; i < G_N_ELEMENTS(want); i++)
+        if (!strstr(h.out, want[i]))
+            g_error("carrier-statistics --help lacks \"%s\":\n%s", want[i], h.out);
+    g_auto(Run) bad = { 0 };
+    run_cli(&bad, NULL, "mass-tensor", "--grid", "x.json", "--band", "0", "--extremum", "lowest",
+            NULL);
+    assert_bad_input(&bad, "key \"extremum\" must be one of minimum, maximum, all "
+                           "(got \"lowest\")");
+    g_auto(Run) md = { 0 };
+    run_cli(&md, NULL, "ops", "--markdown", NULL);
+    g_assert_cmpint(md.status, ==, 0);
+    g_assert_true(g_str_has_prefix(md.out, "# Operations\n"));
+}
+
 int main(int argc, char **argv)
 {
     g_test_init(&argc, &argv, NULL);
@@ -244,5 +268,6 @@ int main(int argc, char **argv)
     g_test_add_func("/cli/carrier-bad-input", test_carrier_bad_input);
     g_test_add_func("/cli/mass-tensor-bad-files", test_mass_tensor_bad_files);
     g_test_add_func("/cli/valley-material", test_valley_material);
+    g_test_add_func("/cli/help-from-tables", test_help_from_tables);
     return g_test_run();
 }

@@ -89,11 +89,32 @@ class OperationList(unittest.TestCase):
             self.assertEqual(len(params), len(want['params']))
             for p, w in zip(params, want['params']):
                 self.assertEqual(p.get_name(), w['name'])
+                self.assertEqual(list(p.get_kinds()), w['kind_names'])
                 self.assertEqual(' or '.join(p.get_kinds()), w['kinds'])
+                names = ['string', 'number', 'integer', 'boolean', 'array', 'object']
+                self.assertEqual([k for i, k in enumerate(names) if p.get_kind_flags() & (1 << i)],
+                                 w['kind_names'])
                 self.assertEqual(p.get_required(), w['required'])
                 d = p.get_default_json()
                 self.assertEqual(None if d is None else json.loads(d), w['default'])
                 self.assertEqual(p.get_summary(), w['summary'])
+                self.assertEqual(p.get_unit(), w['unit'])
+                for (has, value, inclusive), bound in ((p.get_minimum(), w['minimum']),
+                                                       (p.get_maximum(), w['maximum'])):
+                    self.assertEqual(has, bound is not None)
+                    if bound is not None:
+                        self.assertEqual((value, inclusive), (bound['value'], bound['inclusive']))
+                # a NULL array (no choices) comes to Python as []
+                self.assertEqual(list(p.get_choices() or []),
+                                 [c['name'] for c in w['choices'] or []])
+                self.assertEqual(list(p.get_choice_descriptions() or []),
+                                 [c['description'] for c in w['choices'] or []])
+            fields = info.get_response()
+            self.assertEqual([(f.get_name(), f.get_unit(), f.get_optional(), f.get_meaning())
+                              for f in fields],
+                             [(f['name'], f['unit'], f['optional'], f['meaning'])
+                              for f in want['response']])
+            self.assertEqual(fields[-1].get_name(), 'warnings')
 
     def test_lookup(self):
         self.assertEqual(Bandmass.lookup_operation('constants').get_name(), 'constants')

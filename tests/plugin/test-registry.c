@@ -9,7 +9,7 @@ static JsonObject *echo_run(JsonObject *request, const BmCallInputs *inputs, GEr
 {
     (void)inputs;
     double t;
-    if (!bm_json_positive(request, "temperature_k", NULL, &t, error))
+    if (!bm_json_number(request, "temperature_k", NULL, &t, error))
         return NULL;
     JsonObject *r = json_object_new();
     bm_json_set_number(r, "twice_k", 2 * t);
@@ -17,13 +17,30 @@ static JsonObject *echo_run(JsonObject *request, const BmCallInputs *inputs, GEr
     return r;
 }
 
+static const BmChoice mode_choices[] = {
+    { 0, "plain", "the default" }, { 1, "fancy", "another" }, { 2, "hidden", "not accepted" },
+    { 0, NULL, NULL }
+};
+static const BmEnum mode_enum = { "mode", mode_choices };
+
 static const BmParam echo_params[] = {
-    { "temperature_k", BM_VALUE_NUMBER, TRUE, NULL, "temperature, K" },
-    { "mode", BM_VALUE_STRING, FALSE, "\"plain\"", "a mode" },
-    { NULL, 0, FALSE, NULL, NULL }
+    { "temperature_k", BM_VALUE_NUMBER, TRUE, NULL, "temperature", .unit = "K",
+      .lower = BM_GT(0), .upper = BM_LE(1000) },
+    { "mode", BM_VALUE_STRING, FALSE, "\"plain\"", "a mode", .choices = &mode_enum,
+      .choice_subset = 1u << 0 | 1u << 1 },
+    { "weights", BM_VALUE_NUMBER | BM_VALUE_ARRAY, FALSE, NULL, "weights",
+      .lower = BM_GE(0), .upper = BM_LT(1) },
+    BM_PARAM_END
 };
 
-static const BmOperation echo_op = { "echo", "test", echo_params, echo_run, NULL };
+static const BmField echo_response[] = {
+    { "twice_k", "K", FALSE, "twice the temperature" },
+    { "mode", NULL, FALSE, "the mode" },
+    BM_FIELD_END
+};
+
+static const BmOperation echo_op = { "echo", "test", echo_params, echo_run, NULL,
+                                     echo_response };
 
 static JsonObject *parse_object(const char *text)
 {
@@ -43,6 +60,11 @@ static void test_defaults_and_warnings(void)
     g_assert_cmpfloat(json_object_get_double_member(resp, "twice_k"), ==, 300.0);
     g_assert_cmpstr(json_object_get_string_member(resp, "mode"), ==, "plain");
     g_assert_true(json_object_has_member(resp, "warnings"));
+    /* the bounds themselves are allowed where closed */
+    g_autoptr(JsonObject) req2 = parse_object("{\"temperature_k\": 1000, \"weights\": [0, 0.5],"
+                                              " \"mode\": \"fancy\"}");
+    g_autoptr(JsonObject) resp2 = bm_registry_invoke(&echo_op, req2, NULL, &error);
+    g_assert_no_error(error);
 }
 
 static void expect_invalid(const char *request, const char *fragment)
@@ -62,7 +84,18 @@ static void test_validation(void)
                    "request key \"colour\" is not a parameter of echo");
     expect_invalid("{}", "missing the required key \"temperature_k\"");
     expect_invalid("{\"temperature_k\": \"hot\"}", "\"temperature_k\" of echo must be number");
-    expect_invalid("{\"temperature_k\": -4}", "must be greater than zero (got -4)");
+    /* ranges and choices, checked by the registry from the table */
+    expect_invalid("{\"temperature_k\": -4}",
+                   "request for echo: key \"temperature_k\" must be > 0 K and <= 1000 K "
+                   "(got -4 K)");
+    expect_invalid("{\"temperature_k\": 0}", "must be > 0 K");
+    expect_invalid("{\"temperature_k\": 1000.5}", "(got 1000.5 K)");
+    expect_invalid("{\"temperature_k\": 1, \"weights\": [0, 0.5, 1]}",
+                   "request for echo: element 2 of \"weights\" must be >= 0 and < 1 (got 1)");
+    expect_invalid("{\"temperature_k\": 1, \"weights\": -0.1}", "key \"weights\" must be >= 0");
+    expect_invalid("{\"temperature_k\": 1, \"mode\": \"odd\"}",
+                   "request for echo: key \"mode\" must be one of plain, fancy (got \"odd\")");
+    expect_invalid("{\"temperature_k\": 1, \"mode\": \"hidden\"}", "one of plain, fancy");
 }
 
 static void test_string_path(void)

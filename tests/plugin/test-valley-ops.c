@@ -39,9 +39,40 @@ static void test_germanium(void)
 /* Strained Si, [001] pair lowered by 0.1 eV at 300 K: the pair holds
  * 2 e^x / (2 e^x + 4) of the electrons, x = 0.1 eV / kT (Boltzmann), and the
  * in-plane conductivity mass lies between m_t and the unstrained value. */
+static double strained_pair(const char *population)
+{
+    GString *req = g_string_new("{\"temperature_k\": 300, ");
+    g_string_append_printf(req, "%s, \"valleys\": [", population);
+    const char *ax[6] = {"[1,0,0]", "[-1,0,0]", "[0,1,0]", "[0,-1,0]", "[0,0,1]", "[0,0,-1]"};
+    for (int i = 0; i < 6; i++)
+        g_string_append_printf(req, "%s{\"longitudinal_mass_me\": 0.98, \"transverse_mass_me\": "
+                               "0.19, \"axis\": %s, \"energy_offset_ev\": %s}", i ? "," : "",
+                               ax[i], i >= 4 ? "-0.1" : "0");
+    g_string_append(req, "]}");
+    g_autoptr(JsonObject) r = op_call("valley-average", req->str);
+    g_string_free(req, TRUE);
+    JsonArray *v = json_object_get_array_member(r, "valleys");
+    return json_object_get_double_member(json_array_get_object_element(v, 4),
+                                         "population_fraction")
+         + json_object_get_double_member(json_array_get_object_element(v, 5),
+                                         "population_fraction");
+}
+
+/* Fermi-Dirac populations (the default statistics) with the Fermi level 0.5 eV
+ * below the lowest edge (eta about -19) equal the Boltzmann ones: F_1/2(eta)
+ * = exp(eta) (1 - exp(eta) / 2^(3/2) + ...) far below zero (series of the
+ * complete Fermi-Dirac integral, DLMF 25.12.14 normalisation; identity). */
+static void test_strained_fermi_dirac_limit(void)
+{
+    double b = strained_pair("\"statistics\": \"boltzmann\"");
+    double f = strained_pair("\"fermi_level_ev\": -0.6");
+    g_assert_cmpfloat_with_epsilon(f, b, 1e-7);
+}
+
 static void test_strained(void)
 {
-    GString *req = g_string_new("{\"temperature_k\": 300, \"valleys\": [");
+    GString *req = g_string_new("{\"temperature_k\": 300, \"statistics\": \"boltzmann\","
+                                " \"valleys\": [");
     const char *ax[6] = {"[1,0,0]", "[-1,0,0]", "[0,1,0]", "[0,-1,0]", "[0,0,1]", "[0,0,-1]"};
     for (int i = 0; i < 6; i++)
         g_string_append_printf(req, "%s{\"longitudinal_mass_me\": 0.98, \"transverse_mass_me\": "
@@ -116,14 +147,28 @@ static void test_bad_input(void)
                    "{\"valleys\": [{\"principal_masses_me\": [0.2, 0.3, 0.4],"
                    " \"axes\": [[1,0,0],[0,1,0],[0,0,1]], \"energy_offset_ev\": 0.1},"
                    " {\"principal_masses_me\": [0.2, 0.3, 0.4],"
-                   " \"axes\": [[1,0,0],[0,1,0],[0,0,1]]}], \"temperature_k\": 0}", "0 K");
+                   " \"axes\": [[1,0,0],[0,1,0],[0,0,1]]}], \"temperature_k\": 0,"
+                   " \"statistics\": \"boltzmann\"}", "0 K");
     op_expect_invalid("valley-average",
                    "{\"valleys\": [{\"principal_masses_me\": [0.2, 0.3, 0.4], \"colour\": 1,"
                    " \"axes\": [[1,0,0],[0,1,0],[0,0,1]]}]}", "colour");
+    /* the default statistics (fermi-dirac) need a Fermi level for thermal populations */
+    op_expect_invalid("valley-average",
+                   "{\"valleys\": [{\"principal_masses_me\": [0.2, 0.3, 0.4],"
+                   " \"axes\": [[1,0,0],[0,1,0],[0,0,1]]}], \"temperature_k\": 300}",
+                   "\"fermi_level_ev\"");
+    op_expect_invalid("valley-average",
+                   "{\"valleys\": [{\"principal_masses_me\": [0.2, 0.3, 0.4],"
+                   " \"axes\": [[1,0,0],[0,1,0],[0,0,1]]}], \"statistics\": \"maxwell\"}",
+                   "key \"statistics\" must be one of fermi-dirac, boltzmann");
+    op_expect_invalid("valley-average",
+                   "{\"valleys\": [{\"principal_masses_me\": [0.2, 0.3, 0.4],"
+                   " \"axes\": [[1,0,0],[0,1,0],[0,0,1]]}], \"fermi_level_ev\": 0.1}",
+                   "\"fermi_level_ev\" needs \"temperature_k\"");
     op_expect_invalid("hole-mass", "{}", "luttinger_parameters");
     op_expect_invalid("hole-mass", "{\"luttinger_parameters\": [1, 2]}", "3 numbers");
     op_expect_invalid("hole-mass", "{\"heavy_hole_mass_me\": -0.5, \"light_hole_mass_me\": 0.16}",
-                   "heavy-hole");
+                   "key \"heavy_hole_mass_me\" must be > 0 m_e");
 }
 
 /* The readable view shows the response's numbers, and "-" (never "nan") for
@@ -149,6 +194,8 @@ int main(int argc, char **argv)
     bm_registry_init();
     g_test_add_func("/plugin/valley-average/silicon", test_silicon);
     g_test_add_func("/plugin/valley-average/germanium", test_germanium);
+    g_test_add_func("/plugin/valley-average/strained-fermi-dirac-limit",
+                    test_strained_fermi_dirac_limit);
     g_test_add_func("/plugin/valley-average/strained", test_strained);
     g_test_add_func("/plugin/hole-mass/values", test_holes);
     g_test_add_func("/plugin/hole-mass/render", test_hole_render);

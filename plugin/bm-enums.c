@@ -1,0 +1,80 @@
+/* bm-enums.c: the tables of bm-enums.h and the text <-> enum look-ups. */
+#include <string.h>
+
+#include "bm-enums.h"
+#include "bm-carriers.h"
+#include "bm-extrema.h"
+#include "bm-valleys.h"
+#include "material-input.h"
+
+static const BmChoice statistics[] = {
+    { BM_FERMI_DIRAC, "fermi-dirac", "Fermi-Dirac occupation, n = Nc F_1/2(eta)" },
+    { BM_BOLTZMANN, "boltzmann", "the non-degenerate limit, n = Nc exp(eta)" },
+    { 0, NULL, NULL }
+};
+const BmEnum bm_enum_statistics = { "statistics", statistics };
+
+static const BmChoice search[] = {
+    { BM_SEARCH_MINIMUM, "minimum", "the lowest minimum" },
+    { BM_SEARCH_MAXIMUM, "maximum", "the highest maximum" },
+    { BM_SEARCH_ALL, "all", "every local extremum of a grid (the lowest minimum and highest "
+                            "maximum of a table)" },
+    { 0, NULL, NULL }
+};
+const BmEnum bm_enum_extremum_search = { "extremum search", search };
+
+static const BmChoice extremum_kind[] = {
+    { BM_EXTREMUM_MINIMUM, "minimum", "all curvatures positive" },
+    { BM_EXTREMUM_MAXIMUM, "maximum", "all curvatures negative" },
+    { BM_EXTREMUM_SADDLE, "saddle", "curvatures of both signs" },
+    { 0, NULL, NULL }
+};
+const BmEnum bm_enum_extremum_kind = { "extremum kind", extremum_kind };
+
+static const BmChoice valley_site[] = {
+    { BM_SITE_GAMMA, "gamma", "the zone centre: one valley" },
+    { BM_SITE_INTERIOR, "interior", "inside the zone: k and -k distinct" },
+    { BM_SITE_FACE, "face", "on the zone boundary: each position counts one half" },
+    { 0, NULL, NULL }
+};
+const BmEnum bm_enum_valley_site = { "valley site", valley_site };
+
+static const BmChoice regime[] = {
+    { BM_REGIME_FREEZE_OUT, "freeze-out", "carriers frozen on the dopants" },
+    { BM_REGIME_EXTRINSIC, "extrinsic", "majority density set by the net doping" },
+    { BM_REGIME_INTRINSIC, "intrinsic", "thermally generated carriers dominate" },
+    { 0, NULL, NULL }
+};
+const BmEnum bm_enum_regime = { "regime", regime };
+
+static const BmChoice gap_model[] = {
+    { BM_GAP_VARSHNI, "varshni", "Eg0 - alpha T^2 / (T + beta)" },
+    { BM_GAP_BOSE_EINSTEIN, "bose-einstein",
+      "Eg0 - 2 a_B / (exp(theta / T) - 1)" },
+    { BM_GAP_FIXED, "fixed", "a gap that does not depend on temperature (band_gap_ev)" },
+    { 0, NULL, NULL }
+};
+const BmEnum bm_enum_gap_model = { "band-gap model", gap_model };
+
+const BmChoice *bm_enum_find(const BmEnum *e, const char *name)
+{
+    for (const BmChoice *c = e->choices; name && c->name; c++)
+        if (strcmp(c->name, name) == 0)
+            return c;
+    return NULL;
+}
+
+const char *bm_enum_name(const BmEnum *e, int value)
+{
+    for (const BmChoice *c = e->choices; c->name; c++)
+        if (c->value == value)
+            return c->name;
+    return "unknown";
+}
+
+int bm_enum_value(JsonObject *request, const char *key, const BmEnum *e)
+{
+    const BmChoice *c = bm_enum_find(e, json_object_get_string_member(request, key));
+    g_assert(c != NULL);   /* the registry checked the key against e */
+    return c->value;
+}
