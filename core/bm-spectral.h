@@ -17,6 +17,12 @@ typedef struct bm_interp bm_interp;
 bm_interp *bm_interp_new(const size_t mesh[3]);
 void bm_interp_free(bm_interp *ip);
 
+/* The same interpolant with its top harmonics (coarse axes: those above
+ * n/2 - max(1, n/8)) or its outer stencil points (fine axes: 6 in place of 8)
+ * left out.  Its difference from the full one estimates the interpolation
+ * error: small on a smooth band, large where a kink rings. */
+bm_interp *bm_interp_new_reduced(const size_t mesh[3]);
+
 /* Value, gradient and Hessian of the interpolant of band (n1*n2*n3 values in
  * C order) at fractional coordinates f (period 1 along each axis); derivatives
  * are with respect to f. Axes with one point contribute zero derivatives. */
