@@ -123,7 +123,7 @@ bm_status bm_valley_shape_normalise(bm_valley_shape *shape, bm_warnings *warn,
             a[i][c] /= l;
     }
     if (oe > 1e-9)
-        bm_warn(warn, "valley principal axes were re-orthonormalised "
+        bm_warn(warn, BM_WARN_AXES_REORTHONORMALISED, "valley principal axes were re-orthonormalised "
                 "(largest entry of A A^T - 1 was %.2g)", oe);
     return BM_OK;
 }
@@ -285,7 +285,7 @@ bm_status bm_valley_star_build(const bm_valley_shape *shape, bm_valley_site site
     }
     out->n = n;
     if (worst > 1e-9)
-        bm_warn(&out->warnings,
+        bm_warn(&out->warnings, BM_WARN_VALLEY_SYMMETRISED,
                 "the valley's mass tensor is not invariant under the operations of %s that "
                 "keep its position (relative change %.2g); each valley holds the "
                 "symmetrised average", g->name[0] ? g->name : "the group", worst);
@@ -409,14 +409,14 @@ bm_status bm_valley_average_compute(bm_valley *valleys, size_t n, const bm_popul
     for (size_t v = 0; v < n; v++)
         for (int i = 0; i < 3; i++)
             if (valleys[v].masses[i] < MASS_LOW || valleys[v].masses[i] > MASS_HIGH) {
-                bm_warn(&out->warnings,
+                bm_warn(&out->warnings, BM_WARN_MASS_OUT_OF_RANGE,
                         "valley %zu has a principal mass of %g m_e, outside the usual "
                         "%g..%g m_e", v, valleys[v].masses[i], MASS_LOW, MASS_HIGH);
                 v = n;   /* once is enough */
                 break;
             }
     if (pop->kind == BM_POPULATION_FERMI && kt > 0.0 && (pop->fermi_level_ev - emin) / kt > -3.0)
-        bm_warn(&out->warnings,
+        bm_warn(&out->warnings, BM_WARN_DEGENERATE_STATISTICS,
                 "the Fermi level lies %.3g kT from the lowest valley edge: degenerate "
                 "statistics, masses depend on the Fermi level",
                 (pop->fermi_level_ev - emin) / kt);

@@ -138,8 +138,7 @@ JsonObject *bm_registry_invoke(const BmOperation *op, JsonObject *request,
                         "%s failed without saying why", op->name);
         return NULL;
     }
-    if (!json_object_has_member(response, "warnings"))
-        json_object_set_array_member(response, "warnings", json_array_new());
+    bm_json_warnings_ensure(response);
     return response;
 }
 
@@ -243,7 +242,8 @@ static void render_node(JsonNode *node, GString *out, int indent)
     JsonObject *o = json_node_get_object(node);
     g_autoptr(GList) keys = json_object_get_members(o);
     for (GList *l = keys; l; l = l->next) {
-        if (indent == 0 && strcmp(l->data, "warnings") == 0)
+        if (indent == 0 && (strcmp(l->data, "warnings") == 0
+                            || strcmp(l->data, "warning_codes") == 0))
             continue;   /* the CLI prints warnings after the table */
         JsonNode *child = json_object_get_member(o, l->data);
         g_string_append_printf(out, "%*s%-28s", indent, "", (const char *)l->data);

@@ -64,7 +64,7 @@ const BmOperation *bm_registry_lookup(const char *name);
 
 /* Validates request against op->params (unknown keys, missing required keys,
  * wrong kinds are errors that name the key), fills defaults, runs. The
- * response always carries a "warnings" array. */
+ * response always carries "warnings" and "warning_codes" (parallel arrays). */
 JsonObject *bm_registry_invoke(const BmOperation *op, JsonObject *request,
                                const BmCallInputs *inputs, GError **error);
 

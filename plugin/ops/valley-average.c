@@ -119,8 +119,11 @@ typedef struct {
 
 static void valley_set_clear(ValleySet *s)
 {
-    if (s->star)
+    bm_warnings_clear(&s->pw);
+    if (s->star) {
+        bm_warnings_clear(&s->star->warnings);
         g_free(s->star);
+    }
     else
         g_free(s->valleys);
     if (s->has_mat)
@@ -368,6 +371,16 @@ static gboolean read_valleys(JsonObject *request, ValleySet *s, GError **error)
     return from_list(request, s, error);
 }
 
+/* Without a temperature every valley is populated alike, which needs equal
+ * energy offsets: said here in the request's terms. */
+static gboolean offsets_differ(const ValleySet *s)
+{
+    for (size_t i = 1; i < s->n; i++)
+        if (s->valleys[i].energy_offset_ev != s->valleys[0].energy_offset_ev)
+            return TRUE;
+    return FALSE;
+}
+
 static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
 {
     (void)inputs;
@@ -378,16 +391,18 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     JsonObject *resp = NULL;
     if (!read_valleys(request, &s, error) || !read_population(request, &pop, &has_t, error))
         goto done;
+    if (!has_t && offsets_differ(&s)) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request: the valleys' energy_offset_ev differ: give \"temperature_k\"");
+        goto done;
+    }
     bm_valley_average avg;
     if (bm_valley_average_compute(s.valleys, s.n, &pop, &avg, &err) != BM_OK) {
-        if (err.status == BM_EINVAL && !has_t && strstr(err.message, "offsets"))
-            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                        "request: the valleys' energy_offset_ev differ: give \"temperature_k\"");
-        else
-            bm_error_from_core(error, &err, "valley-average");
+        bm_error_from_core(error, &err, "valley-average");
         goto done;
     }
     resp = respond(&s, &pop, has_t, &avg);
+    bm_warnings_clear(&avg.warnings);
 done:
     valley_set_clear(&s);
     return resp;

@@ -87,8 +87,8 @@ static void cubic(double a, double r[3][3])
 
 static int has_warning(const bm_mass_tensor *t, const char *word)
 {
-    for (int w = 0; w < t->warnings.count; w++)
-        if (strstr(t->warnings.text[w], word))
+    for (size_t w = 0; w < t->warnings.count; w++)
+        if (strstr(t->warnings.items[w].text, word))
             return 1;
     return 0;
 }

@@ -186,8 +186,8 @@ static void test_luttinger_nonconvex(void)
     for (int d = 0; d < 3; d++)
         g_assert_false(isnan(m.heavy[d]) || isnan(m.light[d]));
     gboolean open = FALSE;
-    for (int i = 0; i < m.warnings.count; i++)
-        open |= strstr(m.warnings.text[i], "open") != NULL;
+    for (size_t i = 0; i < m.warnings.count; i++)
+        open |= strstr(m.warnings.items[i].text, "open") != NULL;
     g_assert_true(open);
     /* flat along [111] exactly: infinite directional mass, not NaN */
     bm_luttinger F = {4.0, 1.0, 2.0};

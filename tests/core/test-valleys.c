@@ -140,7 +140,7 @@ static void test_gamma(void)
     star_of("Oh", 0.4, 0.1, ax, BM_SITE_GAMMA, &star);
     g_assert_cmpuint(star.n, ==, 1);
     g_assert_cmpint(star.warnings.count, ==, 1);
-    g_assert_nonnull(strstr(star.warnings.text[0], "symmetrised"));
+    g_assert_nonnull(strstr(star.warnings.items[0].text, "symmetrised"));
     double m = 3.0 / (1.0 / 0.4 + 2.0 / 0.1);
     for (int i = 0; i < 3; i++)
         g_assert_cmpfloat_with_epsilon(star.valleys[0].masses[i], m, 1e-12);
@@ -348,7 +348,7 @@ static void test_warnings(void)
     g_assert_cmpuint(star.n, ==, 2);
     g_assert_cmpint(bm_valley_average_compute(star.valleys, star.n, NULL, &avg, NULL), ==, BM_OK);
     g_assert_cmpint(avg.warnings.count, ==, 1);
-    g_assert_nonnull(strstr(avg.warnings.text[0], "25"));
+    g_assert_nonnull(strstr(avg.warnings.items[0].text, "25"));
 }
 
 int main(int argc, char **argv)
