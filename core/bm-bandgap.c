@@ -15,7 +15,7 @@ static bm_status check_t(const char *form, double t_k, bm_errbuf *err)
 static void warn_gap(const char *form, double t_k, double eg, bm_warnings *w)
 {
     if (eg <= 0.0)
-        bm_warn(w, "band gap (%s): Eg(%g K) = %g eV is not positive; the "
+        bm_warn(w, BM_WARN_GAP_NOT_POSITIVE, "band gap (%s): Eg(%g K) = %g eV is not positive; the "
                 "parameters are used outside their range", form, t_k, eg);
 }
 

@@ -311,7 +311,7 @@ static bm_status setup(const bm_semiconductor *s, double t_k, bm_statistics stat
 {
     if (!s || !out)
         return bm_fail(err, BM_EINVAL, "carrier statistics: missing input or result");
-    out->warnings.count = 0;
+    out->warnings = (bm_warnings){0};
     if (!(t_k >= BM_CARRIERS_MIN_T_K) || !(t_k <= BM_CARRIERS_MAX_T_K))
         return bm_fail(err, BM_EINVAL, "carrier statistics: temperature %g K must lie "
                        "between %g and %g K", t_k, BM_CARRIERS_MIN_T_K, BM_CARRIERS_MAX_T_K);
@@ -411,13 +411,13 @@ static void fill_state(const nctx *c, double u, bm_carrier_state *out)
 static void common_warnings(const bm_carrier_state *o, bm_carrier_state *out)
 {
     if (o->m_dos_electron < 0.01 || o->m_dos_electron > 10.0)
-        bm_warn(&out->warnings, "electron DOS mass %g m_e is outside 0.01..10 m_e",
+        bm_warn(&out->warnings, BM_WARN_MASS_OUT_OF_RANGE, "electron DOS mass %g m_e is outside 0.01..10 m_e",
                 o->m_dos_electron);
     if (o->m_dos_hole < 0.01 || o->m_dos_hole > 10.0)
-        bm_warn(&out->warnings, "hole DOS mass %g m_e is outside 0.01..10 m_e",
+        bm_warn(&out->warnings, BM_WARN_MASS_OUT_OF_RANGE, "hole DOS mass %g m_e is outside 0.01..10 m_e",
                 o->m_dos_hole);
     if (o->band_gap_ev <= 0.0)
-        bm_warn(&out->warnings, "band gap %g eV is not positive: bands overlap",
+        bm_warn(&out->warnings, BM_WARN_GAP_NOT_POSITIVE, "band gap %g eV is not positive: bands overlap",
                 o->band_gap_ev);
 }
 
@@ -467,7 +467,7 @@ bm_status bm_carriers_solve(const bm_semiconductor *s, double t_k,
     out->boltzmann_deviation = fmax(rel_dev(nb, nf), rel_dev(pb, pf));
     if (out->boltzmann_deviation > 0.05) {
         out->boltzmann_inaccurate = 1;
-        bm_warn(&out->warnings, "Boltzmann statistics would be off by %.0f %% at %g K "
+        bm_warn(&out->warnings, BM_WARN_BOLTZMANN_DEVIATION, "Boltzmann statistics would be off by %.0f %% at %g K "
                 "(degenerate carriers)", 100.0 * out->boltzmann_deviation, t_k);
     }
     return BM_OK;
@@ -506,6 +506,7 @@ bm_status bm_carriers_intrinsic(const bm_semiconductor *s, double t_k,
     bare.skip_statistics_check = 1;
     bm_carrier_state st;
     bm_status r = bm_carriers_solve(&bare, t_k, &st, err);
+    bm_warnings_clear(&st.warnings);
     if (r)
         return r;
     if (ni_textbook_cm3)

@@ -115,13 +115,14 @@ typedef struct {
     double boltzmann_deviation;
     int boltzmann_inaccurate;
     int iterations;                /* root-finder iterations of the main solve */
-    bm_warnings warnings;
+    bm_warnings warnings;      /* the caller frees them: bm_warnings_clear */
 } bm_carrier_state;
 
 /* Solves p + sum N_D+ - n - sum N_A- = 0 for the Fermi level at t_k.
  * Safeguarded Newton on ln(positive charge / negative charge), always kept
  * inside a bracket from physical bounds (bisection fallback); converges for any
- * T > 0 and densities in double range.  No allocation. */
+ * T > 0 and densities in double range.  Allocates only to record a
+ * warning (free out->warnings with bm_warnings_clear). */
 bm_status bm_carriers_solve(const bm_semiconductor *s, double t_k,
                             bm_carrier_state *out, bm_errbuf *err);
 

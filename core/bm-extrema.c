@@ -78,7 +78,7 @@ static int finish_tensor(bm_mass_tensor *t, double hk[3][3], double p[3][3],
             t->masses[m] = INFINITY;
             nflat++;
             t->divergent = 1;
-            bm_warn(&t->warnings, "near-zero curvature along (%.4f, %.4f, %.4f): "
+            bm_warn(&t->warnings, BM_WARN_FLAT_DIRECTION, "near-zero curvature along (%.4f, %.4f, %.4f): "
                     "|1/m| = %.3g 1/m_e is below %.0e, the band is flat there; mass reported as infinite",
                     t->axes[m][0], t->axes[m][1], t->axes[m][2], fabs(inv), FLAT_INV_MASS);
         } else {
@@ -95,7 +95,7 @@ static int finish_tensor(bm_mass_tensor *t, double hk[3][3], double p[3][3],
     }
     if (npos && nneg) {
         t->kind = BM_EXTREMUM_SADDLE;
-        bm_warn(&t->warnings, "saddle point: the curvature changes sign (%d positive, %d negative "
+        bm_warn(&t->warnings, BM_WARN_SADDLE_POINT, "saddle point: the curvature changes sign (%d positive, %d negative "
                 "principal masses), so this is not a band extremum", npos, nneg);
     } else if (npos) {
         t->kind = BM_EXTREMUM_MINIMUM;
@@ -113,7 +113,7 @@ static void range_warnings(bm_mass_tensor *t)
     for (int m = 0; m < t->dims; m++) {
         double am = fabs(t->masses[m]);
         if (isfinite(am) && (am < MASS_MIN || am > MASS_MAX))
-            bm_warn(&t->warnings, "principal mass %d is %.4g m_e, outside the usual range "
+            bm_warn(&t->warnings, BM_WARN_MASS_OUT_OF_RANGE, "principal mass %d is %.4g m_e, outside the usual range "
                     "%.2g..%.3g m_e", m + 1, t->masses[m], MASS_MIN, MASS_MAX);
     }
 }
@@ -126,7 +126,7 @@ static void mark_conical(bm_mass_tensor *t, double ratio, double slope)
     for (int i = 0; i < 3; i++)
         for (int j = 0; j < 3; j++)
             t->inv_mass[i][j] = NAN;
-    bm_warn(&t->warnings, "conical point: E - E0 grows linearly with |k - k0| (ratio %.2f "
+    bm_warn(&t->warnings, BM_WARN_CONICAL_POINT, "conical point: E - E0 grows linearly with |k - k0| (ratio %.2f "
             "on doubling the distance, 4 for a parabola; slope about %.3g eV Angstrom); "
             "no finite inertial mass", ratio, slope);
 }
@@ -134,7 +134,7 @@ static void mark_conical(bm_mass_tensor *t, double ratio, double slope)
 static void nonparabolic_check(bm_mass_tensor *t, const bm_quadric *q, double span, double radius)
 {
     if (span > 0.0 && q->rms > NONPARABOLIC_REL * span)
-        bm_warn(&t->warnings, "non-parabolic band: quadratic fit residual %.3g eV is %.1f%% "
+        bm_warn(&t->warnings, BM_WARN_NON_PARABOLIC, "non-parabolic band: quadratic fit residual %.3g eV is %.1f%% "
                 "of the energy range %.3g eV within %.3g 1/Angstrom",
                 q->rms, 100.0 * q->rms / span, span, radius);
 }
@@ -322,7 +322,7 @@ static void grid_fit(grid_ctx *c, const double f[3], const double k0[3], double 
         nonparabolic_check(t, &qf, span, dmax);
     } else {
         t->fit_rms_ev = NAN;
-        bm_warn(&t->warnings, "local quadratic fit not determined: %zu mesh points within %.3g "
+        bm_warn(&t->warnings, BM_WARN_FIT_UNDETERMINED, "local quadratic fit not determined: %zu mesh points within %.3g "
                 "1/Angstrom give rank %zu of %zu parameters", m, dmax, qf.rank, qf.nparams);
     }
 done:
@@ -397,7 +397,7 @@ static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
                 away = fmax(away, fabs(f[a] - f_start[a]) * (double)n[a]);
             }
             if (away > 2.0) {
-                bm_warn(&t->warnings, "refinement left the neighbourhood of mesh point "
+                bm_warn(&t->warnings, BM_WARN_REFINEMENT_ESCAPED, "refinement left the neighbourhood of mesh point "
                         "(%.4f, %.4f, %.4f) (fractional); reported at the mesh point",
                         f_start[0], f_start[1], f_start[2]);
                 memcpy(f, f_start, sizeof f);
@@ -412,7 +412,7 @@ static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
                 converged = 1;
         }
         if (!converged && !flat && last > 1e-4)
-            bm_warn(&t->warnings, "refinement did not converge in %d Newton steps", NEWTON_MAX_ITER);
+            bm_warn(&t->warnings, BM_WARN_REFINEMENT_NOT_CONVERGED, "refinement did not converge in %d Newton steps", NEWTON_MAX_ITER);
     }
     grid_eval(c, c->band, f, &e, gf, hf);
     if (c->dims == 2) {
@@ -438,7 +438,7 @@ static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
     if (finish_tensor(t, hk, c->p, c->dims, hint) != 0)
         return -1;
     if (!refine && bm_norm3(gk) > 1e-6)
-        bm_warn(&t->warnings, "|dE/dk| = %.3g eV Angstrom at the given point: not a stationary "
+        bm_warn(&t->warnings, BM_WARN_NOT_STATIONARY, "|dE/dk| = %.3g eV Angstrom at the given point: not a stationary "
                 "point, the tensor is the local curvature there", bm_norm3(gk));
     grid_fit(c, f, t->k, e, t);
     double ratio, slope;
@@ -452,7 +452,7 @@ static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
         double eb;
         grid_eval(c, b, f, &eb, NULL, NULL);
         if (isfinite(eb) && fabs(eb - e) <= c->degen)
-            bm_warn(&t->warnings, "band %zu lies %.3g meV from band %zu at this %s (E = %.6f eV; "
+            bm_warn(&t->warnings, BM_WARN_DEGENERATE_BAND, "band %zu lies %.3g meV from band %zu at this %s (E = %.6f eV; "
                     "tolerance %.3g meV): the bands are degenerate here and the mass tensor is ill-defined",
                     b, 1e3 * fabs(eb - e), c->band, kind_name(t->kind), e, 1e3 * c->degen);
     }
@@ -634,10 +634,12 @@ bm_status bm_grid_mass_tensors(const bm_grid *g, size_t band, bm_search which,
         if (c.dims == 2)
             f[2] = 0.0;
         res = malloc(sizeof *res);
-        if (!res || grid_analyse(&c, f, 0, BM_EXTREMUM_MINIMUM, res) != 0)
-            s = res ? bm_fail(err, BM_EINTERNAL, "eigen-decomposition failed at the given point")
-                    : bm_fail(err, BM_ENOMEM, "out of memory");
-        else
+        if (!res) {
+            s = bm_fail(err, BM_ENOMEM, "out of memory");
+        } else if (grid_analyse(&c, f, 0, BM_EXTREMUM_MINIMUM, res) != 0) {
+            bm_warnings_clear(&res->warnings);
+            s = bm_fail(err, BM_EINTERNAL, "eigen-decomposition failed at the given point");
+        } else
             nres = 1;
     } else {
         candidate *cl = NULL;
@@ -681,9 +683,10 @@ bm_status bm_grid_mass_tensors(const bm_grid *g, size_t band, bm_search which,
                             (double)((p / n3) % n2) / (double)n2,
                             (double)(p % n3) / (double)n3 };
             if (grid_analyse(&c, f, 1, cl[q].is_min ? BM_EXTREMUM_MINIMUM : BM_EXTREMUM_MAXIMUM,
-                             &res[nres]) != 0)
+                             &res[nres]) != 0) {
+                bm_warnings_clear(&res[nres].warnings);
                 s = bm_fail(err, BM_EINTERNAL, "eigen-decomposition failed at mesh point %zu", p);
-            else
+            } else
                 nres++;
         }
         free(cl);
@@ -692,7 +695,7 @@ bm_status bm_grid_mass_tensors(const bm_grid *g, size_t band, bm_search which,
     }
     bm_interp_free(c.ip);
     if (s != BM_OK) {
-        free(res);
+        bm_mass_tensors_free(res, nres);
         return s;
     }
     *out = res;
@@ -825,7 +828,7 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
                 du[a] -= hi[a][b] * q.g[b];
         double step = sqrt(du[0] * du[0] + du[1] * du[1] + du[2] * du[2]);
         if (step > dmax) {
-            bm_warn(&t->warnings, "Newton step %.3g 1/Angstrom leaves the fit region (%.3g 1/Angstrom); "
+            bm_warn(&t->warnings, BM_WARN_REFINEMENT_ESCAPED, "Newton step %.3g 1/Angstrom leaves the fit region (%.3g 1/Angstrom); "
                     "the extremum is reported at the sampled point", step, dmax);
             break;
         }
@@ -849,7 +852,7 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
         return bm_fail(err, BM_EINTERNAL, "eigen-decomposition of the fitted Hessian failed");
     double gnorm = sqrt(q.g[0] * q.g[0] + q.g[1] * q.g[1] + q.g[2] * q.g[2]);
     if (!refine && gnorm > 1e-6)
-        bm_warn(&t->warnings, "|dE/dk| = %.3g eV Angstrom at the given point: not a stationary "
+        bm_warn(&t->warnings, BM_WARN_NOT_STATIONARY, "|dE/dk| = %.3g eV Angstrom at the given point: not a stationary "
                 "point, the tensor is the local curvature there", gnorm);
     nonparabolic_check(t, &q, span, dmax);
     /* Conical test: refit with the radius doubled (or the point count grown by
@@ -900,7 +903,7 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
             continue;
         double eb = c->t->energies[b * c->t->npoints + near];
         if (fabs(eb - e_self) <= c->degen)
-            bm_warn(&t->warnings, "band %zu lies %.3g meV from band %zu at this %s (point %zu, "
+            bm_warn(&t->warnings, BM_WARN_DEGENERATE_BAND, "band %zu lies %.3g meV from band %zu at this %s (point %zu, "
                     "E = %.6f eV; tolerance %.3g meV): the bands are degenerate here and the mass "
                     "tensor is ill-defined", b, 1e3 * fabs(eb - e_self), c->band, kind_name(t->kind),
                     near, e_self, 1e3 * c->degen);
@@ -984,6 +987,8 @@ bm_status bm_ktable_mass_tensors(const bm_ktable *t, size_t band, bm_search whic
     if (k_at) {
         s = table_analyse(&c, k_at, 0, BM_EXTREMUM_MINIMUM, &res[0], err);
         nres = s == BM_OK;
+        if (s != BM_OK)
+            bm_warnings_clear(&res[nres].warnings);
     } else {
         size_t lo = 0, hi = 0;
         for (size_t m = 1; m < np; m++) {
@@ -995,10 +1000,14 @@ bm_status bm_ktable_mass_tensors(const bm_ktable *t, size_t band, bm_search whic
         if (which != BM_SEARCH_MAXIMUM) {
             s = table_analyse(&c, t->k + 3 * lo, 1, BM_EXTREMUM_MINIMUM, &res[nres], err);
             nres += s == BM_OK;
+            if (s != BM_OK)
+                bm_warnings_clear(&res[nres].warnings);
         }
         if (s == BM_OK && which != BM_SEARCH_MINIMUM) {
             s = table_analyse(&c, t->k + 3 * hi, 1, BM_EXTREMUM_MAXIMUM, &res[nres], err);
             nres += s == BM_OK;
+            if (s != BM_OK)
+                bm_warnings_clear(&res[nres].warnings);
         }
     }
 done:
@@ -1009,10 +1018,17 @@ done:
     free(c.e);
     free(c.w);
     if (s != BM_OK) {
-        free(res);
+        bm_mass_tensors_free(res, nres);
         return s;
     }
     *out = res;
     *n_out = nres;
     return BM_OK;
+}
+
+void bm_mass_tensors_free(bm_mass_tensor *t, size_t n)
+{
+    for (size_t i = 0; t && i < n; i++)
+        bm_warnings_clear(&t[i].warnings);
+    free(t);
 }

@@ -19,7 +19,7 @@ typedef struct {
     double fraction_hh;     /* share of the holes in each band (non-degenerate) */
     double fraction_lh;
     double fraction_so;
-    bm_warnings warnings;
+    bm_warnings warnings;      /* the caller frees them: bm_warnings_clear */
 } bm_hole_dos;
 
 /* m_dh^(3/2) = m_hh^(3/2) + m_lh^(3/2) + m_so^(3/2) exp(-Delta_so / kT).
@@ -51,7 +51,7 @@ typedef struct {
     double heavy_factor_min;  /* min over directions of g1 - sqrt(...), 1/m_e */
     double quadrature_change; /* relative change of the DOS masses on doubling
                                  the quadrature: an error estimate */
-    bm_warnings warnings;
+    bm_warnings warnings;      /* the caller frees them: bm_warnings_clear */
 } bm_luttinger_masses;
 
 /* Directional masses and the angle averages

@@ -352,7 +352,8 @@ static BmOperationInfo *operation_info_new(const BmOperation *op)
         g_ptr_array_add(self->params, param_info_new(p));
     for (const BmField *f = op->response; f && f->name; f++)
         g_ptr_array_add(self->response, field_info_new(f));
-    g_ptr_array_add(self->response, field_info_new(&bm_field_warnings));
+    for (const BmField *f = bm_common_fields; f->name; f++)
+        g_ptr_array_add(self->response, field_info_new(f));
     return self;
 }
 

@@ -204,15 +204,29 @@ void bm_json_set_mat3(JsonObject *o, const char *key, const double m[3][3])
     json_object_set_array_member(o, key, rows);
 }
 
-void bm_json_warn(JsonObject *o, const char *fmt, ...)
+void bm_json_warnings_ensure(JsonObject *o)
 {
     if (!json_object_has_member(o, "warnings"))
         json_object_set_array_member(o, "warnings", json_array_new());
+    if (!json_object_has_member(o, "warning_codes"))
+        json_object_set_array_member(o, "warning_codes", json_array_new());
+}
+
+static void add_warning(JsonObject *o, bm_warn_code code, const char *text)
+{
+    bm_json_warnings_ensure(o);
+    json_array_add_string_element(json_object_get_array_member(o, "warnings"), text);
+    json_array_add_string_element(json_object_get_array_member(o, "warning_codes"),
+                                  bm_warn_code_name(code));
+}
+
+void bm_json_warn(JsonObject *o, bm_warn_code code, const char *fmt, ...)
+{
     va_list ap;
     va_start(ap, fmt);
     g_autofree char *text = g_strdup_vprintf(fmt, ap);
     va_end(ap);
-    json_array_add_string_element(json_object_get_array_member(o, "warnings"), text);
+    add_warning(o, code, text);
 }
 
 char *bm_json_to_string(JsonNode *node, gboolean pretty)
@@ -257,9 +271,10 @@ char *bm_json_to_string(JsonNode *node, gboolean pretty)
 
 void bm_json_warn_all(JsonObject *o, const bm_warnings *w)
 {
-    if (!json_object_has_member(o, "warnings"))
-        json_object_set_array_member(o, "warnings", json_array_new());
-    JsonArray *a = json_object_get_array_member(o, "warnings");
-    for (int i = 0; i < w->count; i++)
-        json_array_add_string_element(a, w->text[i]);
+    bm_json_warnings_ensure(o);
+    for (size_t i = 0; i < w->count; i++)
+        add_warning(o, w->items[i].code, w->items[i].text);
+    if (w->lost)
+        bm_json_warn(o, BM_WARN_WARNINGS_LOST, "%zu further warning%s lost: out of memory",
+                     w->lost, w->lost == 1 ? " was" : "s were");
 }

@@ -4,7 +4,7 @@
 #define BM_JSON_H
 
 #include <json-glib/json-glib.h>
-#include "bm-error.h"
+#include "bm-error-private.h"
 #include "bm-status.h"
 
 G_BEGIN_DECLS
@@ -48,12 +48,19 @@ void bm_json_set_numbers(JsonObject *o, const char *key, const double *v, gsize 
  * stray ".0" is removed here.  Use it wherever a response becomes text. */
 char *bm_json_to_string(JsonNode *node, gboolean pretty);
 
-/* Appends every warning of a core result to o's "warnings" array, creating
- * the array (empty if there are none) so the key is always present. */
+/* Warnings in JSON: "warnings" is the array of messages, "warning_codes" the
+ * parallel array of their stable codes (bm_warn_code_name), same length and
+ * order. Write them only through these functions so the two stay aligned. */
+
+/* Creates both arrays (empty) where missing. */
+void bm_json_warnings_ensure(JsonObject *o);
+
+/* Appends every warning of a core result to o's arrays, creating them
+ * (empty if there are none) so the keys are always present. */
 void bm_json_warn_all(JsonObject *o, const bm_warnings *w);
 
-/* Appends a warning string to the object's "warnings" array (created on demand). */
-void bm_json_warn(JsonObject *o, const char *fmt, ...) G_GNUC_PRINTF(2, 3);
+/* Appends one warning with its code (arrays created on demand). */
+void bm_json_warn(JsonObject *o, bm_warn_code code, const char *fmt, ...) G_GNUC_PRINTF(3, 4);
 
 G_END_DECLS
 

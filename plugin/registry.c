@@ -265,8 +265,7 @@ JsonObject *bm_registry_invoke(const BmOperation *op, JsonObject *request,
                         "%s failed without saying why", op->name);
         return NULL;
     }
-    if (!json_object_has_member(response, "warnings"))
-        json_object_set_array_member(response, "warnings", json_array_new());
+    bm_json_warnings_ensure(response);
     return response;
 }
 
@@ -302,9 +301,12 @@ char *bm_registry_call_json(const char *op_name, const char *request_json,
     return bm_json_to_string(out, pretty);
 }
 
-const BmField bm_field_warnings = {
-    "warnings", NULL, FALSE,
-    "findings that make a number doubtful or non-physical, as sentences (always present)"
+const BmField bm_common_fields[] = {
+    { "warnings", NULL, FALSE,
+      "findings that make a number doubtful or non-physical, as sentences (always present)" },
+    { "warning_codes", NULL, FALSE,
+      "the stable code of each warning, in the same order (always present)" },
+    BM_FIELD_END
 };
 
 static void add_bound(JsonBuilder *b, const char *member, const BmBound *bound)
@@ -402,7 +404,8 @@ JsonNode *bm_operation_describe(const BmOperation *op)
     json_builder_begin_array(b);
     for (const BmField *f = op->response; f && f->name; f++)
         add_field(b, f);
-    add_field(b, &bm_field_warnings);
+    for (const BmField *f = bm_common_fields; f->name; f++)
+        add_field(b, f);
     json_builder_end_array(b);
     json_builder_end_object(b);
     return json_builder_get_root(b);
@@ -443,7 +446,8 @@ static void render_node(JsonNode *node, GString *out, int indent)
     JsonObject *o = json_node_get_object(node);
     g_autoptr(GList) keys = json_object_get_members(o);
     for (GList *l = keys; l; l = l->next) {
-        if (indent == 0 && strcmp(l->data, "warnings") == 0)
+        if (indent == 0 && (strcmp(l->data, "warnings") == 0
+                            || strcmp(l->data, "warning_codes") == 0))
             continue;   /* the CLI prints warnings after the table */
         JsonNode *child = json_object_get_member(o, l->data);
         g_string_append_printf(out, "%*s%-28s", indent, "", (const char *)l->data);

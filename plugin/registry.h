@@ -4,7 +4,7 @@
 #define BM_REGISTRY_H
 
 #include <json-glib/json-glib.h>
-#include "bm-error.h"
+#include "bm-error-private.h"
 #include "bm-bands.h"
 
 G_BEGIN_DECLS
@@ -121,7 +121,8 @@ const BmOperation *bm_registry_lookup(const char *name);
 /* Validates request against op->params (unknown keys, missing required keys,
  * wrong kinds, values out of range and strings not among the choices are
  * errors that name the key, the value and what is allowed), fills defaults,
- * runs. The response always carries a "warnings" array. */
+ * runs. The response always carries "warnings" and "warning_codes" (parallel
+ * arrays). */
 JsonObject *bm_registry_invoke(const BmOperation *op, JsonObject *request,
                                const BmCallInputs *inputs, GError **error);
 
@@ -158,8 +159,9 @@ const BmChoice **bm_param_choices(const BmParam *p);
 JsonNode *bm_operation_describe(const BmOperation *op);
 JsonNode *bm_registry_describe(void);
 
-/* The field every response carries beside an operation's own table. */
-extern const BmField bm_field_warnings;
+/* The fields every response carries beside an operation's own table
+ * ("warnings", "warning_codes"), terminated by BM_FIELD_END. */
+extern const BmField bm_common_fields[];
 
 /* Generic readable rendering, used when an operation has no renderer. */
 void bm_render_generic(JsonObject *response, GString *out);

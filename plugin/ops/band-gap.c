@@ -76,6 +76,7 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
             json_array_unref(pts);
             json_object_unref(resp);
             bm_material_input_clear(&mat);
+            bm_warnings_clear(&w);
             return NULL;
         }
         if (list) {
@@ -107,6 +108,7 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     else
         json_array_unref(pts);
     bm_json_warn_all(resp, &w);
+    bm_warnings_clear(&w);
     bm_material_input_clear(&mat);
     return resp;
 }

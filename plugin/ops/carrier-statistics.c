@@ -298,17 +298,21 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
             : g_strdup("request: key \"temperature_k\"");
         bm_warnings gw = {0};
         bm_errbuf err = {0};
-        if (!bm_material_input_gap(&mat, gap_model, t[i], where, &s.band_gap_ev, &gw, error))
+        if (!bm_material_input_gap(&mat, gap_model, t[i], where, &s.band_gap_ev, &gw, error)) {
+            bm_warnings_clear(&gw);
             goto fail;
+        }
         double me, mh;
         if (use_points && bm_dos_mass_table_eval(&mp.table, t[i], &me, &mh, &err) != BM_OK) {
             g_autofree char *ctx = g_strdup_printf("%s and \"dos_mass_points\"", where);
             bm_error_from_core(error, &err, ctx);
+            bm_warnings_clear(&gw);
             goto fail;
         }
         bm_carrier_state st;
         if (bm_carriers_solve(&s, t[i], &st, &err) != BM_OK) {
             bm_error_from_core(error, &err, where);
+            bm_warnings_clear(&gw);
             goto fail;
         }
         JsonObject *row = list ? json_object_new() : resp;
@@ -316,12 +320,16 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
         if (list)
             json_array_add_object_element(pts, row);
         g_autofree char *prefix = list ? g_strdup_printf("%g K: ", t[i]) : g_strdup("");
-        for (int k = 0; k < gw.count; k++)
-            bm_json_warn(resp, "%s%s", prefix, gw.text[k]);
+        for (size_t k = 0; k < gw.count; k++)
+            bm_json_warn(resp, gw.items[k].code, "%s%s", prefix, gw.items[k].text);
         /* the gap warning is already given by the band-gap model */
-        for (int k = 0; k < st.warnings.count; k++)
-            if (!(gw.count && strstr(st.warnings.text[k], "not positive")))
-                bm_json_warn(resp, "%s%s", prefix, st.warnings.text[k]);
+        for (size_t k = 0; k < st.warnings.count; k++)
+            if (!(st.warnings.items[k].code == BM_WARN_GAP_NOT_POSITIVE
+                  && bm_warnings_has(&gw, BM_WARN_GAP_NOT_POSITIVE)))
+                bm_json_warn(resp, st.warnings.items[k].code, "%s%s", prefix,
+                             st.warnings.items[k].text);
+        bm_warnings_clear(&gw);
+        bm_warnings_clear(&st.warnings);
     }
     json_object_set_string_member(resp, "material", mat.mat.name);
     json_object_set_string_member(resp, "fermi_level_reference", "valence-band maximum");

@@ -176,6 +176,7 @@ static gboolean bands_json(JsonObject *resp, const HoleInputs *in, double t_k, G
     bm_json_set_number(f, "split_off", d.fraction_so);
     json_object_set_object_member(resp, "band_fractions", f);
     bm_json_warn_all(resp, &d.warnings);
+    bm_warnings_clear(&d.warnings);
     return TRUE;
 }
 
@@ -198,6 +199,7 @@ static gboolean luttinger_json(JsonObject *resp, const HoleInputs *in, GError **
     json_object_set_boolean_member(o, "heavy_hole_convex", m.heavy_convex);
     json_object_set_object_member(resp, "luttinger", o);
     bm_json_warn_all(resp, &m.warnings);
+    bm_warnings_clear(&m.warnings);
     return TRUE;
 }
 

@@ -187,16 +187,18 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     for (size_t i = 0; i < nres; i++)
         json_array_add_object_element(list, tensor_object(&res[i], g != NULL));
     json_object_set_array_member(response, "extrema", list);
-    json_object_set_array_member(response, "warnings", json_array_new());
+    bm_json_warnings_ensure(response);
     if (nres == 0)
-        bm_json_warn(response, "no extremum found in band %zu of %s", band, source);
+        bm_json_warn(response, BM_WARN_NO_EXTREMUM, "no extremum found in band %zu of %s",
+                     band, source);
     for (size_t i = 0; i < nres; i++)
         if (res[i].warnings.count)
-            bm_json_warn(response, "extremum %zu (%s at %.6g eV) carries %d warning%s",
+            bm_json_warn(response, BM_WARN_EXTREMUM_WARNINGS,
+                         "extremum %zu (%s at %.6g eV) carries %zu warning%s",
                          i, bm_enum_name(&bm_enum_extremum_kind, (int)res[i].kind),
                          res[i].energy_ev, res[i].warnings.count,
                          res[i].warnings.count == 1 ? "" : "s");
-    free(res);
+    bm_mass_tensors_free(res, nres);
     return response;
 }
 

@@ -4,7 +4,7 @@
 #define BM_MATERIAL_INPUT_H
 
 #include <json-glib/json-glib.h>
-#include "bm-error.h"
+#include "bm-error-private.h"
 #include "bm-materials.h"
 
 G_BEGIN_DECLS

@@ -125,6 +125,7 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
             bm_error_from_core(error, &err, m ? "request: key \"temperature_k\""
                                               : "request: key \"name\"");
             json_object_unref(resp);
+            bm_warnings_clear(&w);
             return NULL;
         }
         json_object_set_object_member(resp, "material", full(m, t, eg));
@@ -137,6 +138,7 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
                 bm_error_from_core(error, &err, "request: key \"temperature_k\"");
                 json_array_unref(pts);
                 json_object_unref(resp);
+                bm_warnings_clear(&w);
                 return NULL;
             }
             JsonObject *o = json_object_new();
@@ -159,6 +161,7 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
         json_object_set_array_member(resp, "points", pts);
     }
     bm_json_warn_all(resp, &w);
+    bm_warnings_clear(&w);
     return resp;
 }
 

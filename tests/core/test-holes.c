@@ -58,6 +58,8 @@ static void test_hole_bad_input(void)
     bm_hole_bands w = {0.16, 0.49, 0.0, 0.0, 300.0};
     g_assert_cmpint(bm_hole_dos_mass(&w, &d, &err), ==, BM_OK);
     g_assert_cmpint(d.warnings.count, ==, 1);
+    g_assert_cmpint(d.warnings.items[0].code, ==, BM_WARN_MASS_ORDER);
+    bm_warnings_clear(&d.warnings);
 }
 
 /* GaAs: gamma1 = 6.98, gamma2 = 2.06, gamma3 = 2.93 (Vurgaftman, Meyer &
@@ -186,14 +188,17 @@ static void test_luttinger_nonconvex(void)
     for (int d = 0; d < 3; d++)
         g_assert_false(isnan(m.heavy[d]) || isnan(m.light[d]));
     gboolean open = FALSE;
-    for (int i = 0; i < m.warnings.count; i++)
-        open |= strstr(m.warnings.text[i], "open") != NULL;
+    for (size_t i = 0; i < m.warnings.count; i++)
+        open |= strstr(m.warnings.items[i].text, "open") != NULL;
     g_assert_true(open);
+    g_assert_true(bm_warnings_has(&m.warnings, BM_WARN_OPEN_SURFACE));
+    bm_warnings_clear(&m.warnings);
     /* flat along [111] exactly: infinite directional mass, not NaN */
     bm_luttinger F = {4.0, 1.0, 2.0};
     g_assert_cmpint(bm_luttinger_masses_compute(&F, &m, &err), ==, BM_OK);
     g_assert_true(isinf(m.heavy[2]));
     g_assert_cmpint(m.heavy_convex, ==, 0);
+    bm_warnings_clear(&m.warnings);
 
     bm_luttinger bad = {0.0, 1.0, 1.0};
     g_assert_cmpint(bm_luttinger_masses_compute(&bad, &m, &err), ==, BM_EINVAL);

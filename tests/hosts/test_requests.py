@@ -14,7 +14,24 @@ def call(op, path):
     p = subprocess.run([CLI, "call", op, "--input", path, "--compact"], cwd=HERE,
                        capture_output=True, text=True)
     assert p.returncode == 0, (op, path, p.stderr)
-    return json.loads(p.stdout)
+    r = json.loads(p.stdout)
+    assert "warnings" in r and "warning_codes" in r, (op, path)
+    aligned(r, op + " " + path)
+    return r
+
+
+def aligned(o, where):
+    """Every object with warnings has a "warning_codes" array of the same length."""
+    if isinstance(o, dict):
+        if "warnings" in o or "warning_codes" in o:
+            w, c = o.get("warnings"), o.get("warning_codes")
+            assert isinstance(w, list) and isinstance(c, list) and len(w) == len(c), where
+            assert all(isinstance(x, str) and x for x in c), where
+        for v in o.values():
+            aligned(v, where)
+    elif isinstance(o, list):
+        for v in o:
+            aligned(v, where)
 
 
 failures = []

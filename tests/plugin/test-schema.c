@@ -64,8 +64,9 @@ static const Case cases[] = {
 
 static gboolean declared(const BmOperation *op, const char *key)
 {
-    if (strcmp(key, bm_field_warnings.name) == 0)
-        return TRUE;
+    for (const BmField *f = bm_common_fields; f->name; f++)
+        if (strcmp(key, f->name) == 0)
+            return TRUE;
     for (const BmField *f = op->response; f && f->name; f++)
         if (strcmp(f->name, key) == 0)
             return TRUE;
