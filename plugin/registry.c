@@ -233,7 +233,7 @@ static void render_scalar(JsonNode *node, GString *out)
         }
         g_string_append_c(out, ']');
     } else {
-        g_autofree char *text = json_to_string(node, FALSE);
+        g_autofree char *text = bm_json_to_string(node, FALSE);
         g_string_append(out, text);
     }
 }
