@@ -29,15 +29,32 @@ typedef struct {
     const char *summary;       /* one line: meaning and unit */
 } BmParam;
 
-/* In-memory inputs a host may hand over beside the JSON request (for
- * example a band grid built from a NumPy array, so no file is written);
- * NULL when there are none. Operations that read band data use `grid` in
- * place of the request's file path when it is set. */
+/* In-memory inputs a host hands over beside the JSON request, each standing
+ * in for one request key: for example a band grid built from a NumPy array
+ * in place of the "grid" file path, so no file is written. The registry
+ * only checks that each key is a parameter of the operation and is not
+ * also in the request; the operation that reads the key asks for the input
+ * by key and type tag (bm_call_inputs_lookup). Type tags are strings named
+ * by the reader that defines the pointed-to type (BM_INPUT_BAND_GRID in
+ * io/band-grid.h), so a new kind of input needs no change here. A key that
+ * an input may stand in for is declared optional in the operation's
+ * parameters (the operation says what it needs when neither is given). */
+typedef struct {
+    const char *key;     /* the request key it stands in for, e.g. "grid" */
+    const char *type;    /* type tag of value, e.g. BM_INPUT_BAND_GRID */
+    const void *value;   /* borrowed for the duration of the call */
+} BmInput;
+
 typedef struct _BmCallInputs BmCallInputs;
 struct _BmCallInputs {
-    const bm_grid *grid;              /* borrowed, or NULL */
-    const char *const *band_names;    /* borrowed, grid->nbands entries, or NULL */
+    gsize n_inputs;
+    const BmInput *inputs;   /* n_inputs entries, keys distinct */
 };
+
+/* The value standing in for key, or NULL when inputs (may be NULL) has none.
+ * An input for key with another type tag is an error (NULL, error set). */
+const void *bm_call_inputs_lookup(const BmCallInputs *inputs, const char *key,
+                                  const char *type, GError **error);
 
 /* Runs an operation on a validated request (defaults filled in). Returns a
  * new response object, or NULL with error set. */
@@ -63,8 +80,14 @@ const BmOperation *const *bm_registry_operations(guint *n_ops);
 const BmOperation *bm_registry_lookup(const char *name);
 
 /* Validates request against op->params (unknown keys, missing required keys,
- * wrong kinds are errors that name the key), fills defaults, runs. The
- * response always carries a "warnings" array. */
+ * wrong kinds are errors that name the key; so are in-memory inputs for keys
+ * the operation does not take or that the request also gives) and returns a
+ * new request with the defaults filled in, or NULL with error set. */
+JsonObject *bm_registry_prepare(const BmOperation *op, JsonObject *request,
+                                const BmCallInputs *inputs, GError **error);
+
+/* bm_registry_prepare, then runs. The response always carries a "warnings"
+ * array. */
 JsonObject *bm_registry_invoke(const BmOperation *op, JsonObject *request,
                                const BmCallInputs *inputs, GError **error);
 
