@@ -154,6 +154,12 @@ static gboolean validate_inputs(const BmOperation *op, JsonObject *request,
                         "of %s", key ? key : "(null)", op->name);
             return FALSE;
         }
+        for (gsize j = 0; j < i; j++)
+            if (g_strcmp0(inputs->inputs[j].key, key) == 0) {
+                g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                            "two in-memory inputs stand in for \"%s\" of %s", key, op->name);
+                return FALSE;
+            }
         if (json_object_has_member(request, key)) {
             g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
                         "request key \"%s\" of %s is given twice: in the request and as an "

@@ -206,6 +206,14 @@ static void test_in_memory_inputs(void)
     g_assert_nonnull(strstr(error->message, "is a band grid, expected a test numbers"));
     g_clear_error(&error);
 
+    /* two inputs for one key */
+    BmInput twice[] = { in, in };
+    BmCallInputs twice_inputs = { 2, twice };
+    g_assert_null(bm_registry_invoke(&sum_op, empty, &twice_inputs, &error));
+    g_assert_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT);
+    g_assert_nonnull(strstr(error->message, "two in-memory inputs stand in for \"values\""));
+    g_clear_error(&error);
+
     /* the string path carries them too */
     g_autofree char *text = bm_registry_call_json("constants", "{}", &stray_inputs, FALSE, &error);
     g_assert_null(text);
