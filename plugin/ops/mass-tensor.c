@@ -1,8 +1,9 @@
 /* mass-tensor.c: operation "mass-tensor" -- band extrema of one band of a
  * band grid document or a k-table, with their inertial mass tensors.
  *
- * Request: "grid" (band grid document path) or "table" (k-table path), or an
- * in-memory grid handed over by the host; "band" (0-based index or name);
+ * Request: "grid" (band grid document path, or a BmBandGrid the host hands
+ * over in its place as an in-memory input, BM_INPUT_BAND_GRID) or "table"
+ * (k-table path); "band" (0-based index or name);
  * "extremum": "minimum" (the lowest), "maximum" (the highest) or "all" (every
  * local extremum of a grid; the lowest minimum and highest maximum of a
  * table); optional "k_inv_angstrom" (evaluate the tensor at that Cartesian
