@@ -2,6 +2,7 @@
  * operation list (BmOperationInfo, BmParamInfo) built from its tables. */
 #include "bandmass.h"
 #include "registry.h"
+#include "bm-json.h"
 
 char *bm_call(const char *op, const char *request_json, GError **error)
 {
@@ -13,7 +14,7 @@ char *bm_call(const char *op, const char *request_json, GError **error)
 char *bm_describe_operations(void)
 {
     g_autoptr(JsonNode) all = bm_registry_describe();
-    return json_to_string(all, FALSE);
+    return bm_json_to_string(all, FALSE);
 }
 
 /* ---- BmParamInfo ---- */

@@ -102,6 +102,10 @@ BM_PUBLIC BmBands *bm_bands_new_from_array(const double *energies, gsize n_value
 BM_PUBLIC BmBands *bm_bands_new_from_lattice(const double *energies, gsize n_values, guint nbands,
                                    const guint mesh[3], const double lattice_vectors[9],
                                    GError **error);
+BM_PUBLIC BmBands *bm_bands_new_from_bytes(GBytes *energies, guint nbands, const guint mesh[3],
+                                 const double reciprocal_vectors[9], GError **error);
+BM_PUBLIC BmBands *bm_bands_new_from_bytes_lattice(GBytes *energies, guint nbands, const guint mesh[3],
+                                         const double lattice_vectors[9], GError **error);
 BM_PUBLIC BmBands *bm_bands_new_from_file(const char *path, GError **error);
 BM_PUBLIC guint bm_bands_get_nbands(BmBands *self);
 BM_PUBLIC const guint *bm_bands_get_mesh(BmBands *self);
