@@ -4,6 +4,7 @@
 #define BM_CARRIERS_H
 
 #include <stddef.h>
+#include "bm-bandgap.h"
 #include "bm-status.h"
 
 /* Energies are measured from the valence-band maximum: Ev = 0, Ec = Eg.
@@ -63,7 +64,50 @@ bm_status bm_dos_mass_table_eval(const bm_dos_mass_table *tab, double t_k,
 bm_status bm_dos_mass_table_hook(double t_k, double *m_dos_electron, double *m_dos_hole,
                                  void *data);
 
-/* A zero-initialised struct plus gap, masses and dopants is a valid input. */
+/* A density-of-states mass as a function of temperature, m_e:
+ *   FIXED  value at every temperature;
+ *   TABLE  n points (t_k strictly increasing, mass > 0), linear interpolation,
+ *          no extrapolation (n = 1: that temperature only);
+ *   FIT    m(T) = [(a0 + a1 T + ... + a4 T^4) / (1 + b1 T + ... + b4 T^4)]^(2/3)
+ *          with fit_numerator = {a0..a4}, fit_denominator = {b1..b4} (the form
+ *          of the silicon hole fit quoted by Green, J. Appl. Phys. 67, 2944
+ *          (1990); from memory).  A fit is evaluated at any T > 0; its
+ *          published range is the source's and is not checked here. */
+typedef enum {
+    BM_DOS_MASS_NONE = 0,
+    BM_DOS_MASS_FIXED,
+    BM_DOS_MASS_TABLE,
+    BM_DOS_MASS_FIT
+} bm_dos_mass_kind;
+
+#define BM_DOS_FIT_NUMERATOR 5
+#define BM_DOS_FIT_DENOMINATOR 4
+
+typedef struct {
+    bm_dos_mass_kind kind;
+    double value;                 /* FIXED */
+    size_t n;                     /* TABLE */
+    const double *t_k, *mass;
+    double fit_numerator[BM_DOS_FIT_NUMERATOR];      /* FIT */
+    double fit_denominator[BM_DOS_FIT_DENOMINATOR];
+    const char *source;           /* where the mass comes from */
+} bm_dos_mass_model;
+
+const char *bm_dos_mass_kind_name(bm_dos_mass_kind kind); /* "fixed", "table", "fit", "none" */
+
+/* Validates the model (BM_EINVAL naming `what`, the entry and field at fault). */
+bm_status bm_dos_mass_check(const bm_dos_mass_model *m, const char *what, bm_errbuf *err);
+
+/* The mass at t_k (>= 0); BM_EINVAL naming `what` for a bad model, a
+ * temperature outside a table, or a fit that is not positive there. */
+bm_status bm_dos_mass_at(const bm_dos_mass_model *m, double t_k, const char *what,
+                         double *mass, bm_errbuf *err);
+
+/* A zero-initialised struct plus gap, masses and dopants is a valid input.
+ * The models gap, electron_dos_mass and hole_dos_mass, when given, are
+ * evaluated at the solve temperature and replace band_gap_ev, m_dos_electron
+ * and m_dos_hole (and the hook): the temperature is then given once, to the
+ * solver. */
 typedef struct {
     double band_gap_ev;        /* Ec - Ev at the solve temperature (may be <= 0:
                                   overlap, warned) */
@@ -71,6 +115,10 @@ typedef struct {
     double m_dos_hole;         /* valence-band DOS mass, m_e */
     bm_dos_mass_hook dos_mass_hook;  /* NULL: use the two masses above */
     void *hook_data;
+    const bm_gap_model *gap;                     /* NULL: band_gap_ev */
+    const bm_dos_mass_model *electron_dos_mass;  /* NULL: m_dos_electron (or the hook) */
+    const bm_dos_mass_model *hole_dos_mass;      /* the statistics hole DOS mass m_dh(T);
+                                                    NULL: m_dos_hole (or the hook) */
     const bm_dopant *donors;   size_t ndonors;     /* <= BM_MAX_DOPANTS */
     const bm_dopant *acceptors; size_t nacceptors; /* <= BM_MAX_DOPANTS */
     bm_statistics statistics;

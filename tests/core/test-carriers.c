@@ -66,38 +66,38 @@ static void test_varshni_and_bose_einstein(void)
     double eg;
     bm_errbuf err;
     /* Si: 1.170, 4.73e-4, 636 -> 1.1245 eV at 300 K (Thurmond 1975; from memory) */
-    bm_varshni si = { 1.170, 4.73e-4, 636.0 };
-    g_assert_cmpint(bm_bandgap_varshni(&si, 300.0, &eg, NULL, &err), ==, BM_OK);
+    bm_gap_model si = { .kind = BM_GAP_VARSHNI, .eg0_ev = 1.170, .alpha_ev_per_k = 4.73e-4, .beta_k = 636.0 };
+    g_assert_cmpint(bm_gap_at(&si, 300.0, &eg, NULL, &err), ==, BM_OK);
     g_assert_cmpfloat(fabs(eg - 1.1245), <, 5e-5);
     /* GaAs: 1.519, 5.405e-4, 204 -> 1.4225 eV (Vurgaftman et al. 2001; from memory) */
-    bm_varshni gaas = { 1.519, 5.405e-4, 204.0 };
-    g_assert_cmpint(bm_bandgap_varshni(&gaas, 300.0, &eg, NULL, &err), ==, BM_OK);
+    bm_gap_model gaas = { .kind = BM_GAP_VARSHNI, .eg0_ev = 1.519, .alpha_ev_per_k = 5.405e-4, .beta_k = 204.0 };
+    g_assert_cmpint(bm_gap_at(&gaas, 300.0, &eg, NULL, &err), ==, BM_OK);
     g_assert_cmpfloat(fabs(eg - 1.4225), <, 5e-5);
-    g_assert_cmpint(bm_bandgap_varshni(&gaas, 0.0, &eg, NULL, &err), ==, BM_OK);
+    g_assert_cmpint(bm_gap_at(&gaas, 0.0, &eg, NULL, &err), ==, BM_OK);
     g_assert_cmpfloat(eg, ==, 1.519);
     /* Bose-Einstein form: Eg0 at 0 K; for T >> Theta, 1/(e^x - 1) = 1/x - 1/2 + x/12
      * (Bernoulli series), so Eg -> Eg0 - 2 a_B (T/Theta - 1/2 + Theta/(12 T)). */
-    bm_bose_einstein_gap be = { 1.52, 0.057, 240.0 };
-    g_assert_cmpint(bm_bandgap_bose_einstein(&be, 0.0, &eg, NULL, &err), ==, BM_OK);
+    bm_gap_model be = { .kind = BM_GAP_BOSE_EINSTEIN, .eg0_ev = 1.52, .a_b_ev = 0.057, .theta_k = 240.0 };
+    g_assert_cmpint(bm_gap_at(&be, 0.0, &eg, NULL, &err), ==, BM_OK);
     g_assert_cmpfloat(eg, ==, 1.52);
-    g_assert_cmpint(bm_bandgap_bose_einstein(&be, 1.0, &eg, NULL, &err), ==, BM_OK);
+    g_assert_cmpint(bm_gap_at(&be, 1.0, &eg, NULL, &err), ==, BM_OK);
     g_assert_cmpfloat(eg, ==, 1.52);
     double t = 24000.0, x = 240.0 / t;
-    g_assert_cmpint(bm_bandgap_bose_einstein(&be, t, &eg, NULL, &err), ==, BM_OK);
+    g_assert_cmpint(bm_gap_at(&be, t, &eg, NULL, &err), ==, BM_OK);
     g_assert_cmpfloat(fabs(eg - (1.52 - 2 * 0.057 * (1 / x - 0.5 + x / 12))), <, 1e-9);
     /* a gap that goes negative is returned with a warning */
     bm_warnings w = { 0 };
-    g_assert_cmpint(bm_bandgap_varshni(&gaas, 5000.0, &eg, &w, &err), ==, BM_OK);
+    g_assert_cmpint(bm_gap_at(&gaas, 5000.0, &eg, &w, &err), ==, BM_OK);
     g_assert_cmpfloat(eg, <, 0.0);
     g_assert_cmpint(w.count, ==, 1);
     /* bad input names the value */
-    g_assert_cmpint(bm_bandgap_varshni(&si, -1.0, &eg, NULL, &err), ==, BM_EINVAL);
+    g_assert_cmpint(bm_gap_at(&si, -1.0, &eg, NULL, &err), ==, BM_EINVAL);
     g_assert_nonnull(strstr(err.message, "temperature -1 K"));
-    bm_varshni bad = { 1.1, 4e-4, 0.0 };
-    g_assert_cmpint(bm_bandgap_varshni(&bad, 300.0, &eg, NULL, &err), ==, BM_EINVAL);
+    bm_gap_model bad = { .kind = BM_GAP_VARSHNI, .eg0_ev = 1.1, .alpha_ev_per_k = 4e-4, .beta_k = 0.0 };
+    g_assert_cmpint(bm_gap_at(&bad, 300.0, &eg, NULL, &err), ==, BM_EINVAL);
     g_assert_nonnull(strstr(err.message, "beta = 0"));
-    bm_bose_einstein_gap badbe = { 1.5, -0.1, 200.0 };
-    g_assert_cmpint(bm_bandgap_bose_einstein(&badbe, 300.0, &eg, NULL, &err), ==, BM_EINVAL);
+    bm_gap_model badbe = { .kind = BM_GAP_BOSE_EINSTEIN, .eg0_ev = 1.5, .a_b_ev = -0.1, .theta_k = 200.0 };
+    g_assert_cmpint(bm_gap_at(&badbe, 300.0, &eg, NULL, &err), ==, BM_EINVAL);
     g_assert_nonnull(strstr(err.message, "a_B = -0.1"));
 }
 

@@ -77,8 +77,9 @@ static void test_every_builtin(void)
         const bm_material *m = bm_material_at(i);
         g_autoptr(JsonObject) r = valleys_of(m->name);
         g_assert_cmpfloat(num(r, "valley_count"), ==, m->electron.valleys);
-        if (strstr(m->m_dos_electron_source, "derived"))
-            g_assert_cmpfloat(fabs(num(r, "dos_mass_me") / m->m_dos_electron - 1.0), <, 2e-3);
+        if (strstr(m->electron_dos_mass.source, "derived"))
+            g_assert_cmpfloat(fabs(num(r, "dos_mass_me") / m->electron_dos_mass.value - 1.0),
+                              <, 2e-3);
     }
 }
 
@@ -184,12 +185,12 @@ static void test_holes_material(void)
     g_assert_cmpfloat_with_epsilon(num(lh, "100"), 1.0 / (g1 + 2 * g2), 1e-12);
     g_assert_cmpfloat_with_epsilon(num(lh, "111"), 1.0 / (g1 + 2 * g3), 1e-12);
     /* k_B in eV/K (CODATA 2018; GSL's older set differs in the sixth digit) */
-    double x = exp(-m->split_off_ev / (8.617333262e-5 * 300.0));
-    double md = pow(pow(m->m_heavy_hole, 1.5) + pow(m->m_light_hole, 1.5)
-                    + pow(m->m_split_off, 1.5) * x, 2.0 / 3.0);
-    g_assert_cmpfloat(fabs(num(r, "dos_mass_me") / md - 1.0), <, 1e-6);
+    double x = exp(-m->split_off_ev.value / (8.617333262e-5 * 300.0));
+    double md = pow(pow(m->heavy_hole_mass.value, 1.5) + pow(m->light_hole_mass.value, 1.5)
+                    + pow(m->split_off_mass.value, 1.5) * x, 2.0 / 3.0);
+    g_assert_cmpfloat(fabs(num(r, "parabolic_hole_dos_mass_me") / md - 1.0), <, 1e-6);
     g_assert_cmpstr(json_object_get_string_member(r, "material"), ==, "GaAs");
-    JsonObject *src = json_object_get_object_member(r, "sources");
+    JsonObject *src = json_object_get_object_member(r, "inputs");
     g_assert_cmpstr(json_object_get_string_member(
         json_object_get_object_member(src, "luttinger_parameters"), "source"), ==,
         m->luttinger_source);
@@ -198,10 +199,10 @@ static void test_holes_material(void)
     g_autoptr(JsonObject) o = op_call("hole-mass", "{\"material\": \"GaAs\", "
                                    "\"heavy_hole_mass_me\": 0.5, "
                                    "\"luttinger_parameters\": [7, 2, 3]}");
-    double mo = pow(pow(0.5, 1.5) + pow(m->m_light_hole, 1.5)
-                    + pow(m->m_split_off, 1.5) * x, 2.0 / 3.0);
-    g_assert_cmpfloat(fabs(num(o, "dos_mass_me") / mo - 1.0), <, 1e-6);
-    JsonObject *os = json_object_get_object_member(o, "sources");
+    double mo = pow(pow(0.5, 1.5) + pow(m->light_hole_mass.value, 1.5)
+                    + pow(m->split_off_mass.value, 1.5) * x, 2.0 / 3.0);
+    g_assert_cmpfloat(fabs(num(o, "parabolic_hole_dos_mass_me") / mo - 1.0), <, 1e-6);
+    JsonObject *os = json_object_get_object_member(o, "inputs");
     JsonObject *hh = json_object_get_object_member(os, "heavy_hole_mass_me");
     g_assert_cmpstr(json_object_get_string_member(hh, "source"), ==, "request");
     g_assert_cmpfloat(num(hh, "value"), ==, 0.5);
@@ -217,11 +218,12 @@ static void test_holes_user_and_errors(void)
 {
     g_autoptr(JsonObject) r = op_call("hole-mass", "{\"material\": {\"name\": \"mine\","
                                    " \"heavy_hole_mass_me\": 0.49, \"light_hole_mass_me\": 0.16}}");
-    g_assert_cmpfloat_with_epsilon(num(r, "dos_mass_me"),
+    g_assert_cmpfloat_with_epsilon(num(r, "parabolic_hole_dos_mass_me"),
                                    pow(pow(0.49, 1.5) + pow(0.16, 1.5), 2.0 / 3.0), 1e-12);
     g_assert_false(json_object_has_member(r, "luttinger"));
+    g_assert_false(json_object_has_member(r, "band_edge_hole_dos_mass_me"));
     JsonObject *hh = json_object_get_object_member(
-        json_object_get_object_member(r, "sources"), "heavy_hole_mass_me");
+        json_object_get_object_member(r, "inputs"), "heavy_hole_mass_me");
     g_assert_cmpstr(json_object_get_string_member(hh, "source"), ==, "given in the request");
     op_expect_invalid("hole-mass", "{\"material\": \"4H-SiC\"}", "material \"4H-SiC\"");
     op_expect_invalid("hole-mass", "{\"material\": {\"name\": \"half\", \"heavy_hole_mass_me\": 0.5}}",
