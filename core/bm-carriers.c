@@ -834,7 +834,8 @@ bm_status bm_dos_mass_at(const bm_dos_mass_model *m, double t_k, const char *wha
         size_t n = m->n;
         if (!(t_k >= m->t_k[0] && t_k <= m->t_k[n - 1]))
             return bm_fail(err, BM_EINVAL, "%s: temperature %g K is outside the tabulated "
-                           "range %g..%g K", what, t_k, m->t_k[0], m->t_k[n - 1]);
+                           "range %g..%g K (table: %s)", what, t_k, m->t_k[0], m->t_k[n - 1],
+                           m->source ? m->source : "no source given");
         size_t i = 0;
         while (i + 1 < n && m->t_k[i + 1] < t_k)
             i++;
