@@ -59,7 +59,8 @@ static const bm_material table[] = {
                                0.3025581e-8 },
             .fit_denominator = { 0.4683382e-2, 0.2286895e-3, 0.7469271e-6, 0.1727481e-8 },
             .source = "temperature-dependent fit m_dh(T) quoted by " GREEN
-                      " (gives Nv(300 K) = 3.10e19 cm^-3; " SZE " gives 2.65e19)" },
+                      "; gives Nv(300 K) = 3.10e19 cm^-3 (Sze & Ng 2007, App. G, give "
+                      "2.65e19, from memory: both published)" },
         /* m_hh 0.49, m_lh 0.16: Sze & Ng 2007 App. G, from memory */
         .heavy_hole_mass = { 0.49, SZE }, .light_hole_mass = { 0.16, SZE },
         /* m_so 0.234, Delta_so 0.044 eV: Madelung 2004, from memory */

@@ -56,13 +56,13 @@ static JsonObject *derived(const bm_material *m, double t, double eg, double mdh
 {
     JsonObject *o = json_object_new();
     bm_json_set_number(o, "temperature_k", t);
-    g_autofree char *gs = g_strdup_printf("%s at temperature_k from \"%s\"",
-                                          bm_gap_kind_name(m->gap.kind),
+    g_autofree char *gs = g_strdup_printf("Eg(temperature_k) of the \"%s\" model",
                                           m->gap.kind == BM_GAP_VARSHNI ? "varshni"
                                           : m->gap.kind == BM_GAP_BOSE_EINSTEIN
                                           ? "bose_einstein" : "band_gap_ev");
     json_object_set_object_member(o, "band_gap_ev", valued(eg, gs));
-    g_autofree char *hs = g_strdup_printf("statistics_hole_dos_mass_me (%s) at temperature_k",
+    g_autofree char *hs = g_strdup_printf("m_dh(temperature_k) of statistics_hole_dos_mass_me "
+                                          "(%s)",
                                           bm_dos_mass_kind_name(m->statistics_hole_dos_mass.kind));
     json_object_set_object_member(o, "statistics_hole_dos_mass_me", valued(mdh, hs));
     double nv = NAN;
@@ -130,7 +130,10 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
             return NULL;
         }
         g_autofree char *bs = NULL;
-        double mb = band_edge(m, &bs, &w);
+        bm_warnings mw = {0};
+        double mb = band_edge(m, &bs, &mw);
+        for (int k = 0; k < mw.count; k++)
+            bm_warn(&w, "%s: %s", m->name, mw.text[k]);
         JsonObject *o = json_object_new();
         json_object_set_string_member(o, "name", m->name);
         json_object_set_string_member(o, "long_name", m->long_name);
