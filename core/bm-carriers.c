@@ -700,60 +700,6 @@ bm_status bm_2d_fermi_level(const bm_subband *sub, size_t nsub, double t_k,
     return BM_OK;
 }
 
-/* ---- Tabulated DOS masses ---- */
-
-bm_status bm_dos_mass_table_check(const bm_dos_mass_table *tab, bm_errbuf *err)
-{
-    if (!tab || tab->n == 0 || !tab->t_k || !tab->m_dos_electron || !tab->m_dos_hole)
-        return bm_fail(err, BM_EINVAL, "DOS-mass table: no entries");
-    for (size_t i = 0; i < tab->n; i++) {
-        if (!(tab->t_k[i] > 0.0) || !isfinite(tab->t_k[i]))
-            return bm_fail(err, BM_EINVAL, "DOS-mass table: entry %zu temperature %g K must "
-                           "be finite and > 0", i, tab->t_k[i]);
-        if (i > 0 && !(tab->t_k[i] > tab->t_k[i - 1]))
-            return bm_fail(err, BM_EINVAL, "DOS-mass table: entry %zu temperature %g K is "
-                           "not above the previous one (%g K)", i, tab->t_k[i], tab->t_k[i - 1]);
-        if (!(tab->m_dos_electron[i] > 0.0) || !isfinite(tab->m_dos_electron[i]))
-            return bm_fail(err, BM_EINVAL, "DOS-mass table: entry %zu electron mass %g m_e "
-                           "must be finite and > 0", i, tab->m_dos_electron[i]);
-        if (!(tab->m_dos_hole[i] > 0.0) || !isfinite(tab->m_dos_hole[i]))
-            return bm_fail(err, BM_EINVAL, "DOS-mass table: entry %zu hole mass %g m_e "
-                           "must be finite and > 0", i, tab->m_dos_hole[i]);
-    }
-    return BM_OK;
-}
-
-bm_status bm_dos_mass_table_eval(const bm_dos_mass_table *tab, double t_k,
-                                 double *m_dos_electron, double *m_dos_hole, bm_errbuf *err)
-{
-    bm_status st = bm_dos_mass_table_check(tab, err);
-    if (st)
-        return st;
-    size_t n = tab->n;
-    if (!(t_k >= tab->t_k[0] && t_k <= tab->t_k[n - 1]))
-        return bm_fail(err, BM_EINVAL, "DOS-mass table: temperature %g K is outside the "
-                       "tabulated range %g..%g K", t_k, tab->t_k[0], tab->t_k[n - 1]);
-    size_t i = 0;
-    while (i + 1 < n && tab->t_k[i + 1] < t_k)
-        i++;
-    if (i + 1 >= n || t_k == tab->t_k[i]) {
-        *m_dos_electron = tab->m_dos_electron[i];
-        *m_dos_hole = tab->m_dos_hole[i];
-        return BM_OK;
-    }
-    double f = (t_k - tab->t_k[i]) / (tab->t_k[i + 1] - tab->t_k[i]);
-    *m_dos_electron = tab->m_dos_electron[i] + f * (tab->m_dos_electron[i + 1]
-                                                    - tab->m_dos_electron[i]);
-    *m_dos_hole = tab->m_dos_hole[i] + f * (tab->m_dos_hole[i + 1] - tab->m_dos_hole[i]);
-    return BM_OK;
-}
-
-bm_status bm_dos_mass_table_hook(double t_k, double *m_dos_electron, double *m_dos_hole,
-                                 void *data)
-{
-    return bm_dos_mass_table_eval(data, t_k, m_dos_electron, m_dos_hole, NULL);
-}
-
 /* ---- DOS-mass models ---- */
 
 const char *bm_dos_mass_kind_name(bm_dos_mass_kind kind)

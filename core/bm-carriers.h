@@ -40,30 +40,6 @@ typedef enum {
 typedef bm_status (*bm_dos_mass_hook)(double t_k, double *m_dos_electron,
                                       double *m_dos_hole, void *data);
 
-/* DOS masses tabulated against temperature, linearly interpolated: the
- * ready-made hook for bm_semiconductor (hook_data = the table).  t_k strictly
- * increasing, masses > 0, n >= 1 (n = 1: constant masses at that one
- * temperature only). */
-typedef struct {
-    size_t n;
-    const double *t_k;
-    const double *m_dos_electron;
-    const double *m_dos_hole;
-} bm_dos_mass_table;
-
-/* Validates the table; BM_EINVAL names the entry (0-based) and field at fault. */
-bm_status bm_dos_mass_table_check(const bm_dos_mass_table *tab, bm_errbuf *err);
-
-/* Both masses at t_k by linear interpolation between the bracketing entries;
- * t_k outside [t_k[0], t_k[n-1]] is BM_EINVAL naming the range (no
- * extrapolation). */
-bm_status bm_dos_mass_table_eval(const bm_dos_mass_table *tab, double t_k,
-                                 double *m_dos_electron, double *m_dos_hole, bm_errbuf *err);
-
-/* bm_dos_mass_hook over a bm_dos_mass_table passed as data. */
-bm_status bm_dos_mass_table_hook(double t_k, double *m_dos_electron, double *m_dos_hole,
-                                 void *data);
-
 /* A density-of-states mass as a function of temperature, m_e:
  *   FIXED  value at every temperature;
  *   TABLE  n points (t_k strictly increasing, mass > 0), linear interpolation,
