@@ -88,8 +88,8 @@ static const bm_material table[] = {
         /* Nv(300 K) = 6.0e18 cm^-3 (Sze & Ng 2007 App. G, from memory):
          * (6.0e18 / 2.50941e19)^(2/3) = 0.385 */
         .statistics_hole_dos_mass = FIXED(0.385,
-            "derived from Nv(300 K) = 6.0e18 cm^-3 of " SZE
-            " as (Nv / 2.50941e19 cm^-3)^(2/3), held fixed in T"),
+            "derived from Nv(300 K) = 6.0e18 cm^-3 as (Nv / 2.50941e19 cm^-3)^(2/3), "
+            "held fixed in T; Nv: " SZE),
         /* m_hh 0.28, m_lh 0.044: Sze & Ng 2007 App. G, from memory */
         .heavy_hole_mass = { 0.28, SZE }, .light_hole_mass = { 0.044, SZE },
         /* m_so 0.084, Delta_so 0.29 eV: Madelung 2004, from memory */
@@ -115,8 +115,8 @@ static const bm_material table[] = {
         /* Nv(300 K) = 9.0e18 cm^-3 (Sze & Ng 2007 App. G, from memory):
          * (9.0e18 / 2.50941e19)^(2/3) = 0.505 */
         .statistics_hole_dos_mass = FIXED(0.505,
-            "derived from Nv(300 K) = 9.0e18 cm^-3 of " SZE
-            " as (Nv / 2.50941e19 cm^-3)^(2/3), held fixed in T"),
+            "derived from Nv(300 K) = 9.0e18 cm^-3 as (Nv / 2.50941e19 cm^-3)^(2/3), "
+            "held fixed in T; Nv: " SZE),
         /* 1/(6.98 - 4.12) = 0.350, 1/(6.98 + 4.12) = 0.0901 */
         .heavy_hole_mass = { 0.350, DERIVED_LUTT }, .light_hole_mass = { 0.0901, DERIVED_LUTT },
         /* m_so 0.172, Delta_so 0.341 eV: Vurgaftman et al. 2001, from memory */

@@ -350,6 +350,12 @@ static void render(JsonObject *response, GString *out)
                            json_object_get_string_member(response, "material"),
                            json_object_get_string_member(response, "fermi_level_reference"),
                            json_object_get_string_member(response, "statistics"));
+    JsonObject *src = json_object_get_object_member(response, "sources");
+    g_string_append_printf(out, "gap: %s\nelectron DOS mass: %s\nhole DOS mass (the "
+                           "statistics mass m_dh(T), statistics_hole_dos_mass_me): %s\n",
+                           json_object_get_string_member(src, "band_gap_ev"),
+                           json_object_get_string_member(src, "electron_dos_mass_me"),
+                           json_object_get_string_member(src, "statistics_hole_dos_mass_me"));
     g_string_append_printf(out, "%8s %8s %10s %10s %10s %9s %10s %10s  %s\n", "T_K", "Eg_eV",
                            "Nc_cm3", "Nv_cm3", "ni_cm3", "EF_eV", "n_cm3", "p_cm3", "regime");
     if (json_object_has_member(response, "points")) {
