@@ -7,6 +7,7 @@
 #include <string.h>
 
 #include "registry.h"
+#include "bm-carriers.h"
 
 /* CODATA 2018 (exact SI values for e and k_B, m_e to the digits shown);
  * GSL's headers carry an earlier set, hence relative tolerances near 1e-6. */
@@ -278,6 +279,38 @@ static void test_valence_band_dos(void)
     }
 }
 
+/* A material file's statistics hole DOS mass as a temperature table: linear
+ * interpolation (identity: 1.0 at 200 K and 1.2 at 400 K give 1.1 at 300 K),
+ * Nv from it, and the source named in the response; renamed keys and a
+ * second gap model are refused with clear messages. */
+static void test_hole_mass_table_file(void)
+{
+    const char *mat = "{\"name\": \"tab\", \"band_gap_ev\": 1.1, \"electron_dos_mass_me\": 1.0,"
+        " \"statistics_hole_dos_mass_me\": {\"points\": [{\"temperature_k\": 200, \"mass_me\": 1.0},"
+        " {\"temperature_k\": 400, \"mass_me\": 1.2}], \"source\": \"my table\"}}";
+    g_autofree char *req = g_strdup_printf("{\"material\": %s, \"temperature_k\": 300}", mat);
+    g_autoptr(JsonObject) r = op_call("carrier-statistics", req);
+    g_assert_cmpfloat(fabs(num(r, "statistics_hole_dos_mass_me") - 1.1), <, 1e-14);
+    double nv;
+    bm_effective_dos(1.1, 300.0, &nv, NULL);
+    g_assert_cmpfloat(rel(num(r, "nv_cm3"), nv), <, 1e-14);
+    g_assert_cmpstr(json_object_get_string_member(json_object_get_object_member(r, "sources"),
+                                                  "statistics_hole_dos_mass_me"), ==, "my table");
+    g_autofree char *out = g_strdup_printf("{\"material\": %s, \"temperature_k\": 500}", mat);
+    op_expect_invalid("carrier-statistics", out, "outside the tabulated range 200..400 K");
+    op_expect_invalid("carrier-statistics", "{\"material\": {\"band_gap_ev\": 1, "
+                      "\"electron_dos_mass_me\": 1, \"statistics_hole_dos_mass_me\": "
+                      "{\"value\": 1, \"points\": []}}, \"temperature_k\": 300}",
+                      "exactly one of \"value\", \"points\"");
+    op_expect_invalid("valley-average", "{\"material\": {\"point_group\": \"Oh\", "
+                      "\"conduction_valley\": {\"site\": \"gamma\"}}}",
+                      "key \"site\" is now called \"position\"");
+    op_expect_invalid("hole-mass", "{\"material\": {\"luttinger\": [6.98, 2.06, 2.93]}}",
+                      "key \"luttinger\" is now called \"luttinger_parameters\"");
+    op_expect_invalid("hole-mass", "{\"material\": {\"spin_orbit_splitting_ev\": 0.3}}",
+                      "is now called \"split_off_ev\"");
+}
+
 static void test_carrier_bad_input(void)
 {
     const char *op = "carrier-statistics";
@@ -414,6 +447,7 @@ int main(int argc, char **argv)
     g_test_add_func("/carrier-ops/band-gap", test_band_gap);
     g_test_add_func("/carrier-ops/silicon", test_silicon);
     g_test_add_func("/carrier-ops/valence-band-dos", test_valence_band_dos);
+    g_test_add_func("/carrier-ops/hole-mass-table-file", test_hole_mass_table_file);
     g_test_add_func("/carrier-ops/degenerate-warning", test_degenerate_warning);
     g_test_add_func("/carrier-ops/points", test_points);
     g_test_add_func("/carrier-ops/dos-mass-points", test_dos_mass_points);
