@@ -230,3 +230,38 @@ bm_status bm_luttinger_masses_compute(const bm_luttinger *L, bm_luttinger_masses
     warn_range(&out->warnings, "light-hole DOS mass", out->light_dos_mass);
     return BM_OK;
 }
+
+bm_status bm_band_edge_hole_dos_mass(const bm_luttinger *L, double m_so, double delta_so_ev,
+                                     double t_k, double *mass, bm_warnings *w,
+                                     bm_errbuf *err)
+{
+    if (!mass)
+        return bm_fail(err, BM_EINVAL, "band-edge hole DOS mass: no place for the result");
+    *mass = NAN;
+    bm_luttinger_masses lm;
+    bm_status st = bm_luttinger_masses_compute(L, &lm, err);
+    if (st != BM_OK)
+        return st;
+    for (size_t i = 0; w && i < lm.warnings.count; i++)
+        bm_warn(w, lm.warnings.items[i].code, "%s", lm.warnings.items[i].text);
+    bm_warnings_clear(&lm.warnings);
+    if (!lm.heavy_convex)
+        return bm_fail(err, BM_EINVAL, "band-edge hole DOS mass: the heavy-hole surface is "
+                       "open (gamma1 - 2 max(|gamma2|, |gamma3|) = %g <= 0)",
+                       lm.heavy_factor_min);
+    if (!(m_so >= 0.0) || !isfinite(m_so))
+        return bm_fail(err, BM_EINVAL, "band-edge hole DOS mass: split-off mass %g m_e must "
+                       "be positive (or 0 to leave it out)", m_so);
+    double tot = pow(lm.heavy_dos_mass, 1.5) + pow(lm.light_dos_mass, 1.5);
+    if (m_so > 0.0) {
+        if (!(delta_so_ev >= 0.0) || !isfinite(delta_so_ev))
+            return bm_fail(err, BM_EINVAL, "band-edge hole DOS mass: split-off energy %g eV "
+                           "must be zero or positive", delta_so_ev);
+        if (!(t_k > 0.0) || !isfinite(t_k))
+            return bm_fail(err, BM_EINVAL, "band-edge hole DOS mass: temperature %g K: the "
+                           "split-off population needs T > 0", t_k);
+        tot += pow(m_so, 1.5) * exp(-delta_so_ev / (BM_KB_EV * t_k));
+    }
+    *mass = pow(tot, 2.0 / 3.0);
+    return BM_OK;
+}

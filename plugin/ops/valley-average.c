@@ -468,11 +468,11 @@ static gboolean from_material(JsonObject *request, ValleySet *s, GError **error)
         return FALSE;
     s->has_mat = TRUE;
     const bm_material *m = &s->mat.mat;
-    if (!s->mat.has_valley || !m->point_group) {
+    if (!m->electron.label || !m->point_group) {
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
                     "material \"%s\" (%s) has no %s: give \"conduction_valley\" and "
                     "\"point_group\"", m->name, s->mat.origin,
-                    s->mat.has_valley ? "point_group" : "conduction-valley description");
+                    m->electron.label ? "point_group" : "conduction-valley description");
         return FALSE;
     }
     g_autofree char *where = g_strdup_printf("material \"%s\": conduction valley", m->name);

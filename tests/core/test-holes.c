@@ -209,6 +209,33 @@ static void test_luttinger_nonconvex(void)
     g_assert_cmpint(bm_luttinger_direction(&GAAS, zero, NULL, NULL, NULL, &err), ==, BM_EINVAL);
 }
 
+/* The band-edge k.p hole DOS mass is the warped heavy + light combination
+ * (identity with bm_luttinger_masses_compute), plus m_so^1.5 exp(-Delta/kT)
+ * for a split-off band (METHODS); an open heavy-hole surface has none. */
+static void test_band_edge_mass(void)
+{
+    bm_luttinger L = {6.98, 2.06, 2.93};
+    bm_luttinger_masses m;
+    g_assert_cmpint(bm_luttinger_masses_compute(&L, &m, NULL), ==, BM_OK);
+    double v;
+    g_assert_cmpint(bm_band_edge_hole_dos_mass(&L, 0.0, 0.0, 0.0, &v, NULL, NULL), ==, BM_OK);
+    g_assert_cmpfloat(fabs(v / m.combined_dos_mass - 1.0), <, 1e-12);
+    double x = exp(-0.1 / (8.617333262e-5 * 100.0));   /* k_B CODATA 2018, eV/K */
+    double want = pow(pow(v, 1.5) + pow(0.172, 1.5) * x, 2.0 / 3.0);
+    double w;
+    g_assert_cmpint(bm_band_edge_hole_dos_mass(&L, 0.172, 0.1, 100.0, &w, NULL, NULL), ==, BM_OK);
+    g_assert_cmpfloat(fabs(w / want - 1.0), <, 1e-6);
+    bm_errbuf err;
+    g_assert_cmpint(bm_band_edge_hole_dos_mass(&L, 0.172, 0.1, 0.0, &w, NULL, &err), ==,
+                    BM_EINVAL);
+    bm_luttinger open = {3, 1, 2};
+    bm_warnings warn = {0};
+    g_assert_cmpint(bm_band_edge_hole_dos_mass(&open, 0.0, 0.0, 0.0, &w, &warn, &err), ==,
+                    BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "open"));
+    g_assert_cmpint(warn.count, >, 0);
+}
+
 int main(int argc, char **argv)
 {
     g_test_init(&argc, &argv, NULL);
@@ -219,5 +246,6 @@ int main(int argc, char **argv)
     g_test_add_func("/core/holes/luttinger-spherical", test_luttinger_spherical);
     g_test_add_func("/core/holes/luttinger-scipy", test_luttinger_scipy);
     g_test_add_func("/core/holes/luttinger-nonconvex", test_luttinger_nonconvex);
+    g_test_add_func("/core/holes/band-edge-mass", test_band_edge_mass);
     return g_test_run();
 }

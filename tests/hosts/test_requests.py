@@ -70,5 +70,12 @@ r = call("carrier-statistics", "orte-carriers.json")
 check("material file with its own donor species solves at 3 temperatures",
       len(r["points"]) == 3 and all(p["n_cm3"] > 0 for p in r["points"]))
 
-print("%d passed, %d failed" % (5 - len(failures), len(failures)))
+# A saved and edited materials output is a material file; its hole DOS mass
+# 1.04 gives Nv(300 K) = 2.65e19 cm^-3 (Sze & Ng 2007 App. G, from memory; 1 %).
+r = call("carrier-statistics", "si-sze-carriers.json")
+check("Si with Sze & Ng's hole DOS mass: Nv(300 K) = 2.65e19 within 1 %",
+      abs(r["points"][0]["nv_cm3"] / 2.65e19 - 1) < 0.01
+      and r["points"][0]["statistics_hole_dos_mass_me"] == 1.04)
+
+print("%d passed, %d failed" % (6 - len(failures), len(failures)))
 sys.exit(1 if failures else 0)
