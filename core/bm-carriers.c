@@ -311,19 +311,35 @@ static bm_status setup(const bm_semiconductor *s, double t_k, bm_statistics stat
 {
     if (!s || !out)
         return bm_fail(err, BM_EINVAL, "carrier statistics: missing input or result");
-    out->warnings.count = 0;
+    out->warnings = (bm_warnings){0};
     if (!(t_k >= BM_CARRIERS_MIN_T_K) || !(t_k <= BM_CARRIERS_MAX_T_K))
         return bm_fail(err, BM_EINVAL, "carrier statistics: temperature %g K must lie "
                        "between %g and %g K", t_k, BM_CARRIERS_MIN_T_K, BM_CARRIERS_MAX_T_K);
-    if (!isfinite(s->band_gap_ev))
-        return bm_fail(err, BM_EINVAL, "carrier statistics: band gap %g eV is not finite",
-                       s->band_gap_ev);
+    double eg = s->band_gap_ev;
+    if (s->gap) {
+        /* the gap model's own warning stands for the overlap warning below */
+        bm_status st = bm_gap_at(s->gap, t_k, &eg, &out->warnings, err);
+        if (st)
+            return st;
+    }
+    if (!isfinite(eg))
+        return bm_fail(err, BM_EINVAL, "carrier statistics: band gap %g eV is not finite", eg);
     double me = s->m_dos_electron, mh = s->m_dos_hole;
     if (s->dos_mass_hook) {
         bm_status st = s->dos_mass_hook(t_k, &me, &mh, s->hook_data);
         if (st)
             return bm_fail(err, st, "carrier statistics: the DOS-mass hook failed at %g K",
                            t_k);
+    }
+    if (s->electron_dos_mass) {
+        bm_status st = bm_dos_mass_at(s->electron_dos_mass, t_k, "electron DOS mass", &me, err);
+        if (st)
+            return st;
+    }
+    if (s->hole_dos_mass) {
+        bm_status st = bm_dos_mass_at(s->hole_dos_mass, t_k, "hole DOS mass", &mh, err);
+        if (st)
+            return st;
     }
     if (!(me > 0.0) || !isfinite(me))
         return bm_fail(err, BM_EINVAL, "carrier statistics: electron DOS mass %g m_e must "
@@ -341,12 +357,12 @@ static bm_status setup(const bm_semiconductor *s, double t_k, bm_statistics stat
     double kt = BM_KB_EV * t_k;
     out->temperature_k = t_k;
     out->kt_ev = kt;
-    out->band_gap_ev = s->band_gap_ev;
+    out->band_gap_ev = eg;
     out->m_dos_electron = me;
     out->m_dos_hole = mh;
     out->statistics = stats;
     c->boltzmann = stats == BM_BOLTZMANN;
-    c->eg_kt = s->band_gap_ev / kt;
+    c->eg_kt = eg / kt;
     c->nc = nc_of(me, t_k);
     c->nv = nc_of(mh, t_k);
     c->lnnc = log(c->nc);
@@ -408,16 +424,17 @@ static void fill_state(const nctx *c, double u, bm_carrier_state *out)
     out->boltzmann_inaccurate = 0;
 }
 
-static void common_warnings(const bm_carrier_state *o, bm_carrier_state *out)
+static void common_warnings(const bm_semiconductor *s, const bm_carrier_state *o,
+                            bm_carrier_state *out)
 {
     if (o->m_dos_electron < 0.01 || o->m_dos_electron > 10.0)
-        bm_warn(&out->warnings, "electron DOS mass %g m_e is outside 0.01..10 m_e",
+        bm_warn(&out->warnings, BM_WARN_MASS_OUT_OF_RANGE, "electron DOS mass %g m_e is outside 0.01..10 m_e",
                 o->m_dos_electron);
     if (o->m_dos_hole < 0.01 || o->m_dos_hole > 10.0)
-        bm_warn(&out->warnings, "hole DOS mass %g m_e is outside 0.01..10 m_e",
+        bm_warn(&out->warnings, BM_WARN_MASS_OUT_OF_RANGE, "hole DOS mass %g m_e is outside 0.01..10 m_e",
                 o->m_dos_hole);
-    if (o->band_gap_ev <= 0.0)
-        bm_warn(&out->warnings, "band gap %g eV is not positive: bands overlap",
+    if (o->band_gap_ev <= 0.0 && !s->gap)
+        bm_warn(&out->warnings, BM_WARN_GAP_NOT_POSITIVE, "band gap %g eV is not positive: bands overlap",
                 o->band_gap_ev);
 }
 
@@ -444,7 +461,7 @@ bm_status bm_carriers_solve(const bm_semiconductor *s, double t_k,
         return bm_fail(err, st, "carrier statistics: neutrality did not converge at %g K",
                        t_k);
     fill_state(&c, u, out);
-    common_warnings(out, out);
+    common_warnings(s, out, out);
     if (s->skip_statistics_check)
         return BM_OK;
 
@@ -467,7 +484,7 @@ bm_status bm_carriers_solve(const bm_semiconductor *s, double t_k,
     out->boltzmann_deviation = fmax(rel_dev(nb, nf), rel_dev(pb, pf));
     if (out->boltzmann_deviation > 0.05) {
         out->boltzmann_inaccurate = 1;
-        bm_warn(&out->warnings, "Boltzmann statistics would be off by %.0f %% at %g K "
+        bm_warn(&out->warnings, BM_WARN_BOLTZMANN_DEVIATION, "Boltzmann statistics would be off by %.0f %% at %g K "
                 "(degenerate carriers)", 100.0 * out->boltzmann_deviation, t_k);
     }
     return BM_OK;
@@ -490,7 +507,7 @@ bm_status bm_carriers_at_fermi_level(const bm_semiconductor *s, double t_k,
     out->iterations = 0;
     fill_state(&c, fermi_level_ev / out->kt_ev, out);
     out->fermi_level_ev = fermi_level_ev;
-    common_warnings(out, out);
+    common_warnings(s, out, out);
     return BM_OK;
 }
 
@@ -506,6 +523,7 @@ bm_status bm_carriers_intrinsic(const bm_semiconductor *s, double t_k,
     bare.skip_statistics_check = 1;
     bm_carrier_state st;
     bm_status r = bm_carriers_solve(&bare, t_k, &st, err);
+    bm_warnings_clear(&st.warnings);
     if (r)
         return r;
     if (ni_textbook_cm3)
@@ -683,56 +701,110 @@ bm_status bm_2d_fermi_level(const bm_subband *sub, size_t nsub, double t_k,
     return BM_OK;
 }
 
-/* ---- Tabulated DOS masses ---- */
+/* ---- DOS-mass models ---- */
 
-bm_status bm_dos_mass_table_check(const bm_dos_mass_table *tab, bm_errbuf *err)
+const char *bm_dos_mass_kind_name(bm_dos_mass_kind kind)
 {
-    if (!tab || tab->n == 0 || !tab->t_k || !tab->m_dos_electron || !tab->m_dos_hole)
-        return bm_fail(err, BM_EINVAL, "DOS-mass table: no entries");
-    for (size_t i = 0; i < tab->n; i++) {
-        if (!(tab->t_k[i] > 0.0) || !isfinite(tab->t_k[i]))
-            return bm_fail(err, BM_EINVAL, "DOS-mass table: entry %zu temperature %g K must "
-                           "be finite and > 0", i, tab->t_k[i]);
-        if (i > 0 && !(tab->t_k[i] > tab->t_k[i - 1]))
-            return bm_fail(err, BM_EINVAL, "DOS-mass table: entry %zu temperature %g K is "
-                           "not above the previous one (%g K)", i, tab->t_k[i], tab->t_k[i - 1]);
-        if (!(tab->m_dos_electron[i] > 0.0) || !isfinite(tab->m_dos_electron[i]))
-            return bm_fail(err, BM_EINVAL, "DOS-mass table: entry %zu electron mass %g m_e "
-                           "must be finite and > 0", i, tab->m_dos_electron[i]);
-        if (!(tab->m_dos_hole[i] > 0.0) || !isfinite(tab->m_dos_hole[i]))
-            return bm_fail(err, BM_EINVAL, "DOS-mass table: entry %zu hole mass %g m_e "
-                           "must be finite and > 0", i, tab->m_dos_hole[i]);
+    switch (kind) {
+    case BM_DOS_MASS_FIXED: return "fixed";
+    case BM_DOS_MASS_TABLE: return "table";
+    case BM_DOS_MASS_FIT:   return "fit";
+    case BM_DOS_MASS_NONE:  break;
     }
-    return BM_OK;
+    return "none";
 }
 
-bm_status bm_dos_mass_table_eval(const bm_dos_mass_table *tab, double t_k,
-                                 double *m_dos_electron, double *m_dos_hole, bm_errbuf *err)
+bm_status bm_dos_mass_check(const bm_dos_mass_model *m, const char *what, bm_errbuf *err)
 {
-    bm_status st = bm_dos_mass_table_check(tab, err);
+    if (!what)
+        what = "DOS mass";
+    if (!m)
+        return bm_fail(err, BM_EINVAL, "%s: none given", what);
+    switch (m->kind) {
+    case BM_DOS_MASS_FIXED:
+        if (!(m->value > 0.0) || !isfinite(m->value))
+            return bm_fail(err, BM_EINVAL, "%s: %g m_e must be finite and > 0", what, m->value);
+        return BM_OK;
+    case BM_DOS_MASS_TABLE:
+        if (m->n == 0 || !m->t_k || !m->mass)
+            return bm_fail(err, BM_EINVAL, "%s: the temperature table has no entries", what);
+        for (size_t i = 0; i < m->n; i++) {
+            if (!(m->t_k[i] > 0.0) || !isfinite(m->t_k[i]))
+                return bm_fail(err, BM_EINVAL, "%s: entry %zu temperature %g K must be finite "
+                               "and > 0", what, i, m->t_k[i]);
+            if (i > 0 && !(m->t_k[i] > m->t_k[i - 1]))
+                return bm_fail(err, BM_EINVAL, "%s: entry %zu temperature %g K is not above "
+                               "the previous one (%g K)", what, i, m->t_k[i], m->t_k[i - 1]);
+            if (!(m->mass[i] > 0.0) || !isfinite(m->mass[i]))
+                return bm_fail(err, BM_EINVAL, "%s: entry %zu mass %g m_e must be finite "
+                               "and > 0", what, i, m->mass[i]);
+        }
+        return BM_OK;
+    case BM_DOS_MASS_FIT:
+        for (int i = 0; i < BM_DOS_FIT_NUMERATOR; i++)
+            if (!isfinite(m->fit_numerator[i]))
+                return bm_fail(err, BM_EINVAL, "%s: fit numerator coefficient %d is not "
+                               "finite", what, i);
+        for (int i = 0; i < BM_DOS_FIT_DENOMINATOR; i++)
+            if (!isfinite(m->fit_denominator[i]))
+                return bm_fail(err, BM_EINVAL, "%s: fit denominator coefficient %d is not "
+                               "finite", what, i + 1);
+        if (!(m->fit_numerator[0] > 0.0))
+            return bm_fail(err, BM_EINVAL, "%s: fit numerator a0 = %g must be > 0 (the 0 K "
+                           "mass is a0^(2/3))", what, m->fit_numerator[0]);
+        return BM_OK;
+    case BM_DOS_MASS_NONE:
+        break;
+    }
+    return bm_fail(err, BM_EINVAL, "%s: none given", what);
+}
+
+bm_status bm_dos_mass_at(const bm_dos_mass_model *m, double t_k, const char *what,
+                         double *mass, bm_errbuf *err)
+{
+    if (!what)
+        what = "DOS mass";
+    if (!mass)
+        return bm_fail(err, BM_EINVAL, "%s: no place for the result", what);
+    *mass = NAN;
+    bm_status st = bm_dos_mass_check(m, what, err);
     if (st)
         return st;
-    size_t n = tab->n;
-    if (!(t_k >= tab->t_k[0] && t_k <= tab->t_k[n - 1]))
-        return bm_fail(err, BM_EINVAL, "DOS-mass table: temperature %g K is outside the "
-                       "tabulated range %g..%g K", t_k, tab->t_k[0], tab->t_k[n - 1]);
-    size_t i = 0;
-    while (i + 1 < n && tab->t_k[i + 1] < t_k)
-        i++;
-    if (i + 1 >= n || t_k == tab->t_k[i]) {
-        *m_dos_electron = tab->m_dos_electron[i];
-        *m_dos_hole = tab->m_dos_hole[i];
+    if (!(t_k >= 0.0) || !isfinite(t_k))
+        return bm_fail(err, BM_EINVAL, "%s: temperature %g K must be finite and >= 0", what,
+                       t_k);
+    if (m->kind == BM_DOS_MASS_FIXED) {
+        *mass = m->value;
         return BM_OK;
     }
-    double f = (t_k - tab->t_k[i]) / (tab->t_k[i + 1] - tab->t_k[i]);
-    *m_dos_electron = tab->m_dos_electron[i] + f * (tab->m_dos_electron[i + 1]
-                                                    - tab->m_dos_electron[i]);
-    *m_dos_hole = tab->m_dos_hole[i] + f * (tab->m_dos_hole[i + 1] - tab->m_dos_hole[i]);
+    if (m->kind == BM_DOS_MASS_TABLE) {
+        size_t n = m->n;
+        if (!(t_k >= m->t_k[0] && t_k <= m->t_k[n - 1]))
+            return bm_fail(err, BM_EINVAL, "%s: temperature %g K is outside the tabulated "
+                           "range %g..%g K (table: %s)", what, t_k, m->t_k[0], m->t_k[n - 1],
+                           m->source ? m->source : "no source given");
+        size_t i = 0;
+        while (i + 1 < n && m->t_k[i + 1] < t_k)
+            i++;
+        if (i + 1 >= n || t_k == m->t_k[i]) {
+            *mass = m->mass[i];
+            return BM_OK;
+        }
+        double f = (t_k - m->t_k[i]) / (m->t_k[i + 1] - m->t_k[i]);
+        *mass = m->mass[i] + f * (m->mass[i + 1] - m->mass[i]);
+        return BM_OK;
+    }
+    /* FIT, Horner in T */
+    double num = 0.0, den = 0.0;
+    for (int i = BM_DOS_FIT_NUMERATOR - 1; i >= 0; i--)
+        num = num * t_k + m->fit_numerator[i];
+    for (int i = BM_DOS_FIT_DENOMINATOR - 1; i >= 0; i--)
+        den = den * t_k + m->fit_denominator[i];
+    den = 1.0 + den * t_k;
+    double r = num / den;
+    if (!(r > 0.0) || !isfinite(r))
+        return bm_fail(err, BM_EINVAL, "%s: the fit gives no positive mass at %g K", what,
+                       t_k);
+    *mass = pow(r, 2.0 / 3.0);
     return BM_OK;
-}
-
-bm_status bm_dos_mass_table_hook(double t_k, double *m_dos_electron, double *m_dos_hole,
-                                 void *data)
-{
-    return bm_dos_mass_table_eval(data, t_k, m_dos_electron, m_dos_hole, NULL);
 }

@@ -4,6 +4,7 @@
 #define BM_CARRIERS_H
 
 #include <stddef.h>
+#include "bm-bandgap.h"
 #include "bm-status.h"
 
 /* Energies are measured from the valence-band maximum: Ev = 0, Ec = Eg.
@@ -39,31 +40,50 @@ typedef enum {
 typedef bm_status (*bm_dos_mass_hook)(double t_k, double *m_dos_electron,
                                       double *m_dos_hole, void *data);
 
-/* DOS masses tabulated against temperature, linearly interpolated: the
- * ready-made hook for bm_semiconductor (hook_data = the table).  t_k strictly
- * increasing, masses > 0, n >= 1 (n = 1: constant masses at that one
- * temperature only). */
+/* A density-of-states mass as a function of temperature, m_e:
+ *   FIXED  value at every temperature;
+ *   TABLE  n points (t_k strictly increasing, mass > 0), linear interpolation,
+ *          no extrapolation (n = 1: that temperature only);
+ *   FIT    m(T) = [(a0 + a1 T + ... + a4 T^4) / (1 + b1 T + ... + b4 T^4)]^(2/3)
+ *          with fit_numerator = {a0..a4}, fit_denominator = {b1..b4} (the form
+ *          of the silicon hole fit quoted by Green, J. Appl. Phys. 67, 2944
+ *          (1990); from memory).  A fit is evaluated at any T > 0; its
+ *          published range is the source's and is not checked here. */
+typedef enum {
+    BM_DOS_MASS_NONE = 0,
+    BM_DOS_MASS_FIXED,
+    BM_DOS_MASS_TABLE,
+    BM_DOS_MASS_FIT
+} bm_dos_mass_kind;
+
+#define BM_DOS_FIT_NUMERATOR 5
+#define BM_DOS_FIT_DENOMINATOR 4
+
 typedef struct {
-    size_t n;
-    const double *t_k;
-    const double *m_dos_electron;
-    const double *m_dos_hole;
-} bm_dos_mass_table;
+    bm_dos_mass_kind kind;
+    double value;                 /* FIXED */
+    size_t n;                     /* TABLE */
+    const double *t_k, *mass;
+    double fit_numerator[BM_DOS_FIT_NUMERATOR];      /* FIT */
+    double fit_denominator[BM_DOS_FIT_DENOMINATOR];
+    const char *source;           /* where the mass comes from */
+} bm_dos_mass_model;
 
-/* Validates the table; BM_EINVAL names the entry (0-based) and field at fault. */
-bm_status bm_dos_mass_table_check(const bm_dos_mass_table *tab, bm_errbuf *err);
+const char *bm_dos_mass_kind_name(bm_dos_mass_kind kind); /* "fixed", "table", "fit", "none" */
 
-/* Both masses at t_k by linear interpolation between the bracketing entries;
- * t_k outside [t_k[0], t_k[n-1]] is BM_EINVAL naming the range (no
- * extrapolation). */
-bm_status bm_dos_mass_table_eval(const bm_dos_mass_table *tab, double t_k,
-                                 double *m_dos_electron, double *m_dos_hole, bm_errbuf *err);
+/* Validates the model (BM_EINVAL naming `what`, the entry and field at fault). */
+bm_status bm_dos_mass_check(const bm_dos_mass_model *m, const char *what, bm_errbuf *err);
 
-/* bm_dos_mass_hook over a bm_dos_mass_table passed as data. */
-bm_status bm_dos_mass_table_hook(double t_k, double *m_dos_electron, double *m_dos_hole,
-                                 void *data);
+/* The mass at t_k (>= 0); BM_EINVAL naming `what` for a bad model, a
+ * temperature outside a table, or a fit that is not positive there. */
+bm_status bm_dos_mass_at(const bm_dos_mass_model *m, double t_k, const char *what,
+                         double *mass, bm_errbuf *err);
 
-/* A zero-initialised struct plus gap, masses and dopants is a valid input. */
+/* A zero-initialised struct plus gap, masses and dopants is a valid input.
+ * The models gap, electron_dos_mass and hole_dos_mass, when given, are
+ * evaluated at the solve temperature and replace band_gap_ev, m_dos_electron
+ * and m_dos_hole (and the hook): the temperature is then given once, to the
+ * solver. */
 typedef struct {
     double band_gap_ev;        /* Ec - Ev at the solve temperature (may be <= 0:
                                   overlap, warned) */
@@ -71,6 +91,10 @@ typedef struct {
     double m_dos_hole;         /* valence-band DOS mass, m_e */
     bm_dos_mass_hook dos_mass_hook;  /* NULL: use the two masses above */
     void *hook_data;
+    const bm_gap_model *gap;                     /* NULL: band_gap_ev */
+    const bm_dos_mass_model *electron_dos_mass;  /* NULL: m_dos_electron (or the hook) */
+    const bm_dos_mass_model *hole_dos_mass;      /* the statistics hole DOS mass m_dh(T);
+                                                    NULL: m_dos_hole (or the hook) */
     const bm_dopant *donors;   size_t ndonors;     /* <= BM_MAX_DOPANTS */
     const bm_dopant *acceptors; size_t nacceptors; /* <= BM_MAX_DOPANTS */
     bm_statistics statistics;
@@ -115,13 +139,14 @@ typedef struct {
     double boltzmann_deviation;
     int boltzmann_inaccurate;
     int iterations;                /* root-finder iterations of the main solve */
-    bm_warnings warnings;
+    bm_warnings warnings;      /* the caller frees them: bm_warnings_clear */
 } bm_carrier_state;
 
 /* Solves p + sum N_D+ - n - sum N_A- = 0 for the Fermi level at t_k.
  * Safeguarded Newton on ln(positive charge / negative charge), always kept
  * inside a bracket from physical bounds (bisection fallback); converges for any
- * T > 0 and densities in double range.  No allocation. */
+ * T > 0 and densities in double range.  Allocates only to record a
+ * warning (free out->warnings with bm_warnings_clear). */
 bm_status bm_carriers_solve(const bm_semiconductor *s, double t_k,
                             bm_carrier_state *out, bm_errbuf *err);
 

@@ -98,7 +98,7 @@ static int finish_tensor(bm_mass_tensor *t, double hk[3][3], double p[3][3],
             t->masses[m] = INFINITY;
             nflat++;
             t->divergent = 1;
-            bm_warn(&t->warnings, "near-zero curvature along (%.4f, %.4f, %.4f): "
+            bm_warn(&t->warnings, BM_WARN_FLAT_DIRECTION, "near-zero curvature along (%.4f, %.4f, %.4f): "
                     "|1/m| = %.3g 1/m_e is below %.0e, the band is flat there; mass reported as infinite",
                     t->axes[m][0], t->axes[m][1], t->axes[m][2], fabs(inv), FLAT_INV_MASS);
         } else {
@@ -115,7 +115,7 @@ static int finish_tensor(bm_mass_tensor *t, double hk[3][3], double p[3][3],
     }
     if (npos && nneg) {
         t->kind = BM_EXTREMUM_SADDLE;
-        bm_warn(&t->warnings, "saddle point: the curvature changes sign (%d positive, %d negative "
+        bm_warn(&t->warnings, BM_WARN_SADDLE_POINT, "saddle point: the curvature changes sign (%d positive, %d negative "
                 "principal masses), so this is not a band extremum", npos, nneg);
     } else if (npos) {
         t->kind = BM_EXTREMUM_MINIMUM;
@@ -133,7 +133,7 @@ static void range_warnings(bm_mass_tensor *t)
     for (int m = 0; m < t->dims; m++) {
         double am = fabs(t->masses[m]);
         if (isfinite(am) && (am < MASS_MIN || am > MASS_MAX))
-            bm_warn(&t->warnings, "principal mass %d is %.4g m_e, outside the usual range "
+            bm_warn(&t->warnings, BM_WARN_MASS_OUT_OF_RANGE, "principal mass %d is %.4g m_e, outside the usual range "
                     "%.2g..%.3g m_e", m + 1, t->masses[m], MASS_MIN, MASS_MAX);
     }
 }
@@ -146,7 +146,7 @@ static void mark_conical(bm_mass_tensor *t, double ratio, double slope)
     for (int i = 0; i < 3; i++)
         for (int j = 0; j < 3; j++)
             t->inv_mass[i][j] = NAN;
-    bm_warn(&t->warnings, "conical point: E - E0 grows linearly with |k - k0| (ratio %.2f "
+    bm_warn(&t->warnings, BM_WARN_CONICAL_POINT, "conical point: E - E0 grows linearly with |k - k0| (ratio %.2f "
             "on doubling the distance, 4 for a parabola; slope about %.3g eV Angstrom); "
             "no finite inertial mass", ratio, slope);
 }
@@ -154,7 +154,7 @@ static void mark_conical(bm_mass_tensor *t, double ratio, double slope)
 static void nonparabolic_check(bm_mass_tensor *t, const bm_quadric *q, double span, double radius)
 {
     if (span > 0.0 && q->rms > NONPARABOLIC_REL * span)
-        bm_warn(&t->warnings, "non-parabolic band: quadratic fit residual %.3g eV is %.1f%% "
+        bm_warn(&t->warnings, BM_WARN_NON_PARABOLIC, "non-parabolic band: quadratic fit residual %.3g eV is %.1f%% "
                 "of the energy range %.3g eV within %.3g 1/Angstrom",
                 q->rms, 100.0 * q->rms / span, span, radius);
 }
@@ -275,11 +275,18 @@ typedef struct {
     double degen;
     double conv;         /* convergence tolerance, relative */
     bm_interp *ip;
+    bm_interp *ip_reduced;   /* the same without its top harmonics: error estimates */
 } grid_ctx;
 
 static void grid_eval(grid_ctx *c, size_t band, const double f[3], double *e, double g[3], double h[3][3])
 {
     bm_interp_eval(c->ip, c->g->energies + band * c->npt, f, e, g, h);
+}
+
+static void grid_eval_with(grid_ctx *c, bm_interp *ip, const double f[3], double *e, double g[3],
+                           double h[3][3])
+{
+    bm_interp_eval(ip, c->g->energies + c->band * c->npt, f, e, g, h);
 }
 
 /* Local quadric fit of the mesh data around fractional point f (for the
@@ -349,7 +356,7 @@ static void grid_fit(grid_ctx *c, const double f[3], const double k0[3], double 
         nonparabolic_check(t, &qf, span, dmax);
     } else {
         t->fit_rms_ev = NAN;
-        bm_warn(&t->warnings, "local quadratic fit not determined: %zu mesh points within %.3g "
+        bm_warn(&t->warnings, BM_WARN_FIT_UNDETERMINED, "local quadratic fit not determined: %zu mesh points within %.3g "
                 "1/Angstrom give rank %zu of %zu parameters", m, dmax, qf.rank, qf.nparams);
     }
 done:
@@ -453,7 +460,7 @@ static void assess(grid_ctx *c, const bm_bandfit *fits, int nfits, const double 
     if (t->nfits < 2 || t->divergent) {
         t->converged = 0;
         t->k_error = NAN;
-        bm_warn(&t->warnings, "no error estimate: %s; a finer mesh or DFT energies at a "
+        bm_warn(&t->warnings, BM_WARN_NO_ERROR_ESTIMATE, "no error estimate: %s; a finer mesh or DFT energies at a "
                 "refinement stencil around this point would give one",
                 t->divergent ? "the mass is divergent here"
                 : "too few mesh points near this point for independent local fits");
@@ -475,12 +482,12 @@ static void assess(grid_ctx *c, const bm_bandfit *fits, int nfits, const double 
     }
     t->converged = ok;
     if (want != 0 && agree != held)
-        bm_warn(&t->warnings, "the kind of this point is not certain: %d of %d independent "
+        bm_warn(&t->warnings, BM_WARN_KIND_UNCERTAIN, "the kind of this point is not certain: %d of %d independent "
                 "local fits give a %s, the others do not (ringing or a nearby feature); a "
                 "finer mesh or a refinement stencil would settle it", agree, held,
                 kind_name(t->kind));
     else if (!ok)
-        bm_warn(&t->warnings, "masses not converged: the estimated error reaches %.1f%% of "
+        bm_warn(&t->warnings, BM_WARN_NOT_CONVERGED, "masses not converged: the estimated error reaches %.1f%% of "
                 "a mass (tolerance %.1f%%); a finer mesh, or DFT energies at a refinement "
                 "stencil around this point fitted as a k-table, would converge them",
                 100.0 * worst, 100.0 * c->conv);
@@ -543,7 +550,7 @@ static int crossing_analyse(grid_ctx *c, const bm_bandfit *fits, int partner,
     grid_fit(c, f, k, e, t);
     range_warnings(t);
     if (gap <= c->degen)
-        bm_warn(&t->warnings, "band %d lies %.3g meV from band %zu at this %s (E = %.6f eV; "
+        bm_warn(&t->warnings, BM_WARN_DEGENERATE_BAND, "band %d lies %.3g meV from band %zu at this %s (E = %.6f eV; "
                 "tolerance %.3g meV): the bands are degenerate here and the mass tensor is ill-defined",
                 partner, 1e3 * gap, c->band, kind_name(t->kind), e, 1e3 * c->degen);
     return 0;
@@ -569,7 +576,7 @@ static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
                                          &gap, &span);
         if (partner >= 0 && !(gap < CROSSING_GAP_REL * span))
             partner = -1;
-        for (int pass = 0; pass < 2; pass++) {
+        if (partner >= 0) {
             int held = 0;
             for (int s = 0; s < BM_BANDFIT_NSETTINGS; s++) {
                 if (bm_bandfit_run(c->g, c->band, partner, f, kstart, c->dims, c->p,
@@ -577,12 +584,9 @@ static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
                     return -1;
                 held += fits[s].ok;
             }
-            nfits = BM_BANDFIT_NSETTINGS;
-            if (partner >= 0 && held >= 2)
+            if (held >= 2)
                 return crossing_analyse(c, fits, partner, hint, t);
-            if (partner < 0)
-                break;
-            partner = -1;   /* the pair closes (a degenerate or conical point): the band alone */
+            /* the pair closes (a degenerate or conical point): the band alone */
         }
     }
     if (refine) {
@@ -612,7 +616,7 @@ static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
                 away = fmax(away, fabs(f[a] - f_start[a]) * (double)n[a]);
             }
             if (away > 2.0) {
-                bm_warn(&t->warnings, "refinement left the neighbourhood of mesh point "
+                bm_warn(&t->warnings, BM_WARN_REFINEMENT_ESCAPED, "refinement left the neighbourhood of mesh point "
                         "(%.4f, %.4f, %.4f) (fractional); reported at the mesh point",
                         f_start[0], f_start[1], f_start[2]);
                 memcpy(f, f_start, sizeof f);
@@ -627,7 +631,7 @@ static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
                 converged = 1;
         }
         if (!converged && !flat && last > 1e-4)
-            bm_warn(&t->warnings, "refinement did not converge in %d Newton steps", NEWTON_MAX_ITER);
+            bm_warn(&t->warnings, BM_WARN_REFINEMENT_NOT_CONVERGED, "refinement did not converge in %d Newton steps", NEWTON_MAX_ITER);
     }
     grid_eval(c, c->band, f, &e, gf, hf);
     if (c->dims == 2) {
@@ -651,7 +655,7 @@ static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
     if (finish_tensor(t, hk, c->p, c->dims, hint) != 0)
         return -1;
     if (!refine && bm_norm3(gk) > 1e-6)
-        bm_warn(&t->warnings, "|dE/dk| = %.3g eV Angstrom at the given point: not a stationary "
+        bm_warn(&t->warnings, BM_WARN_NOT_STATIONARY, "|dE/dk| = %.3g eV Angstrom at the given point: not a stationary "
                 "point, the tensor is the local curvature there", bm_norm3(gk));
     grid_fit(c, f, kf, e, t);
     double ratio, slope;
@@ -659,15 +663,27 @@ static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
         mark_conical(t, ratio, slope);
     else
         range_warnings(t);
-    if (nfits)
+    if (refine) {
+        /* the reduced interpolant at the same point is the independent estimate */
+        double er, gr[3], hr[3][3], hrk[3][3], tmp2[3][3];
+        grid_eval_with(c, c->ip_reduced, f, &er, gr, hr);
+        if (c->dims == 2)
+            hr[2][2] = hr[0][2] = hr[2][0] = hr[1][2] = hr[2][1] = 0.0;
+        bm_matmul3(c->binv, hr, tmp2);
+        bm_matmul3(tmp2, binvt, hrk);
+        fits[0].ok = 1;
+        memcpy(fits[0].k, kf, sizeof fits[0].k);
+        memcpy(fits[0].hessian, hrk, sizeof hrk);
+        nfits = 1;
         assess(c, fits, nfits, kf, t);
+    }
     for (size_t b = 0; b < c->g->nbands; b++) {
         if (b == c->band)
             continue;
         double eb;
         grid_eval(c, b, f, &eb, NULL, NULL);
         if (isfinite(eb) && fabs(eb - e) <= c->degen)
-            bm_warn(&t->warnings, "band %zu lies %.3g meV from band %zu at this %s (E = %.6f eV; "
+            bm_warn(&t->warnings, BM_WARN_DEGENERATE_BAND, "band %zu lies %.3g meV from band %zu at this %s (E = %.6f eV; "
                     "tolerance %.3g meV): the bands are degenerate here and the mass tensor is ill-defined",
                     b, 1e3 * fabs(eb - e), c->band, kind_name(t->kind), e, 1e3 * c->degen);
     }
@@ -836,8 +852,12 @@ bm_status bm_grid_mass_tensors(const bm_grid *g, size_t band, bm_search which,
     if (bm_inv3(c.b, c.binv) != 0)
         return bm_fail(err, BM_EINVAL, "reciprocal vectors are singular");
     c.ip = bm_interp_new(g->mesh);
-    if (!c.ip)
+    c.ip_reduced = bm_interp_new_reduced(g->mesh);
+    if (!c.ip || !c.ip_reduced) {
+        bm_interp_free(c.ip);
+        bm_interp_free(c.ip_reduced);
         return bm_fail(err, BM_ENOMEM, "out of memory for the interpolation workspace");
+    }
     const double *e = g->energies + band * c.npt;
     bm_mass_tensor *res = NULL;
     size_t nres = 0;
@@ -849,10 +869,12 @@ bm_status bm_grid_mass_tensors(const bm_grid *g, size_t band, bm_search which,
         if (c.dims == 2)
             f[2] = 0.0;
         res = malloc(sizeof *res);
-        if (!res || grid_analyse(&c, f, 0, BM_EXTREMUM_MINIMUM, res) != 0)
-            s = res ? bm_fail(err, BM_EINTERNAL, "eigen-decomposition failed at the given point")
-                    : bm_fail(err, BM_ENOMEM, "out of memory");
-        else
+        if (!res) {
+            s = bm_fail(err, BM_ENOMEM, "out of memory");
+        } else if (grid_analyse(&c, f, 0, BM_EXTREMUM_MINIMUM, res) != 0) {
+            bm_warnings_clear(&res->warnings);
+            s = bm_fail(err, BM_EINTERNAL, "eigen-decomposition failed at the given point");
+        } else
             nres = 1;
     } else {
         candidate *cl = NULL;
@@ -896,9 +918,10 @@ bm_status bm_grid_mass_tensors(const bm_grid *g, size_t band, bm_search which,
                             (double)((p / n3) % n2) / (double)n2,
                             (double)(p % n3) / (double)n3 };
             if (grid_analyse(&c, f, 1, cl[q].is_min ? BM_EXTREMUM_MINIMUM : BM_EXTREMUM_MAXIMUM,
-                             &res[nres]) != 0)
+                             &res[nres]) != 0) {
+                bm_warnings_clear(&res[nres].warnings);
                 s = bm_fail(err, BM_EINTERNAL, "eigen-decomposition failed at mesh point %zu", p);
-            else
+            } else
                 nres++;
         }
         free(cl);
@@ -906,8 +929,9 @@ bm_status bm_grid_mass_tensors(const bm_grid *g, size_t band, bm_search which,
             qsort(res, nres, sizeof *res, by_energy);
     }
     bm_interp_free(c.ip);
+    bm_interp_free(c.ip_reduced);
     if (s != BM_OK) {
-        free(res);
+        bm_mass_tensors_free(res, nres);
         return s;
     }
     *out = res;
@@ -1039,7 +1063,7 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
                 du[a] -= hi[a][b] * q.g[b];
         double step = sqrt(du[0] * du[0] + du[1] * du[1] + du[2] * du[2]);
         if (step > dmax) {
-            bm_warn(&t->warnings, "Newton step %.3g 1/Angstrom leaves the fit region (%.3g 1/Angstrom); "
+            bm_warn(&t->warnings, BM_WARN_REFINEMENT_ESCAPED, "Newton step %.3g 1/Angstrom leaves the fit region (%.3g 1/Angstrom); "
                     "the extremum is reported at the sampled point", step, dmax);
             break;
         }
@@ -1063,7 +1087,7 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
         return bm_fail(err, BM_EINTERNAL, "eigen-decomposition of the fitted Hessian failed");
     double gnorm = sqrt(q.g[0] * q.g[0] + q.g[1] * q.g[1] + q.g[2] * q.g[2]);
     if (!refine && gnorm > 1e-6)
-        bm_warn(&t->warnings, "|dE/dk| = %.3g eV Angstrom at the given point: not a stationary "
+        bm_warn(&t->warnings, BM_WARN_NOT_STATIONARY, "|dE/dk| = %.3g eV Angstrom at the given point: not a stationary "
                 "point, the tensor is the local curvature there", gnorm);
     nonparabolic_check(t, &q, span, dmax);
     /* Conical test: refit with the radius doubled (or the point count grown by
@@ -1114,7 +1138,7 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
             continue;
         double eb = c->t->energies[b * c->t->npoints + near];
         if (fabs(eb - e_self) <= c->degen)
-            bm_warn(&t->warnings, "band %zu lies %.3g meV from band %zu at this %s (point %zu, "
+            bm_warn(&t->warnings, BM_WARN_DEGENERATE_BAND, "band %zu lies %.3g meV from band %zu at this %s (point %zu, "
                     "E = %.6f eV; tolerance %.3g meV): the bands are degenerate here and the mass "
                     "tensor is ill-defined", b, 1e3 * fabs(eb - e_self), c->band, kind_name(t->kind),
                     near, e_self, 1e3 * c->degen);
@@ -1199,6 +1223,8 @@ bm_status bm_ktable_mass_tensors(const bm_ktable *t, size_t band, bm_search whic
     if (k_at) {
         s = table_analyse(&c, k_at, 0, BM_EXTREMUM_MINIMUM, &res[0], err);
         nres = s == BM_OK;
+        if (s != BM_OK)
+            bm_warnings_clear(&res[nres].warnings);
     } else {
         size_t lo = 0, hi = 0;
         for (size_t m = 1; m < np; m++) {
@@ -1210,10 +1236,14 @@ bm_status bm_ktable_mass_tensors(const bm_ktable *t, size_t band, bm_search whic
         if (which != BM_SEARCH_MAXIMUM) {
             s = table_analyse(&c, t->k + 3 * lo, 1, BM_EXTREMUM_MINIMUM, &res[nres], err);
             nres += s == BM_OK;
+            if (s != BM_OK)
+                bm_warnings_clear(&res[nres].warnings);
         }
         if (s == BM_OK && which != BM_SEARCH_MINIMUM) {
             s = table_analyse(&c, t->k + 3 * hi, 1, BM_EXTREMUM_MAXIMUM, &res[nres], err);
             nres += s == BM_OK;
+            if (s != BM_OK)
+                bm_warnings_clear(&res[nres].warnings);
         }
     }
 done:
@@ -1224,10 +1254,17 @@ done:
     free(c.e);
     free(c.w);
     if (s != BM_OK) {
-        free(res);
+        bm_mass_tensors_free(res, nres);
         return s;
     }
     *out = res;
     *n_out = nres;
     return BM_OK;
+}
+
+void bm_mass_tensors_free(bm_mass_tensor *t, size_t n)
+{
+    for (size_t i = 0; t && i < n; i++)
+        bm_warnings_clear(&t[i].warnings);
+    free(t);
 }

@@ -61,7 +61,8 @@ bm_status bm_grid_validate(const bm_grid *g, bm_errbuf *err);
 
 /* Extrema of one band of a grid. k_at (NULL unless wanted) evaluates the
  * tensor at that Cartesian point instead of searching. *out is malloc'd;
- * the caller frees it with free(). */
+ * the caller frees it (and the warnings of every tensor) with
+ * bm_mass_tensors_free(). */
 bm_status bm_grid_mass_tensors(const bm_grid *g, size_t band, bm_search which,
                                const double *k_at, const bm_fit_options *opt,
                                bm_mass_tensor **out, size_t *n_out, bm_errbuf *err);
@@ -71,5 +72,9 @@ bm_status bm_grid_mass_tensors(const bm_grid *g, size_t band, bm_search which,
 bm_status bm_ktable_mass_tensors(const bm_ktable *t, size_t band, bm_search which,
                                  const double *k_at, const bm_fit_options *opt,
                                  bm_mass_tensor **out, size_t *n_out, bm_errbuf *err);
+
+/* Frees n tensors from bm_grid_mass_tensors/bm_ktable_mass_tensors with
+ * their warnings. t may be NULL. */
+void bm_mass_tensors_free(bm_mass_tensor *t, size_t n);
 
 #endif

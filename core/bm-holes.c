@@ -13,7 +13,7 @@
 static void warn_range(bm_warnings *w, const char *what, double m)
 {
     if (isfinite(m) && m > 0.0 && (m < MASS_LOW || m > MASS_HIGH))
-        bm_warn(w, "%s is %g m_e, outside the usual %g..%g m_e", what, m, MASS_LOW, MASS_HIGH);
+        bm_warn(w, BM_WARN_MASS_OUT_OF_RANGE, "%s is %g m_e, outside the usual %g..%g m_e", what, m, MASS_LOW, MASS_HIGH);
 }
 
 bm_status bm_hole_dos_mass(const bm_hole_bands *b, bm_hole_dos *out, bm_errbuf *err)
@@ -48,7 +48,7 @@ bm_status bm_hole_dos_mass(const bm_hole_bands *b, bm_hole_dos *out, bm_errbuf *
     out->fraction_lh = lh / tot;
     out->fraction_so = so / tot;
     if (b->m_lh > b->m_hh)
-        bm_warn(&out->warnings, "light-hole mass %g m_e exceeds heavy-hole mass %g m_e: "
+        bm_warn(&out->warnings, BM_WARN_MASS_ORDER, "light-hole mass %g m_e exceeds heavy-hole mass %g m_e: "
                 "are they swapped?", b->m_lh, b->m_hh);
     warn_range(&out->warnings, "heavy-hole mass", b->m_hh);
     warn_range(&out->warnings, "light-hole mass", b->m_lh);
@@ -173,7 +173,7 @@ bm_status bm_luttinger_masses_compute(const bm_luttinger *L, bm_luttinger_masses
         if (st != BM_OK)
             return st;
         if (conc)
-            bm_warn(&out->warnings, "heavy-hole band is not a maximum along %s "
+            bm_warn(&out->warnings, BM_WARN_NOT_A_MAXIMUM, "heavy-hole band is not a maximum along %s "
                     "(1/m = %g 1/m_e)", names[d],
                     isinf(out->heavy[d]) ? 0.0 : 1.0 / out->heavy[d]);
     }
@@ -213,20 +213,55 @@ bm_status bm_luttinger_masses_compute(const bm_luttinger *L, bm_luttinger_masses
     } else {
         out->heavy_dos_mass = INFINITY;
         out->combined_dos_mass = INFINITY;
-        bm_warn(&out->warnings,
+        bm_warn(&out->warnings, BM_WARN_OPEN_SURFACE,
                 "heavy-hole surface is open (gamma1 - 2 max(|gamma2|, |gamma3|) = %g <= 0): "
                 "no finite heavy-hole density-of-states mass", out->heavy_factor_min);
     }
     out->quadrature_change = change;
     if (change > 1e-8)
-        bm_warn(&out->warnings, "warped-surface quadrature converged only to %.1e relative "
+        bm_warn(&out->warnings, BM_WARN_QUADRATURE_INACCURATE, "warped-surface quadrature converged only to %.1e relative "
                 "(strong warping)", change);
     if (out->heavy_convex) {
         warn_range(&out->warnings, "heavy-hole DOS mass", out->heavy_dos_mass);
         if (out->heavy_factor_min < 0.05 * L->g1)
-            bm_warn(&out->warnings, "heavy-hole band is nearly flat in some direction "
+            bm_warn(&out->warnings, BM_WARN_FLAT_DIRECTION, "heavy-hole band is nearly flat in some direction "
                     "(smallest 1/m = %g 1/m_e)", out->heavy_factor_min);
     }
     warn_range(&out->warnings, "light-hole DOS mass", out->light_dos_mass);
+    return BM_OK;
+}
+
+bm_status bm_band_edge_hole_dos_mass(const bm_luttinger *L, double m_so, double delta_so_ev,
+                                     double t_k, double *mass, bm_warnings *w,
+                                     bm_errbuf *err)
+{
+    if (!mass)
+        return bm_fail(err, BM_EINVAL, "band-edge hole DOS mass: no place for the result");
+    *mass = NAN;
+    bm_luttinger_masses lm;
+    bm_status st = bm_luttinger_masses_compute(L, &lm, err);
+    if (st != BM_OK)
+        return st;
+    for (size_t i = 0; w && i < lm.warnings.count; i++)
+        bm_warn(w, lm.warnings.items[i].code, "%s", lm.warnings.items[i].text);
+    bm_warnings_clear(&lm.warnings);
+    if (!lm.heavy_convex)
+        return bm_fail(err, BM_EINVAL, "band-edge hole DOS mass: the heavy-hole surface is "
+                       "open (gamma1 - 2 max(|gamma2|, |gamma3|) = %g <= 0)",
+                       lm.heavy_factor_min);
+    if (!(m_so >= 0.0) || !isfinite(m_so))
+        return bm_fail(err, BM_EINVAL, "band-edge hole DOS mass: split-off mass %g m_e must "
+                       "be positive (or 0 to leave it out)", m_so);
+    double tot = pow(lm.heavy_dos_mass, 1.5) + pow(lm.light_dos_mass, 1.5);
+    if (m_so > 0.0) {
+        if (!(delta_so_ev >= 0.0) || !isfinite(delta_so_ev))
+            return bm_fail(err, BM_EINVAL, "band-edge hole DOS mass: split-off energy %g eV "
+                           "must be zero or positive", delta_so_ev);
+        if (!(t_k > 0.0) || !isfinite(t_k))
+            return bm_fail(err, BM_EINVAL, "band-edge hole DOS mass: temperature %g K: the "
+                           "split-off population needs T > 0", t_k);
+        tot += pow(m_so, 1.5) * exp(-delta_so_ev / (BM_KB_EV * t_k));
+    }
+    *mass = pow(tot, 2.0 / 3.0);
     return BM_OK;
 }

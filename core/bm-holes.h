@@ -19,7 +19,7 @@ typedef struct {
     double fraction_hh;     /* share of the holes in each band (non-degenerate) */
     double fraction_lh;
     double fraction_so;
-    bm_warnings warnings;
+    bm_warnings warnings;      /* the caller frees them: bm_warnings_clear */
 } bm_hole_dos;
 
 /* m_dh^(3/2) = m_hh^(3/2) + m_lh^(3/2) + m_so^(3/2) exp(-Delta_so / kT).
@@ -51,7 +51,7 @@ typedef struct {
     double heavy_factor_min;  /* min over directions of g1 - sqrt(...), 1/m_e */
     double quadrature_change; /* relative change of the DOS masses on doubling
                                  the quadrature: an error estimate */
-    bm_warnings warnings;
+    bm_warnings warnings;      /* the caller frees them: bm_warnings_clear */
 } bm_luttinger_masses;
 
 /* Directional masses and the angle averages
@@ -60,5 +60,19 @@ typedef struct {
  * BM_EINVAL for non-finite parameters or g1 <= 0 (no hole band at all). */
 bm_status bm_luttinger_masses_compute(const bm_luttinger *L, bm_luttinger_masses *out,
                                       bm_errbuf *err);
+
+/* The band-edge k.p hole density-of-states mass: the warped heavy- and
+ * light-hole surfaces of L combined, m^(3/2) = m_hd^(3/2) + m_ld^(3/2)
+ * (bm_luttinger_masses_compute's combined_dos_mass), and with m_so > 0 the
+ * split-off band at its offset Delta_so added as m_so^(3/2) exp(-Delta_so/kT)
+ * (then t_k > 0 is needed; m_so = 0 leaves it out and ignores delta and T).
+ * This is a band-edge quantity: it is not the mass that reproduces a
+ * measured Nv at room temperature (non-parabolicity and the temperature
+ * dependence of the valence bands are left out).  BM_EINVAL as for the two
+ * functions it uses, and for an open heavy-hole surface (no finite mass);
+ * warnings (w may be NULL) are those of the warped-band computation. */
+bm_status bm_band_edge_hole_dos_mass(const bm_luttinger *L, double m_so, double delta_so_ev,
+                                     double t_k, double *mass, bm_warnings *w,
+                                     bm_errbuf *err);
 
 #endif

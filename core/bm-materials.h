@@ -5,6 +5,7 @@
 
 #include <stddef.h>
 #include "bm-bandgap.h"
+#include "bm-carriers.h"
 #include "bm-status.h"
 #include "bm-valleys.h"
 
@@ -60,27 +61,39 @@ typedef struct {
 
 #define BM_MATERIAL_MAX_DOPANTS 8
 
-/* Values not published in the sources used are NAN (and their source string
- * says so).  "derived" in a source string means computed here from the other
- * listed values by the formula given. */
+/* A number and where it comes from (NAN when not published in the sources
+ * used; the source string then says so). */
+typedef struct {
+    double value;
+    const char *source;
+} bm_sourced;
+
+/* The whole material model.  "derived" in a source string means computed
+ * here from the other listed values by the formula given.  A material read
+ * from a file has NULL for the strings it does not give, direct_gap -1 when
+ * not given, NAN values for the numbers it does not give, kind NONE for the
+ * models it does not give and electron.label NULL without a conduction valley.
+ *
+ * Two hole DOS masses, never mixed:
+ *   statistics_hole_dos_mass  m_dh(T), the mass that gives Nv = 2 (2 pi m_dh
+ *                             k T / h^2)^(3/2) in carrier statistics: a fit,
+ *                             a table or a value derived from a published Nv;
+ *   the band-edge k.p DOS mass of the warped heavy and light bands, computed
+ *                             from luttinger[] by bm_band_edge_hole_dos_mass
+ *                             (bm-holes.h), not stored. */
 typedef struct {
     const char *name;             /* "Si", "GaAs", "4H-SiC" */
     const char *long_name;        /* "silicon" */
     const char *structure;        /* "diamond", "zincblende", "wurtzite", "4H polytype" */
     const char *point_group;      /* Schoenflies symbol of the crystal class */
-    int direct_gap;
-    bm_varshni gap;               /* Eg0 (eV), alpha (eV/K), beta (K) */
-    const char *gap_source;
+    int direct_gap;               /* 1 direct, 0 indirect, -1 not given */
+    bm_gap_model gap;             /* with its source */
     bm_valley_info electron;
-    double m_dos_electron;        /* all valleys, m_e */
-    const char *m_dos_electron_source;
-    double m_dos_hole;
-    const char *m_dos_hole_source;
-    double m_heavy_hole, m_light_hole;
-    const char *hole_masses_source;
-    double m_split_off;
-    double split_off_ev;
-    const char *split_off_source;
+    bm_dos_mass_model electron_dos_mass;          /* all valleys, m_e */
+    bm_dos_mass_model statistics_hole_dos_mass;   /* m_dh(T), m_e */
+    bm_sourced heavy_hole_mass, light_hole_mass;  /* parabolic, m_e */
+    bm_sourced split_off_mass;                    /* m_e */
+    bm_sourced split_off_ev;                      /* spin-orbit splitting Delta_so, eV */
     double luttinger[3];          /* gamma1, gamma2, gamma3 (NAN if not cubic) */
     const char *luttinger_source;
     size_t ndopants;
@@ -101,9 +114,13 @@ const bm_material *bm_material_find(const char *name, bm_errbuf *err);
 const bm_material_dopant *bm_material_find_dopant(const bm_material *m, const char *element,
                                                   bm_dopant_kind kind, bm_errbuf *err);
 
-/* Varshni gap of the material at t_k. */
+/* The gap of the material's model at t_k (bm_gap_at). */
 bm_status bm_material_band_gap(const bm_material *m, double t_k, double *eg_ev,
                                bm_warnings *w, bm_errbuf *err);
+
+/* m_dh(t_k) of the material's statistics hole DOS mass model (bm_dos_mass_at). */
+bm_status bm_material_statistics_hole_dos_mass(const bm_material *m, double t_k,
+                                               double *mass, bm_errbuf *err);
 
 /* The Cartesian unit direction of v (frame of bm-symmetry.h); zero when v
  * sits at Gamma with no axis given.  BM_EINVAL for a non-finite or zero

@@ -1,16 +1,13 @@
 /* bm-valleys.c: stars of valleys under a point group plus time reversal,
  * and population-weighted conductivity and density-of-states masses. */
 #include "bm-valleys.h"
+#include "bm-fermi.h"
+#include "bm-linalg.h"
 #include "bm-mat3.h"
 #include "bm-units.h"
 
 #include <math.h>
 #include <string.h>
-#include <gsl/gsl_eigen.h>
-#include <gsl/gsl_errno.h>
-#include <gsl/gsl_matrix.h>
-#include <gsl/gsl_sf_fermi_dirac.h>
-#include <gsl/gsl_vector.h>
 
 #define AXES_SNAP_TOL 1e-3     /* re-orthonormalise below, reject above */
 #define POS_TOL 1e-6           /* equality of unit position vectors */
@@ -28,50 +25,29 @@ static bm_status check_mass(double m, const char *what, int i, bm_errbuf *err)
 bm_status bm_inv_mass_principal(const double *inv_mass, double masses[3],
                                 double axes[3][3], bm_errbuf *err)
 {
-    double a[9];
+    double a[3][3];
     for (int i = 0; i < 3; i++)
         for (int j = 0; j < 3; j++) {
             if (!isfinite(BM_M3(inv_mass, i, j)))
                 return bm_fail(err, BM_EINVAL,
                                "inverse mass tensor entry [%d][%d] is not finite", i, j);
-            a[3 * i + j] = 0.5 * (BM_M3(inv_mass, i, j) + BM_M3(inv_mass, j, i));
+            a[i][j] = 0.5 * (BM_M3(inv_mass, i, j) + BM_M3(inv_mass, j, i));
         }
-    gsl_matrix_view av = gsl_matrix_view_array(a, 3, 3);
-    gsl_vector *eval = gsl_vector_alloc(3);
-    gsl_matrix *evec = gsl_matrix_alloc(3, 3);
-    gsl_eigen_symmv_workspace *ws = gsl_eigen_symmv_alloc(3);
-    if (!eval || !evec || !ws) {
-        gsl_vector_free(eval);
-        gsl_matrix_free(evec);
-        gsl_eigen_symmv_free(ws);
-        return bm_fail(err, BM_ENOMEM, "inverse mass tensor: out of memory");
+    double evals[3], evecs[3][3];
+    if (bm_symeig(a, 3, evals, evecs) != 0)
+        return bm_fail(err, BM_EINTERNAL, "inverse mass tensor: eigen-decomposition failed");
+    /* Ascending inverse masses, taken from the largest, give ascending masses. */
+    for (int i = 0; i < 3; i++) {
+        double lam = evals[2 - i];
+        if (!(lam > 0.0))
+            return bm_fail(err, BM_EINVAL,
+                           "inverse mass tensor is not positive definite "
+                           "(eigenvalue %d is %g 1/m_e)", i, lam);
+        masses[i] = 1.0 / lam;
+        for (int j = 0; j < 3; j++)
+            axes[i][j] = evecs[2 - i][j];
     }
-    int rc = gsl_eigen_symmv(&av.matrix, eval, evec, ws);
-    if (rc == GSL_SUCCESS)
-        rc = gsl_eigen_symmv_sort(eval, evec, GSL_EIGEN_SORT_VAL_DESC);
-    bm_status st = BM_OK;
-    if (rc != GSL_SUCCESS) {
-        st = bm_fail(err, BM_EINTERNAL, "inverse mass tensor: eigen-decomposition failed (%s)",
-                     gsl_strerror(rc));
-    } else {
-        /* Descending inverse masses give ascending masses. */
-        for (int i = 0; i < 3 && st == BM_OK; i++) {
-            double lam = gsl_vector_get(eval, (size_t)i);
-            if (!(lam > 0.0)) {
-                st = bm_fail(err, BM_EINVAL,
-                             "inverse mass tensor is not positive definite "
-                             "(eigenvalue %d is %g 1/m_e)", i, lam);
-                break;
-            }
-            masses[i] = 1.0 / lam;
-            for (int j = 0; j < 3; j++)
-                axes[i][j] = gsl_matrix_get(evec, (size_t)j, (size_t)i);
-        }
-    }
-    gsl_vector_free(eval);
-    gsl_matrix_free(evec);
-    gsl_eigen_symmv_free(ws);
-    return st;
+    return BM_OK;
 }
 
 bm_status bm_valley_shape_spheroid(double m_long, double m_trans, const double axis[3],
@@ -147,7 +123,7 @@ bm_status bm_valley_shape_normalise(bm_valley_shape *shape, bm_warnings *warn,
             a[i][c] /= l;
     }
     if (oe > 1e-9)
-        bm_warn(warn, "valley principal axes were re-orthonormalised "
+        bm_warn(warn, BM_WARN_AXES_REORTHONORMALISED, "valley principal axes were re-orthonormalised "
                 "(largest entry of A A^T - 1 was %.2g)", oe);
     return BM_OK;
 }
@@ -309,23 +285,11 @@ bm_status bm_valley_star_build(const bm_valley_shape *shape, bm_valley_site site
     }
     out->n = n;
     if (worst > 1e-9)
-        bm_warn(&out->warnings,
+        bm_warn(&out->warnings, BM_WARN_VALLEY_SYMMETRISED,
                 "the valley's mass tensor is not invariant under the operations of %s that "
                 "keep its position (relative change %.2g); each valley holds the "
                 "symmetrised average", g->name[0] ? g->name : "the group", worst);
     return BM_OK;
-}
-
-/* ln F_1/2(eta), F normalised with 1/Gamma(3/2); F -> e^eta for eta << 0. */
-static double log_fd_half(double eta)
-{
-    if (eta < -40.0)
-        return eta;
-    gsl_sf_result r;
-    int rc = gsl_sf_fermi_dirac_half_e(eta, &r);
-    if (rc != GSL_SUCCESS || !(r.val > 0.0))
-        return eta < 0.0 ? eta : 1.5 * log(eta) - lgamma(2.5);
-    return log(r.val);
 }
 
 bm_status bm_valley_average_compute(bm_valley *valleys, size_t n, const bm_population *pop,
@@ -390,7 +354,7 @@ bm_status bm_valley_average_compute(bm_valley *valleys, size_t n, const bm_popul
     /* log occupation of each valley relative to one at the lowest edge */
     double lref = 0.0;
     if (fermi && kt > 0.0)
-        lref = log_fd_half((pop->fermi_level_ev - emin) / kt);
+        lref = bm_fermi_dirac_half_log((pop->fermi_level_ev - emin) / kt, NULL);
 
     double ptot = 0.0;
     double inv[3][3] = {{0}};
@@ -401,7 +365,7 @@ bm_status bm_valley_average_compute(bm_valley *valleys, size_t n, const bm_popul
             if (!fermi)
                 lr = -(x->energy_offset_ev - emin) / kt;
             else
-                lr = log_fd_half((pop->fermi_level_ev - x->energy_offset_ev) / kt) - lref;
+                lr = bm_fermi_dirac_half_log((pop->fermi_level_ev - x->energy_offset_ev) / kt, NULL) - lref;
         }
         double p = x->weight * sqrt(x->masses[0] * x->masses[1] * x->masses[2]) * exp(lr);
         x->population = p;
@@ -442,14 +406,14 @@ bm_status bm_valley_average_compute(bm_valley *valleys, size_t n, const bm_popul
     for (size_t v = 0; v < n; v++)
         for (int i = 0; i < 3; i++)
             if (valleys[v].masses[i] < MASS_LOW || valleys[v].masses[i] > MASS_HIGH) {
-                bm_warn(&out->warnings,
+                bm_warn(&out->warnings, BM_WARN_MASS_OUT_OF_RANGE,
                         "valley %zu has a principal mass of %g m_e, outside the usual "
                         "%g..%g m_e", v, valleys[v].masses[i], MASS_LOW, MASS_HIGH);
                 v = n;   /* once is enough */
                 break;
             }
     if (fermi && kt > 0.0 && (pop->fermi_level_ev - emin) / kt > -3.0)
-        bm_warn(&out->warnings,
+        bm_warn(&out->warnings, BM_WARN_DEGENERATE_STATISTICS,
                 "the Fermi level lies %.3g kT from the lowest valley edge: degenerate "
                 "statistics, masses depend on the Fermi level",
                 (pop->fermi_level_ev - emin) / kt);

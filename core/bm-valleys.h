@@ -42,7 +42,7 @@ typedef struct {
     double valley_count;       /* full valleys: sum of weights (4 for Ge L) */
     size_t n;                  /* positions listed */
     bm_valley valleys[BM_STAR_MAX];
-    bm_warnings warnings;
+    bm_warnings warnings;      /* the caller frees them: bm_warnings_clear */
 } bm_valley_star;
 
 /* Builds a spheroidal valley: m_l along axis (need not be normalised),
@@ -98,7 +98,7 @@ typedef struct {
     double dos_mass;                      /* m_d, referred to the lowest valley edge */
     double valley_count;                  /* sum of weights */
     double effective_valley_count;        /* sum of w'_v: populated valleys */
-    bm_warnings warnings;
+    bm_warnings warnings;      /* the caller frees them: bm_warnings_clear */
 } bm_valley_average;
 
 /* Averages over n valleys; fills each valley's population fraction.

@@ -46,7 +46,7 @@ if "$bm" ops | grep -q carrier-statistics; then
     section "5. Carriers in OrTe, donors 1e17 cm^-3 at 40 meV, 100-500 K"
     me=$(json "$work/valleys.json" 'r["dos_mass_me"]')
     mh=$(json "$work/vb.json" 'abs(r["extrema"][0]["principal_masses_me"][0])')
-    material="{\"name\": \"OrTe\", \"electron_dos_mass_me\": $me, \"hole_dos_mass_me\": $mh, \"band_gap_ev\": 0.85}"
+    material="{\"name\": \"OrTe\", \"electron_dos_mass_me\": $me, \"statistics_hole_dos_mass_me\": $mh, \"band_gap_ev\": 0.85}"
     args=(--material "$material" --temperatures-k 100,200,300,400,500
           --donors '[{"density_cm3": 1e17, "ionization_ev": 0.04}]')
     "$bm" carrier-statistics "${args[@]}"

@@ -2,6 +2,7 @@
  * from the registry, and a call that goes through its JSON string path. */
 #include "bandmass-plugin.h"
 #include "registry.h"
+#include "bm-json.h"
 
 #include <pthread.h>
 
@@ -65,7 +66,7 @@ static void build_table(void)
         summaries[i] = ops[i]->summary;
         g_autoptr(JsonNode) d = bm_operation_describe(ops[i]);
         JsonNode *p = json_object_get_member(json_node_get_object(d), "params");
-        params[i] = json_to_string(p, FALSE);
+        params[i] = bm_json_to_string(p, FALSE);
     }
     g_autoptr(JsonNode) all = bm_registry_describe();
     api_v1 = (bandmass_plugin_api) {
@@ -77,7 +78,7 @@ static void build_table(void)
         .operation_names = names,
         .operation_summaries = summaries,
         .operation_params_json = params,
-        .operations_json = json_to_string(all, FALSE),
+        .operations_json = bm_json_to_string(all, FALSE),
         .call = plugin_call,
         .free_string = plugin_free_string,
     };

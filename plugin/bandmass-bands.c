@@ -1,10 +1,15 @@
 /* bandmass-bands.c: BmBands, a band grid held in memory (for example from a
- * NumPy array) and handed to grid operations through BmCallInputs. */
+ * NumPy array) and handed to grid operations as an in-memory input for
+ * their "grid" key (BmCallInputs). */
 #include "bandmass-private.h"
+#include "bm-json.h"
 #include "bm-linalg.h"
 #include "registry.h"
 #include "band-grid.h"
+#include "ops.h"
+#include "mass-tensor.h"
 #include <math.h>
+#include <string.h>
 
 /**
  * BmBands:
@@ -17,10 +22,9 @@
  */
 struct _BmBands {
     GObject parent_instance;
-    double *energies;    /* a copy of the caller's array, or NULL */
-    BmBandGrid *loaded;  /* a band grid document, or NULL */
-    bm_grid grid;        /* view handed to operations: into energies or loaded */
-    GStrv names;         /* nbands entries, or NULL */
+    GBytes *energies;    /* the energies of an in-memory grid, or NULL */
+    BmBandGrid *grid;    /* what operations are handed: a loaded document, or a
+                            view of energies (source "in-memory grid") */
     guint mesh[3];
 };
 
@@ -29,10 +33,9 @@ G_DEFINE_FINAL_TYPE(BmBands, bm_bands, G_TYPE_OBJECT)
 static void bm_bands_finalize(GObject *object)
 {
     BmBands *self = BM_BANDS(object);
-    g_free(self->energies);
-    if (self->loaded)
-        bm_band_grid_free(self->loaded);
-    g_strfreev(self->names);
+    bm_band_grid_free(self->grid);
+    if (self->energies)
+        g_bytes_unref(self->energies);
     G_OBJECT_CLASS(bm_bands_parent_class)->finalize(object);
 }
 
@@ -46,40 +49,100 @@ static void bm_bands_init(BmBands *self)
     (void)self;
 }
 
-static BmBands *bands_new(const double *energies, gsize n_values, guint nbands,
-                          const guint mesh[3], const double recip[9], GError **error)
+/* Checks the sizes; the expected number of energies in *expected. */
+static gboolean check_sizes(gsize n_values, guint nbands, const guint mesh[3],
+                            guint64 *expected, GError **error)
 {
     if (nbands == 0) {
         g_set_error_literal(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
                             "band grid: nbands must be at least 1");
-        return NULL;
+        return FALSE;
     }
-    guint64 expected = nbands;
+    *expected = nbands;
     for (int d = 0; d < 3; d++) {
         if (mesh[d] == 0) {
             g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
                         "band grid: mesh[%d] must be at least 1", d);
-            return NULL;
+            return FALSE;
         }
-        expected *= mesh[d];
+        *expected *= mesh[d];
     }
-    if (n_values != expected || energies == NULL) {
+    if (n_values != *expected) {
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
                     "band grid: %" G_GSIZE_FORMAT " energies given, nbands x n1 x n2 x n3"
                     " = %u x %u x %u x %u = %" G_GUINT64_FORMAT " expected",
-                    n_values, nbands, mesh[0], mesh[1], mesh[2], expected);
-        return NULL;
+                    n_values, nbands, mesh[0], mesh[1], mesh[2], *expected);
+        return FALSE;
     }
+    return TRUE;
+}
+
+/* Takes energies over (nbands x mesh doubles, suitably aligned, sizes
+ * already checked). */
+static BmBands *bands_new(GBytes *energies, guint nbands, const guint mesh[3],
+                          const double recip[9])
+{
     BmBands *self = g_object_new(BM_TYPE_BANDS, NULL);
-    self->energies = g_memdup2(energies, n_values * sizeof(double));
-    self->grid.energies = self->energies;
-    self->grid.nbands = nbands;
+    self->energies = energies;
+    self->grid = g_new0(BmBandGrid, 1);
+    self->grid->source = g_strdup("in-memory grid");
+    self->grid->grid.energies = g_bytes_get_data(energies, NULL);
+    self->grid->grid.nbands = nbands;
     for (int d = 0; d < 3; d++) {
-        self->grid.mesh[d] = self->mesh[d] = mesh[d];
+        self->grid->grid.mesh[d] = self->mesh[d] = mesh[d];
         for (int e = 0; e < 3; e++)
-            self->grid.recip[d][e] = recip[3 * d + e];
+            self->grid->grid.recip[d][e] = recip[3 * d + e];
     }
     return self;
+}
+
+/* The reciprocal vectors of a direct cell, or FALSE with error set. */
+static gboolean reciprocal_of(const double lattice_vectors[9], double recip[9], GError **error)
+{
+    double a[3][3], b[3][3];
+    memcpy(a, lattice_vectors, sizeof a);
+    if (bm_reciprocal3(a, b) != 0) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "band grid: the lattice vectors are singular or not finite "
+                    "(cell volume %g A^3)", bm_det3(a));
+        return FALSE;
+    }
+    memcpy(recip, b, 9 * sizeof(double));
+    return TRUE;
+}
+
+static BmBands *from_values(const double *energies, gsize n_values, guint nbands,
+                            const guint mesh[3], const double recip[9], GError **error)
+{
+    guint64 expected;
+    if (!check_sizes(n_values, nbands, mesh, &expected, error))
+        return NULL;
+    if (!energies) {
+        g_set_error_literal(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                            "band grid: no energies given");
+        return NULL;
+    }
+    GBytes *copy = g_bytes_new(energies, n_values * sizeof(double));
+    return bands_new(copy, nbands, mesh, recip);
+}
+
+static BmBands *from_bytes(GBytes *energies, guint nbands, const guint mesh[3],
+                           const double recip[9], GError **error)
+{
+    gsize size = g_bytes_get_size(energies);
+    if (size % sizeof(double) != 0) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "band grid: %" G_GSIZE_FORMAT " bytes of energies is not a whole number "
+                    "of 8-byte doubles", size);
+        return NULL;
+    }
+    guint64 expected;
+    if (!check_sizes(size / sizeof(double), nbands, mesh, &expected, error))
+        return NULL;
+    gconstpointer data = g_bytes_get_data(energies, NULL);
+    if ((guintptr)data % G_ALIGNOF(double) != 0)   /* unaligned: one copy */
+        return bands_new(g_bytes_new(data, size), nbands, mesh, recip);
+    return bands_new(g_bytes_ref(energies), nbands, mesh, recip);
 }
 
 /**
@@ -104,7 +167,7 @@ BmBands *bm_bands_new_from_array(const double *energies, gsize n_values, guint n
                                  GError **error)
 {
     g_return_val_if_fail(mesh != NULL && reciprocal_vectors != NULL, NULL);
-    return bands_new(energies, n_values, nbands, mesh, reciprocal_vectors, error);
+    return from_values(energies, n_values, nbands, mesh, reciprocal_vectors, error);
 }
 
 /**
@@ -129,16 +192,63 @@ BmBands *bm_bands_new_from_lattice(const double *energies, gsize n_values, guint
                                    GError **error)
 {
     g_return_val_if_fail(mesh != NULL && lattice_vectors != NULL, NULL);
-    double a[3][3], b[3][3], recip[9];
-    memcpy(a, lattice_vectors, sizeof a);
-    if (bm_reciprocal3(a, b) != 0) {
-        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "band grid: the lattice vectors are singular or not finite "
-                    "(cell volume %g A^3)", bm_det3(a));
+    double recip[9];
+    if (!reciprocal_of(lattice_vectors, recip, error))
         return NULL;
-    }
-    memcpy(recip, b, sizeof recip);
-    return bands_new(energies, n_values, nbands, mesh, recip, error);
+    return from_values(energies, n_values, nbands, mesh, recip, error);
+}
+
+/**
+ * bm_bands_new_from_bytes:
+ * @energies: band energies, eV, as native-endian IEEE 754 doubles in the
+ *   order of bm_bands_new_from_array() (in Python:
+ *   `GLib.Bytes(numpy_array.tobytes())`)
+ * @nbands: the number of bands
+ * @mesh: (array fixed-size=3): the mesh n1, n2, n3 (n3 = 1 for a 2D sheet)
+ * @reciprocal_vectors: (array fixed-size=9): b1, b2, b3 row after row,
+ *   Cartesian, 1/Angstrom, with the factor 2 pi included
+ * @error: return location for a #GError
+ *
+ * As bm_bands_new_from_array(), with the energies in one block of bytes:
+ * the grid keeps a reference to @energies and reads them in place (they
+ * are copied only when not aligned for doubles), so nothing is converted
+ * value by value.
+ *
+ * Returns: (transfer full): the band grid, or %NULL with @error set
+ *   (%BM_ERROR_INVALID_INPUT when the sizes do not agree)
+ */
+BmBands *bm_bands_new_from_bytes(GBytes *energies, guint nbands, const guint mesh[3],
+                                 const double reciprocal_vectors[9], GError **error)
+{
+    g_return_val_if_fail(energies != NULL, NULL);
+    g_return_val_if_fail(mesh != NULL && reciprocal_vectors != NULL, NULL);
+    return from_bytes(energies, nbands, mesh, reciprocal_vectors, error);
+}
+
+/**
+ * bm_bands_new_from_bytes_lattice:
+ * @energies: band energies, eV, as for bm_bands_new_from_bytes()
+ * @nbands: the number of bands
+ * @mesh: (array fixed-size=3): the mesh n1, n2, n3
+ * @lattice_vectors: (array fixed-size=9): the direct lattice vectors a1, a2,
+ *   a3 row after row, Cartesian, Angstrom
+ * @error: return location for a #GError
+ *
+ * As bm_bands_new_from_bytes(), with the cell given by its direct lattice
+ * vectors (as for bm_bands_new_from_lattice()).
+ *
+ * Returns: (transfer full): the band grid, or %NULL with @error set
+ *   (%BM_ERROR_INVALID_INPUT when the sizes disagree or the cell is singular)
+ */
+BmBands *bm_bands_new_from_bytes_lattice(GBytes *energies, guint nbands, const guint mesh[3],
+                                         const double lattice_vectors[9], GError **error)
+{
+    g_return_val_if_fail(energies != NULL, NULL);
+    g_return_val_if_fail(mesh != NULL && lattice_vectors != NULL, NULL);
+    double recip[9];
+    if (!reciprocal_of(lattice_vectors, recip, error))
+        return NULL;
+    return from_bytes(energies, nbands, mesh, recip, error);
 }
 
 /**
@@ -161,11 +271,9 @@ BmBands *bm_bands_new_from_file(const char *path, GError **error)
     if (!loaded)
         return NULL;
     BmBands *self = g_object_new(BM_TYPE_BANDS, NULL);
-    self->loaded = loaded;
-    self->grid = loaded->grid;
+    self->grid = loaded;
     for (int d = 0; d < 3; d++)
         self->mesh[d] = (guint)loaded->grid.mesh[d];
-    self->names = g_strdupv(loaded->band_names);
     return self;
 }
 
@@ -178,7 +286,7 @@ BmBands *bm_bands_new_from_file(const char *path, GError **error)
 guint bm_bands_get_nbands(BmBands *self)
 {
     g_return_val_if_fail(BM_IS_BANDS(self), 0);
-    return (guint)self->grid.nbands;
+    return (guint)self->grid->grid.nbands;
 }
 
 /**
@@ -203,7 +311,7 @@ const guint *bm_bands_get_mesh(BmBands *self)
 const double *bm_bands_get_reciprocal_vectors(BmBands *self)
 {
     g_return_val_if_fail(BM_IS_BANDS(self), NULL);
-    return &self->grid.recip[0][0];
+    return &self->grid->grid.recip[0][0];
 }
 
 /**
@@ -219,14 +327,14 @@ const double *bm_bands_get_reciprocal_vectors(BmBands *self)
 gboolean bm_bands_set_band_names(BmBands *self, const char *const *names, GError **error)
 {
     g_return_val_if_fail(BM_IS_BANDS(self), FALSE);
-    if (names && g_strv_length((GStrv)names) != self->grid.nbands) {
+    if (names && g_strv_length((GStrv)names) != self->grid->grid.nbands) {
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
                     "band grid: %u band names given for %u bands",
-                    g_strv_length((GStrv)names), (guint)self->grid.nbands);
+                    g_strv_length((GStrv)names), (guint)self->grid->grid.nbands);
         return FALSE;
     }
-    g_strfreev(self->names);
-    self->names = g_strdupv((GStrv)names);
+    g_strfreev(self->grid->band_names);
+    self->grid->band_names = g_strdupv((GStrv)names);
     return TRUE;
 }
 
@@ -240,7 +348,7 @@ gboolean bm_bands_set_band_names(BmBands *self, const char *const *names, GError
 const char *const *bm_bands_get_band_names(BmBands *self)
 {
     g_return_val_if_fail(BM_IS_BANDS(self), NULL);
-    return (const char *const *)self->names;
+    return (const char *const *)self->grid->band_names;
 }
 
 /**
@@ -259,10 +367,8 @@ char *bm_bands_call(BmBands *self, const char *op, const char *request_json, GEr
 {
     g_return_val_if_fail(BM_IS_BANDS(self), NULL);
     g_return_val_if_fail(op != NULL, NULL);
-    BmCallInputs inputs = {
-        .grid = &self->grid,
-        .band_names = (const char *const *)self->names,
-    };
+    BmInput grid = { "grid", BM_INPUT_BAND_GRID, self->grid };
+    BmCallInputs inputs = { 1, &grid };
     return bm_registry_call_json(op, request_json ? request_json : "{}", &inputs, FALSE, error);
 }
 
@@ -274,8 +380,9 @@ char *bm_bands_call(BmBands *self, const char *op, const char *request_json, GEr
  *   the defaults for a grid of one band (`{"band": 0}`)
  * @error: return location for a #GError
  *
- * Runs the registry's `mass-tensor` operation on this grid and returns its
- * extrema. Warnings of the whole response are repeated at the head of each
+ * Runs the search of the registry's `mass-tensor` operation on this grid
+ * (the same request checks and the same code) and returns its extrema.
+ * Warnings of the whole search are repeated at the head of each
  * extremum's warnings.
  *
  * Returns: (transfer container) (element-type BmExtremum): the extrema
@@ -284,34 +391,29 @@ char *bm_bands_call(BmBands *self, const char *op, const char *request_json, GEr
 GPtrArray *bm_bands_find_extrema(BmBands *self, const char *request_json, GError **error)
 {
     g_return_val_if_fail(BM_IS_BANDS(self), NULL);
-    if (!request_json && self->grid.nbands == 1)
-        request_json = "{\"band\": 0}";
-    g_autofree char *text = bm_bands_call(self, "mass-tensor", request_json, error);
-    if (!text)
-        return NULL;
-    g_autoptr(JsonNode) root = json_from_string(text, NULL);
-    JsonObject *response = root && JSON_NODE_HOLDS_OBJECT(root) ? json_node_get_object(root) : NULL;
-    JsonNode *extrema = response ? json_object_get_member(response, "extrema") : NULL;
-    if (!extrema || !JSON_NODE_HOLDS_ARRAY(extrema)) {
-        g_set_error_literal(error, BM_ERROR, BM_ERROR_INTERNAL,
-                            "mass-tensor response lacks an \"extrema\" array");
+    if (!request_json)
+        request_json = self->grid->grid.nbands == 1 ? "{\"band\": 0}" : "{}";
+    const BmOperation *op = &bm_op_mass_tensor;
+    g_autoptr(GError) parse_error = NULL;
+    g_autoptr(JsonNode) root = json_from_string(request_json, &parse_error);
+    if (parse_error || !root || !JSON_NODE_HOLDS_OBJECT(root)) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request for %s must be a JSON object ({...})%s%s", op->name,
+                    parse_error ? ": " : "", parse_error ? parse_error->message : "");
         return NULL;
     }
-    JsonNode *shared = json_object_get_member(response, "warnings");
-    JsonArray *shared_array = shared && JSON_NODE_HOLDS_ARRAY(shared) ? json_node_get_array(shared) : NULL;
-    JsonArray *a = json_node_get_array(extrema);
-    g_autoptr(GPtrArray) out = g_ptr_array_new_full(json_array_get_length(a), g_object_unref);
-    for (guint i = 0; i < json_array_get_length(a); i++) {
-        JsonNode *e = json_array_get_element(a, i);
-        if (!JSON_NODE_HOLDS_OBJECT(e)) {
-            g_set_error(error, BM_ERROR, BM_ERROR_INTERNAL,
-                        "mass-tensor response: extremum %u is not an object", i);
-            return NULL;
-        }
-        BmExtremum *x = bm_extremum_new_from_object(json_node_get_object(e), shared_array, error);
-        if (!x)
-            return NULL;
-        g_ptr_array_add(out, x);
-    }
-    return g_steal_pointer(&out);
+    BmInput grid = { "grid", BM_INPUT_BAND_GRID, self->grid };
+    BmCallInputs inputs = { 1, &grid };
+    g_autoptr(JsonObject) request = bm_registry_prepare(op, json_node_get_object(root),
+                                                        &inputs, error);
+    if (!request)
+        return NULL;
+    g_autoptr(BmMassTensorSearch) found = bm_mass_tensor_search(request, &inputs, error);
+    if (!found)
+        return NULL;
+    GPtrArray *out = g_ptr_array_new_full((guint)found->n_tensors, g_object_unref);
+    for (size_t i = 0; i < found->n_tensors; i++)
+        g_ptr_array_add(out, bm_extremum_new_from_core(&found->tensors[i], found->fractional,
+                                                       &found->warnings));
+    return out;
 }

@@ -1,6 +1,9 @@
-/* bandmass-extremum.c: BmExtremum, one element of a mass-tensor response's
- * "extrema" array, read once into plain fields (no physics here). */
+/* bandmass-extremum.c: BmExtremum, one extremum of the mass-tensor search:
+ * copied from the core's result (bm_bands_find_extrema) or read from one
+ * element of a saved response's "extrema" array (no physics here). */
 #include "bandmass-private.h"
+#include "bm-json.h"
+#include "mass-tensor.h"
 #include <math.h>
 #include <string.h>
 
@@ -111,9 +114,8 @@ static gboolean numbers(JsonObject *o, const char *key, guint n, guint rows,
     return TRUE;
 }
 
-/* The one place that reads an extremum object of the mass-tensor response. */
-static gboolean extremum_from_json(BmExtremum *self, JsonObject *o,
-                                   JsonArray *shared, GError **error)
+/* The one place that reads an extremum object of a saved mass-tensor response. */
+static gboolean extremum_from_json(BmExtremum *self, JsonObject *o, GError **error)
 {
     JsonNode *kind = json_object_get_member(o, "kind");
     if (!kind || !JSON_NODE_HOLDS_VALUE(kind) || json_node_get_value_type(kind) != G_TYPE_STRING)
@@ -144,11 +146,6 @@ static gboolean extremum_from_json(BmExtremum *self, JsonObject *o,
     if (rms && !number(rms, TRUE, &self->fit_rms_ev))
         return bad(error, "fit_rms_ev", "a number");
     g_autoptr(GStrvBuilder) w = g_strv_builder_new();
-    for (guint i = 0; shared && i < json_array_get_length(shared); i++) {
-        JsonNode *s = json_array_get_element(shared, i);
-        if (JSON_NODE_HOLDS_VALUE(s) && json_node_get_value_type(s) == G_TYPE_STRING)
-            g_strv_builder_add(w, json_node_get_string(s));
-    }
     JsonNode *warnings = json_object_get_member(o, "warnings");
     if (warnings && !JSON_NODE_HOLDS_ARRAY(warnings))
         return bad(error, "warnings", "an array of strings");
@@ -159,19 +156,48 @@ static gboolean extremum_from_json(BmExtremum *self, JsonObject *o,
         g_strv_builder_add(w, json_node_get_string(s));
     }
     self->warnings = g_strv_builder_end(w);
-    g_autoptr(JsonNode) node = json_node_new(JSON_NODE_OBJECT);
-    json_node_set_object(node, o);
-    self->json = json_to_string(node, FALSE);
+    self->json = bm_json_object_to_string(o, FALSE);
     return TRUE;
 }
 
-BmExtremum *bm_extremum_new_from_object(JsonObject *o, JsonArray *shared_warnings,
-                                        GError **error)
+static double finite_or_nan(double v)
 {
-    g_autoptr(BmExtremum) self = g_object_new(BM_TYPE_EXTREMUM, NULL);
-    if (!extremum_from_json(self, o, shared_warnings, error))
-        return NULL;
-    return g_steal_pointer(&self);
+    return isfinite(v) ? v : NAN;
+}
+
+/* The values the response would carry, without going through its text:
+ * what the operation writes as null reads as NaN, "divergent" as +Inf. */
+BmExtremum *bm_extremum_new_from_core(const bm_mass_tensor *t, gboolean fractional,
+                                      const bm_warnings *shared_warnings)
+{
+    BmExtremum *self = g_object_new(BM_TYPE_EXTREMUM, NULL);
+    self->kind = g_strdup(bm_mass_tensor_kind_text(t->kind));
+    self->energy_ev = t->energy_ev;
+    for (int i = 0; i < 3; i++) {
+        self->k[i] = finite_or_nan(t->k[i]);
+        self->k_frac[i] = fractional ? finite_or_nan(t->k_frac[i]) : NAN;
+        switch (bm_mass_tensor_mass_state(t, i)) {
+        case BM_MASS_FINITE:    self->masses[i] = t->masses[i]; break;
+        case BM_MASS_DIVERGENT: self->masses[i] = INFINITY; break;
+        case BM_MASS_UNSAMPLED: self->masses[i] = NAN; break;
+        }
+        for (int j = 0; j < 3; j++) {
+            self->axes[3 * i + j] = finite_or_nan(t->axes[i][j]);
+            self->inv_mass[3 * i + j] = finite_or_nan(t->inv_mass[i][j]);
+        }
+    }
+    self->fit_rms_ev = finite_or_nan(t->fit_rms_ev);
+    self->dims = t->dims;
+    self->divergent = t->divergent != 0;
+    g_autoptr(GStrvBuilder) w = g_strv_builder_new();
+    for (size_t i = 0; shared_warnings && i < shared_warnings->count; i++)
+        g_strv_builder_add(w, shared_warnings->items[i].text);
+    for (size_t i = 0; i < t->warnings.count; i++)
+        g_strv_builder_add(w, t->warnings.items[i].text);
+    self->warnings = g_strv_builder_end(w);
+    g_autoptr(JsonObject) o = bm_mass_tensor_object(t, fractional);
+    self->json = bm_json_object_to_string(o, FALSE);
+    return self;
 }
 
 /**
@@ -197,7 +223,10 @@ BmExtremum *bm_extremum_new_from_json(const char *json, GError **error)
                     parse_error ? parse_error->message : "");
         return NULL;
     }
-    return bm_extremum_new_from_object(json_node_get_object(root), NULL, error);
+    g_autoptr(BmExtremum) self = g_object_new(BM_TYPE_EXTREMUM, NULL);
+    if (!extremum_from_json(self, json_node_get_object(root), error))
+        return NULL;
+    return g_steal_pointer(&self);
 }
 
 /**

@@ -2,6 +2,7 @@
  * operation list (BmOperationInfo, BmParamInfo) built from its tables. */
 #include "bandmass.h"
 #include "registry.h"
+#include "bm-json.h"
 
 char *bm_call(const char *op, const char *request_json, GError **error)
 {
@@ -13,7 +14,7 @@ char *bm_call(const char *op, const char *request_json, GError **error)
 char *bm_describe_operations(void)
 {
     g_autoptr(JsonNode) all = bm_registry_describe();
-    return json_to_string(all, FALSE);
+    return bm_json_to_string(all, FALSE);
 }
 
 /* ---- BmParamInfo ---- */
@@ -352,7 +353,8 @@ static BmOperationInfo *operation_info_new(const BmOperation *op)
         g_ptr_array_add(self->params, param_info_new(p));
     for (const BmField *f = op->response; f && f->name; f++)
         g_ptr_array_add(self->response, field_info_new(f));
-    g_ptr_array_add(self->response, field_info_new(&bm_field_warnings));
+    for (const BmField *f = bm_common_fields; f->name; f++)
+        g_ptr_array_add(self->response, field_info_new(f));
     return self;
 }
 

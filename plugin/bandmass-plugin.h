@@ -53,6 +53,7 @@
 
 #include <stddef.h>
 #include <stdint.h>
+#include "bandmass-export.h"
 
 #ifdef __cplusplus
 extern "C" {
@@ -101,7 +102,7 @@ typedef struct bandmass_plugin_api {
 
     /* Runs operation op on request_json (a JSON object as text; NULL means
      * "{}"). On BANDMASS_PLUGIN_OK, *response_json is the response (a JSON
-     * object with a "warnings" array) and *error_message, if asked for, is
+     * object with "warnings" and "warning_codes" arrays) and *error_message, if asked for, is
      * NULL. Otherwise *response_json is NULL and *error_message (when
      * error_message is not NULL) says what was wrong and where. Both
      * strings are the caller's to release with free_string(). */
@@ -116,8 +117,7 @@ typedef const bandmass_plugin_api *(*bandmass_plugin_get_api_func)(unsigned abi_
 
 /* The table for ABI major version abi_major, or NULL if this library does
  * not serve that major version. */
-__attribute__((visibility("default")))
-const bandmass_plugin_api *bandmass_plugin_get_api(unsigned abi_major);
+BM_PUBLIC const bandmass_plugin_api *bandmass_plugin_get_api(unsigned abi_major);
 
 #ifdef __cplusplus
 }

@@ -5,13 +5,14 @@
 
 #include <json-glib/json-glib.h>
 #include "bandmass.h"
+#include "bm-extrema.h"
 
 G_BEGIN_DECLS
 
-/* An extremum from one parsed element of a mass-tensor "extrema" array;
- * shared_warnings (the response's own, may be NULL) are listed first. */
-BmExtremum *bm_extremum_new_from_object(JsonObject *o, JsonArray *shared_warnings,
-                                        GError **error);
+/* An extremum straight from a core result (fractional: k_fractional is
+ * meaningful, a grid); shared_warnings (may be NULL) come first. */
+BmExtremum *bm_extremum_new_from_core(const bm_mass_tensor *t, gboolean fractional,
+                                      const bm_warnings *shared_warnings);
 
 G_END_DECLS
 

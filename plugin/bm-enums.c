@@ -5,7 +5,7 @@
 #include "bm-carriers.h"
 #include "bm-extrema.h"
 #include "bm-valleys.h"
-#include "material-input.h"
+#include "bm-bandgap.h"
 
 static const BmChoice statistics[] = {
     { BM_FERMI_DIRAC, "fermi-dirac", "Fermi-Dirac occupation, n = Nc F_1/2(eta)" },

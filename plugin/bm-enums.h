@@ -15,7 +15,7 @@ extern const BmEnum bm_enum_extremum_search; /* bm_search (bm-extrema.h) */
 extern const BmEnum bm_enum_extremum_kind;   /* bm_extremum_kind (bm-extrema.h) */
 extern const BmEnum bm_enum_valley_site;     /* bm_valley_site (bm-valleys.h) */
 extern const BmEnum bm_enum_regime;          /* bm_regime (bm-carriers.h) */
-extern const BmEnum bm_enum_gap_model;       /* BmGapModel (ops/material-input.h) */
+extern const BmEnum bm_enum_gap_model;       /* bm_gap_kind (core bm-bandgap.h) */
 
 /* The default of every "statistics" request key, as JSON text. */
 #define BM_STATISTICS_DEFAULT_JSON "\"fermi-dirac\""

@@ -1,5 +1,5 @@
 /* bm-error.c: the bandmass GError domain. */
-#include "bm-error.h"
+#include "bm-error-private.h"
 
 /* Not G_DEFINE_QUARK: its cached static is written unsynchronised on first
  * use from several threads at once. The lookup is cheap and thread-safe. */

@@ -1,10 +1,11 @@
-/* bm-error.h: the GError domain of the plugin and its codes. Core statuses
- * map onto these codes in one place (bm_error_from_core). */
+/* bm-error.h: the GError domain of libbandmass and its codes (public,
+ * installed). The mapping of core statuses onto these codes is private:
+ * bm-error-private.h. */
 #ifndef BM_ERROR_H
 #define BM_ERROR_H
 
 #include <glib-object.h>
-#include "bm-status.h"
+#include "bandmass-export.h"
 
 G_BEGIN_DECLS
 
@@ -28,23 +29,11 @@ typedef enum {
     BM_ERROR_INTERNAL
 } BmError;
 
-GQuark bm_error_quark(void);
+BM_PUBLIC GQuark bm_error_quark(void);
 
 /* The BmError enum as a GType, so introspection maps the domain to it. */
-GType bm_error_get_type(void);
+BM_PUBLIC GType bm_error_get_type(void);
 #define BM_TYPE_ERROR (bm_error_get_type())
-
-/**
- * bm_error_from_core: (skip)
- *
- * Turns a core error buffer into a GError, prefixing context (may be NULL).
- */
-void bm_error_from_core(GError **error, const bm_errbuf *err, const char *context);
-
-/* Sets BM_ERROR_INVALID_INPUT with "context: message" and returns FALSE, so
- * readers can write `return bm_error_invalid(error, path, "...", ...);`. */
-gboolean bm_error_invalid(GError **error, const char *context, const char *fmt, ...)
-    G_GNUC_PRINTF(3, 4);
 
 G_END_DECLS
 

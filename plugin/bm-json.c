@@ -1,6 +1,7 @@
 /* bm-json.c: typed JSON access for operations. */
 #include "bm-json.h"
 
+#include <float.h>
 #include <math.h>
 #include <string.h>
 
@@ -204,62 +205,186 @@ void bm_json_set_mat3(JsonObject *o, const char *key, const double m[3][3])
     json_object_set_array_member(o, key, rows);
 }
 
-void bm_json_warn(JsonObject *o, const char *fmt, ...)
+void bm_json_warnings_ensure(JsonObject *o)
 {
     if (!json_object_has_member(o, "warnings"))
         json_object_set_array_member(o, "warnings", json_array_new());
+    if (!json_object_has_member(o, "warning_codes"))
+        json_object_set_array_member(o, "warning_codes", json_array_new());
+}
+
+static void add_warning(JsonObject *o, bm_warn_code code, const char *text)
+{
+    bm_json_warnings_ensure(o);
+    json_array_add_string_element(json_object_get_array_member(o, "warnings"), text);
+    json_array_add_string_element(json_object_get_array_member(o, "warning_codes"),
+                                  bm_warn_code_name(code));
+}
+
+void bm_json_warn(JsonObject *o, bm_warn_code code, const char *fmt, ...)
+{
     va_list ap;
     va_start(ap, fmt);
     g_autofree char *text = g_strdup_vprintf(fmt, ap);
     va_end(ap);
-    json_array_add_string_element(json_object_get_array_member(o, "warnings"), text);
+    add_warning(o, code, text);
+}
+
+/* ---- the JSON writer ---- */
+
+void bm_json_write_double(GString *out, double v)
+{
+    if (!isfinite(v)) {
+        g_string_append(out, "null");   /* JSON has no NaN or Inf */
+        return;
+    }
+    /* The fewest digits that read back to the same double: %.15g gives the
+     * shortest form whenever that has at most 15 digits (%g drops trailing
+     * zeros), %.17g always reads back. Subnormals have fewer digits of
+     * precision, so for them every count from 1 is tried. */
+    char buf[G_ASCII_DTOSTR_BUF_SIZE];
+    int first = fabs(v) < DBL_MIN ? 1 : 15;
+    for (int digits = first; digits <= 17; digits++) {
+        char fmt[8];
+        g_snprintf(fmt, sizeof fmt, "%%.%dg", digits);
+        g_ascii_formatd(buf, sizeof buf, fmt, v);
+        if (g_ascii_strtod(buf, NULL) == v)
+            break;
+    }
+    /* tidy the exponent ("1e+17" -> "1e17", "1e-05" -> "1e-5") */
+    char *e = strchr(buf, 'e');
+    if (e) {
+        char *r = e + 1, *w = e + 1;
+        if (*r == '+')
+            r++;
+        else if (*r == '-')
+            *w++ = *r++;
+        while (*r == '0' && r[1])
+            r++;
+        memmove(w, r, strlen(r) + 1);
+        g_string_append(out, buf);
+        return;
+    }
+    g_string_append(out, buf);
+    if (!strchr(buf, '.'))
+        g_string_append(out, ".0");   /* stays a real number when read back: 300.0, -0.0 */
+}
+
+static void write_string(GString *out, const char *s)
+{
+    g_string_append_c(out, '"');
+    for (const unsigned char *p = (const unsigned char *)s; *p; p++) {
+        switch (*p) {
+        case '"':  g_string_append(out, "\\\""); break;
+        case '\\': g_string_append(out, "\\\\"); break;
+        case '\b': g_string_append(out, "\\b"); break;
+        case '\f': g_string_append(out, "\\f"); break;
+        case '\n': g_string_append(out, "\\n"); break;
+        case '\r': g_string_append(out, "\\r"); break;
+        case '\t': g_string_append(out, "\\t"); break;
+        default:
+            if (*p < 0x20 || *p == 0x7f)
+                g_string_append_printf(out, "\\u%04x", *p);
+            else
+                g_string_append_c(out, (char)*p);
+        }
+    }
+    g_string_append_c(out, '"');
+}
+
+static void write_value(GString *out, JsonNode *node)
+{
+    GType t = json_node_get_value_type(node);
+    if (t == G_TYPE_INT64)
+        g_string_append_printf(out, "%" G_GINT64_FORMAT, json_node_get_int(node));
+    else if (t == G_TYPE_DOUBLE)
+        bm_json_write_double(out, json_node_get_double(node));
+    else if (t == G_TYPE_BOOLEAN)
+        g_string_append(out, json_node_get_boolean(node) ? "true" : "false");
+    else if (t == G_TYPE_STRING)
+        write_string(out, json_node_get_string(node));
+    else
+        g_string_append(out, "null");
+}
+
+static void newline(GString *out, gboolean pretty, int depth)
+{
+    if (!pretty)
+        return;
+    g_string_append_c(out, '\n');
+    for (int i = 0; i < depth; i++)
+        g_string_append(out, "  ");
+}
+
+static void write_node(GString *out, JsonNode *node, gboolean pretty, int depth)
+{
+    switch (node ? json_node_get_node_type(node) : JSON_NODE_NULL) {
+    case JSON_NODE_NULL:
+        g_string_append(out, "null");
+        return;
+    case JSON_NODE_VALUE:
+        write_value(out, node);
+        return;
+    case JSON_NODE_ARRAY: {
+        JsonArray *a = json_node_get_array(node);
+        guint n = json_array_get_length(a);
+        g_string_append_c(out, '[');
+        for (guint i = 0; i < n; i++) {
+            if (i)
+                g_string_append_c(out, ',');
+            newline(out, pretty, depth + 1);
+            write_node(out, json_array_get_element(a, i), pretty, depth + 1);
+        }
+        if (n)
+            newline(out, pretty, depth);
+        g_string_append_c(out, ']');
+        return;
+    }
+    case JSON_NODE_OBJECT: {
+        JsonObject *o = json_node_get_object(node);
+        g_autoptr(GList) keys = json_object_get_members(o);
+        g_string_append_c(out, '{');
+        for (GList *l = keys; l; l = l->next) {
+            if (l != keys)
+                g_string_append_c(out, ',');
+            newline(out, pretty, depth + 1);
+            write_string(out, l->data);
+            g_string_append(out, pretty ? " : " : ":");
+            write_node(out, json_object_get_member(o, l->data), pretty, depth + 1);
+        }
+        if (keys)
+            newline(out, pretty, depth);
+        g_string_append_c(out, '}');
+        return;
+    }
+    }
+}
+
+void bm_json_write(GString *out, JsonNode *node, gboolean pretty)
+{
+    write_node(out, node, pretty, 0);
 }
 
 char *bm_json_to_string(JsonNode *node, gboolean pretty)
 {
-    char *text = json_to_string(node, pretty);
-    char *w = text;
-    gboolean in_string = FALSE;
-    for (const char *r = text; *r;) {
-        if (in_string) {
-            if (*r == '\\' && r[1]) {
-                *w++ = *r++;
-            } else if (*r == '"') {
-                in_string = FALSE;
-            }
-            *w++ = *r++;
-            continue;
-        }
-        if (*r == '"') {
-            in_string = TRUE;
-            *w++ = *r++;
-            continue;
-        }
-        if ((*r == 'e' || *r == 'E') && r > text && g_ascii_isdigit(r[-1])) {
-            const char *q = r + 1;
-            if (*q == '+' || *q == '-')
-                q++;
-            if (g_ascii_isdigit(*q)) {
-                while (g_ascii_isdigit(*q))
-                    q++;
-                while (r < q)
-                    *w++ = *r++;
-                if (q[0] == '.' && q[1] == '0' && !g_ascii_isdigit(q[2]))
-                    r += 2;
-                continue;
-            }
-        }
-        *w++ = *r++;
-    }
-    *w = '\0';
-    return text;
+    GString *out = g_string_new(NULL);
+    write_node(out, node, pretty, 0);
+    return g_string_free(out, FALSE);
+}
+
+char *bm_json_object_to_string(JsonObject *o, gboolean pretty)
+{
+    g_autoptr(JsonNode) node = json_node_new(JSON_NODE_OBJECT);
+    json_node_set_object(node, o);
+    return bm_json_to_string(node, pretty);
 }
 
 void bm_json_warn_all(JsonObject *o, const bm_warnings *w)
 {
-    if (!json_object_has_member(o, "warnings"))
-        json_object_set_array_member(o, "warnings", json_array_new());
-    JsonArray *a = json_object_get_array_member(o, "warnings");
-    for (int i = 0; i < w->count; i++)
-        json_array_add_string_element(a, w->text[i]);
+    bm_json_warnings_ensure(o);
+    for (size_t i = 0; i < w->count; i++)
+        add_warning(o, w->items[i].code, w->items[i].text);
+    if (w->lost)
+        bm_json_warn(o, BM_WARN_WARNINGS_LOST, "%zu further warning%s lost: out of memory",
+                     w->lost, w->lost == 1 ? " was" : "s were");
 }

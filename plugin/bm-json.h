@@ -4,7 +4,7 @@
 #define BM_JSON_H
 
 #include <json-glib/json-glib.h>
-#include "bm-error.h"
+#include "bm-error-private.h"
 #include "bm-status.h"
 
 G_BEGIN_DECLS
@@ -43,17 +43,33 @@ void bm_json_set_vec3(JsonObject *o, const char *key, const double v[3]);
 void bm_json_set_mat3(JsonObject *o, const char *key, const double m[3][3]);
 void bm_json_set_numbers(JsonObject *o, const char *key, const double *v, gsize n);
 
-/* json_to_string, with numbers always valid JSON: json-glib 1.6 writes a double
- * whose shortest form has an exponent and no point (5e19) as "5e+19.0"; the
- * stray ".0" is removed here.  Use it wherever a response becomes text. */
+/* The one JSON writer: every host and every response that becomes text goes
+ * through it (json-glib's generator is not used). Numbers are always valid
+ * JSON: integers (int64 nodes) as integers; real numbers in the fewest
+ * digits that read back to the same double, with ".0" when they would
+ * otherwise look like an integer (300.0, -0.0) and a plain exponent where
+ * %g gives one (1e17, 5e-324); NaN and Inf as null. Strings escape '"',
+ * '\\' and control characters; other UTF-8 passes through. Pretty output
+ * indents by two spaces and writes `"key" : value`. */
+void bm_json_write(GString *out, JsonNode *node, gboolean pretty);
 char *bm_json_to_string(JsonNode *node, gboolean pretty);
+char *bm_json_object_to_string(JsonObject *o, gboolean pretty);
+/* Appends one double as the writer spells it. */
+void bm_json_write_double(GString *out, double v);
 
-/* Appends every warning of a core result to o's "warnings" array, creating
- * the array (empty if there are none) so the key is always present. */
+/* Warnings in JSON: "warnings" is the array of messages, "warning_codes" the
+ * parallel array of their stable codes (bm_warn_code_name), same length and
+ * order. Write them only through these functions so the two stay aligned. */
+
+/* Creates both arrays (empty) where missing. */
+void bm_json_warnings_ensure(JsonObject *o);
+
+/* Appends every warning of a core result to o's arrays, creating them
+ * (empty if there are none) so the keys are always present. */
 void bm_json_warn_all(JsonObject *o, const bm_warnings *w);
 
-/* Appends a warning string to the object's "warnings" array (created on demand). */
-void bm_json_warn(JsonObject *o, const char *fmt, ...) G_GNUC_PRINTF(2, 3);
+/* Appends one warning with its code (arrays created on demand). */
+void bm_json_warn(JsonObject *o, bm_warn_code code, const char *fmt, ...) G_GNUC_PRINTF(3, 4);
 
 G_END_DECLS
 

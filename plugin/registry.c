@@ -251,12 +251,68 @@ static gboolean validate(const BmOperation *op, JsonObject *request,
     return TRUE;
 }
 
-JsonObject *bm_registry_invoke(const BmOperation *op, JsonObject *request,
-                               const BmCallInputs *inputs, GError **error)
+const void *bm_call_inputs_lookup(const BmCallInputs *inputs, const char *key,
+                                  const char *type, GError **error)
+{
+    for (gsize i = 0; inputs && i < inputs->n_inputs; i++) {
+        const BmInput *in = &inputs->inputs[i];
+        if (g_strcmp0(in->key, key) != 0)
+            continue;
+        if (g_strcmp0(in->type, type) != 0) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                        "the in-memory input for \"%s\" is a %s, expected a %s",
+                        key, in->type ? in->type : "(untyped value)", type);
+            return NULL;
+        }
+        return in->value;
+    }
+    return NULL;
+}
+
+/* Each in-memory input names a parameter of op that the request leaves out. */
+static gboolean validate_inputs(const BmOperation *op, JsonObject *request,
+                                const BmCallInputs *inputs, GError **error)
+{
+    for (gsize i = 0; inputs && i < inputs->n_inputs; i++) {
+        const char *key = inputs->inputs[i].key;
+        if (!key || !find_param(op, key)) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                        "an in-memory input stands in for \"%s\", which is not a parameter "
+                        "of %s", key ? key : "(null)", op->name);
+            return FALSE;
+        }
+        for (gsize j = 0; j < i; j++)
+            if (g_strcmp0(inputs->inputs[j].key, key) == 0) {
+                g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                            "two in-memory inputs stand in for \"%s\" of %s", key, op->name);
+                return FALSE;
+            }
+        if (json_object_has_member(request, key)) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                        "request key \"%s\" of %s is given twice: in the request and as an "
+                        "in-memory input (drop it from the request)", key, op->name);
+            return FALSE;
+        }
+    }
+    return TRUE;
+}
+
+JsonObject *bm_registry_prepare(const BmOperation *op, JsonObject *request,
+                                const BmCallInputs *inputs, GError **error)
 {
     bm_registry_init();
     g_autoptr(JsonObject) filled = json_object_new();
-    if (!validate(op, request, filled, error))
+    if (!validate_inputs(op, request, inputs, error)
+        || !validate(op, request, filled, error))
+        return NULL;
+    return g_steal_pointer(&filled);
+}
+
+JsonObject *bm_registry_invoke(const BmOperation *op, JsonObject *request,
+                               const BmCallInputs *inputs, GError **error)
+{
+    g_autoptr(JsonObject) filled = bm_registry_prepare(op, request, inputs, error);
+    if (!filled)
         return NULL;
     JsonObject *response = op->run(filled, inputs, error);
     if (!response) {
@@ -265,8 +321,7 @@ JsonObject *bm_registry_invoke(const BmOperation *op, JsonObject *request,
                         "%s failed without saying why", op->name);
         return NULL;
     }
-    if (!json_object_has_member(response, "warnings"))
-        json_object_set_array_member(response, "warnings", json_array_new());
+    bm_json_warnings_ensure(response);
     return response;
 }
 
@@ -302,9 +357,12 @@ char *bm_registry_call_json(const char *op_name, const char *request_json,
     return bm_json_to_string(out, pretty);
 }
 
-const BmField bm_field_warnings = {
-    "warnings", NULL, FALSE,
-    "findings that make a number doubtful or non-physical, as sentences (always present)"
+const BmField bm_common_fields[] = {
+    { "warnings", NULL, FALSE,
+      "findings that make a number doubtful or non-physical, as sentences (always present)" },
+    { "warning_codes", NULL, FALSE,
+      "the stable code of each warning, in the same order (always present)" },
+    BM_FIELD_END
 };
 
 static void add_bound(JsonBuilder *b, const char *member, const BmBound *bound)
@@ -402,7 +460,8 @@ JsonNode *bm_operation_describe(const BmOperation *op)
     json_builder_begin_array(b);
     for (const BmField *f = op->response; f && f->name; f++)
         add_field(b, f);
-    add_field(b, &bm_field_warnings);
+    for (const BmField *f = bm_common_fields; f->name; f++)
+        add_field(b, f);
     json_builder_end_array(b);
     json_builder_end_object(b);
     return json_builder_get_root(b);
@@ -433,7 +492,7 @@ static void render_scalar(JsonNode *node, GString *out)
         }
         g_string_append_c(out, ']');
     } else {
-        g_autofree char *text = json_to_string(node, FALSE);
+        g_autofree char *text = bm_json_to_string(node, FALSE);
         g_string_append(out, text);
     }
 }
@@ -443,7 +502,8 @@ static void render_node(JsonNode *node, GString *out, int indent)
     JsonObject *o = json_node_get_object(node);
     g_autoptr(GList) keys = json_object_get_members(o);
     for (GList *l = keys; l; l = l->next) {
-        if (indent == 0 && strcmp(l->data, "warnings") == 0)
+        if (indent == 0 && (strcmp(l->data, "warnings") == 0
+                            || strcmp(l->data, "warning_codes") == 0))
             continue;   /* the CLI prints warnings after the table */
         JsonNode *child = json_object_get_member(o, l->data);
         g_string_append_printf(out, "%*s%-28s", indent, "", (const char *)l->data);

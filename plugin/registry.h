@@ -4,7 +4,7 @@
 #define BM_REGISTRY_H
 
 #include <json-glib/json-glib.h>
-#include "bm-error.h"
+#include "bm-error-private.h"
 #include "bm-bands.h"
 
 G_BEGIN_DECLS
@@ -73,8 +73,9 @@ typedef struct {
 
 #define BM_PARAM_END { .name = NULL }
 
-/* One top-level key of an operation's response. "warnings" (always present)
- * is common to every operation and not listed in the tables. */
+/* One top-level key of an operation's response. "warnings" and
+ * "warning_codes" (always present) are common to every operation and not
+ * listed in the tables (bm_common_fields). */
 typedef struct {
     const char *name;          /* e.g. "fermi_level_ev" */
     const char *unit;          /* NULL: none */
@@ -84,15 +85,32 @@ typedef struct {
 
 #define BM_FIELD_END { .name = NULL }
 
-/* In-memory inputs a host may hand over beside the JSON request (for
- * example a band grid built from a NumPy array, so no file is written);
- * NULL when there are none. Operations that read band data use `grid` in
- * place of the request's file path when it is set. */
+/* In-memory inputs a host hands over beside the JSON request, each standing
+ * in for one request key: for example a band grid built from a NumPy array
+ * in place of the "grid" file path, so no file is written. The registry
+ * only checks that each key is a parameter of the operation and is not
+ * also in the request; the operation that reads the key asks for the input
+ * by key and type tag (bm_call_inputs_lookup). Type tags are strings named
+ * by the reader that defines the pointed-to type (BM_INPUT_BAND_GRID in
+ * io/band-grid.h), so a new kind of input needs no change here. A key that
+ * an input may stand in for is declared optional in the operation's
+ * parameters (the operation says what it needs when neither is given). */
+typedef struct {
+    const char *key;     /* the request key it stands in for, e.g. "grid" */
+    const char *type;    /* type tag of value, e.g. BM_INPUT_BAND_GRID */
+    const void *value;   /* borrowed for the duration of the call */
+} BmInput;
+
 typedef struct _BmCallInputs BmCallInputs;
 struct _BmCallInputs {
-    const bm_grid *grid;              /* borrowed, or NULL */
-    const char *const *band_names;    /* borrowed, grid->nbands entries, or NULL */
+    gsize n_inputs;
+    const BmInput *inputs;   /* n_inputs entries, keys distinct */
 };
+
+/* The value standing in for key, or NULL when inputs (may be NULL) has none.
+ * An input for key with another type tag is an error (NULL, error set). */
+const void *bm_call_inputs_lookup(const BmCallInputs *inputs, const char *key,
+                                  const char *type, GError **error);
 
 /* Runs an operation on a validated request (defaults filled in). Returns a
  * new response object, or NULL with error set. */
@@ -120,8 +138,14 @@ const BmOperation *bm_registry_lookup(const char *name);
 
 /* Validates request against op->params (unknown keys, missing required keys,
  * wrong kinds, values out of range and strings not among the choices are
- * errors that name the key, the value and what is allowed), fills defaults,
- * runs. The response always carries a "warnings" array. */
+ * errors that name the key, the value and what is allowed; so are in-memory
+ * inputs for keys the operation does not take or that the request also gives)
+ * and returns a new request with the defaults filled in, or NULL with error set. */
+JsonObject *bm_registry_prepare(const BmOperation *op, JsonObject *request,
+                                const BmCallInputs *inputs, GError **error);
+
+/* bm_registry_prepare, then runs. The response always carries "warnings" and
+ * "warning_codes" (parallel arrays). */
 JsonObject *bm_registry_invoke(const BmOperation *op, JsonObject *request,
                                const BmCallInputs *inputs, GError **error);
 
@@ -158,8 +182,9 @@ const BmChoice **bm_param_choices(const BmParam *p);
 JsonNode *bm_operation_describe(const BmOperation *op);
 JsonNode *bm_registry_describe(void);
 
-/* The field every response carries beside an operation's own table. */
-extern const BmField bm_field_warnings;
+/* The fields every response carries beside an operation's own table
+ * ("warnings", "warning_codes"), terminated by BM_FIELD_END. */
+extern const BmField bm_common_fields[];
 
 /* Generic readable rendering, used when an operation has no renderer. */
 void bm_render_generic(JsonObject *response, GString *out);

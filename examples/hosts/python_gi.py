@@ -30,8 +30,8 @@ kx, ky, kz = np.meshgrid(k, k, k, indexing='ij')
 energies = (2 * 0.5 * (1 - np.cos(kx * a)) + 2 * 1.0 * (1 - np.cos(ky * a))
             + 2 * 2.0 * (1 - np.cos(kz * a)))[np.newaxis]
 recip = 2 * np.pi / a * np.eye(3)                 # rows b1 b2 b3, 1/A
-bands = Bandmass.Bands.new_from_array(energies.ravel(), energies.shape[0],
-                                      energies.shape[1:], recip.ravel())
+bands = Bandmass.Bands.new_from_array(energies, energies.shape[0],
+                                      energies.shape[1:], recip)
 print('grid:', bands.get_nbands(), 'band(s) on a', list(bands.get_mesh()), 'mesh')
 
 # Masses along x, y, z: hbar^2 / (2 t a^2) for t = 0.5, 1, 2 eV (cosine bands).

@@ -178,7 +178,8 @@ static void print_op_help(const BmOperation *op)
         g_autofree char *unit = f->unit ? g_strdup_printf(" [%s]", f->unit) : g_strdup("");
         printf("  %-30s %s%s%s\n", f->name, f->optional ? "* " : "", f->meaning, unit);
     }
-    printf("  %-30s %s\n", bm_field_warnings.name, bm_field_warnings.meaning);
+    for (const BmField *f = bm_common_fields; f->name; f++)
+        printf("  %-30s %s\n", f->name, f->meaning);
     printf("\nOutput: a readable table; --json for the response object "
            "(as 'bandmass call %s'),\n--csv for its \"points\" as CSV, "
            "--output FILE to write it atomically.\n", op->name);
@@ -231,8 +232,9 @@ static void md_operation(const BmOperation *op, GString *out)
         g_string_append_c(out, '\n');
     }
     g_string_append(out, "Response:\n\n| key | unit | always | meaning |\n|---|---|---|---|\n");
-    for (const BmField *f = op->response; ; f++) {
-        const BmField *field = f && f->name ? f : &bm_field_warnings;
+    for (int part = 0; part < 2; part++)
+    for (const BmField *field = part ? bm_common_fields : op->response; field && field->name;
+         field++) {
         g_autofree char *key = g_strdup_printf("`%s`", field->name);
         g_string_append(out, "|");
         md_cell(out, key);
@@ -240,8 +242,6 @@ static void md_operation(const BmOperation *op, GString *out)
         md_cell(out, field->optional ? "no" : "yes");
         md_cell(out, field->meaning);
         g_string_append_c(out, '\n');
-        if (field == &bm_field_warnings)
-            break;
     }
     g_string_append_c(out, '\n');
 }

@@ -24,7 +24,7 @@
  * band and mesh index of a non-finite value. */
 #include "band-grid.h"
 #include "npy.h"
-#include "bm-error.h"
+#include "bm-error-private.h"
 #include "bm-linalg.h"
 
 #include <math.h>

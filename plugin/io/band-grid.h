@@ -22,6 +22,10 @@ typedef struct {
     BmNpyArray *array;       /* the .npy array holding the energies, or NULL */
 } BmBandGrid;
 
+/* The type tag (BmCallInputs) of a `const BmBandGrid *` handed to an
+ * operation in place of its "grid" key: a grid already in memory. */
+#define BM_INPUT_BAND_GRID "band grid"
+
 /* Loads the document at path; a .npy energies file is found relative to the
  * document's folder. Errors: BM_ERROR_IO (unreadable) or
  * BM_ERROR_INVALID_INPUT, the message naming the file, key and expectation. */

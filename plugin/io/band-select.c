@@ -1,7 +1,7 @@
 /* band-select.c: band lookup by 0-based index or by name, with messages that
  * list what is available. */
 #include "band-select.h"
-#include "bm-error.h"
+#include "bm-error-private.h"
 
 #include <string.h>
 

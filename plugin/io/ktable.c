@@ -21,7 +21,7 @@
  *   0.00,0.00,0.00,1.519
  *   0.01,0.00,0.00,1.527 */
 #include "ktable.h"
-#include "bm-error.h"
+#include "bm-error-private.h"
 
 #include <errno.h>
 #include <math.h>

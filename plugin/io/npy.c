@@ -22,7 +22,7 @@
  * A mapped file must not be truncated while the array is alive. */
 #define _DEFAULT_SOURCE 1   /* MAP_POPULATE */
 #include "npy.h"
-#include "bm-error.h"
+#include "bm-error-private.h"
 
 #include <errno.h>
 #include <fcntl.h>

@@ -1,17 +1,28 @@
 /* bandmass_octave.c: the Octave host (a MEX file built with mkoctfile --mex):
- * bandmass(op, request) converts Octave values <-> JSON and calls the registry. */
+ * bandmass(op, request) builds the request object straight from the Octave
+ * value, calls the registry on it (bm_registry_invoke) and turns the
+ * response object straight into Octave values: no JSON text in between. */
 #include <math.h>
+#include <stdint.h>
 #include <string.h>
 #include "mex.h"
 #include "registry.h"
+#include "bm-json.h"
 
 /*
  * Octave -> JSON (requests):
  *   struct 1x1 -> object; struct array -> array of objects;
  *   char row -> string; logical scalar -> boolean;
- *   numeric scalar -> number (an integer when integral);
- *   numeric 1xN or Nx1 -> array of numbers; MxN -> array of M rows;
- *   empty -> []; cell array -> array of its elements converted.
+ *   numeric scalar -> number; numeric 1xN or Nx1 -> array of numbers;
+ *   MxN -> array of M rows; empty -> []; cell array -> array of its
+ *   elements converted.
+ *   Numbers are sent exactly: a double (or single) that is a whole number
+ *   below 2^53 in size goes as a JSON integer, any other double as that
+ *   very double (1e17, 1e300, -0.0); int8 ... int64 and uint8 ... uint64
+ *   go as JSON integers, exact beyond 2^53. Refused, with the field path:
+ *   NaN and Inf, uint64 above 2^63 - 1, and every class or shape listed in
+ *   refusal() (complex, sparse, more than 2 dimensions, char matrices,
+ *   function handles, objects, ...).
  * JSON -> Octave (responses; as Octave's jsondecode):
  *   object -> struct; number -> double; boolean -> logical; string -> char;
  *   null -> [] (NaN inside numeric arrays);
@@ -38,58 +49,114 @@ static gboolean fail(Failure *f, const char *id, const char *fmt, ...)
     return FALSE;
 }
 
+/* ---- what cannot be sent: every refusal is here ---- */
+
+/* Why a value of this class or shape cannot be sent, or NULL when it can. */
+static const char *refusal(const mxArray *a)
+{
+    if (mxIsComplex(a))
+        return "complex numbers cannot be sent";
+    if (mxIsSparse(a))
+        return "sparse matrices cannot be sent (use full())";
+    if (mxGetNumberOfDimensions(a) > 2)
+        return "arrays of more than 2 dimensions cannot be sent";
+    if (mxIsChar(a))
+        return mxGetM(a) > 1 ? "a char array must be one row" : NULL;
+    if (mxIsStruct(a) || mxIsCell(a) || mxIsLogical(a))
+        return NULL;
+    switch (mxGetClassID(a)) {
+    case mxDOUBLE_CLASS: case mxSINGLE_CLASS:
+    case mxINT8_CLASS:   case mxUINT8_CLASS:
+    case mxINT16_CLASS:  case mxUINT16_CLASS:
+    case mxINT32_CLASS:  case mxUINT32_CLASS:
+    case mxINT64_CLASS:  case mxUINT64_CLASS:
+        return NULL;
+    default:
+        return "this class cannot be sent (use structs, numbers, logicals, strings and cells)";
+    }
+}
+
+static gboolean refuse(const mxArray *a, const char *path, Failure *f)
+{
+    const char *why = refusal(a);
+    if (!why)
+        return TRUE;
+    return fail(f, "bandmass:invalidInput", "%s: a %s value: %s", path, mxGetClassName(a), why);
+}
+
+static gboolean refuse_real(double v, const char *path, Failure *f)
+{
+    if (isfinite(v))
+        return TRUE;
+    return fail(f, "bandmass:invalidInput",
+                "%s: NaN and Inf cannot be sent (JSON has no such numbers)", path);
+}
+
+static gboolean refuse_uint64(uint64_t v, const char *path, Failure *f)
+{
+    if (v <= (uint64_t)INT64_MAX)
+        return TRUE;
+    return fail(f, "bandmass:invalidInput",
+                "%s: the uint64 value %" G_GUINT64_FORMAT " cannot be sent (JSON integers "
+                "are read up to 2^63 - 1 = %" G_GINT64_FORMAT ")", path, v, (gint64)INT64_MAX);
+}
+
 /* ---- Octave -> JSON ---- */
 
 static JsonNode *to_json(const mxArray *a, const char *path, Failure *f);
 
-static gboolean element_double(const mxArray *a, size_t i, double *out)
-{
-    const void *d = mxGetData(a);
-    switch (mxGetClassID(a)) {
-    case mxDOUBLE_CLASS: *out = ((const double *)d)[i]; return TRUE;
-    case mxSINGLE_CLASS: *out = ((const float *)d)[i]; return TRUE;
-    case mxINT8_CLASS:   *out = ((const int8_t *)d)[i]; return TRUE;
-    case mxUINT8_CLASS:  *out = ((const uint8_t *)d)[i]; return TRUE;
-    case mxINT16_CLASS:  *out = ((const int16_t *)d)[i]; return TRUE;
-    case mxUINT16_CLASS: *out = ((const uint16_t *)d)[i]; return TRUE;
-    case mxINT32_CLASS:  *out = ((const int32_t *)d)[i]; return TRUE;
-    case mxUINT32_CLASS: *out = ((const uint32_t *)d)[i]; return TRUE;
-    case mxINT64_CLASS:  *out = (double)((const int64_t *)d)[i]; return TRUE;
-    case mxUINT64_CLASS: *out = (double)((const uint64_t *)d)[i]; return TRUE;
-    default: return FALSE;
-    }
-}
-
-static JsonNode *number_node(double v)
+static JsonNode *int_node(gint64 v)
 {
     JsonNode *n = json_node_new(JSON_NODE_VALUE);
-    if (v == floor(v) && fabs(v) < 9007199254740992.0)
-        json_node_set_int(n, (gint64)v);
-    else
-        json_node_set_double(n, v);
+    json_node_set_int(n, v);
     return n;
 }
 
-/* Element (row r, column c) of a numeric or logical matrix. */
-static JsonNode *scalar_at(const mxArray *a, size_t r, size_t c, const char *path, Failure *f)
+/* A whole double below 2^53 goes as an integer (so that keys which take an
+ * integer accept it); anything else as the double itself. Both are exact. */
+static JsonNode *real_node(double v)
 {
-    size_t i = r + c * mxGetM(a);   /* column-major */
+    if (v == floor(v) && fabs(v) < 9007199254740992.0 && !(v == 0.0 && signbit(v)))
+        return int_node((gint64)v);
+    JsonNode *n = json_node_new(JSON_NODE_VALUE);
+    json_node_set_double(n, v);
+    return n;
+}
+
+/* Element i (column-major) of a numeric or logical array, refusals checked. */
+static JsonNode *scalar_at(const mxArray *a, size_t i, const char *path, Failure *f)
+{
     if (mxIsLogical(a)) {
         JsonNode *n = json_node_new(JSON_NODE_VALUE);
         json_node_set_boolean(n, mxGetLogicals(a)[i] != 0);
         return n;
     }
-    double v;
-    if (!element_double(a, i, &v)) {
-        fail(f, "bandmass:invalidInput", "%s: this numeric class cannot be sent", path);
+    const void *d = mxGetData(a);
+    switch (mxGetClassID(a)) {
+    case mxDOUBLE_CLASS: {
+        double v = ((const double *)d)[i];
+        return refuse_real(v, path, f) ? real_node(v) : NULL;
+    }
+    case mxSINGLE_CLASS: {
+        double v = ((const float *)d)[i];
+        return refuse_real(v, path, f) ? real_node(v) : NULL;
+    }
+    case mxINT8_CLASS:   return int_node(((const int8_t *)d)[i]);
+    case mxUINT8_CLASS:  return int_node(((const uint8_t *)d)[i]);
+    case mxINT16_CLASS:  return int_node(((const int16_t *)d)[i]);
+    case mxUINT16_CLASS: return int_node(((const uint16_t *)d)[i]);
+    case mxINT32_CLASS:  return int_node(((const int32_t *)d)[i]);
+    case mxUINT32_CLASS: return int_node(((const uint32_t *)d)[i]);
+    case mxINT64_CLASS:  return int_node(((const int64_t *)d)[i]);
+    case mxUINT64_CLASS: {
+        uint64_t v = ((const uint64_t *)d)[i];
+        return refuse_uint64(v, path, f) ? int_node((gint64)v) : NULL;
+    }
+    default:
+        /* refusal() lets no other class through */
+        fail(f, "bandmass:internal", "%s: unexpected class %s", path, mxGetClassName(a));
         return NULL;
     }
-    if (!isfinite(v)) {
-        fail(f, "bandmass:invalidInput", "%s: NaN and Inf cannot be sent (JSON has no such numbers)",
-             path);
-        return NULL;
-    }
-    return number_node(v);
 }
 
 static JsonNode *array_node(JsonArray *a)
@@ -101,17 +168,13 @@ static JsonNode *array_node(JsonArray *a)
 
 static JsonNode *matrix_to_json(const mxArray *a, const char *path, Failure *f)
 {
-    if (mxIsComplex(a)) {
-        fail(f, "bandmass:invalidInput", "%s: complex numbers cannot be sent", path);
-        return NULL;
-    }
     size_t m = mxGetM(a), n = mxGetN(a);
     if (mxGetNumberOfElements(a) == 1)
-        return scalar_at(a, 0, 0, path, f);
-    g_autoptr(JsonArray) out = json_array_new();
+        return scalar_at(a, 0, path, f);
+    g_autoptr(JsonArray) out = json_array_sized_new((guint)(m == 1 || n == 1 ? m * n : m));
     if (m == 1 || n == 1) {   /* a vector, either way round, or empty */
         for (size_t i = 0; i < m * n; i++) {
-            JsonNode *e = scalar_at(a, m == 1 ? 0 : i, m == 1 ? i : 0, path, f);
+            JsonNode *e = scalar_at(a, i, path, f);
             if (!e)
                 return NULL;
             json_array_add_element(out, e);
@@ -119,10 +182,10 @@ static JsonNode *matrix_to_json(const mxArray *a, const char *path, Failure *f)
         return array_node(g_steal_pointer(&out));
     }
     for (size_t r = 0; r < m; r++) {
-        JsonArray *row = json_array_new();
+        JsonArray *row = json_array_sized_new((guint)n);
         json_array_add_element(out, array_node(row));
         for (size_t c = 0; c < n; c++) {
-            JsonNode *e = scalar_at(a, r, c, path, f);
+            JsonNode *e = scalar_at(a, r + c * m, path, f);   /* column-major */
             if (!e)
                 return NULL;
             json_array_add_element(row, e);
@@ -151,17 +214,10 @@ static JsonNode *struct_to_json(const mxArray *a, size_t index, const char *path
 
 static JsonNode *to_json(const mxArray *a, const char *path, Failure *f)
 {
-    if (mxGetNumberOfDimensions(a) > 2) {
-        fail(f, "bandmass:invalidInput", "%s: arrays of more than 2 dimensions cannot be sent",
-             path);
+    if (!refuse(a, path, f))
         return NULL;
-    }
     size_t count = mxGetNumberOfElements(a);
     if (mxIsChar(a)) {
-        if (mxGetM(a) > 1) {
-            fail(f, "bandmass:invalidInput", "%s: a char array must be one row", path);
-            return NULL;
-        }
         char *s = mxArrayToString(a);
         JsonNode *n = json_node_new(JSON_NODE_VALUE);
         json_node_set_string(n, s ? s : "");
@@ -193,11 +249,7 @@ static JsonNode *to_json(const mxArray *a, const char *path, Failure *f)
         }
         return array_node(g_steal_pointer(&out));
     }
-    if (mxIsNumeric(a) || mxIsLogical(a))
-        return matrix_to_json(a, path, f);
-    fail(f, "bandmass:invalidInput", "%s: a %s cannot be sent (use structs, numbers, "
-         "logicals, strings and cells)", path, mxGetClassName(a));
-    return NULL;
+    return matrix_to_json(a, path, f);
 }
 
 /* ---- JSON -> Octave ---- */
@@ -421,30 +473,50 @@ static mxArray *run(int nrhs, const mxArray *prhs[], Failure *f)
         g_autoptr(JsonNode) node = to_json(prhs[1], "value", f);
         if (!node)
             return NULL;
-        g_autofree char *text = json_to_string(node, FALSE);
+        g_autofree char *text = bm_json_to_string(node, FALSE);
         return mxCreateString(text);
     }
-    g_autofree char *request = NULL;
+    const BmOperation *operation = bm_registry_lookup(op);
+    if (!operation) {
+        fail(f, "bandmass:unknownOperation",
+             "no operation named \"%s\" (bandmass() lists them)", op);
+        return NULL;
+    }
+    g_autoptr(JsonNode) request = NULL;
     if (nrhs == 1 || (mxIsEmpty(prhs[1]) && !mxIsChar(prhs[1]) && !mxIsStruct(prhs[1]))) {
-        request = g_strdup("{}");
+        request = json_node_new(JSON_NODE_OBJECT);
+        json_node_take_object(request, json_object_new());
     } else if (mxIsChar(prhs[1])) {
-        request = text_arg(prhs[1], "a JSON request", f);
+        /* JSON text given by the caller: parsed once, as every host does */
+        g_autofree char *text = text_arg(prhs[1], "a JSON request", f);
+        if (!text)
+            return NULL;
+        g_autoptr(GError) parse_error = NULL;
+        request = json_from_string(text, &parse_error);
+        if (parse_error || !request || !JSON_NODE_HOLDS_OBJECT(request)) {
+            fail(f, "bandmass:invalidInput", "request for %s is not valid JSON%s%s", op,
+                 parse_error ? ": " : " (expected an object {...})",
+                 parse_error ? parse_error->message : "");
+            return NULL;
+        }
     } else if (mxIsStruct(prhs[1]) && mxGetNumberOfElements(prhs[1]) == 1) {
-        g_autoptr(JsonNode) node = to_json(prhs[1], "request", f);
-        if (node)
-            request = json_to_string(node, FALSE);
+        request = to_json(prhs[1], "request", f);
+        if (!request)
+            return NULL;
     } else {
         fail(f, "bandmass:usage", "the request must be a 1x1 struct or JSON text\n%s", usage);
-    }
-    if (!request)
         return NULL;
+    }
     g_autoptr(GError) error = NULL;
-    g_autofree char *response = bm_registry_call_json(op, request, NULL, FALSE, &error);
+    g_autoptr(JsonObject) response = bm_registry_invoke(operation, json_node_get_object(request),
+                                                        NULL, &error);
     if (!response) {
         fail(f, error_id(error), "%s", error->message);
         return NULL;
     }
-    return decode(response, f);
+    g_autoptr(JsonNode) root = json_node_new(JSON_NODE_OBJECT);
+    json_node_set_object(root, response);
+    return from_json(root);
 }
 
 void mexFunction(int nlhs, mxArray *plhs[], int nrhs, const mxArray *prhs[])

@@ -11,15 +11,15 @@
 static const BmParam params[] = {
     { "material", BM_VALUE_STRING | BM_VALUE_OBJECT, TRUE, NULL,
       "built-in name (bandmass materials), path of a material JSON file, or an object with "
-      "varshni {eg0_ev, alpha_ev_per_k, beta_k} and/or bose_einstein {eg0_ev, a_b_ev, theta_k}",
-      .unit = NULL },
+      "one gap model: varshni {eg0_ev, alpha_ev_per_k, beta_k}, bose_einstein {eg0_ev, "
+      "a_b_ev, theta_k} or band_gap_ev (fixed)", .unit = NULL },
     { "temperature_k", BM_VALUE_NUMBER, FALSE, NULL, "temperature", .unit = "K",
       .lower = BM_GE(0) },
     { "temperatures_k", BM_VALUE_NUMBER | BM_VALUE_ARRAY, FALSE, NULL,
       "list of temperatures: the response holds \"points\"", .unit = "K", .lower = BM_GE(0) },
-    { "model", BM_VALUE_STRING, FALSE, "\"varshni\"", "temperature dependence of the gap",
-      .choices = &bm_enum_gap_model,
-      .choice_subset = 1u << BM_GAP_VARSHNI | 1u << BM_GAP_BOSE_EINSTEIN },
+    { "model", BM_VALUE_STRING, FALSE, NULL,
+      "optional check: an error unless it is the material's gap model",
+      .choices = &bm_enum_gap_model },
     BM_PARAM_END
 };
 
@@ -28,9 +28,10 @@ static const BmField response[] = {
     { "band_gap_ev", "eV", TRUE, "the gap at that temperature (one temperature)" },
     { "points", NULL, TRUE, "one {temperature_k, band_gap_ev} per temperature (a list)" },
     { "material", NULL, FALSE, "the material's name" },
-    { "model", NULL, FALSE, "the model used: varshni or bose-einstein" },
+    { "model", NULL, FALSE, "the material's gap model: varshni, bose-einstein or fixed" },
     { "parameters", NULL, FALSE,
-      "the model's parameters: {eg0_ev, alpha_ev_per_k, beta_k} or {eg0_ev, a_b_ev, theta_k}" },
+      "the model's parameters: {eg0_ev, alpha_ev_per_k, beta_k}, {eg0_ev, a_b_ev, theta_k} "
+      "or {eg0_ev} (fixed)" },
     { "source", NULL, FALSE, "where the parameters come from" },
     BM_FIELD_END
 };
@@ -51,16 +52,29 @@ static double *read_temperatures(JsonObject *request, gsize *n, gboolean *list, 
 static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
 {
     (void)inputs;
-    /* the registry checked "model" (varshni or bose-einstein) and the temperatures */
-    const char *model_name = json_object_get_string_member(request, "model");
-    BmGapModel model = (BmGapModel)bm_enum_value(request, "model", &bm_enum_gap_model);
     gsize n = 0;
     gboolean list;
     g_autofree double *t = read_temperatures(request, &n, &list, error);
     if (!t)
         return NULL;
     BmMaterialInput mat;
-    if (!bm_material_input_read(request, "material", &mat, error)) {
+    if (!bm_material_input_read(request, "material", &mat, error))
+        return NULL;
+    const bm_gap_model *g = &mat.mat.gap;
+    const char *model_name = bm_gap_kind_name(g->kind);
+    if (g->kind == BM_GAP_NONE) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "material \"%s\" (%s) has no band gap: give \"varshni\", "
+                    "\"bose_einstein\" or \"band_gap_ev\"", mat.mat.name, mat.origin);
+        bm_material_input_clear(&mat);
+        return NULL;
+    }
+    if (json_object_has_member(request, "model")
+        && strcmp(json_object_get_string_member(request, "model"), model_name)) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request: key \"model\": material \"%s\" has a %s gap model, not \"%s\" "
+                    "(a material carries one gap model)", mat.mat.name, model_name,
+                    json_object_get_string_member(request, "model"));
         bm_material_input_clear(&mat);
         return NULL;
     }
@@ -68,14 +82,17 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     JsonArray *pts = json_array_new();
     bm_warnings w = {0};
     for (gsize i = 0; i < n; i++) {
-        g_autofree char *where = list
-            ? g_strdup_printf("request: element %zu of \"temperatures_k\"", (size_t)i)
-            : g_strdup("request: key \"temperature_k\"");
         double eg;
-        if (!bm_material_input_gap(&mat, model, t[i], where, &eg, &w, error)) {
+        bm_errbuf err = {0};
+        if (bm_gap_at(g, t[i], &eg, &w, &err) != BM_OK) {
+            g_autofree char *where = list
+                ? g_strdup_printf("request: element %zu of \"temperatures_k\"", (size_t)i)
+                : g_strdup("request: key \"temperature_k\"");
+            bm_error_from_core(error, &err, where);
             json_array_unref(pts);
             json_object_unref(resp);
             bm_material_input_clear(&mat);
+            bm_warnings_clear(&w);
             return NULL;
         }
         if (list) {
@@ -91,22 +108,22 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     json_object_set_string_member(resp, "material", mat.mat.name);
     json_object_set_string_member(resp, "model", model_name);
     JsonObject *par = json_object_new();
-    if (model == BM_GAP_VARSHNI) {
-        bm_json_set_number(par, "eg0_ev", mat.mat.gap.eg0_ev);
-        bm_json_set_number(par, "alpha_ev_per_k", mat.mat.gap.alpha_ev_per_k);
-        bm_json_set_number(par, "beta_k", mat.mat.gap.beta_k);
-    } else {
-        bm_json_set_number(par, "eg0_ev", mat.bose_einstein.eg0_ev);
-        bm_json_set_number(par, "a_b_ev", mat.bose_einstein.a_b_ev);
-        bm_json_set_number(par, "theta_k", mat.bose_einstein.theta_k);
+    bm_json_set_number(par, "eg0_ev", g->eg0_ev);
+    if (g->kind == BM_GAP_VARSHNI) {
+        bm_json_set_number(par, "alpha_ev_per_k", g->alpha_ev_per_k);
+        bm_json_set_number(par, "beta_k", g->beta_k);
+    } else if (g->kind == BM_GAP_BOSE_EINSTEIN) {
+        bm_json_set_number(par, "a_b_ev", g->a_b_ev);
+        bm_json_set_number(par, "theta_k", g->theta_k);
     }
     json_object_set_object_member(resp, "parameters", par);
-    json_object_set_string_member(resp, "source", bm_material_input_gap_source(&mat, model));
+    json_object_set_string_member(resp, "source", g->source ? g->source : mat.origin);
     if (list)
         json_object_set_array_member(resp, "points", pts);
     else
         json_array_unref(pts);
     bm_json_warn_all(resp, &w);
+    bm_warnings_clear(&w);
     bm_material_input_clear(&mat);
     return resp;
 }
@@ -135,7 +152,8 @@ static void render(JsonObject *response, GString *out)
 
 const BmOperation bm_op_band_gap = {
     .name = "band-gap",
-    .summary = "Band gap against temperature (Varshni or Bose-Einstein form)",
+    .summary = "Band gap against temperature (the material's Varshni, Bose-Einstein or "
+               "fixed gap)",
     .params = params,
     .run = run,
     .render = render,

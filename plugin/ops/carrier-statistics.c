@@ -12,8 +12,8 @@
 static const BmParam params[] = {
     { "material", BM_VALUE_STRING | BM_VALUE_OBJECT, TRUE, NULL,
       "built-in name (bandmass materials), path of a material JSON file, or an object "
-      "{electron_dos_mass_me, hole_dos_mass_me, band_gap_ev or varshni {...}, name, dopants}",
-      .unit = NULL },
+      "{electron_dos_mass_me, statistics_hole_dos_mass_me, a gap (varshni, bose_einstein "
+      "or band_gap_ev), name, dopants, ...}", .unit = NULL },
     { "temperature_k", BM_VALUE_NUMBER, FALSE, NULL, "temperature", .unit = "K",
       .lower = BM_GT(0) },
     { "temperatures_k", BM_VALUE_NUMBER | BM_VALUE_ARRAY, FALSE, NULL,
@@ -28,9 +28,9 @@ static const BmParam params[] = {
     { "statistics", BM_VALUE_STRING, FALSE, BM_STATISTICS_DEFAULT_JSON, "band occupation",
       .choices = &bm_enum_statistics },
     { "dos_mass_points", BM_VALUE_ARRAY, FALSE, NULL,
-      "temperature-dependent DOS masses, linearly interpolated: "
-      "[{temperature_k, electron_dos_mass_me, hole_dos_mass_me}, ...] in increasing temperature",
-      .unit = NULL },
+      "temperature-dependent DOS masses, linearly interpolated, replacing the material's: "
+      "[{temperature_k, electron_dos_mass_me, statistics_hole_dos_mass_me}, ...] in "
+      "increasing temperature", .unit = NULL },
     BM_PARAM_END
 };
 
@@ -39,7 +39,8 @@ static const BmField response[] = {
     { "temperature_k", "K", TRUE, "temperature (one temperature; else in each point)" },
     { "band_gap_ev", "eV", TRUE, "band gap at that temperature" },
     { "electron_dos_mass_me", "m_e", TRUE, "conduction-band DOS mass used" },
-    { "hole_dos_mass_me", "m_e", TRUE, "valence-band DOS mass used" },
+    { "statistics_hole_dos_mass_me", "m_e", TRUE,
+      "valence-band DOS mass m_dh(T) used for Nv (the carrier-statistics hole DOS mass)" },
     { "nc_cm3", "cm^-3", TRUE, "effective density of states of the conduction band" },
     { "nv_cm3", "cm^-3", TRUE, "effective density of states of the valence band" },
     { "ni_cm3", "cm^-3", TRUE, "intrinsic density sqrt(Nc Nv) exp(-Eg / 2kT)" },
@@ -148,11 +149,14 @@ static gboolean read_dopants(JsonObject *request, const char *key, bm_dopant_kin
 typedef struct {
     gsize n;
     double *t, *me, *mh;
-    bm_dos_mass_table table;
 } MassPoints;
 
-static gboolean read_mass_points(JsonObject *request, MassPoints *mp, GError **error)
+/* "dos_mass_points" replaces the material's two DOS-mass models by tables. */
+static gboolean read_mass_points(JsonObject *request, MassPoints *mp, bm_material *m,
+                                 GError **error)
 {
+    static const char *const keys[] = { "temperature_k", "electron_dos_mass_me",
+                                        "statistics_hole_dos_mass_me", NULL };
     JsonArray *a = json_object_get_array_member(request, "dos_mass_points");
     mp->n = json_array_get_length(a);
     if (mp->n == 0) {
@@ -165,21 +169,22 @@ static gboolean read_mass_points(JsonObject *request, MassPoints *mp, GError **e
     mp->mh = g_new(double, mp->n);
     for (gsize i = 0; i < mp->n; i++) {
         g_autofree char *where = g_strdup_printf("dos_mass_points[%zu]", (size_t)i);
-        JsonNode *e = json_array_get_element(a, (guint)i);
-        if (!JSON_NODE_HOLDS_OBJECT(e)) {
-            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: must be an object",
-                        where);
-            return FALSE;
-        }
-        JsonObject *o = json_node_get_object(e);
-        if (!bm_json_positive(o, "temperature_k", where, &mp->t[i], error)
+        JsonObject *o = bm_json_element_object(a, (guint)i, keys, where, error);
+        if (!o || !bm_json_positive(o, "temperature_k", where, &mp->t[i], error)
             || !bm_json_positive(o, "electron_dos_mass_me", where, &mp->me[i], error)
-            || !bm_json_positive(o, "hole_dos_mass_me", where, &mp->mh[i], error))
+            || !bm_json_positive(o, "statistics_hole_dos_mass_me", where, &mp->mh[i], error))
             return FALSE;
     }
-    mp->table = (bm_dos_mass_table){ mp->n, mp->t, mp->me, mp->mh };
+    const char *src = "request: dos_mass_points (linear interpolation)";
+    m->electron_dos_mass = (bm_dos_mass_model){ .kind = BM_DOS_MASS_TABLE, .n = mp->n,
+                                                .t_k = mp->t, .mass = mp->me, .source = src };
+    m->statistics_hole_dos_mass = (bm_dos_mass_model){ .kind = BM_DOS_MASS_TABLE,
+                                                       .n = mp->n, .t_k = mp->t,
+                                                       .mass = mp->mh, .source = src };
     bm_errbuf err = {0};
-    if (bm_dos_mass_table_check(&mp->table, &err) != BM_OK) {
+    if (bm_dos_mass_check(&m->electron_dos_mass, "electron DOS mass", &err) != BM_OK
+        || bm_dos_mass_check(&m->statistics_hole_dos_mass, "statistics hole DOS mass",
+                             &err) != BM_OK) {
         bm_error_from_core(error, &err, "request: key \"dos_mass_points\"");
         return FALSE;
     }
@@ -192,7 +197,7 @@ static void set_state(JsonObject *o, const bm_carrier_state *st, const Dopants *
     bm_json_set_number(o, "temperature_k", st->temperature_k);
     bm_json_set_number(o, "band_gap_ev", st->band_gap_ev);
     bm_json_set_number(o, "electron_dos_mass_me", st->m_dos_electron);
-    bm_json_set_number(o, "hole_dos_mass_me", st->m_dos_hole);
+    bm_json_set_number(o, "statistics_hole_dos_mass_me", st->m_dos_hole);
     bm_json_set_number(o, "nc_cm3", st->nc_cm3);
     bm_json_set_number(o, "nv_cm3", st->nv_cm3);
     bm_json_set_number(o, "ni_cm3", st->ni_cm3);
@@ -240,7 +245,7 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     Dopants don = {0}, acc = {0};
     g_autofree double *t = NULL;
     gsize nt = 0;
-    BmMaterialInput mat;
+    BmMaterialInput mat = {0};
     gboolean have_mat = FALSE;
 
     /* the registry checked "statistics" and that every temperature is > 0 */
@@ -262,28 +267,29 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     have_mat = bm_material_input_read(request, "material", &mat, error);
     if (!have_mat)
         goto done;
-    gboolean use_points = json_object_has_member(request, "dos_mass_points");
-    if (use_points) {
-        if (!read_mass_points(request, &mp, error))
-            goto done;
-    } else if (!mat.has_electron_mass || !mat.has_hole_mass) {
+    if (json_object_has_member(request, "dos_mass_points")
+        && !read_mass_points(request, &mp, &mat.mat, error))
+        goto done;
+    if (mat.mat.gap.kind == BM_GAP_NONE || mat.mat.electron_dos_mass.kind == BM_DOS_MASS_NONE
+        || mat.mat.statistics_hole_dos_mass.kind == BM_DOS_MASS_NONE) {
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "%s: missing key \"%s\" (or give \"dos_mass_points\")", mat.origin,
-                    mat.has_electron_mass ? "hole_dos_mass_me" : "electron_dos_mass_me");
+                    "%s: missing key \"%s\"%s", mat.origin,
+                    mat.mat.gap.kind == BM_GAP_NONE
+                    ? "varshni\", \"bose_einstein\" or \"band_gap_ev"
+                    : mat.mat.electron_dos_mass.kind == BM_DOS_MASS_NONE
+                    ? "electron_dos_mass_me" : "statistics_hole_dos_mass_me",
+                    mat.mat.gap.kind == BM_GAP_NONE ? "" : " (or give \"dos_mass_points\")");
         goto done;
     }
     if (!read_dopants(request, "donors", BM_DOPANT_DONOR, &mat, &don, error)
         || !read_dopants(request, "acceptors", BM_DOPANT_ACCEPTOR, &mat, &acc, error))
         goto done;
 
-    BmGapModel gap_model = bm_material_input_default_gap(&mat);
+    /* the core evaluates the gap and both DOS masses at each temperature */
     bm_semiconductor s = {0};
-    s.m_dos_electron = mat.mat.m_dos_electron;
-    s.m_dos_hole = mat.mat.m_dos_hole;
-    if (use_points) {
-        s.dos_mass_hook = bm_dos_mass_table_hook;
-        s.hook_data = &mp.table;
-    }
+    s.gap = &mat.mat.gap;
+    s.electron_dos_mass = &mat.mat.electron_dos_mass;
+    s.hole_dos_mass = &mat.mat.statistics_hole_dos_mass;
     s.donors = don.d;
     s.ndonors = don.n;
     s.acceptors = acc.d;
@@ -296,16 +302,7 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
         g_autofree char *where = list
             ? g_strdup_printf("request: element %zu of \"temperatures_k\"", (size_t)i)
             : g_strdup("request: key \"temperature_k\"");
-        bm_warnings gw = {0};
         bm_errbuf err = {0};
-        if (!bm_material_input_gap(&mat, gap_model, t[i], where, &s.band_gap_ev, &gw, error))
-            goto fail;
-        double me, mh;
-        if (use_points && bm_dos_mass_table_eval(&mp.table, t[i], &me, &mh, &err) != BM_OK) {
-            g_autofree char *ctx = g_strdup_printf("%s and \"dos_mass_points\"", where);
-            bm_error_from_core(error, &err, ctx);
-            goto fail;
-        }
         bm_carrier_state st;
         if (bm_carriers_solve(&s, t[i], &st, &err) != BM_OK) {
             bm_error_from_core(error, &err, where);
@@ -316,24 +313,21 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
         if (list)
             json_array_add_object_element(pts, row);
         g_autofree char *prefix = list ? g_strdup_printf("%g K: ", t[i]) : g_strdup("");
-        for (int k = 0; k < gw.count; k++)
-            bm_json_warn(resp, "%s%s", prefix, gw.text[k]);
-        /* the gap warning is already given by the band-gap model */
-        for (int k = 0; k < st.warnings.count; k++)
-            if (!(gw.count && strstr(st.warnings.text[k], "not positive")))
-                bm_json_warn(resp, "%s%s", prefix, st.warnings.text[k]);
+        for (size_t k = 0; k < st.warnings.count; k++)
+            bm_json_warn(resp, st.warnings.items[k].code, "%s%s", prefix,
+                         st.warnings.items[k].text);
+        bm_warnings_clear(&st.warnings);
     }
     json_object_set_string_member(resp, "material", mat.mat.name);
     json_object_set_string_member(resp, "fermi_level_reference", "valence-band maximum");
-    json_object_set_string_member(resp, "band_gap_model", bm_gap_model_name(gap_model));
+    json_object_set_string_member(resp, "band_gap_model", bm_gap_kind_name(mat.mat.gap.kind));
     JsonObject *src = json_object_new();
-    json_object_set_string_member(src, "band_gap", bm_material_input_gap_source(&mat, gap_model));
-    json_object_set_string_member(src, "electron_dos_mass",
-                                  use_points ? "dos_mass_points (linear interpolation)"
-                                  : mat.mat.m_dos_electron_source);
-    json_object_set_string_member(src, "hole_dos_mass",
-                                  use_points ? "dos_mass_points (linear interpolation)"
-                                  : mat.mat.m_dos_hole_source);
+    json_object_set_string_member(src, "band_gap_ev",
+                                  mat.mat.gap.source ? mat.mat.gap.source : mat.origin);
+    json_object_set_string_member(src, "electron_dos_mass_me",
+                                  mat.mat.electron_dos_mass.source);
+    json_object_set_string_member(src, "statistics_hole_dos_mass_me",
+                                  mat.mat.statistics_hole_dos_mass.source);
     json_object_set_object_member(resp, "sources", src);
     json_object_set_array_member(resp, "donors", dopant_list(&don));
     json_object_set_array_member(resp, "acceptors", dopant_list(&acc));
@@ -350,10 +344,7 @@ fail:
     json_object_unref(resp);
     resp = NULL;
 done:
-    if (have_mat)
-        bm_material_input_clear(&mat);
-    else
-        bm_material_input_clear(&mat);
+    bm_material_input_clear(&mat);
     g_free(mp.t);
     g_free(mp.me);
     g_free(mp.mh);
@@ -380,6 +371,12 @@ static void render(JsonObject *response, GString *out)
                            json_object_get_string_member(response, "material"),
                            json_object_get_string_member(response, "fermi_level_reference"),
                            json_object_get_string_member(response, "statistics"));
+    JsonObject *src = json_object_get_object_member(response, "sources");
+    g_string_append_printf(out, "gap: %s\nelectron DOS mass: %s\nhole DOS mass (the "
+                           "statistics mass m_dh(T), statistics_hole_dos_mass_me): %s\n",
+                           json_object_get_string_member(src, "band_gap_ev"),
+                           json_object_get_string_member(src, "electron_dos_mass_me"),
+                           json_object_get_string_member(src, "statistics_hole_dos_mass_me"));
     g_string_append_printf(out, "%8s %8s %10s %10s %10s %9s %10s %10s  %s\n", "T_K", "Eg_eV",
                            "Nc_cm3", "Nv_cm3", "ni_cm3", "EF_eV", "n_cm3", "p_cm3", "regime");
     if (json_object_has_member(response, "points")) {

@@ -81,9 +81,9 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
         bm_json_set_number(resp, "mean_free_path_nm", r.mean_free_path_nm);
     }
     if (in.mass < 0.01 || in.mass > 10.0)
-        bm_json_warn(resp, "mass %g m_e is outside 0.01..10 m_e", in.mass);
+        bm_json_warn(resp, BM_WARN_MASS_OUT_OF_RANGE, "mass %g m_e is outside 0.01..10 m_e", in.mass);
     if (has_n && in.density_cm3 == 0)
-        bm_json_warn(resp, "density_cm3 is 0: no conductivity, resistivity is infinite "
+        bm_json_warn(resp, BM_WARN_ZERO_DENSITY, "density_cm3 is 0: no conductivity, resistivity is infinite "
                      "(written as null)");
     return resp;
 }

@@ -1,8 +1,9 @@
 /* mass-tensor.c: operation "mass-tensor" -- band extrema of one band of a
  * band grid document or a k-table, with their inertial mass tensors.
  *
- * Request: "grid" (band grid document path) or "table" (k-table path), or an
- * in-memory grid handed over by the host; "band" (0-based index or name);
+ * Request: "grid" (band grid document path, or a BmBandGrid the host hands
+ * over in its place as an in-memory input, BM_INPUT_BAND_GRID) or "table"
+ * (k-table path); "band" (0-based index or name);
  * "extremum": "minimum" (the lowest), "maximum" (the highest) or "all" (every
  * local extremum of a grid; the lowest minimum and highest maximum of a
  * table); optional "k_inv_angstrom" (evaluate the tensor at that Cartesian
@@ -20,11 +21,9 @@
  * entries at a conical point), "fit_rms_ev", "divergent" (boolean) and
  * "warnings". */
 #include "ops.h"
-#include "bm-json.h"
 #include "bm-enums.h"
-#include "bm-extrema.h"
-#include "band-grid.h"
-#include "ktable.h"
+#include "mass-tensor.h"
+#include "bm-json.h"
 #include "band-select.h"
 
 #include <math.h>
@@ -71,19 +70,32 @@ static const BmField response[] = {
     BM_FIELD_END
 };
 
+const char *bm_mass_tensor_kind_text(bm_extremum_kind k)
+{
+    return bm_enum_name(&bm_enum_extremum_kind, (int)k);
+}
+
+BmMassState bm_mass_tensor_mass_state(const bm_mass_tensor *t, int m)
+{
+    double v = t->masses[m];
+    if (isfinite(v))
+        return BM_MASS_FINITE;
+    if (isinf(v) || (t->divergent && m < t->dims))
+        return BM_MASS_DIVERGENT;
+    return BM_MASS_UNSAMPLED;
+}
+
 /* The signed masses: finite numbers, "divergent" where the curvature
  * vanishes (or the point is conical), null where the data do not sample. */
 static JsonArray *masses_array(const bm_mass_tensor *t)
 {
     JsonArray *a = json_array_new();
     for (int m = 0; m < 3; m++) {
-        double v = t->masses[m];
-        if (isfinite(v))
-            json_array_add_double_element(a, v);
-        else if (isinf(v) || (t->divergent && m < t->dims))
-            json_array_add_string_element(a, "divergent");
-        else
-            json_array_add_null_element(a);
+        switch (bm_mass_tensor_mass_state(t, m)) {
+        case BM_MASS_FINITE:    json_array_add_double_element(a, t->masses[m]); break;
+        case BM_MASS_DIVERGENT: json_array_add_string_element(a, "divergent"); break;
+        case BM_MASS_UNSAMPLED: json_array_add_null_element(a); break;
+        }
     }
     return a;
 }
@@ -98,11 +110,10 @@ static const char *method_text(bm_tensor_method m)
     return "unknown";
 }
 
-static JsonObject *tensor_object(const bm_mass_tensor *t, gboolean fractional)
+JsonObject *bm_mass_tensor_object(const bm_mass_tensor *t, gboolean fractional)
 {
     JsonObject *o = json_object_new();
-    json_object_set_string_member(o, "kind",
-                                  bm_enum_name(&bm_enum_extremum_kind, (int)t->kind));
+    json_object_set_string_member(o, "kind", bm_mass_tensor_kind_text(t->kind));
     json_object_set_int_member(o, "dims", t->dims);
     bm_json_set_number(o, "energy_ev", t->energy_ev);
     bm_json_set_vec3(o, "k_inv_angstrom", t->k);
@@ -136,12 +147,32 @@ static JsonObject *tensor_object(const bm_mass_tensor *t, gboolean fractional)
     return o;
 }
 
-static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
+void bm_mass_tensor_search_free(BmMassTensorSearch *s)
 {
-    gboolean have_grid = json_object_has_member(request, "grid");
+    if (!s)
+        return;
+    bm_mass_tensors_free(s->tensors, s->n_tensors);
+    bm_warnings_clear(&s->warnings);
+    if (s->grid)
+        bm_band_grid_free(s->grid);
+    if (s->table)
+        bm_ktable_free(s->table);
+    g_free(s);
+}
+
+BmMassTensorSearch *bm_mass_tensor_search(JsonObject *request, const BmCallInputs *inputs,
+                                          GError **error)
+{
+    GError *lookup_error = NULL;
+    const BmBandGrid *given = bm_call_inputs_lookup(inputs, "grid", BM_INPUT_BAND_GRID,
+                                                    &lookup_error);
+    if (lookup_error) {
+        g_propagate_error(error, lookup_error);
+        return NULL;
+    }
+    gboolean have_grid = given || json_object_has_member(request, "grid");
     gboolean have_table = json_object_has_member(request, "table");
-    gboolean in_memory = inputs && inputs->grid;
-    if (!in_memory && have_grid == have_table) {
+    if (have_grid == have_table) {
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
                     have_grid ? "request: give either \"grid\" or \"table\", not both"
                               : "request: missing band data: give \"grid\" (a band grid "
@@ -162,76 +193,81 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     if (have_k && !bm_json_vec3(request, "k_inv_angstrom", NULL, k_at, error))
         return NULL;
 
-    /* load the band data */
-    g_autoptr(BmBandGrid) grid = NULL;
-    g_autoptr(BmKTable) table = NULL;
-    const bm_grid *g = NULL;
-    const char *const *names = NULL, *const *alt_names = NULL;
-    const char *source;
+    /* the band data: handed over, a grid document or a k-table */
+    g_autoptr(BmMassTensorSearch) s = g_new0(BmMassTensorSearch, 1);
+    const BmBandGrid *grid = given;
+    const char *const *names, *const *alt_names = NULL;
     size_t nbands;
-    if (in_memory) {
-        g = inputs->grid;
-        names = inputs->band_names;
-        source = "in-memory grid";
-        nbands = g->nbands;
-    } else if (have_grid) {
-        grid = bm_band_grid_load(json_object_get_string_member(request, "grid"), error);
-        if (!grid)
+    if (have_grid && !grid) {
+        s->grid = bm_band_grid_load(json_object_get_string_member(request, "grid"), error);
+        if (!s->grid)
             return NULL;
-        g = &grid->grid;
+        grid = s->grid;
+    }
+    if (grid) {
         names = (const char *const *)grid->band_names;
-        source = grid->source;
-        nbands = g->nbands;
+        s->source = grid->source;
+        nbands = grid->grid.nbands;
     } else {
-        table = bm_ktable_load(json_object_get_string_member(request, "table"), error);
-        if (!table)
+        s->table = bm_ktable_load(json_object_get_string_member(request, "table"), error);
+        if (!s->table)
             return NULL;
-        names = (const char *const *)table->band_names;
-        alt_names = (const char *const *)table->band_headers;
-        source = table->source;
-        nbands = table->table.nbands;
+        names = (const char *const *)s->table->band_names;
+        alt_names = (const char *const *)s->table->band_headers;
+        s->source = s->table->source;
+        nbands = s->table->table.nbands;
     }
 
-    size_t band;
     if (!bm_band_select_node(json_object_get_member(request, "band"), names, alt_names,
-                             nbands, source, &band, error))
+                             nbands, s->source, &s->band, error))
         return NULL;
+    s->band_name = names ? names[s->band] : NULL;
+    s->fractional = grid != NULL;
 
-    bm_mass_tensor *res = NULL;
-    size_t nres = 0;
     bm_errbuf err = { BM_OK, "" };
-    bm_status s = g ? bm_grid_mass_tensors(g, band, which, have_k ? k_at : NULL, &opt,
-                                           &res, &nres, &err)
-                    : bm_ktable_mass_tensors(&table->table, band, which, have_k ? k_at : NULL,
-                                             &opt, &res, &nres, &err);
-    if (s != BM_OK) {
-        bm_error_from_core(error, &err, source);
+    bm_status st = grid ? bm_grid_mass_tensors(&grid->grid, s->band, which,
+                                               have_k ? k_at : NULL, &opt,
+                                               &s->tensors, &s->n_tensors, &err)
+                        : bm_ktable_mass_tensors(&s->table->table, s->band, which,
+                                                 have_k ? k_at : NULL, &opt,
+                                                 &s->tensors, &s->n_tensors, &err);
+    if (st != BM_OK) {
+        bm_error_from_core(error, &err, s->source);
         return NULL;
     }
+    if (s->n_tensors == 0)
+        bm_warn(&s->warnings, BM_WARN_NO_EXTREMUM, "no extremum found in band %zu of %s",
+                s->band, s->source);
+    for (size_t i = 0; i < s->n_tensors; i++) {
+        const bm_mass_tensor *t = &s->tensors[i];
+        if (t->warnings.count)
+            bm_warn(&s->warnings, BM_WARN_EXTREMUM_WARNINGS,
+                    "extremum %zu (%s at %.6g eV) carries %zu warning%s", i,
+                    bm_mass_tensor_kind_text(t->kind), t->energy_ev, t->warnings.count,
+                    t->warnings.count == 1 ? "" : "s");
+    }
+    return g_steal_pointer(&s);
+}
 
+static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
+{
+    g_autoptr(BmMassTensorSearch) s = bm_mass_tensor_search(request, inputs, error);
+    if (!s)
+        return NULL;
     JsonObject *response = json_object_new();
     JsonObject *b = json_object_new();
-    json_object_set_int_member(b, "index", (gint64)band);
-    if (names && names[band])
-        json_object_set_string_member(b, "name", names[band]);
+    json_object_set_int_member(b, "index", (gint64)s->band);
+    if (s->band_name)
+        json_object_set_string_member(b, "name", s->band_name);
     else
         json_object_set_null_member(b, "name");
     json_object_set_object_member(response, "band", b);
-    json_object_set_string_member(response, "source", source);
+    json_object_set_string_member(response, "source", s->source);
     JsonArray *list = json_array_new();
-    for (size_t i = 0; i < nres; i++)
-        json_array_add_object_element(list, tensor_object(&res[i], g != NULL));
+    for (size_t i = 0; i < s->n_tensors; i++)
+        json_array_add_object_element(list, bm_mass_tensor_object(&s->tensors[i], s->fractional));
     json_object_set_array_member(response, "extrema", list);
-    json_object_set_array_member(response, "warnings", json_array_new());
-    if (nres == 0)
-        bm_json_warn(response, "no extremum found in band %zu of %s", band, source);
-    for (size_t i = 0; i < nres; i++)
-        if (res[i].warnings.count)
-            bm_json_warn(response, "extremum %zu (%s at %.6g eV) carries %d warning%s",
-                         i, bm_enum_name(&bm_enum_extremum_kind, (int)res[i].kind),
-                         res[i].energy_ev, res[i].warnings.count,
-                         res[i].warnings.count == 1 ? "" : "s");
-    free(res);
+    bm_json_warn_all(response, &s->warnings);
     return response;
 }
 
@@ -311,7 +347,7 @@ const BmOperation bm_op_mass_tensor = {
     .name = "mass-tensor",
     .summary = "Band extrema of a grid or k-table and their inertial mass tensors",
     .params = params,
+    .response = response,
     .run = run,
     .render = render,
-    .response = response,
 };

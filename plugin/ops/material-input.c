@@ -1,18 +1,78 @@
-/* material-input.c: reads a material given by built-in name, inline object or
- * JSON file into the core's bm_material (no physics: values are copied). */
+/* material-input.c: the material codec (JSON <-> bm_material): one field
+ * table drives both the reader and the writer.  No physics: values are copied. */
 #include <math.h>
+#include <stddef.h>
 #include <string.h>
 
 #include "material-input.h"
 #include "bm-json.h"
-#include "bm-bandgap.h"
 
-static const char *const material_keys[] = {
-    "name", "electron_dos_mass_me", "hole_dos_mass_me", "band_gap_ev", "varshni",
-    "bose_einstein", "dopants", "comment", "point_group", "conduction_valley",
-    "heavy_hole_mass_me", "light_hole_mass_me", "split_off_mass_me", "split_off_ev",
-    "luttinger_parameters", NULL
+typedef enum {
+    F_STRING,      /* const char * */
+    F_BOOL,        /* int: 1, 0, -1 not given */
+    F_GAP,         /* bm_gap_model of the field's gap kind */
+    F_VALLEY,      /* bm_valley_info */
+    F_DOS,         /* bm_dos_mass_model */
+    F_SOURCED,     /* bm_sourced */
+    F_LUTTINGER,   /* double[3] + source */
+    F_DOPANTS      /* ndopants + dopants[] */
+} FieldType;
+
+typedef struct {
+    const char *key;
+    FieldType type;
+    size_t offset;
+    bm_gap_kind gap_kind;       /* F_GAP */
+} Field;
+
+#define AT(member) offsetof(bm_material, member)
+
+/* The material file format, in the order written. */
+static const Field fields[] = {
+    { "name", F_STRING, AT(name), 0 },
+    { "long_name", F_STRING, AT(long_name), 0 },
+    { "structure", F_STRING, AT(structure), 0 },
+    { "point_group", F_STRING, AT(point_group), 0 },
+    { "direct_gap", F_BOOL, AT(direct_gap), 0 },
+    { "varshni", F_GAP, AT(gap), BM_GAP_VARSHNI },
+    { "bose_einstein", F_GAP, AT(gap), BM_GAP_BOSE_EINSTEIN },
+    { "band_gap_ev", F_GAP, AT(gap), BM_GAP_FIXED },
+    { "conduction_valley", F_VALLEY, AT(electron), 0 },
+    { "electron_dos_mass_me", F_DOS, AT(electron_dos_mass), 0 },
+    { "statistics_hole_dos_mass_me", F_DOS, AT(statistics_hole_dos_mass), 0 },
+    { "heavy_hole_mass_me", F_SOURCED, AT(heavy_hole_mass), 0 },
+    { "light_hole_mass_me", F_SOURCED, AT(light_hole_mass), 0 },
+    { "split_off_mass_me", F_SOURCED, AT(split_off_mass), 0 },
+    { "split_off_ev", F_SOURCED, AT(split_off_ev), 0 },
+    { "luttinger_parameters", F_LUTTINGER, AT(luttinger), 0 },
+    { "dopants", F_DOPANTS, AT(ndopants), 0 },
 };
+
+const char *const bm_material_ignored_keys[] = { "comment", "derived", "warnings",
+                                                 "warning_codes", NULL };
+
+/* Keys of earlier versions: a clear error naming the new key. */
+static const char *const renamed[][2] = {
+    { "hole_dos_mass_me", "statistics_hole_dos_mass_me" },
+    { "luttinger", "luttinger_parameters" },
+    { "split_off_energy_ev", "split_off_ev" },
+    { "spin_orbit_splitting_ev", "split_off_ev" },
+    { "site", "position" },
+};
+
+#define FIELD(m, f, type) ((type *)(void *)((char *)(m) + (f)->offset))
+#define CFIELD(m, f, type) ((const type *)(const void *)((const char *)(m) + (f)->offset))
+
+static gboolean invalid(GError **error, const char *fmt, ...) G_GNUC_PRINTF(2, 3);
+static gboolean invalid(GError **error, const char *fmt, ...)
+{
+    va_list ap;
+    va_start(ap, fmt);
+    g_autofree char *msg = g_strdup_vprintf(fmt, ap);
+    va_end(ap);
+    g_set_error_literal(error, BM_ERROR, BM_ERROR_INVALID_INPUT, msg);
+    return FALSE;
+}
 
 static const char *keep(BmMaterialInput *in, const char *s)
 {
@@ -21,103 +81,132 @@ static const char *keep(BmMaterialInput *in, const char *s)
     return c;
 }
 
-static JsonObject *sub_object(JsonObject *o, const char *key, const char *where,
-                              GError **error)
+static gboolean check_renamed(JsonObject *o, const char *where, GError **error)
 {
-    JsonNode *n = json_object_get_member(o, key);
-    if (!JSON_NODE_HOLDS_OBJECT(n)) {
-        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "%s: key \"%s\" must be an object", where, key);
-        return NULL;
-    }
-    return json_node_get_object(n);
+    for (size_t i = 0; i < G_N_ELEMENTS(renamed); i++)
+        if (json_object_has_member(o, renamed[i][0]))
+            return invalid(error, "%s: key \"%s\" is now called \"%s\" (README, Changes)",
+                           where, renamed[i][0], renamed[i][1]);
+    return TRUE;
 }
 
-static gboolean read_dopants(BmMaterialInput *in, JsonObject *o, const char *where,
-                             GError **error)
+static gboolean is_string(JsonNode *n)
 {
-    static const char *const keys[] = { "species", "kind", "ionization_ev", "degeneracy",
-                                        "source", NULL };
-    JsonNode *n = json_object_get_member(o, "dopants");
-    if (!JSON_NODE_HOLDS_ARRAY(n)) {
-        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "%s: key \"dopants\" must be an array of objects", where);
-        return FALSE;
-    }
-    JsonArray *a = json_node_get_array(n);
-    guint len = json_array_get_length(a);
-    if (len > BM_MATERIAL_MAX_DOPANTS) {
-        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "%s: key \"dopants\" holds %u entries (at most %d)", where, len,
-                    BM_MATERIAL_MAX_DOPANTS);
-        return FALSE;
-    }
-    for (guint i = 0; i < len; i++) {
-        g_autofree char *w = g_strdup_printf("%s: dopants[%u]", where, i);
-        JsonNode *e = json_array_get_element(a, i);
-        if (!JSON_NODE_HOLDS_OBJECT(e)) {
-            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: must be an object", w);
-            return FALSE;
-        }
-        JsonObject *d = json_node_get_object(e);
-        if (!bm_json_only_keys(d, keys, w, error))
-            return FALSE;
-        bm_material_dopant *md = &in->mat.dopants[i];
-        const char *species = json_object_has_member(d, "species")
-            && JSON_NODE_HOLDS_VALUE(json_object_get_member(d, "species"))
-            ? json_object_get_string_member(d, "species") : NULL;
-        const char *kind = json_object_has_member(d, "kind")
-            && JSON_NODE_HOLDS_VALUE(json_object_get_member(d, "kind"))
-            ? json_object_get_string_member(d, "kind") : NULL;
-        if (!species || !*species) {
-            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                        "%s: key \"species\" must be a non-empty string", w);
-            return FALSE;
-        }
-        if (!kind || (strcmp(kind, "donor") && strcmp(kind, "acceptor"))) {
-            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                        "%s: key \"kind\" must be \"donor\" or \"acceptor\"", w);
-            return FALSE;
-        }
-        md->element = keep(in, species);
-        md->kind = strcmp(kind, "donor") ? BM_DOPANT_ACCEPTOR : BM_DOPANT_DONOR;
-        md->degeneracy = 0.0;
-        if (!bm_json_number(d, "ionization_ev", w, &md->ionisation_ev, error)
-            || !bm_json_number_opt(d, "degeneracy", w, &md->degeneracy, error))
-            return FALSE;
-        md->source = json_object_has_member(d, "source")
-            ? keep(in, json_object_get_string_member(d, "source")) : in->origin;
-    }
-    in->mat.ndopants = len;
-    return TRUE;
+    return n && JSON_NODE_HOLDS_VALUE(n) && json_node_get_value_type(n) == G_TYPE_STRING;
 }
 
 static gboolean string_member(JsonObject *o, const char *key, const char *where,
                               const char **out, GError **error)
 {
     JsonNode *n = json_object_get_member(o, key);
-    if (!n || !JSON_NODE_HOLDS_VALUE(n) || json_node_get_value_type(n) != G_TYPE_STRING) {
-        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "%s: key \"%s\" must be a string", where, key);
-        return FALSE;
-    }
+    if (!is_string(n))
+        return invalid(error, "%s: key \"%s\" must be a string", where, key);
     *out = json_node_get_string(n);
     return TRUE;
 }
 
-/* "conduction_valley": position, Cartesian direction, masses (bm_valley_info). */
-static gboolean read_valley(BmMaterialInput *in, JsonObject *o, const char *where,
-                           GError **error)
+/* An optional "source" string of o (else dflt). */
+static gboolean source_of(BmMaterialInput *in, JsonObject *o, const char *where,
+                          const char *dflt, const char **out, GError **error)
 {
-    static const char *const keys[] = { "position", "direction", "longitudinal_mass_me",
-                                        "transverse_mass_me", "transverse2_mass_me",
-                                        "source", NULL };
-    g_autofree char *w = g_strdup_printf("%s: conduction_valley", where);
-    JsonObject *v = sub_object(o, "conduction_valley", where, error);
-    bm_valley_info *e = &in->mat.electron;
+    *out = dflt;
+    if (!json_object_has_member(o, "source"))
+        return TRUE;
+    const char *s = NULL;
+    if (!string_member(o, "source", where, &s, error))
+        return FALSE;
+    *out = keep(in, s);
+    return TRUE;
+}
+
+/* A number, null (not given) or {value: number or null, source}. */
+static gboolean read_sourced(BmMaterialInput *in, JsonObject *o, const char *key,
+                             const char *where, gboolean positive, bm_sourced *out,
+                             GError **error)
+{
+    static const char *const keys[] = { "value", "source", NULL };
+    JsonNode *n = json_object_get_member(o, key);
+    out->value = NAN;
+    out->source = in->origin;
+    JsonObject *holder = o;
+    const char *vkey = key;
+    g_autofree char *w = NULL;
+    if (JSON_NODE_HOLDS_OBJECT(n)) {
+        w = g_strdup_printf("%s: %s", where, key);
+        holder = json_node_get_object(n);
+        if (!bm_json_only_keys(holder, keys, w, error)
+            || !source_of(in, holder, w, in->origin, &out->source, error))
+            return FALSE;
+        vkey = "value";
+        n = json_object_get_member(holder, "value");
+        if (!n)
+            return invalid(error, "%s: missing key \"value\"", w);
+    }
+    if (JSON_NODE_HOLDS_NULL(n))
+        return TRUE;
+    return positive ? bm_json_positive(holder, vkey, w ? w : where, &out->value, error)
+                    : bm_json_number(holder, vkey, w ? w : where, &out->value, error);
+}
+
+static gboolean sub_object(JsonObject *o, const char *key, const char *where,
+                           JsonObject **out, GError **error)
+{
+    JsonNode *n = json_object_get_member(o, key);
+    if (!JSON_NODE_HOLDS_OBJECT(n))
+        return invalid(error, "%s: key \"%s\" must be an object", where, key);
+    *out = json_node_get_object(n);
+    return TRUE;
+}
+
+static gboolean read_gap(BmMaterialInput *in, JsonObject *o, const Field *f, const char *where,
+                         GError **error)
+{
+    bm_gap_model *g = FIELD(&in->mat, f, bm_gap_model);
+    if (g->kind != BM_GAP_NONE)
+        return invalid(error, "%s: give one gap model, \"varshni\", \"bose_einstein\" or "
+                       "\"band_gap_ev\" (a fixed gap), not several", where);
+    memset(g, 0, sizeof *g);
+    g->kind = f->gap_kind;
+    g->source = in->origin;
+    if (f->gap_kind == BM_GAP_FIXED) {
+        bm_sourced v;
+        if (!read_sourced(in, o, f->key, where, FALSE, &v, error))
+            return FALSE;
+        if (!isfinite(v.value))
+            return invalid(error, "%s: key \"band_gap_ev\" must be a number", where);
+        g->eg0_ev = v.value;
+        g->source = v.source;
+        return TRUE;
+    }
+    static const char *const vkeys[] = { "eg0_ev", "alpha_ev_per_k", "beta_k", "source", NULL };
+    static const char *const bkeys[] = { "eg0_ev", "a_b_ev", "theta_k", "source", NULL };
+    gboolean v = f->gap_kind == BM_GAP_VARSHNI;
+    g_autofree char *w = g_strdup_printf("%s: %s", where, f->key);
+    JsonObject *p = NULL;
+    return sub_object(o, f->key, where, &p, error)
+        && bm_json_only_keys(p, v ? vkeys : bkeys, w, error)
+        && bm_json_number(p, "eg0_ev", w, &g->eg0_ev, error)
+        && (v ? bm_json_number(p, "alpha_ev_per_k", w, &g->alpha_ev_per_k, error)
+                && bm_json_number(p, "beta_k", w, &g->beta_k, error)
+              : bm_json_number(p, "a_b_ev", w, &g->a_b_ev, error)
+                && bm_json_number(p, "theta_k", w, &g->theta_k, error))
+        && source_of(in, p, w, in->origin, &g->source, error);
+}
+
+/* "conduction_valley": position, Cartesian direction, masses (bm_valley_info). */
+static gboolean read_valley(BmMaterialInput *in, JsonObject *o, const Field *f,
+                            const char *where, GError **error)
+{
+    static const char *const keys[] = { "label", "position", "direction",
+                                        "longitudinal_mass_me", "transverse_mass_me",
+                                        "transverse2_mass_me", "source", NULL };
+    g_autofree char *w = g_strdup_printf("%s: %s", where, f->key);
+    bm_valley_info *e = FIELD(&in->mat, f, bm_valley_info);
+    JsonObject *v = NULL;
     const char *pos = NULL;
     bm_errbuf err = {0};
-    if (!v || !bm_json_only_keys(v, keys, w, error) || !string_member(v, "position", w, &pos, error))
+    if (!sub_object(o, f->key, where, &v, error) || !check_renamed(v, w, error)
+        || !bm_json_only_keys(v, keys, w, error) || !string_member(v, "position", w, &pos, error))
         return FALSE;
     if (bm_valley_site_parse(pos, &e->site, &err) != BM_OK) {
         g_autofree char *ctx = g_strdup_printf("%s: key \"position\"", w);
@@ -125,6 +214,12 @@ static gboolean read_valley(BmMaterialInput *in, JsonObject *o, const char *wher
         return FALSE;
     }
     e->label = bm_valley_site_name(e->site);
+    if (json_object_has_member(v, "label")) {
+        const char *l = NULL;
+        if (!string_member(v, "label", w, &l, error))
+            return FALSE;
+        e->label = keep(in, l);
+    }
     e->basis = BM_DIRECTION_CARTESIAN;
     e->star_size = 0;
     e->valleys = NAN;
@@ -139,125 +234,371 @@ static gboolean read_valley(BmMaterialInput *in, JsonObject *o, const char *wher
     if (json_object_has_member(v, "transverse2_mass_me")
         && !bm_json_positive(v, "transverse2_mass_me", w, &e->m_transverse2, error))
         return FALSE;
-    e->source = in->origin;
-    if (json_object_has_member(v, "source")) {
-        const char *src;
-        if (!string_member(v, "source", w, &src, error))
+    return source_of(in, v, w, in->origin, &e->source, error);
+}
+
+/* A number array of exactly n entries at o[key]. */
+static gboolean fixed_numbers(JsonObject *o, const char *key, const char *where, double *out,
+                              gsize n, GError **error)
+{
+    gsize got = 0;
+    g_autofree double *v = bm_json_numbers(o, key, where, &got, error);
+    if (!v)
+        return FALSE;
+    if (got != n)
+        return invalid(error, "%s: key \"%s\" must hold %zu numbers (got %zu)", where, key,
+                       (size_t)n, (size_t)got);
+    memcpy(out, v, n * sizeof *out);
+    return TRUE;
+}
+
+/* A DOS mass: a number, {value, source}, {points: [{temperature_k, mass_me}],
+ * source} or {fit_numerator: [5], fit_denominator: [4], source}. */
+static gboolean read_dos(BmMaterialInput *in, JsonObject *o, const Field *f, const char *where,
+                         GError **error)
+{
+    static const char *const keys[] = { "value", "points", "fit_numerator", "fit_denominator",
+                                        "source", NULL };
+    static const char *const pkeys[] = { "temperature_k", "mass_me", NULL };
+    bm_dos_mass_model *m = FIELD(&in->mat, f, bm_dos_mass_model);
+    memset(m, 0, sizeof *m);
+    m->source = in->origin;
+    JsonNode *n = json_object_get_member(o, f->key);
+    if (!JSON_NODE_HOLDS_OBJECT(n)) {
+        m->kind = BM_DOS_MASS_FIXED;
+        return bm_json_positive(o, f->key, where, &m->value, error);
+    }
+    g_autofree char *w = g_strdup_printf("%s: %s", where, f->key);
+    JsonObject *d = json_node_get_object(n);
+    if (!bm_json_only_keys(d, keys, w, error)
+        || !source_of(in, d, w, in->origin, &m->source, error))
+        return FALSE;
+    gboolean has_v = json_object_has_member(d, "value");
+    gboolean has_p = json_object_has_member(d, "points");
+    gboolean has_f = json_object_has_member(d, "fit_numerator")
+                  || json_object_has_member(d, "fit_denominator");
+    if (has_v + has_p + has_f != 1)
+        return invalid(error, "%s: give exactly one of \"value\", \"points\" or "
+                       "\"fit_numerator\" with \"fit_denominator\"", w);
+    bm_errbuf err = {0};
+    if (has_v) {
+        m->kind = BM_DOS_MASS_FIXED;
+        return bm_json_positive(d, "value", w, &m->value, error);
+    }
+    if (has_f) {
+        m->kind = BM_DOS_MASS_FIT;
+        if (!fixed_numbers(d, "fit_numerator", w, m->fit_numerator, BM_DOS_FIT_NUMERATOR,
+                           error)
+            || !fixed_numbers(d, "fit_denominator", w, m->fit_denominator,
+                              BM_DOS_FIT_DENOMINATOR, error))
             return FALSE;
-        e->source = keep(in, src);
+    } else {
+        JsonNode *pn = json_object_get_member(d, "points");
+        if (!JSON_NODE_HOLDS_ARRAY(pn) || json_array_get_length(json_node_get_array(pn)) == 0)
+            return invalid(error, "%s: key \"points\" must be a non-empty array of "
+                           "{temperature_k, mass_me}", w);
+        JsonArray *a = json_node_get_array(pn);
+        m->kind = BM_DOS_MASS_TABLE;
+        m->n = json_array_get_length(a);
+        double *t = g_new(double, m->n), *mass = g_new(double, m->n);
+        g_ptr_array_add(in->strings, t);
+        g_ptr_array_add(in->strings, mass);
+        m->t_k = t;
+        m->mass = mass;
+        for (guint i = 0; i < m->n; i++) {
+            g_autofree char *pw = g_strdup_printf("%s: points[%u]", w, i);
+            JsonObject *p = bm_json_element_object(a, i, pkeys, pw, error);
+            if (!p || !bm_json_number(p, "temperature_k", pw, &t[i], error)
+                || !bm_json_number(p, "mass_me", pw, &mass[i], error))
+                return FALSE;
+        }
     }
-    in->has_valley = TRUE;
+    if (bm_dos_mass_check(m, f->key, &err) != BM_OK) {
+        bm_error_from_core(error, &err, where);
+        return FALSE;
+    }
     return TRUE;
 }
 
-static gboolean read_positive_opt(JsonObject *o, const char *key, const char *where,
-                                  double *out, GError **error)
+static gboolean read_luttinger(BmMaterialInput *in, JsonObject *o, const Field *f,
+                               const char *where, GError **error)
 {
-    return !json_object_has_member(o, key) || bm_json_positive(o, key, where, out, error);
-}
-
-/* Hole masses, split-off energy and Luttinger parameters (NAN when absent). */
-static gboolean read_holes(BmMaterialInput *in, JsonObject *o, const char *where,
-                          GError **error)
-{
-    bm_material *m = &in->mat;
-    m->m_heavy_hole = m->m_light_hole = m->m_split_off = m->split_off_ev = NAN;
-    m->luttinger[0] = m->luttinger[1] = m->luttinger[2] = NAN;
-    m->hole_masses_source = m->split_off_source = m->luttinger_source = in->origin;
-    if (!read_positive_opt(o, "heavy_hole_mass_me", where, &m->m_heavy_hole, error)
-        || !read_positive_opt(o, "light_hole_mass_me", where, &m->m_light_hole, error)
-        || !read_positive_opt(o, "split_off_mass_me", where, &m->m_split_off, error)
-        || !read_positive_opt(o, "split_off_ev", where, &m->split_off_ev, error))
-        return FALSE;
-    if (!json_object_has_member(o, "luttinger_parameters"))
+    static const char *const keys[] = { "value", "source", NULL };
+    double *g = FIELD(&in->mat, f, double);
+    JsonNode *n = json_object_get_member(o, f->key);
+    JsonObject *holder = o;
+    const char *vkey = f->key;
+    g_autofree char *w = NULL;
+    in->mat.luttinger_source = in->origin;
+    if (JSON_NODE_HOLDS_OBJECT(n)) {
+        w = g_strdup_printf("%s: %s", where, f->key);
+        holder = json_node_get_object(n);
+        if (!bm_json_only_keys(holder, keys, w, error)
+            || !source_of(in, holder, w, in->origin, &in->mat.luttinger_source, error))
+            return FALSE;
+        vkey = "value";
+        n = json_object_get_member(holder, "value");
+        if (!n)
+            return invalid(error, "%s: missing key \"value\"", w);
+    }
+    if (JSON_NODE_HOLDS_NULL(n))
         return TRUE;
-    gsize n = 0;
-    g_autofree double *g = bm_json_numbers(o, "luttinger_parameters", where, &n, error);
-    if (!g)
-        return FALSE;
-    if (n != 3) {
-        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "%s: key \"luttinger_parameters\" must hold 3 numbers [gamma1, gamma2, "
-                    "gamma3] (got %zu)", where, (size_t)n);
-        return FALSE;
+    return fixed_numbers(holder, vkey, w ? w : where, g, 3, error);
+}
+
+static gboolean read_dopants(BmMaterialInput *in, JsonObject *o, const Field *f,
+                             const char *where, GError **error)
+{
+    static const char *const keys[] = { "species", "kind", "ionization_ev", "degeneracy",
+                                        "source", NULL };
+    JsonNode *n = json_object_get_member(o, f->key);
+    if (!JSON_NODE_HOLDS_ARRAY(n))
+        return invalid(error, "%s: key \"dopants\" must be an array of objects", where);
+    JsonArray *a = json_node_get_array(n);
+    guint len = json_array_get_length(a);
+    if (len > BM_MATERIAL_MAX_DOPANTS)
+        return invalid(error, "%s: key \"dopants\" holds %u entries (at most %d)", where, len,
+                       BM_MATERIAL_MAX_DOPANTS);
+    for (guint i = 0; i < len; i++) {
+        g_autofree char *w = g_strdup_printf("%s: dopants[%u]", where, i);
+        JsonObject *d = bm_json_element_object(a, i, keys, w, error);
+        if (!d)
+            return FALSE;
+        bm_material_dopant *md = &in->mat.dopants[i];
+        JsonNode *sp = json_object_get_member(d, "species");
+        JsonNode *kn = json_object_get_member(d, "kind");
+        const char *species = is_string(sp) ? json_node_get_string(sp) : NULL;
+        const char *kind = is_string(kn) ? json_node_get_string(kn) : NULL;
+        if (!species || !*species)
+            return invalid(error, "%s: key \"species\" must be a non-empty string", w);
+        if (!kind || (strcmp(kind, "donor") && strcmp(kind, "acceptor")))
+            return invalid(error, "%s: key \"kind\" must be \"donor\" or \"acceptor\"", w);
+        md->element = keep(in, species);
+        md->kind = strcmp(kind, "donor") ? BM_DOPANT_ACCEPTOR : BM_DOPANT_DONOR;
+        md->degeneracy = 0.0;
+        if (!bm_json_number(d, "ionization_ev", w, &md->ionisation_ev, error)
+            || !bm_json_number_opt(d, "degeneracy", w, &md->degeneracy, error)
+            || !source_of(in, d, w, in->origin, &md->source, error))
+            return FALSE;
     }
-    memcpy(m->luttinger, g, sizeof m->luttinger);
+    in->mat.ndopants = len;
     return TRUE;
+}
+
+static gboolean read_field(BmMaterialInput *in, JsonObject *o, const Field *f,
+                           const char *where, GError **error)
+{
+    switch (f->type) {
+    case F_STRING: {
+        const char *s = NULL;
+        if (!string_member(o, f->key, where, &s, error))
+            return FALSE;
+        *FIELD(&in->mat, f, const char *) = keep(in, s);
+        return TRUE;
+    }
+    case F_BOOL: {
+        JsonNode *n = json_object_get_member(o, f->key);
+        if (!n || !JSON_NODE_HOLDS_VALUE(n) || json_node_get_value_type(n) != G_TYPE_BOOLEAN)
+            return invalid(error, "%s: key \"%s\" must be true or false", where, f->key);
+        *FIELD(&in->mat, f, int) = json_node_get_boolean(n) ? 1 : 0;
+        return TRUE;
+    }
+    case F_GAP:       return read_gap(in, o, f, where, error);
+    case F_VALLEY:    return read_valley(in, o, f, where, error);
+    case F_DOS:       return read_dos(in, o, f, where, error);
+    case F_SOURCED:
+        return read_sourced(in, o, f->key, where, TRUE, FIELD(&in->mat, f, bm_sourced), error);
+    case F_LUTTINGER: return read_luttinger(in, o, f, where, error);
+    case F_DOPANTS:   return read_dopants(in, o, f, where, error);
+    }
+    return FALSE;
 }
 
 static gboolean read_object(BmMaterialInput *in, JsonObject *o, const char *where,
                             GError **error)
 {
-    static const char *const vkeys[] = { "eg0_ev", "alpha_ev_per_k", "beta_k", NULL };
-    static const char *const bkeys[] = { "eg0_ev", "a_b_ev", "theta_k", NULL };
-    if (!bm_json_only_keys(o, material_keys, where, error))
+    const char *allowed[G_N_ELEMENTS(fields) + 4];
+    size_t k = 0;
+    for (size_t i = 0; i < G_N_ELEMENTS(fields); i++)
+        allowed[k++] = fields[i].key;
+    for (size_t i = 0; bm_material_ignored_keys[i]; i++)
+        allowed[k++] = bm_material_ignored_keys[i];
+    allowed[k] = NULL;
+    if (!check_renamed(o, where, error) || !bm_json_only_keys(o, allowed, where, error))
         return FALSE;
     bm_material *m = &in->mat;
+    memset(m, 0, sizeof *m);
     m->name = "custom";
-    if (json_object_has_member(o, "name")) {
-        JsonNode *n = json_object_get_member(o, "name");
-        if (!JSON_NODE_HOLDS_VALUE(n) || json_node_get_value_type(n) != G_TYPE_STRING) {
-            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                        "%s: key \"name\" must be a string", where);
+    m->direct_gap = -1;
+    bm_sourced *none[] = { &m->heavy_hole_mass, &m->light_hole_mass, &m->split_off_mass,
+                           &m->split_off_ev };
+    for (size_t i = 0; i < G_N_ELEMENTS(none); i++)
+        *none[i] = (bm_sourced){ NAN, NULL };
+    m->luttinger[0] = m->luttinger[1] = m->luttinger[2] = NAN;
+    for (size_t i = 0; i < G_N_ELEMENTS(fields); i++)
+        if (json_object_has_member(o, fields[i].key)
+            && !read_field(in, o, &fields[i], where, error))
             return FALSE;
-        }
-        m->name = keep(in, json_node_get_string(n));
-    }
-    m->long_name = m->name;
-    m->m_dos_electron = m->m_dos_hole = NAN;
-    m->m_dos_electron_source = m->m_dos_hole_source = m->gap_source = in->origin;
-    if (json_object_has_member(o, "electron_dos_mass_me")) {
-        if (!bm_json_positive(o, "electron_dos_mass_me", where, &m->m_dos_electron, error))
-            return FALSE;
-        in->has_electron_mass = TRUE;
-    }
-    if (json_object_has_member(o, "hole_dos_mass_me")) {
-        if (!bm_json_positive(o, "hole_dos_mass_me", where, &m->m_dos_hole, error))
-            return FALSE;
-        in->has_hole_mass = TRUE;
-    }
-    if (json_object_has_member(o, "band_gap_ev")) {
-        if (!bm_json_number(o, "band_gap_ev", where, &in->fixed_gap_ev, error))
-            return FALSE;
-        in->has_fixed_gap = TRUE;
-    }
-    if (json_object_has_member(o, "varshni")) {
-        g_autofree char *w = g_strdup_printf("%s: varshni", where);
-        JsonObject *v = sub_object(o, "varshni", where, error);
-        if (!v || !bm_json_only_keys(v, vkeys, w, error)
-            || !bm_json_number(v, "eg0_ev", w, &m->gap.eg0_ev, error)
-            || !bm_json_number(v, "alpha_ev_per_k", w, &m->gap.alpha_ev_per_k, error)
-            || !bm_json_number(v, "beta_k", w, &m->gap.beta_k, error))
-            return FALSE;
-        in->has_varshni = TRUE;
-    }
-    if (json_object_has_member(o, "bose_einstein")) {
-        g_autofree char *w = g_strdup_printf("%s: bose_einstein", where);
-        JsonObject *v = sub_object(o, "bose_einstein", where, error);
-        if (!v || !bm_json_only_keys(v, bkeys, w, error)
-            || !bm_json_number(v, "eg0_ev", w, &in->bose_einstein.eg0_ev, error)
-            || !bm_json_number(v, "a_b_ev", w, &in->bose_einstein.a_b_ev, error)
-            || !bm_json_number(v, "theta_k", w, &in->bose_einstein.theta_k, error))
-            return FALSE;
-        in->has_bose_einstein = TRUE;
-    }
-    if (in->has_fixed_gap && (in->has_varshni || in->has_bose_einstein)) {
-        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "%s: give either \"band_gap_ev\" (a fixed gap) or \"varshni\" / "
-                    "\"bose_einstein\" parameters, not both", where);
-        return FALSE;
-    }
-    if (json_object_has_member(o, "dopants") && !read_dopants(in, o, where, error))
-        return FALSE;
-    if (json_object_has_member(o, "point_group")
-        && !string_member(o, "point_group", where, &m->point_group, error))
-        return FALSE;
-    if (m->point_group)
-        m->point_group = keep(in, m->point_group);
-    if (json_object_has_member(o, "conduction_valley") && !read_valley(in, o, where, error))
-        return FALSE;
-    return read_holes(in, o, where, error);
+    return TRUE;
 }
+
+/* ---- writer ---- */
+
+static void set_sourced(JsonObject *o, const char *key, double v, const char *source)
+{
+    if (!isfinite(v) && !source)
+        return;
+    JsonObject *s = json_object_new();
+    bm_json_set_number(s, "value", v);
+    if (source)
+        json_object_set_string_member(s, "source", source);
+    json_object_set_object_member(o, key, s);
+}
+
+static JsonObject *gap_json(const bm_gap_model *g)
+{
+    JsonObject *p = json_object_new();
+    bm_json_set_number(p, "eg0_ev", g->eg0_ev);
+    if (g->kind == BM_GAP_VARSHNI) {
+        bm_json_set_number(p, "alpha_ev_per_k", g->alpha_ev_per_k);
+        bm_json_set_number(p, "beta_k", g->beta_k);
+    } else {
+        bm_json_set_number(p, "a_b_ev", g->a_b_ev);
+        bm_json_set_number(p, "theta_k", g->theta_k);
+    }
+    if (g->source)
+        json_object_set_string_member(p, "source", g->source);
+    return p;
+}
+
+static JsonObject *valley_json(const bm_valley_info *e)
+{
+    JsonObject *v = json_object_new();
+    json_object_set_string_member(v, "label", e->label);
+    json_object_set_string_member(v, "position", bm_valley_site_name(e->site));
+    /* written Cartesian (the reader's convention); the tabulated direction
+     * and its basis are among the "derived" values of the materials operation */
+    double cart[3];
+    if (bm_valley_info_direction(e, cart, NULL) == BM_OK
+        && (e->site != BM_SITE_GAMMA || cart[0] != 0.0 || cart[1] != 0.0 || cart[2] != 0.0))
+        bm_json_set_vec3(v, "direction", cart);
+    bm_json_set_number(v, "longitudinal_mass_me", e->m_longitudinal);
+    bm_json_set_number(v, "transverse_mass_me", e->m_transverse);
+    bm_json_set_number(v, "transverse2_mass_me", e->m_transverse2);
+    if (e->source)
+        json_object_set_string_member(v, "source", e->source);
+    return v;
+}
+
+static JsonObject *dos_json(const bm_dos_mass_model *m)
+{
+    JsonObject *d = json_object_new();
+    if (m->kind == BM_DOS_MASS_FIXED) {
+        bm_json_set_number(d, "value", m->value);
+    } else if (m->kind == BM_DOS_MASS_FIT) {
+        bm_json_set_numbers(d, "fit_numerator", m->fit_numerator, BM_DOS_FIT_NUMERATOR);
+        bm_json_set_numbers(d, "fit_denominator", m->fit_denominator, BM_DOS_FIT_DENOMINATOR);
+    } else {
+        JsonArray *a = json_array_new();
+        for (size_t i = 0; i < m->n; i++) {
+            JsonObject *p = json_object_new();
+            bm_json_set_number(p, "temperature_k", m->t_k[i]);
+            bm_json_set_number(p, "mass_me", m->mass[i]);
+            json_array_add_object_element(a, p);
+        }
+        json_object_set_array_member(d, "points", a);
+    }
+    if (m->source)
+        json_object_set_string_member(d, "source", m->source);
+    return d;
+}
+
+static void write_field(JsonObject *o, const bm_material *m, const Field *f)
+{
+    switch (f->type) {
+    case F_STRING: {
+        const char *s = *CFIELD(m, f, const char *);
+        if (s)
+            json_object_set_string_member(o, f->key, s);
+        return;
+    }
+    case F_BOOL: {
+        int b = *CFIELD(m, f, int);
+        if (b >= 0)
+            json_object_set_boolean_member(o, f->key, b);
+        return;
+    }
+    case F_GAP: {
+        const bm_gap_model *g = CFIELD(m, f, bm_gap_model);
+        if (g->kind != f->gap_kind)
+            return;
+        if (g->kind == BM_GAP_FIXED)
+            set_sourced(o, f->key, g->eg0_ev, g->source);
+        else
+            json_object_set_object_member(o, f->key, gap_json(g));
+        return;
+    }
+    case F_VALLEY: {
+        const bm_valley_info *e = CFIELD(m, f, bm_valley_info);
+        if (e->label)
+            json_object_set_object_member(o, f->key, valley_json(e));
+        return;
+    }
+    case F_DOS: {
+        const bm_dos_mass_model *d = CFIELD(m, f, bm_dos_mass_model);
+        if (d->kind != BM_DOS_MASS_NONE)
+            json_object_set_object_member(o, f->key, dos_json(d));
+        return;
+    }
+    case F_SOURCED: {
+        const bm_sourced *s = CFIELD(m, f, bm_sourced);
+        set_sourced(o, f->key, s->value, s->source);
+        return;
+    }
+    case F_LUTTINGER: {
+        const double *g = CFIELD(m, f, double);
+        if (!isfinite(g[0]) && !m->luttinger_source)
+            return;
+        JsonObject *l = json_object_new();
+        if (isfinite(g[0]) && isfinite(g[1]) && isfinite(g[2]))
+            bm_json_set_vec3(l, "value", g);
+        else
+            json_object_set_null_member(l, "value");
+        if (m->luttinger_source)
+            json_object_set_string_member(l, "source", m->luttinger_source);
+        json_object_set_object_member(o, f->key, l);
+        return;
+    }
+    case F_DOPANTS: {
+        JsonArray *d = json_array_new();
+        for (size_t i = 0; i < m->ndopants && i < BM_MATERIAL_MAX_DOPANTS; i++) {
+            const bm_material_dopant *md = &m->dopants[i];
+            JsonObject *e = json_object_new();
+            json_object_set_string_member(e, "species", md->element);
+            json_object_set_string_member(e, "kind", md->kind == BM_DOPANT_DONOR ? "donor"
+                                                                                 : "acceptor");
+            bm_json_set_number(e, "ionization_ev", md->ionisation_ev);
+            if (md->degeneracy > 0.0)
+                bm_json_set_number(e, "degeneracy", md->degeneracy);
+            if (md->source)
+                json_object_set_string_member(e, "source", md->source);
+            json_array_add_object_element(d, e);
+        }
+        json_object_set_array_member(o, f->key, d);
+        return;
+    }
+    }
+}
+
+JsonObject *bm_material_to_json(const bm_material *m)
+{
+    JsonObject *o = json_object_new();
+    for (size_t i = 0; i < G_N_ELEMENTS(fields); i++)
+        write_field(o, m, &fields[i]);
+    return o;
+}
+
+/* ---- request value ---- */
 
 static gboolean looks_like_path(const char *s)
 {
@@ -275,20 +616,15 @@ static gboolean read_input(JsonObject *request, const char *key, BmMaterialInput
         g_autofree char *where = g_strdup_printf("request: key \"%s\"", key);
         return read_object(out, json_node_get_object(n), where, error);
     }
-    if (!n || !JSON_NODE_HOLDS_VALUE(n) || json_node_get_value_type(n) != G_TYPE_STRING) {
-        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "request: key \"%s\" must be a material name, a file name or an object",
-                    key);
-        return FALSE;
-    }
+    if (!is_string(n))
+        return invalid(error, "request: key \"%s\" must be a material name, a file name or "
+                       "an object", key);
     const char *name = json_node_get_string(n);
     bm_errbuf err = {0};
     const bm_material *m = bm_material_find(name, &err);
     if (m) {
         out->mat = *m;
         out->builtin = TRUE;
-        out->has_varshni = out->has_electron_mass = out->has_hole_mass = TRUE;
-        out->has_valley = m->electron.label != NULL;
         out->origin = g_strdup("built-in table");
         return TRUE;
     }
@@ -305,11 +641,8 @@ static gboolean read_input(JsonObject *request, const char *key, BmMaterialInput
         return FALSE;
     }
     JsonNode *root = json_parser_get_root(parser);
-    if (!root || !JSON_NODE_HOLDS_OBJECT(root)) {
-        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "material file %s: the top level must be an object", name);
-        return FALSE;
-    }
+    if (!root || !JSON_NODE_HOLDS_OBJECT(root))
+        return invalid(error, "material file %s: the top level must be an object", name);
     out->origin = g_strdup_printf("material file %s", name);
     g_autofree char *where = g_strdup_printf("material file %s", name);
     return read_object(out, json_node_get_object(root), where, error);
@@ -328,57 +661,4 @@ void bm_material_input_clear(BmMaterialInput *in)
 {
     g_clear_pointer(&in->strings, g_ptr_array_unref);
     g_clear_pointer(&in->origin, g_free);
-}
-
-BmGapModel bm_material_input_default_gap(const BmMaterialInput *in)
-{
-    if (in->has_varshni)
-        return BM_GAP_VARSHNI;
-    if (in->has_bose_einstein)
-        return BM_GAP_BOSE_EINSTEIN;
-    return BM_GAP_FIXED;
-}
-
-const char *bm_gap_model_name(BmGapModel model)
-{
-    return model == BM_GAP_VARSHNI ? "varshni"
-         : model == BM_GAP_BOSE_EINSTEIN ? "bose-einstein" : "fixed";
-}
-
-const char *bm_material_input_gap_source(const BmMaterialInput *in, BmGapModel model)
-{
-    if (in->builtin && model == BM_GAP_VARSHNI)
-        return in->mat.gap_source;
-    return in->origin;
-}
-
-gboolean bm_material_input_gap(const BmMaterialInput *in, BmGapModel model, double t_k,
-                               const char *where, double *eg_ev, bm_warnings *w,
-                               GError **error)
-{
-    bm_errbuf err = {0};
-    bm_status st = BM_OK;
-    gboolean have = model == BM_GAP_VARSHNI ? in->has_varshni
-                  : model == BM_GAP_BOSE_EINSTEIN ? in->has_bose_einstein
-                  : in->has_fixed_gap;
-    if (!have) {
-        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "material \"%s\" has no %s band-gap parameters%s", in->mat.name,
-                    bm_gap_model_name(model),
-                    in->builtin ? " in the built-in table (give the material as an object)"
-                    : model == BM_GAP_FIXED ? " (needs \"band_gap_ev\", \"varshni\" or "
-                      "\"bose_einstein\")" : "");
-        return FALSE;
-    }
-    if (model == BM_GAP_VARSHNI)
-        st = bm_bandgap_varshni(&in->mat.gap, t_k, eg_ev, w, &err);
-    else if (model == BM_GAP_BOSE_EINSTEIN)
-        st = bm_bandgap_bose_einstein(&in->bose_einstein, t_k, eg_ev, w, &err);
-    else
-        *eg_ev = in->fixed_gap_ev;
-    if (st != BM_OK) {
-        bm_error_from_core(error, &err, where);
-        return FALSE;
-    }
-    return TRUE;
 }

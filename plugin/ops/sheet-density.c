@@ -104,7 +104,7 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
         bm_json_set_number(o, "sheet_density_cm2", per[i]);
         json_array_add_object_element(out, o);
         if (sub[i].mass < 0.01 || sub[i].mass > 10.0)
-            bm_json_warn(resp, "subband %u: mass %g m_e is outside 0.01..10 m_e", i,
+            bm_json_warn(resp, BM_WARN_MASS_OUT_OF_RANGE, "subband %u: mass %g m_e is outside 0.01..10 m_e", i,
                          sub[i].mass);
     }
     json_object_set_array_member(resp, "subbands", out);

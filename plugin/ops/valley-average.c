@@ -318,18 +318,33 @@ typedef struct {
     gboolean has_mat;
     Carrier carrier;             /* one kind for all valleys */
     bm_warnings pw;              /* parsing warnings */
-    GPtrArray *carried;          /* warnings of extrema given as valleys */
+    bm_warnings carried;         /* warnings of extrema given as valleys */
 } ValleySet;
 
 static void valley_set_clear(ValleySet *s)
 {
-    if (s->star)
+    bm_warnings_clear(&s->pw);
+    if (s->star) {
+        bm_warnings_clear(&s->star->warnings);
         g_free(s->star);
+    }
     else
         g_free(s->valleys);
     if (s->has_mat)
         bm_material_input_clear(&s->mat);
-    g_clear_pointer(&s->carried, g_ptr_array_unref);
+    bm_warnings_clear(&s->carried);
+}
+
+/* The code of element i of an extremum's "warning_codes", when it names one. */
+static bm_warn_code carried_code(JsonArray *codes, guint i)
+{
+    JsonNode *n = codes && i < json_array_get_length(codes)
+                ? json_array_get_element(codes, i) : NULL;
+    if (n && JSON_NODE_HOLDS_VALUE(n) && json_node_get_value_type(n) == G_TYPE_STRING)
+        for (int c = 0; c < BM_WARN_COUNT; c++)
+            if (!strcmp(json_node_get_string(n), bm_warn_code_name((bm_warn_code)c)))
+                return (bm_warn_code)c;
+    return BM_WARN_EXTREMUM_WARNINGS;
 }
 
 /* Records p's carriers (all valleys must agree) and, for an extremum, the
@@ -349,14 +364,14 @@ static gboolean adopt(ValleySet *s, const ParsedValley *p, JsonObject *v, const 
     if (!is_extremum(v) || !wn || !JSON_NODE_HOLDS_ARRAY(wn))
         return TRUE;
     JsonArray *wa = json_node_get_array(wn);
+    JsonNode *cn = json_object_get_member(v, "warning_codes");
+    JsonArray *ca = cn && JSON_NODE_HOLDS_ARRAY(cn) ? json_node_get_array(cn) : NULL;
     for (guint i = 0; i < json_array_get_length(wa); i++) {
         JsonNode *e = json_array_get_element(wa, i);
         if (!JSON_NODE_HOLDS_VALUE(e) || json_node_get_value_type(e) != G_TYPE_STRING)
             continue;
-        if (!s->carried)
-            s->carried = g_ptr_array_new_with_free_func(g_free);
-        g_ptr_array_add(s->carried, g_strdup_printf("%s (from mass-tensor): %s", where,
-                                                    json_node_get_string(e)));
+        bm_warn(&s->carried, carried_code(ca, i), "%s (from mass-tensor): %s", where,
+                json_node_get_string(e));
     }
     return TRUE;
 }
@@ -455,11 +470,11 @@ static gboolean from_material(JsonObject *request, ValleySet *s, GError **error)
         return FALSE;
     s->has_mat = TRUE;
     const bm_material *m = &s->mat.mat;
-    if (!s->mat.has_valley || !m->point_group) {
+    if (!m->electron.label || !m->point_group) {
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
                     "material \"%s\" (%s) has no %s: give \"conduction_valley\" and "
                     "\"point_group\"", m->name, s->mat.origin,
-                    s->mat.has_valley ? "point_group" : "conduction-valley description");
+                    m->electron.label ? "point_group" : "conduction-valley description");
         return FALSE;
     }
     g_autofree char *where = g_strdup_printf("material \"%s\": conduction valley", m->name);
@@ -601,8 +616,7 @@ static JsonObject *respond(const ValleySet *s, const bm_population *pop, gboolea
                                       "valley, averaged with the hole masses |m|");
     json_object_set_array_member(resp, "valleys", valleys_json(s));
     bm_json_warn_all(resp, &s->pw);
-    for (guint i = 0; s->carried && i < s->carried->len; i++)
-        bm_json_warn(resp, "%s", (const char *)g_ptr_array_index(s->carried, i));
+    bm_json_warn_all(resp, &s->carried);
     if (s->star)
         bm_json_warn_all(resp, &s->star->warnings);
     bm_json_warn_all(resp, &avg->warnings);
@@ -633,6 +647,16 @@ static gboolean read_valleys(JsonObject *request, ValleySet *s, GError **error)
     return from_list(request, s, error);
 }
 
+/* Without a temperature every valley is populated alike, which needs equal
+ * energy offsets: said here in the request's terms. */
+static gboolean offsets_differ(const ValleySet *s)
+{
+    for (size_t i = 1; i < s->n; i++)
+        if (s->valleys[i].energy_offset_ev != s->valleys[0].energy_offset_ev)
+            return TRUE;
+    return FALSE;
+}
+
 static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
 {
     (void)inputs;
@@ -643,16 +667,18 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     JsonObject *resp = NULL;
     if (!read_valleys(request, &s, error) || !read_population(request, &pop, &has_t, error))
         goto done;
+    if (!has_t && offsets_differ(&s)) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request: the valleys' energy_offset_ev differ: give \"temperature_k\"");
+        goto done;
+    }
     bm_valley_average avg;
     if (bm_valley_average_compute(s.valleys, s.n, &pop, &avg, &err) != BM_OK) {
-        if (err.status == BM_EINVAL && !has_t && strstr(err.message, "offsets"))
-            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                        "request: the valleys' energy_offset_ev differ: give \"temperature_k\"");
-        else
-            bm_error_from_core(error, &err, "valley-average");
+        bm_error_from_core(error, &err, "valley-average");
         goto done;
     }
     resp = respond(&s, &pop, has_t, &avg);
+    bm_warnings_clear(&avg.warnings);
 done:
     valley_set_clear(&s);
     return resp;

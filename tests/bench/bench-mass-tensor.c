@@ -37,7 +37,8 @@ int main(int argc, char **argv)
     g_autofree char *warm = bm_registry_call_json("constants", "{}", NULL, FALSE, NULL);
     if (!warm)
         return 1;
-    BmCallInputs inputs = { &grid->grid, (const char *const *)grid->band_names };
+    BmInput given = { "grid", BM_INPUT_BAND_GRID, grid };
+    BmCallInputs inputs = { 1, &given };
     GString *out = g_string_new(NULL);
     g_string_append_printf(out, "{\"load_s\": %.6f, \"bands\": [", t_load);
     double total = 0.0;

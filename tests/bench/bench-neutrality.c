@@ -24,7 +24,7 @@ static double run_map(int check, long *flagged, double *checksum, int *maxit)
     /* Silicon-like: Varshni gap (Thurmond 1975), DOS masses 1.08 / 1.04,
      * phosphorus donor 45 meV swept 1e10..1e21 cm^-3, boron acceptor 45 meV
      * at 1e14 cm^-3; temperatures 1..1500 K log-spaced. */
-    bm_varshni si = { 1.170, 4.73e-4, 636.0 };
+    bm_gap_model si = { .kind = BM_GAP_VARSHNI, .eg0_ev = 1.170, .alpha_ev_per_k = 4.73e-4, .beta_k = 636.0 };
     bm_dopant donor = { 0.0, 0.045, 2.0 }, acceptor = { 1e14, 0.045, 4.0 };
     bm_semiconductor s = { 0 };
     s.m_dos_electron = 1.08;
@@ -42,7 +42,7 @@ static double run_map(int check, long *flagged, double *checksum, int *maxit)
     double t0 = now();
     for (int i = 0; i < NT; i++) {
         double t = exp(log(1.0) + (log(1500.0) - log(1.0)) * i / (NT - 1));
-        bm_bandgap_varshni(&si, t, &s.band_gap_ev, NULL, &err);
+        bm_gap_at(&si, t, &s.band_gap_ev, NULL, &err);
         for (int j = 0; j < ND; j++) {
             donor.density_cm3 = exp(log(1e10) + (log(1e21) - log(1e10)) * j / (ND - 1));
             if (bm_carriers_solve(&s, t, &st, &err) != BM_OK) {

@@ -66,38 +66,40 @@ static void test_varshni_and_bose_einstein(void)
     double eg;
     bm_errbuf err;
     /* Si: 1.170, 4.73e-4, 636 -> 1.1245 eV at 300 K (Thurmond 1975; from memory) */
-    bm_varshni si = { 1.170, 4.73e-4, 636.0 };
-    g_assert_cmpint(bm_bandgap_varshni(&si, 300.0, &eg, NULL, &err), ==, BM_OK);
+    bm_gap_model si = { .kind = BM_GAP_VARSHNI, .eg0_ev = 1.170, .alpha_ev_per_k = 4.73e-4, .beta_k = 636.0 };
+    g_assert_cmpint(bm_gap_at(&si, 300.0, &eg, NULL, &err), ==, BM_OK);
     g_assert_cmpfloat(fabs(eg - 1.1245), <, 5e-5);
     /* GaAs: 1.519, 5.405e-4, 204 -> 1.4225 eV (Vurgaftman et al. 2001; from memory) */
-    bm_varshni gaas = { 1.519, 5.405e-4, 204.0 };
-    g_assert_cmpint(bm_bandgap_varshni(&gaas, 300.0, &eg, NULL, &err), ==, BM_OK);
+    bm_gap_model gaas = { .kind = BM_GAP_VARSHNI, .eg0_ev = 1.519, .alpha_ev_per_k = 5.405e-4, .beta_k = 204.0 };
+    g_assert_cmpint(bm_gap_at(&gaas, 300.0, &eg, NULL, &err), ==, BM_OK);
     g_assert_cmpfloat(fabs(eg - 1.4225), <, 5e-5);
-    g_assert_cmpint(bm_bandgap_varshni(&gaas, 0.0, &eg, NULL, &err), ==, BM_OK);
+    g_assert_cmpint(bm_gap_at(&gaas, 0.0, &eg, NULL, &err), ==, BM_OK);
     g_assert_cmpfloat(eg, ==, 1.519);
     /* Bose-Einstein form: Eg0 at 0 K; for T >> Theta, 1/(e^x - 1) = 1/x - 1/2 + x/12
      * (Bernoulli series), so Eg -> Eg0 - 2 a_B (T/Theta - 1/2 + Theta/(12 T)). */
-    bm_bose_einstein_gap be = { 1.52, 0.057, 240.0 };
-    g_assert_cmpint(bm_bandgap_bose_einstein(&be, 0.0, &eg, NULL, &err), ==, BM_OK);
+    bm_gap_model be = { .kind = BM_GAP_BOSE_EINSTEIN, .eg0_ev = 1.52, .a_b_ev = 0.057, .theta_k = 240.0 };
+    g_assert_cmpint(bm_gap_at(&be, 0.0, &eg, NULL, &err), ==, BM_OK);
     g_assert_cmpfloat(eg, ==, 1.52);
-    g_assert_cmpint(bm_bandgap_bose_einstein(&be, 1.0, &eg, NULL, &err), ==, BM_OK);
+    g_assert_cmpint(bm_gap_at(&be, 1.0, &eg, NULL, &err), ==, BM_OK);
     g_assert_cmpfloat(eg, ==, 1.52);
     double t = 24000.0, x = 240.0 / t;
-    g_assert_cmpint(bm_bandgap_bose_einstein(&be, t, &eg, NULL, &err), ==, BM_OK);
+    g_assert_cmpint(bm_gap_at(&be, t, &eg, NULL, &err), ==, BM_OK);
     g_assert_cmpfloat(fabs(eg - (1.52 - 2 * 0.057 * (1 / x - 0.5 + x / 12))), <, 1e-9);
     /* a gap that goes negative is returned with a warning */
     bm_warnings w = { 0 };
-    g_assert_cmpint(bm_bandgap_varshni(&gaas, 5000.0, &eg, &w, &err), ==, BM_OK);
+    g_assert_cmpint(bm_gap_at(&gaas, 5000.0, &eg, &w, &err), ==, BM_OK);
     g_assert_cmpfloat(eg, <, 0.0);
     g_assert_cmpint(w.count, ==, 1);
+    g_assert_cmpint(w.items[0].code, ==, BM_WARN_GAP_NOT_POSITIVE);
+    bm_warnings_clear(&w);
     /* bad input names the value */
-    g_assert_cmpint(bm_bandgap_varshni(&si, -1.0, &eg, NULL, &err), ==, BM_EINVAL);
+    g_assert_cmpint(bm_gap_at(&si, -1.0, &eg, NULL, &err), ==, BM_EINVAL);
     g_assert_nonnull(strstr(err.message, "temperature -1 K"));
-    bm_varshni bad = { 1.1, 4e-4, 0.0 };
-    g_assert_cmpint(bm_bandgap_varshni(&bad, 300.0, &eg, NULL, &err), ==, BM_EINVAL);
+    bm_gap_model bad = { .kind = BM_GAP_VARSHNI, .eg0_ev = 1.1, .alpha_ev_per_k = 4e-4, .beta_k = 0.0 };
+    g_assert_cmpint(bm_gap_at(&bad, 300.0, &eg, NULL, &err), ==, BM_EINVAL);
     g_assert_nonnull(strstr(err.message, "beta = 0"));
-    bm_bose_einstein_gap badbe = { 1.5, -0.1, 200.0 };
-    g_assert_cmpint(bm_bandgap_bose_einstein(&badbe, 300.0, &eg, NULL, &err), ==, BM_EINVAL);
+    bm_gap_model badbe = { .kind = BM_GAP_BOSE_EINSTEIN, .eg0_ev = 1.5, .a_b_ev = -0.1, .theta_k = 200.0 };
+    g_assert_cmpint(bm_gap_at(&badbe, 300.0, &eg, NULL, &err), ==, BM_EINVAL);
     g_assert_nonnull(strstr(err.message, "a_B = -0.1"));
 }
 
@@ -205,6 +207,8 @@ static void test_degenerate_flag(void)
     g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, NULL), ==, BM_OK);
     g_assert_cmpint(st.boltzmann_inaccurate, ==, 1);
     g_assert_cmpint(st.warnings.count, >=, 1);
+    g_assert_true(bm_warnings_has(&st.warnings, BM_WARN_BOLTZMANN_DEVIATION));
+    bm_warnings_clear(&st.warnings);
     g_assert_cmpfloat(st.fermi_level_ev, >, 1.12);
     /* with the donors fully ionised, n = N_D in both statistics but EF moves:
      * the minority density carries the deviation */
@@ -242,44 +246,95 @@ static void test_mass_hook(void)
 
 /* Tabulated masses: linear interpolation is exact on a straight line (identity:
  * m(T) = 1 + T/1000 sampled at 100, 300, 600 K gives 1.2 at 200 K and 1.45 at
- * 450 K), tabulated points come back unchanged, no extrapolation, and the hook
- * feeds the solver (Nc from bm_effective_dos at the interpolated mass). */
+ * 450 K), tabulated points come back unchanged, no extrapolation, and the
+ * models feed the solver (Nc from bm_effective_dos at the interpolated mass). */
 static void test_mass_table(void)
 {
     const double t[3] = { 100.0, 300.0, 600.0 };
     const double me[3] = { 1.1, 1.3, 1.6 };
     const double mh[3] = { 0.5, 0.9, 0.9 };
-    bm_dos_mass_table tab = { 3, t, me, mh };
+    bm_dos_mass_model te = { .kind = BM_DOS_MASS_TABLE, .n = 3, .t_k = t, .mass = me };
+    bm_dos_mass_model th = { .kind = BM_DOS_MASS_TABLE, .n = 3, .t_k = t, .mass = mh };
     double a, b;
-    g_assert_cmpint(bm_dos_mass_table_eval(&tab, 200.0, &a, &b, NULL), ==, BM_OK);
+    g_assert_cmpint(bm_dos_mass_at(&te, 200.0, "e", &a, NULL), ==, BM_OK);
+    g_assert_cmpint(bm_dos_mass_at(&th, 200.0, "h", &b, NULL), ==, BM_OK);
     g_assert_cmpfloat(fabs(a - 1.2), <, 1e-14);
     g_assert_cmpfloat(fabs(b - 0.7), <, 1e-14);
-    g_assert_cmpint(bm_dos_mass_table_eval(&tab, 450.0, &a, &b, NULL), ==, BM_OK);
+    g_assert_cmpint(bm_dos_mass_at(&te, 450.0, "e", &a, NULL), ==, BM_OK);
+    g_assert_cmpint(bm_dos_mass_at(&th, 450.0, "h", &b, NULL), ==, BM_OK);
     g_assert_cmpfloat(fabs(a - 1.45), <, 1e-14);
     g_assert_cmpfloat(b, ==, 0.9);
-    g_assert_cmpint(bm_dos_mass_table_eval(&tab, 600.0, &a, &b, NULL), ==, BM_OK);
+    g_assert_cmpint(bm_dos_mass_at(&te, 600.0, "e", &a, NULL), ==, BM_OK);
     g_assert_cmpfloat(a, ==, 1.6);
     bm_errbuf err;
-    g_assert_cmpint(bm_dos_mass_table_eval(&tab, 700.0, &a, &b, &err), ==, BM_EINVAL);
+    g_assert_cmpint(bm_dos_mass_at(&te, 700.0, "electron DOS mass", &a, &err), ==, BM_EINVAL);
     g_assert_nonnull(strstr(err.message, "100..600 K"));
     const double bad_t[3] = { 100.0, 100.0, 600.0 };
-    bm_dos_mass_table bad = { 3, bad_t, me, mh };
-    g_assert_cmpint(bm_dos_mass_table_check(&bad, &err), ==, BM_EINVAL);
+    bm_dos_mass_model bad = { .kind = BM_DOS_MASS_TABLE, .n = 3, .t_k = bad_t, .mass = me };
+    g_assert_cmpint(bm_dos_mass_check(&bad, "e", &err), ==, BM_EINVAL);
     g_assert_nonnull(strstr(err.message, "entry 1"));
     const double bad_m[3] = { 1.1, 0.0, 1.6 };
-    bm_dos_mass_table bad2 = { 3, t, bad_m, mh };
-    g_assert_cmpint(bm_dos_mass_table_check(&bad2, &err), ==, BM_EINVAL);
-    g_assert_nonnull(strstr(err.message, "entry 1 electron"));
+    bm_dos_mass_model bad2 = { .kind = BM_DOS_MASS_TABLE, .n = 3, .t_k = t, .mass = bad_m };
+    g_assert_cmpint(bm_dos_mass_check(&bad2, "electron DOS mass", &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "electron DOS mass: entry 1 mass"));
 
     bm_semiconductor s = silicon();
-    s.dos_mass_hook = bm_dos_mass_table_hook;
-    s.hook_data = &tab;
+    s.electron_dos_mass = &te;
+    s.hole_dos_mass = &th;
     bm_carrier_state st;
     g_assert_cmpint(bm_carriers_solve(&s, 200.0, &st, NULL), ==, BM_OK);
-    double nc;
+    double nc, nv;
     bm_effective_dos(1.2, 200.0, &nc, NULL);
+    bm_effective_dos(0.7, 200.0, &nv, NULL);
     g_assert_cmpfloat(rel(st.nc_cm3, nc), <, 1e-12);
+    g_assert_cmpfloat(rel(st.nv_cm3, nv), <, 1e-12);
     g_assert_cmpint(bm_carriers_solve(&s, 50.0, &st, &err), ==, BM_EINVAL);
+}
+
+/* Fixed and fitted masses, and the gap model evaluated by the solver: a fit
+ * with only a0 is the constant a0^(2/3) (identity); the solver's gap is the
+ * model's gap at the solve temperature. */
+static void test_mass_models_and_gap(void)
+{
+    bm_dos_mass_model fixed = { .kind = BM_DOS_MASS_FIXED, .value = 0.81 };
+    bm_dos_mass_model fit = { .kind = BM_DOS_MASS_FIT, .fit_numerator = { 0.729 } };
+    double m;
+    g_assert_cmpint(bm_dos_mass_at(&fixed, 10.0, "m", &m, NULL), ==, BM_OK);
+    g_assert_cmpfloat(m, ==, 0.81);
+    g_assert_cmpint(bm_dos_mass_at(&fit, 123.0, "m", &m, NULL), ==, BM_OK);
+    g_assert_cmpfloat(fabs(m - 0.81), <, 1e-14);   /* 0.729^(2/3) = 0.81 */
+    bm_dos_mass_model none = { 0 };
+    bm_errbuf err;
+    g_assert_cmpint(bm_dos_mass_at(&none, 300.0, "hole DOS mass", &m, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "hole DOS mass: none given"));
+    bm_dos_mass_model badfit = { .kind = BM_DOS_MASS_FIT, .fit_numerator = { -1.0 } };
+    g_assert_cmpint(bm_dos_mass_check(&badfit, "m", &err), ==, BM_EINVAL);
+
+    bm_gap_model g = { .kind = BM_GAP_VARSHNI, .eg0_ev = 1.170, .alpha_ev_per_k = 4.73e-4,
+                       .beta_k = 636.0 };
+    bm_semiconductor s = silicon();
+    s.gap = &g;
+    s.band_gap_ev = NAN;   /* ignored when a model is given */
+    bm_carrier_state st;
+    g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, NULL), ==, BM_OK);
+    double eg;
+    g_assert_cmpint(bm_gap_at(&g, 300.0, &eg, NULL, NULL), ==, BM_OK);
+    g_assert_cmpfloat(st.band_gap_ev, ==, eg);
+    bm_gap_model fixed_gap = { .kind = BM_GAP_FIXED, .eg0_ev = 0.85 };
+    g_assert_cmpint(bm_gap_at(&fixed_gap, 500.0, &eg, NULL, NULL), ==, BM_OK);
+    g_assert_cmpfloat(eg, ==, 0.85);
+    bm_gap_model no_gap = { 0 };
+    g_assert_cmpint(bm_gap_at(&no_gap, 300.0, &eg, NULL, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "no gap model"));
+    /* a gap that goes negative warns once, from the gap model */
+    bm_gap_model neg = { .kind = BM_GAP_FIXED, .eg0_ev = -0.1 };
+    s.gap = &neg;
+    g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, NULL), ==, BM_OK);
+    int gap_warnings = 0;
+    for (size_t k = 0; k < st.warnings.count; k++)
+        gap_warnings += st.warnings.items[k].code == BM_WARN_GAP_NOT_POSITIVE;
+    g_assert_cmpint(gap_warnings, ==, 1);
+    bm_warnings_clear(&st.warnings);
 }
 
 /* Charge balance of a state: the equation being solved (identity). */
@@ -321,6 +376,7 @@ static void test_robustness_sweep(void)
                 /* balance to 1e-9 of the larger side: rounding of the sums of
                  * nearly equal charges sets the floor under heavy compensation */
                 g_assert_cmpfloat(imbalance(&st), <, 1e-9);
+                bm_warnings_clear(&st.warnings);
                 count++;
             }
         }
@@ -450,6 +506,7 @@ int main(int argc, char **argv)
     g_test_add_func("/carriers/effective-dos", test_effective_dos);
     g_test_add_func("/carriers/intrinsic-silicon", test_intrinsic_silicon);
     g_test_add_func("/carriers/band-gap", test_varshni_and_bose_einstein);
+    g_test_add_func("/carriers/mass-models-and-gap", test_mass_models_and_gap);
     g_test_add_func("/carriers/worked-example-n-silicon", test_worked_example_n_silicon);
     g_test_add_func("/carriers/fermi-level-at-band-edge", test_fermi_level_at_band_edge);
     g_test_add_func("/carriers/freeze-out-limits", test_freeze_out_limits);

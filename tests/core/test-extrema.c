@@ -87,8 +87,8 @@ static void cubic(double a, double r[3][3])
 
 static int has_warning(const bm_mass_tensor *t, const char *word)
 {
-    for (int w = 0; w < t->warnings.count; w++)
-        if (strstr(t->warnings.text[w], word))
+    for (size_t w = 0; w < t->warnings.count; w++)
+        if (strstr(t->warnings.items[w].text, word))
             return 1;
     return 0;
 }
@@ -155,13 +155,13 @@ static void test_tight_binding(void)
     g_assert_cmpfloat(bm_norm3(res[0].k), <, 1e-8);
     g_assert_cmpint(res[0].divergent, ==, 0);
     g_assert_cmpint(res[0].warnings.count, ==, 0);
-    free(res);
+    bm_mass_tensors_free(res, n);
     g_assert_cmpint(bm_grid_mass_tensors(&g, 0, BM_SEARCH_MAXIMUM, NULL, NULL, &res, &n, &err), ==, BM_OK);
     g_assert_cmpint(res[0].kind, ==, BM_EXTREMUM_MAXIMUM);
     for (int m = 0; m < 3; m++)
         g_assert_cmpfloat_with_epsilon(res[0].masses[m], -mstar, 1e-6 * mstar);
     g_assert_cmpfloat_with_epsilon(res[0].energy_ev, 6 * tt, 1e-9);
-    free(res);
+    bm_mass_tensors_free(res, n);
     free(e);
 }
 
@@ -186,7 +186,7 @@ static void test_accuracy_12(void)
         g_assert_cmpfloat_with_epsilon(res[0].masses[m], expect[m], 1e-3 * expect[m]);
     check_position(&res[0], b.f0, recip, 1e-4);
     g_assert_cmpfloat_with_epsilon(res[0].energy_ev, 0.3, 1e-6);
-    free(res);
+    bm_mass_tensors_free(res, n);
     free(e);
 }
 
@@ -214,11 +214,11 @@ static void round_trip(double recip[3][3], size_t n, double sign, const double f
     for (int m = 0; m < 3; m++)
         g_assert_cmpfloat(sign * res[0].masses[m], >, 0.0);
     /* a clean smooth extremum raises no warning */
-    for (int w = 0; w < res[0].warnings.count; w++)
-        g_printerr("unexpected warning: %s\n", res[0].warnings.text[w]);
+    for (size_t w = 0; w < res[0].warnings.count; w++)
+        g_printerr("unexpected warning: %s\n", res[0].warnings.items[w].text);
     g_assert_cmpint(res[0].warnings.count, ==, 0);
     g_assert_cmpint(res[0].divergent, ==, 0);
-    free(res);
+    bm_mass_tensors_free(res, nr);
     free(e);
 }
 
@@ -276,6 +276,7 @@ static void test_saddle(void)
     g_assert_cmpuint(n, ==, 1);
     g_assert_cmpint(res[0].kind, ==, BM_EXTREMUM_SADDLE);
     g_assert_true(has_warning(&res[0], "saddle"));
+    g_assert_true(bm_warnings_has(&res[0].warnings, BM_WARN_SADDLE_POINT));
     double hk[3][3];
     cos_band_hk(&b, recip, 3, hk);
     check_tensor(&res[0], hk, 1e-6);
@@ -283,7 +284,7 @@ static void test_saddle(void)
     for (int m = 0; m < 3; m++)
         neg += res[0].masses[m] < 0;
     g_assert_cmpint(neg, ==, 1);
-    free(res);
+    bm_mass_tensors_free(res, n);
     free(e);
 }
 
@@ -309,7 +310,7 @@ static void test_sheet(void)
     cos_band_hk(&b, recip, 2, hk);
     check_tensor(&res[0], hk, 1e-3);
     check_position(&res[0], b.f0, recip, 1e-4);
-    free(res);
+    bm_mass_tensors_free(res, n);
     free(e);
 }
 
@@ -336,7 +337,7 @@ static void test_all(void)
     }
     g_assert_cmpint(nmin, ==, 8);
     g_assert_cmpfloat(res[0].energy_ev, <=, res[n - 1].energy_ev);
-    free(res);
+    bm_mass_tensors_free(res, n);
     free(e);
 }
 
@@ -371,7 +372,7 @@ static void test_free_electron(void)
     g_assert_cmpint(bm_grid_mass_tensors(&g, 0, BM_SEARCH_MINIMUM, NULL, NULL, &res, &nr, NULL), ==, BM_OK);
     for (int m = 0; m < 3; m++)
         g_assert_cmpfloat_with_epsilon(res[0].masses[m], 1.0, 1e-5);
-    free(res);
+    bm_mass_tensors_free(res, nr);
     free(e);
 }
 
@@ -399,10 +400,12 @@ static void test_cone(void)
     g_assert_cmpint(bm_grid_mass_tensors(&g, 0, BM_SEARCH_MINIMUM, NULL, NULL, &res, &nr, NULL), ==, BM_OK);
     g_assert_cmpint(res[0].divergent, ==, 1);
     g_assert_true(has_warning(&res[0], "conical"));
+    g_assert_true(bm_warnings_has(&res[0].warnings, BM_WARN_CONICAL_POINT));
     g_assert_true(isnan(res[0].masses[0]));
     /* the touching band below meets it at the apex: degeneracy warning too */
     g_assert_true(has_warning(&res[0], "degenerate"));
-    free(res);
+    g_assert_true(bm_warnings_has(&res[0].warnings, BM_WARN_DEGENERATE_BAND));
+    bm_mass_tensors_free(res, nr);
     free(e);
 }
 
@@ -421,7 +424,8 @@ static void test_flat(void)
     for (int m = 0; m < 3; m++)
         g_assert_true(isinf(res[0].masses[m]));
     g_assert_true(has_warning(&res[0], "flat"));
-    free(res);
+    g_assert_true(bm_warnings_has(&res[0].warnings, BM_WARN_FLAT_DIRECTION));
+    bm_mass_tensors_free(res, n);
     free(e);
 }
 
@@ -442,12 +446,13 @@ static void test_degenerate(void)
     size_t n;
     g_assert_cmpint(bm_grid_mass_tensors(&g, 0, BM_SEARCH_MINIMUM, NULL, NULL, &res, &n, NULL), ==, BM_OK);
     g_assert_true(has_warning(&res[0], "band 1 lies 0.5 meV"));
+    g_assert_true(bm_warnings_has(&res[0].warnings, BM_WARN_DEGENERATE_BAND));
     g_assert_true(has_warning(&res[0], "ill-defined"));
-    free(res);
+    bm_mass_tensors_free(res, n);
     bm_fit_options opt = { .degeneracy_tol_ev = 1e-4 };
     g_assert_cmpint(bm_grid_mass_tensors(&g, 0, BM_SEARCH_MINIMUM, NULL, &opt, &res, &n, NULL), ==, BM_OK);
     g_assert_false(has_warning(&res[0], "degenerate"));
-    free(res);
+    bm_mass_tensors_free(res, n);
     free(e);
 }
 
@@ -467,7 +472,8 @@ static void test_heavy(void)
     double heavy = BM_HBAR2_OVER_ME_EV_A2 / (0.02 * 16.0);
     g_assert_cmpfloat_with_epsilon(res[0].masses[2], heavy, 1e-6 * heavy);
     g_assert_true(has_warning(&res[0], "outside the usual range"));
-    free(res);
+    g_assert_true(bm_warnings_has(&res[0].warnings, BM_WARN_MASS_OUT_OF_RANGE));
+    bm_mass_tensors_free(res, n);
     free(e);
 }
 
@@ -491,7 +497,8 @@ static void test_table_nonparabolic(void)
     g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_MINIMUM, NULL, NULL, &res, &n, NULL), ==, BM_OK);
     g_assert_cmpfloat(res[0].fit_rms_ev, >, 0.0);
     g_assert_true(has_warning(&res[0], "non-parabolic"));
-    free(res);
+    g_assert_true(bm_warnings_has(&res[0].warnings, BM_WARN_NON_PARABOLIC));
+    bm_mass_tensors_free(res, n);
 }
 
 /* Points of an anisotropic parabola E = E0 + (k-k0)^T H (k-k0) / 2 on a
@@ -529,7 +536,7 @@ static void test_table_parabola(void)
     g_assert_cmpfloat_with_epsilon(res[0].energy_ev, 1.1, 1e-12);
     g_assert_cmpint(res[0].warnings.count, ==, 0);
     g_assert_true(isnan(res[0].k_frac[0]));
-    free(res);
+    bm_mass_tensors_free(res, n);
     free(k);
     free(e);
 }
@@ -555,7 +562,7 @@ static void test_table_line(void)
     g_assert_cmpfloat_with_epsilon(res[0].masses[0], -BM_HBAR2_OVER_ME_EV_A2 / c, 1e-9);
     g_assert_true(isnan(res[0].masses[1]) && isnan(res[0].masses[2]));
     g_assert_cmpfloat_with_epsilon(fabs(res[0].axes[0][0]), 1.0 / sqrt(2.0), 1e-9);
-    free(res);
+    bm_mass_tensors_free(res, n);
 }
 
 /* A planar set (kz = 0.2 fixed): dims 2. Cone in a table: E = v |k|. */
@@ -580,12 +587,13 @@ static void test_table_plane_and_cone(void)
     g_assert_cmpfloat_with_epsilon(res[0].masses[0], BM_HBAR2_OVER_ME_EV_A2 / 4.0, 1e-9);
     g_assert_cmpfloat_with_epsilon(res[0].masses[1], BM_HBAR2_OVER_ME_EV_A2 / 2.0, 1e-9);
     g_assert_false(res[0].divergent);
-    free(res);
+    bm_mass_tensors_free(res, n);
     t.energies = ec;
     g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_MINIMUM, NULL, NULL, &res, &n, NULL), ==, BM_OK);
     g_assert_cmpint(res[0].divergent, ==, 1);
     g_assert_true(has_warning(&res[0], "conical"));
-    free(res);
+    g_assert_true(bm_warnings_has(&res[0].warnings, BM_WARN_CONICAL_POINT));
+    bm_mass_tensors_free(res, n);
 }
 
 /* ------------------------------------------------------------- bad input */

@@ -58,6 +58,8 @@ static void test_hole_bad_input(void)
     bm_hole_bands w = {0.16, 0.49, 0.0, 0.0, 300.0};
     g_assert_cmpint(bm_hole_dos_mass(&w, &d, &err), ==, BM_OK);
     g_assert_cmpint(d.warnings.count, ==, 1);
+    g_assert_cmpint(d.warnings.items[0].code, ==, BM_WARN_MASS_ORDER);
+    bm_warnings_clear(&d.warnings);
 }
 
 /* GaAs: gamma1 = 6.98, gamma2 = 2.06, gamma3 = 2.93 (Vurgaftman, Meyer &
@@ -186,14 +188,17 @@ static void test_luttinger_nonconvex(void)
     for (int d = 0; d < 3; d++)
         g_assert_false(isnan(m.heavy[d]) || isnan(m.light[d]));
     gboolean open = FALSE;
-    for (int i = 0; i < m.warnings.count; i++)
-        open |= strstr(m.warnings.text[i], "open") != NULL;
+    for (size_t i = 0; i < m.warnings.count; i++)
+        open |= strstr(m.warnings.items[i].text, "open") != NULL;
     g_assert_true(open);
+    g_assert_true(bm_warnings_has(&m.warnings, BM_WARN_OPEN_SURFACE));
+    bm_warnings_clear(&m.warnings);
     /* flat along [111] exactly: infinite directional mass, not NaN */
     bm_luttinger F = {4.0, 1.0, 2.0};
     g_assert_cmpint(bm_luttinger_masses_compute(&F, &m, &err), ==, BM_OK);
     g_assert_true(isinf(m.heavy[2]));
     g_assert_cmpint(m.heavy_convex, ==, 0);
+    bm_warnings_clear(&m.warnings);
 
     bm_luttinger bad = {0.0, 1.0, 1.0};
     g_assert_cmpint(bm_luttinger_masses_compute(&bad, &m, &err), ==, BM_EINVAL);
@@ -202,6 +207,33 @@ static void test_luttinger_nonconvex(void)
     g_assert_cmpint(bm_luttinger_masses_compute(&nan, &m, &err), ==, BM_EINVAL);
     const double zero[3] = {0, 0, 0};
     g_assert_cmpint(bm_luttinger_direction(&GAAS, zero, NULL, NULL, NULL, &err), ==, BM_EINVAL);
+}
+
+/* The band-edge k.p hole DOS mass is the warped heavy + light combination
+ * (identity with bm_luttinger_masses_compute), plus m_so^1.5 exp(-Delta/kT)
+ * for a split-off band (METHODS); an open heavy-hole surface has none. */
+static void test_band_edge_mass(void)
+{
+    bm_luttinger L = {6.98, 2.06, 2.93};
+    bm_luttinger_masses m;
+    g_assert_cmpint(bm_luttinger_masses_compute(&L, &m, NULL), ==, BM_OK);
+    double v;
+    g_assert_cmpint(bm_band_edge_hole_dos_mass(&L, 0.0, 0.0, 0.0, &v, NULL, NULL), ==, BM_OK);
+    g_assert_cmpfloat(fabs(v / m.combined_dos_mass - 1.0), <, 1e-12);
+    double x = exp(-0.1 / (8.617333262e-5 * 100.0));   /* k_B CODATA 2018, eV/K */
+    double want = pow(pow(v, 1.5) + pow(0.172, 1.5) * x, 2.0 / 3.0);
+    double w;
+    g_assert_cmpint(bm_band_edge_hole_dos_mass(&L, 0.172, 0.1, 100.0, &w, NULL, NULL), ==, BM_OK);
+    g_assert_cmpfloat(fabs(w / want - 1.0), <, 1e-6);
+    bm_errbuf err;
+    g_assert_cmpint(bm_band_edge_hole_dos_mass(&L, 0.172, 0.1, 0.0, &w, NULL, &err), ==,
+                    BM_EINVAL);
+    bm_luttinger open = {3, 1, 2};
+    bm_warnings warn = {0};
+    g_assert_cmpint(bm_band_edge_hole_dos_mass(&open, 0.0, 0.0, 0.0, &w, &warn, &err), ==,
+                    BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "open"));
+    g_assert_cmpint(warn.count, >, 0);
 }
 
 int main(int argc, char **argv)
@@ -214,5 +246,6 @@ int main(int argc, char **argv)
     g_test_add_func("/core/holes/luttinger-spherical", test_luttinger_spherical);
     g_test_add_func("/core/holes/luttinger-scipy", test_luttinger_scipy);
     g_test_add_func("/core/holes/luttinger-nonconvex", test_luttinger_nonconvex);
+    g_test_add_func("/core/holes/band-edge-mass", test_band_edge_mass);
     return g_test_run();
 }

@@ -140,7 +140,9 @@ static void test_gamma(void)
     star_of("Oh", 0.4, 0.1, ax, BM_SITE_GAMMA, &star);
     g_assert_cmpuint(star.n, ==, 1);
     g_assert_cmpint(star.warnings.count, ==, 1);
-    g_assert_nonnull(strstr(star.warnings.text[0], "symmetrised"));
+    g_assert_nonnull(strstr(star.warnings.items[0].text, "symmetrised"));
+    g_assert_true(bm_warnings_has(&star.warnings, BM_WARN_VALLEY_SYMMETRISED));
+    bm_warnings_clear(&star.warnings);
     double m = 3.0 / (1.0 / 0.4 + 2.0 / 0.1);
     for (int i = 0; i < 3; i++)
         g_assert_cmpfloat_with_epsilon(star.valleys[0].masses[i], m, 1e-12);
@@ -276,6 +278,8 @@ static void test_strained_silicon(void)
     strained(0.1, 300.0, BM_FERMI_DIRAC, -0.1 + 0.1, &fd, ffd);
     g_assert_cmpfloat(ffd[0], >, frac[0]);
     g_assert_cmpint(fd.warnings.count, >=, 1);
+    g_assert_true(bm_warnings_has(&fd.warnings, BM_WARN_DEGENERATE_STATISTICS));
+    bm_warnings_clear(&fd.warnings);
 }
 
 static void test_bad_input(void)
@@ -296,6 +300,8 @@ static void test_bad_input(void)
     bm_valley_shape g = {{0.2, 0.3, 0.4}, {{1, 1e-5, 0}, {0, 1, 0}, {0, 0, 1}}};
     g_assert_cmpint(bm_valley_shape_normalise(&g, &w, &err), ==, BM_OK);
     g_assert_cmpint(w.count, ==, 1);
+    g_assert_cmpint(w.items[0].code, ==, BM_WARN_AXES_REORTHONORMALISED);
+    bm_warnings_clear(&w);
     g_assert_cmpfloat_with_epsilon(g.axes[1][0] * g.axes[0][0] + g.axes[1][1] * g.axes[0][1],
                                    0.0, 1e-15);
     /* large error: rejected */
@@ -348,7 +354,9 @@ static void test_warnings(void)
     g_assert_cmpuint(star.n, ==, 2);
     g_assert_cmpint(bm_valley_average_compute(star.valleys, star.n, NULL, &avg, NULL), ==, BM_OK);
     g_assert_cmpint(avg.warnings.count, ==, 1);
-    g_assert_nonnull(strstr(avg.warnings.text[0], "25"));
+    g_assert_nonnull(strstr(avg.warnings.items[0].text, "25"));
+    g_assert_cmpint(avg.warnings.items[0].code, ==, BM_WARN_MASS_OUT_OF_RANGE);
+    bm_warnings_clear(&avg.warnings);
 }
 
 int main(int argc, char **argv)

@@ -100,6 +100,31 @@ static void test_call_equals_cli(void)
     api->free_string(response);
 }
 
+/* Large and awkward doubles come back as valid JSON, each the very double
+ * sent: fermi-integral repeats eta, and F_0(eta) = ln(1 + e^eta) is eta
+ * itself in doubles for eta >= 1e17 (mathematical identity; e^-eta
+ * underflows). */
+static void test_numbers_are_valid_json(void)
+{
+    const bandmass_plugin_api *api = get_api(BANDMASS_PLUGIN_ABI_MAJOR);
+    char *response = NULL;
+    const char *request = "{\"order\": 0, \"eta\": [1e17, 5e19, 1e300, -0.0, 0.1]}";
+    g_assert_cmpint(api->call("fermi-integral", request, &response, NULL), ==,
+                    BANDMASS_PLUGIN_OK);
+    g_assert_nonnull(strstr(response, "\"eta\":[1e17,5e19,1e300,-0.0,0.1]"));
+    g_assert_nonnull(strstr(response, "\"values\":[1e17,5e19,1e300,"));
+    g_autoptr(GError) error = NULL;
+    g_autoptr(JsonNode) root = json_from_string(response, &error);
+    g_assert_no_error(error);
+    JsonArray *eta = json_object_get_array_member(json_node_get_object(root), "eta");
+    static const double sent[] = { 1e17, 5e19, 1e300, -0.0, 0.1 };
+    for (guint i = 0; i < G_N_ELEMENTS(sent); i++) {
+        double got = json_array_get_double_element(eta, i);
+        g_assert_true(memcmp(&got, &sent[i], sizeof got) == 0);
+    }
+    api->free_string(response);
+}
+
 static void expect_failure(const char *op, const char *request, int want, const char *fragment)
 {
     const bandmass_plugin_api *api = get_api(BANDMASS_PLUGIN_ABI_MAJOR);
@@ -214,6 +239,7 @@ int main(int argc, char **argv)
         g_error("dlsym: %s", dlerror());
     g_test_add_func("/abi/table-matches-ops", test_table);
     g_test_add_func("/abi/call-equals-cli", test_call_equals_cli);
+    g_test_add_func("/abi/numbers-are-valid-json", test_numbers_are_valid_json);
     g_test_add_func("/abi/errors-carry-status-and-message", test_errors);
     g_test_add_func("/abi/threads", test_threads);
     int status = g_test_run();

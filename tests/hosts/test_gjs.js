@@ -29,4 +29,21 @@ check(caught.message.includes('request key "colour"'), 'the message names the ke
 
 const ops = Bandmass.list_operations();
 check(ops.some(o => o.get_name() === 'constants'), 'the operation list has constants');
-print(`gjs: ${ops.length} operation(s), constants answer as the CLI`);
+// a band grid from a Float64Array, handed over as one block of bytes (the
+// grid's shape and the size check; the numbers are the operation's business)
+const energies = new Float64Array(2 * 3 * 4);
+energies.forEach((_, i) => { energies[i] = i * 0.25; });
+const bytes = new GLib.Bytes(new Uint8Array(energies.buffer));
+const bands = Bandmass.Bands.new_from_bytes(bytes, 2, [3, 4, 1],
+                                            [1, 0, 0, 0, 1, 0, 0, 0, 1]);
+check(bands.get_nbands() === 2, 'two bands from bytes');
+check(JSON.stringify(bands.get_mesh()) === '[3,4,1]', 'the mesh');
+let sizeError = null;
+try {
+    Bandmass.Bands.new_from_bytes(bytes, 3, [3, 4, 1], [1, 0, 0, 0, 1, 0, 0, 0, 1]);
+} catch (e) {
+    sizeError = e;
+}
+check(sizeError !== null && sizeError.message.includes('24 energies given'),
+      'a size mismatch is named');
+print(`gjs: ${ops.length} operation(s), constants answer as the CLI, grids from bytes`);

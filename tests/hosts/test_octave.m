@@ -106,6 +106,47 @@ check(strcmp(sent, '{"mesh":[4,4,2],"axes":[[1,0,0],[0,1,0]],"name":"cb","on":tr
       ['encode: ' sent]);
 same(jsondecode(sent), bandmass('--decode', sent), 'encode/decode round trip');
 
+% --- numbers are sent exactly: the request object is built from the Octave
+% value (no JSON text in between) and the one writer spells what was sent
+sent = bandmass('--encode', struct('a', 1e17, 'b', 2e17, 'c', 1e20, 'd', 1e300, 'e', -0, ...
+                                   'f', int64(2)^53 + 1, 'g', intmax('int64'), ...
+                                   'h', uint64(2)^53 + 1, 'i', 0.1, 'j', 5e-324, 'k', single(0.5), ...
+                                   'l', intmin('int64'), 'm', 300));
+check(strcmp(sent, ['{"a":1e17,"b":2e17,"c":1e20,"d":1e300,"e":-0.0,"f":9007199254740993,' ...
+                    '"g":9223372036854775807,"h":9007199254740993,"i":0.1,"j":5e-324,"k":0.5,' ...
+                    '"l":-9223372036854775808,"m":300}']), ['exact encode: ' sent]);
+% what the operation received: fermi-integral repeats eta, and for order 0
+% F_0(eta) = ln(1 + e^eta) = eta + ln(1 + e^-eta), which is eta itself in
+% doubles once e^-eta underflows (mathematical identity)
+eta = [1e17 2e17 1e20 1e300 -0];
+fi = bandmass('fermi-integral', struct('order', 0, 'eta', eta));
+check(isequal(fi.eta, eta), 'fermi-integral received the doubles exactly');
+check(1 / fi.eta(5) == -Inf, 'fermi-integral received -0.0 as -0.0');
+check(isequal(fi.values(1:4), eta(1:4)), 'F_0(eta) = eta for eta >= 1e17 (identity)');
+% the integer classes above 2^53 arrive exact: the band index is repeated
+% in the registry's message
+grid = fullfile(getenv('BANDMASS_TEST_DIR'), '..', 'data', 'grid-small.json');
+expect_error('bandmass:invalidInput', 'band index 9007199254740993 is out of range', ...
+             'mass-tensor', struct('grid', grid, 'band', int64(2)^53 + 1));
+expect_error('bandmass:invalidInput', 'band index 9223372036854775807 is out of range', ...
+             'mass-tensor', struct('grid', grid, 'band', intmax('int64')));
+expect_error('bandmass:invalidInput', 'band index 9007199254740993 is out of range', ...
+             'mass-tensor', struct('grid', grid, 'band', uint64(2)^53 + 1));
+expect_error('bandmass:invalidInput', ...
+             'request.band: the uint64 value 18446744073709551615 cannot be sent', ...
+             'mass-tensor', struct('grid', grid, 'band', intmax('uint64')));
+% values of other classes are refused, naming the field path
+expect_error('bandmass:invalidInput', 'request.f: a function_handle value: this class cannot be sent', ...
+             'constants', struct('f', @sin));
+expect_error('bandmass:invalidInput', 'request.z{2}: a double value: complex numbers cannot be sent', ...
+             'constants', struct('z', {{1, 1 + 2i}}));
+expect_error('bandmass:invalidInput', 'request.s: a double value: sparse matrices cannot be sent', ...
+             'constants', struct('s', sparse(eye(2))));
+expect_error('bandmass:invalidInput', 'request.c: a char value: a char array must be one row', ...
+             'constants', struct('c', ['ab'; 'cd']));
+expect_error('bandmass:invalidInput', 'request.t(2).x: NaN and Inf cannot be sent', ...
+             'constants', struct('t', struct('x', {1, Inf})));
+
 % --- errors carry an identifier and the registry's message
 expect_error('bandmass:invalidInput', 'request key "colour" is not a parameter of constants', ...
              'constants', struct('colour', 1));
@@ -171,6 +212,24 @@ if has('carrier-statistics')
   same(one, cli('call carrier-statistics', '{"material": "Si", "temperature_k": 300}'), ...
        'carrier-statistics at 300 K');
   check(one.ni_cm3 > 0 && one.ni_cm3 < one.nc_cm3, 'ni below Nc');
+  % a donor density of 1e17 and above (written 1e+17.0 by json-glib, which is
+  % not JSON): the response repeats the density exactly as sent
+  req = struct('material', 'GaAs', 'temperature_k', 300, ...
+               'donors', {{struct('species', 'Si', 'density_cm3', 1e17)}});
+  got = bandmass('carrier-statistics', req);
+  check(got.donors(1).density_cm3 == 1e17, 'density 1e17 received exactly');
+  same(got, cli('call carrier-statistics', jsonencode(req)), 'carrier-statistics at 1e17');
+  % a doping sweep over logspace(14, 20, 13), each point as the CLI answers
+  densities = logspace(14, 20, 13);
+  for d = densities
+    req = struct('material', 'GaAs', 'temperature_k', 300, ...
+                 'donors', {{struct('species', 'Si', 'density_cm3', d)}});
+    got = bandmass('carrier-statistics', req);
+    check(got.donors(1).density_cm3 == d, sprintf('density %.17g received exactly', d));
+    same(got, cli('call carrier-statistics', sprintf(['{"material": "GaAs", "temperature_k": 300, ' ...
+         '"donors": [{"species": "Si", "density_cm3": %.17g}]}'], d)), ...
+         sprintf('carrier-statistics at %g cm^-3', d));
+  end
   printf('carrier-statistics: checked against the CLI\n');
 else
   printf('carrier-statistics: not in the registry yet, not checked\n');

@@ -195,6 +195,56 @@ static void test_grid_divergent(void)
     g_assert_cmpuint(json_array_get_length(json_object_get_array_member(r, "warnings")), >, 0);
 }
 
+/* Twelve identical bands: the minimum of one lies on eleven others, eleven
+ * degenerate-band warnings (more than any fixed table held); every one
+ * arrives, with its code, the two arrays aligned. Counting only, no physics. */
+static void test_many_warnings(void)
+{
+    enum { NB = 12 };
+    size_t shape[4] = { NB, 8, 8, 8 };
+    size_t per = 8 * 8 * 8;
+    g_autofree double *e = g_new(double, NB * per);
+    for (size_t q = 0; q < per; q++) {
+        double x[3] = { 2 * G_PI * (double)(q / 64) / 8.0, 2 * G_PI * (double)(q / 8 % 8) / 8.0,
+                        2 * G_PI * (double)(q % 8) / 8.0 };
+        double v = 1.5;
+        for (int d = 0; d < 3; d++)
+            v += cb_c[d] * (1.0 - cos(x[d]));
+        for (size_t b = 0; b < NB; b++)
+            e[b * per + q] = v;
+    }
+    write_npy("many.npy", e, shape);
+    g_autofree char *text = g_strdup_printf(
+        "{\"format\": \"bandmass-grid-1\", \"lattice_vectors_angstrom\": "
+        "[[%g, 0, 0], [0, %g, 0], [0, 0, %g]], \"mesh\": [8, 8, 8], "
+        "\"energies_ev\": \"many.npy\"}", LAT_A, LAT_A, LAT_A);
+    write_text("many.json", text);
+    g_autofree char *doc = tmp_path("many.json");
+    g_autoptr(JsonObject) r = call("{\"grid\": \"%s\", \"band\": 0, "
+                                   "\"extremum\": \"minimum\"}", doc);
+    JsonObject *m = json_array_get_object_element(json_object_get_array_member(r, "extrema"), 0);
+    JsonObject *levels[] = { r, m };
+    for (size_t l = 0; l < G_N_ELEMENTS(levels); l++) {
+        JsonArray *w = json_object_get_array_member(levels[l], "warnings");
+        JsonArray *c = json_object_get_array_member(levels[l], "warning_codes");
+        g_assert_nonnull(w);
+        g_assert_nonnull(c);
+        g_assert_cmpuint(json_array_get_length(w), ==, json_array_get_length(c));
+    }
+    JsonArray *w = json_object_get_array_member(m, "warnings");
+    JsonArray *c = json_object_get_array_member(m, "warning_codes");
+    guint degenerate = 0;
+    for (guint i = 0; i < json_array_get_length(c); i++)
+        if (strcmp(json_array_get_string_element(c, i), "degenerate-band") == 0) {
+            degenerate++;
+            g_assert_nonnull(strstr(json_array_get_string_element(w, i), "degenerate"));
+        }
+    g_assert_cmpuint(degenerate, ==, NB - 1);
+    JsonArray *top = json_object_get_array_member(r, "warning_codes");
+    g_assert_cmpuint(json_array_get_length(top), ==, 1);
+    g_assert_cmpstr(json_array_get_string_element(top, 0), ==, "extremum-warnings");
+}
+
 /* A 2D sheet (n3 = 1): the normal is not sampled, its mass is null. */
 static void test_grid_sheet(void)
 {
@@ -320,6 +370,7 @@ int main(int argc, char **argv)
     g_test_add_func("/mass-tensor/grid/round-trip", test_grid_roundtrip);
     g_test_add_func("/mass-tensor/grid/divergent", test_grid_divergent);
     g_test_add_func("/mass-tensor/grid/sheet", test_grid_sheet);
+    g_test_add_func("/mass-tensor/grid/many-warnings", test_many_warnings);
     g_test_add_func("/mass-tensor/table/parabolic-valley", test_table);
     g_test_add_func("/mass-tensor/render", test_render);
     g_test_add_func("/mass-tensor/bad-input", test_bad);

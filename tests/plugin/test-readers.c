@@ -5,7 +5,7 @@
 #include <glib.h>
 #include <glib/gstdio.h>
 
-#include "bm-error.h"
+#include "bm-error-private.h"
 #include "npy.h"
 #include "band-grid.h"
 #include "ktable.h"

@@ -1,6 +1,7 @@
 /* test-registry.c: request validation, defaults and the JSON string path of
  * the operation registry, and the constants the project derives from GSL. */
 #include <math.h>
+#include <string.h>
 #include "registry.h"
 #include "bm-json.h"
 
@@ -41,6 +42,49 @@ static const BmField echo_response[] = {
 
 static const BmOperation echo_op = { "echo", "test", echo_params, echo_run, NULL,
                                      echo_response };
+
+/* A reader of its own, defined here and nowhere in the registry: an
+ * in-memory list of numbers standing in for the "values" key. */
+#define TEST_INPUT_NUMBERS "test numbers"
+typedef struct { gsize n; const double *v; } TestNumbers;
+
+static JsonObject *sum_run(JsonObject *request, const BmCallInputs *inputs, GError **error)
+{
+    (void)request;
+    GError *local = NULL;
+    const TestNumbers *given = bm_call_inputs_lookup(inputs, "values", TEST_INPUT_NUMBERS, &local);
+    if (local) {
+        g_propagate_error(error, local);
+        return NULL;
+    }
+    g_autofree double *parsed = NULL;
+    TestNumbers numbers = { 0, NULL };
+    if (!given) {
+        parsed = bm_json_numbers(request, "values", NULL, &numbers.n, error);
+        if (!parsed)
+            return NULL;
+        numbers.v = parsed;
+        given = &numbers;
+    }
+    double sum = 0.0;
+    for (gsize i = 0; i < given->n; i++)
+        sum += given->v[i];
+    JsonObject *r = json_object_new();
+    bm_json_set_number(r, "sum", sum);
+    return r;
+}
+
+static const BmParam sum_params[] = {
+    { "values", BM_VALUE_NUMBER | BM_VALUE_ARRAY, FALSE, NULL, "numbers to add", .unit = NULL },
+    BM_PARAM_END
+};
+
+static const BmField sum_response[] = {
+    { "sum", NULL, FALSE, "the sum" },
+    BM_FIELD_END
+};
+static const BmOperation sum_op = { .name = "sum", .summary = "test", .params = sum_params,
+                                    .response = sum_response, .run = sum_run };
 
 static JsonObject *parse_object(const char *text)
 {
@@ -163,6 +207,57 @@ static void test_constants(void)
     g_assert_cmpfloat_with_epsilon(constant(all, "cyclotron_mass_per_dade"), 1.212755, 1.212755 * 2e-5);
 }
 
+static void test_in_memory_inputs(void)
+{
+    static const double v[] = { 1.5, 2.5, 4.0 };
+    TestNumbers numbers = { G_N_ELEMENTS(v), v };
+    BmInput in = { "values", TEST_INPUT_NUMBERS, &numbers };
+    BmCallInputs inputs = { 1, &in };
+    g_autoptr(GError) error = NULL;
+
+    /* the in-memory input stands in for the key */
+    g_autoptr(JsonObject) empty = parse_object("{}");
+    g_autoptr(JsonObject) resp = bm_registry_invoke(&sum_op, empty, &inputs, &error);
+    g_assert_no_error(error);
+    g_assert_cmpfloat(json_object_get_double_member(resp, "sum"), ==, 8.0);
+
+    /* given twice: in the request and in memory */
+    g_autoptr(JsonObject) both = parse_object("{\"values\": [1]}");
+    g_assert_null(bm_registry_invoke(&sum_op, both, &inputs, &error));
+    g_assert_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT);
+    g_assert_nonnull(strstr(error->message, "\"values\" of sum is given twice"));
+    g_clear_error(&error);
+
+    /* a key the operation does not take */
+    BmInput stray = { "grid", TEST_INPUT_NUMBERS, &numbers };
+    BmCallInputs stray_inputs = { 1, &stray };
+    g_assert_null(bm_registry_invoke(&sum_op, empty, &stray_inputs, &error));
+    g_assert_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT);
+    g_assert_nonnull(strstr(error->message, "\"grid\", which is not a parameter of sum"));
+    g_clear_error(&error);
+
+    /* the wrong type tag for the key */
+    BmInput wrong = { "values", "band grid", &numbers };
+    BmCallInputs wrong_inputs = { 1, &wrong };
+    g_assert_null(bm_registry_invoke(&sum_op, empty, &wrong_inputs, &error));
+    g_assert_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT);
+    g_assert_nonnull(strstr(error->message, "is a band grid, expected a test numbers"));
+    g_clear_error(&error);
+
+    /* two inputs for one key */
+    BmInput twice[] = { in, in };
+    BmCallInputs twice_inputs = { 2, twice };
+    g_assert_null(bm_registry_invoke(&sum_op, empty, &twice_inputs, &error));
+    g_assert_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT);
+    g_assert_nonnull(strstr(error->message, "two in-memory inputs stand in for \"values\""));
+    g_clear_error(&error);
+
+    /* the string path carries them too */
+    g_autofree char *text = bm_registry_call_json("constants", "{}", &stray_inputs, FALSE, &error);
+    g_assert_null(text);
+    g_assert_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT);
+}
+
 int main(int argc, char **argv)
 {
     g_test_init(&argc, &argv, NULL);
@@ -171,6 +266,7 @@ int main(int argc, char **argv)
     g_test_add_func("/registry/validation-names-the-key", test_validation);
     g_test_add_func("/registry/string-path-errors", test_string_path);
     g_test_add_func("/registry/describe", test_describe);
+    g_test_add_func("/registry/in-memory-inputs", test_in_memory_inputs);
     g_test_add_func("/registry/constants-against-codata", test_constants);
     return g_test_run();
 }

@@ -111,13 +111,15 @@ static void test_holes(void)
     g_assert_cmpfloat_with_epsilon(json_object_get_double_member(h, "111"), 0.893, 5e-4);
     JsonObject *lh = json_object_get_object_member(l, "light_hole_mass_me");
     g_assert_cmpfloat_with_epsilon(json_object_get_double_member(lh, "100"), 0.0901, 5e-5);
-    g_assert_cmpfloat_with_epsilon(json_object_get_double_member(r, "dos_mass_me"),
+    g_assert_cmpfloat_with_epsilon(json_object_get_double_member(r,
+                                       "parabolic_hole_dos_mass_me"),
                                    pow(pow(0.49, 1.5) + pow(0.16, 1.5), 2.0 / 3.0), 1e-12);
 
     /* open heavy-hole surface: null DOS mass and a warning, never NaN */
     g_autoptr(JsonObject) o = op_call("hole-mass", "{\"luttinger_parameters\": [3, 1, 2]}");
     JsonObject *ol = json_object_get_object_member(o, "luttinger");
     g_assert_true(json_object_get_null_member(ol, "heavy_hole_dos_mass_me"));
+    g_assert_true(json_object_get_null_member(o, "band_edge_hole_dos_mass_me"));
     g_assert_cmpuint(json_array_get_length(json_object_get_array_member(o, "warnings")), >=, 1);
 }
 

@@ -1,0 +1,22 @@
+/* bm-error-private.h: the plugin's side of the error domain, not installed:
+ * core error buffers become GErrors in one place (bm_error_from_core), and a
+ * shorthand for invalid-input errors. */
+#ifndef BM_ERROR_PRIVATE_H
+#define BM_ERROR_PRIVATE_H
+
+#include "bm-error.h"
+#include "bm-status.h"
+
+G_BEGIN_DECLS
+
+/* Turns a core error buffer into a GError, prefixing context (may be NULL). */
+void bm_error_from_core(GError **error, const bm_errbuf *err, const char *context);
+
+/* Sets BM_ERROR_INVALID_INPUT with "context: message" and returns FALSE, so
+ * readers can write `return bm_error_invalid(error, path, "...", ...);`. */
+gboolean bm_error_invalid(GError **error, const char *context, const char *fmt, ...)
+    G_GNUC_PRINTF(3, 4);
+
+G_END_DECLS
+
+#endif
