@@ -429,8 +429,9 @@ static int curvature_sign(double h[3][3], double p[3][3], int dims)
 /* Errors of t from independent estimates: the local fits that held, beside
  * t's own tensor (kc: t's unwrapped Cartesian point).  A mass's error is the
  * spread (largest minus smallest) of its value along t's axis over all of
- * them; converged when every error is within the tolerance, at least two
- * estimates exist and all agree on the kind. */
+ * them, k's the largest distance between two positions; converged when every
+ * error is within the tolerance, at least two estimates exist and all agree
+ * on the kind. */
 static void assess(grid_ctx *c, const bm_bandfit *fits, int nfits, const double kc[3],
                    bm_mass_tensor *t)
 {
@@ -452,9 +453,17 @@ static void assess(grid_ctx *c, const bm_bandfit *fits, int nfits, const double 
             lo[m] = fmin(lo[m], mm);
             hi[m] = fmax(hi[m], mm);
         }
+        /* the spread of the positions: the largest distance between two of them */
         for (int i = 0; i < 3; i++)
             dk[i] = fits[f].k[i] - kc[i];
         t->k_error = fmax(t->k_error, bm_norm3(dk));
+        for (int g2 = 0; g2 < f; g2++) {
+            if (!fits[g2].ok)
+                continue;
+            for (int i = 0; i < 3; i++)
+                dk[i] = fits[f].k[i] - fits[g2].k[i];
+            t->k_error = fmax(t->k_error, bm_norm3(dk));
+        }
     }
     t->nfits = held + (t->method == BM_METHOD_INTERPOLANT);
     if (t->nfits < 2 || t->divergent) {

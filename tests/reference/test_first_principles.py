@@ -1,0 +1,87 @@
+#!/usr/bin/python3
+# test_first_principles.py: mass-tensor on the first-principles silicon corpus
+# (tests/data/first-principles: GPAW/ASE LDA bands sorted by energy, with the
+# crossings DFT codes deliver). Reference: the same DFT setup at explicit
+# k-points, finite differences at two steps (si-reference.json; a first-
+# principles calculation, not experiment).
+#
+# The rule: no confident wrong answer. Every mass is within its stated error
+# of the reference or the extremum is marked unconverged (here: within the
+# stated error in every case, converged or not), and the kind is never a
+# saddle at a band extremum.
+import json
+import math
+import os
+import subprocess
+import sys
+import unittest
+
+CLI = sys.argv[1] if len(sys.argv) > 1 else os.environ['BANDMASS_CLI']
+DATA = os.path.join(os.path.dirname(os.path.abspath(__file__)), '..', 'data', 'first-principles')
+REF = json.load(open(os.path.join(DATA, 'si-reference.json')))
+MESHES = (12, 16, 24, 32)
+
+
+def mass_tensor(n, band, extremum):
+    p = subprocess.run([CLI, 'call', 'mass-tensor'], capture_output=True, text=True,
+                       input=json.dumps({'grid': os.path.join(DATA, f'si-{n}.json'),
+                                         'band': band, 'extremum': extremum}))
+    if p.returncode != 0:
+        raise AssertionError(p.stderr)
+    return json.loads(p.stdout)
+
+
+def along_x(e):
+    """(m_l, error) along Gamma-X (x) and the transverse (m_t, error) pairs."""
+    axes = e['principal_axes']
+    ix = max(range(3), key=lambda i: abs(axes[i][0]))
+    m, err = e['principal_masses_me'], e['principal_masses_error_me']
+    trans = [(m[i], err[i]) for i in range(3) if i != ix]
+    return (m[ix], err[ix]), trans
+
+
+class ConductionMinimum(unittest.TestCase):
+    # reference: the mean of the two finite-difference steps
+    ml = sum(REF['longitudinal_mass_me']) / 2
+    mt = sum(REF['transverse_mass_me']) / 2
+    k0 = REF['conduction_minimum_k_inv_angstrom'][0]
+
+    def test_every_mesh_within_stated_error(self):
+        for n in MESHES:
+            r = mass_tensor(n, 'c1', 'minimum')
+            e = r['extrema'][0]
+            with self.subTest(mesh=n):
+                self.assertEqual(e['kind'], 'minimum')
+                self.assertEqual(e['method'], 'crossing-aware local fit')
+                self.assertEqual(e['crossing_partner_band'], 5)
+                (ml, dml), trans = along_x(e)
+                self.assertLessEqual(abs(ml - self.ml), dml, f'm_l {ml} +- {dml}')
+                for mt, dmt in trans:
+                    self.assertLessEqual(abs(mt - self.mt), dmt, f'm_t {mt} +- {dmt}')
+                # the minimum sits on Gamma-X: its image of the first zone is k0 (or -k0,
+                # or an equivalent axis), within the stated k error
+                k = sorted(abs(c) for c in e['k_inv_angstrom'])
+                self.assertLess(abs(k[2] - self.k0), max(e['k_error_inv_angstrom'], 0.01))
+                self.assertLess(k[1], 1e-6)
+                if not e['converged']:
+                    self.assertIn('not-converged', e['warning_codes'])
+
+    def test_24_mesh_within_two_percent(self):
+        # the target for a 24^3 grid alone: m_l and m_t within 2 %
+        e = mass_tensor(24, 'c1', 'minimum')['extrema'][0]
+        (ml, _), trans = along_x(e)
+        self.assertLess(abs(ml / self.ml - 1), 0.02)
+        for mt, _ in trans:
+            self.assertLess(abs(mt / self.mt - 1), 0.02)
+
+    def test_coarse_mesh_says_unconverged(self):
+        # 12^3 cannot resolve the valley: the answer must say so
+        e = mass_tensor(12, 'c1', 'minimum')['extrema'][0]
+        self.assertFalse(e['converged'])
+        self.assertIn('not-converged', e['warning_codes'])
+        (ml, dml), _ = along_x(e)
+        self.assertGreater(dml / ml, 0.1)
+
+
+if __name__ == '__main__':
+    unittest.main(argv=sys.argv[:1], verbosity=2)
