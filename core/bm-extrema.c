@@ -151,6 +151,50 @@ static void mark_conical(bm_mass_tensor *t, double ratio, double slope)
             "no finite inertial mass", ratio, slope);
 }
 
+/* At a point where other bands touch this one, a sorted band is not smooth
+ * and its Hessian means nothing (a degenerate valence top would come out as a
+ * "saddle" with positive masses): no tensor, and the kind the search found. */
+/* Removes t's warnings with that code (they spoke of a tensor now withdrawn). */
+static void drop_warnings(bm_mass_tensor *t, bm_warn_code code)
+{
+    size_t keep = 0;
+    for (size_t i = 0; i < t->warnings.count; i++) {
+        if (t->warnings.items[i].code == code) {
+            free(t->warnings.items[i].text);
+            continue;
+        }
+        t->warnings.items[keep++] = t->warnings.items[i];
+    }
+    t->warnings.count = keep;
+}
+
+static void mark_degenerate(bm_mass_tensor *t, bm_extremum_kind hint, int touching)
+{
+    static const bm_warn_code withdrawn[] = {
+        BM_WARN_SADDLE_POINT, BM_WARN_FLAT_DIRECTION, BM_WARN_CONICAL_POINT,
+        BM_WARN_MASS_OUT_OF_RANGE, BM_WARN_NOT_CONVERGED, BM_WARN_KIND_UNCERTAIN,
+        BM_WARN_NO_ERROR_ESTIMATE,
+    };
+    for (size_t i = 0; i < sizeof withdrawn / sizeof withdrawn[0]; i++)
+        drop_warnings(t, withdrawn[i]);
+    t->divergent = 0;
+    t->degenerate = 1;
+    t->kind = hint;
+    t->converged = 0;
+    t->k_error = NAN;
+    for (int m = 0; m < 3; m++) {
+        t->masses[m] = NAN;
+        t->mass_errors[m] = NAN;
+        for (int j = 0; j < 3; j++)
+            t->inv_mass[m][j] = NAN;
+    }
+    bm_warn(&t->warnings, BM_WARN_DEGENERATE_EXTREMUM, "degenerate %s: %d other band%s touch%s "
+            "this one here, so one sorted band has no mass tensor (none is given); the "
+            "directional masses of the touching bands need a k.p fit (hole-mass with Luttinger "
+            "parameters, or DFT energies along [100], [110] and [111] fitted as k-tables)",
+            kind_name(hint), touching, touching == 1 ? "" : "s", touching == 1 ? "es" : "");
+}
+
 static void nonparabolic_check(bm_mass_tensor *t, const bm_quadric *q, double span, double radius)
 {
     if (span > 0.0 && q->rms > NONPARABOLIC_REL * span)
@@ -668,7 +712,8 @@ static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
                 "point, the tensor is the local curvature there", bm_norm3(gk));
     grid_fit(c, f, kf, e, t);
     double ratio, slope;
-    if (grid_cone(c, f, e, &ratio, &slope))
+    int conical = grid_cone(c, f, e, &ratio, &slope);
+    if (conical)
         mark_conical(t, ratio, slope);
     else
         range_warnings(t);
@@ -686,12 +731,20 @@ static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
         nfits = 1;
         assess(c, fits, nfits, kf, t);
     }
+    /* a search that lands where bands touch has no single-band tensor */
+    int touching = 0;
     for (size_t b = 0; b < c->g->nbands; b++) {
-        if (b == c->band)
-            continue;
         double eb;
         grid_eval(c, b, f, &eb, NULL, NULL);
-        if (isfinite(eb) && fabs(eb - e) <= c->degen)
+        touching += b != c->band && isfinite(eb) && fabs(eb - e) <= c->degen;
+    }
+    /* a conical point is the more specific finding where two bands touch */
+    if (touching && refine && !conical)
+        mark_degenerate(t, hint, touching);
+    for (size_t b = 0; touching && b < c->g->nbands; b++) {
+        double eb;
+        grid_eval(c, b, f, &eb, NULL, NULL);
+        if (b != c->band && isfinite(eb) && fabs(eb - e) <= c->degen)
             bm_warn(&t->warnings, BM_WARN_DEGENERATE_BAND, "band %zu lies %.3g meV from band %zu at this %s (E = %.6f eV; "
                     "tolerance %.3g meV): the bands are degenerate here and the mass tensor is ill-defined",
                     b, 1e3 * fabs(eb - e), c->band, kind_name(t->kind), e, 1e3 * c->degen);
@@ -1142,6 +1195,12 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
         }
     }
     double e_self = c->t->energies[c->band * c->t->npoints + near];
+    int touching = 0;
+    for (size_t b = 0; b < c->t->nbands; b++)
+        touching += b != c->band
+                 && fabs(c->t->energies[b * c->t->npoints + near] - e_self) <= c->degen;
+    if (touching && refine && !cone && dn <= 1e-9 + 1e-6 * bm_norm3(centre))
+        mark_degenerate(t, hint, touching);
     for (size_t b = 0; b < c->t->nbands; b++) {
         if (b == c->band)
             continue;

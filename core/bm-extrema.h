@@ -53,6 +53,8 @@ typedef struct {
     int nfits;                /* independent estimates behind the errors */
     int converged;            /* 1: every error within the tolerance and the estimates agree
                                  on the kind; 0: not; -1: not assessed */
+    int degenerate;           /* other bands touch this one at the extremum: one band alone
+                                 has no mass tensor there (masses NAN, kind from the search) */
     bm_warnings warnings;
 } bm_mass_tensor;
 

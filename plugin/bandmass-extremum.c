@@ -180,6 +180,7 @@ BmExtremum *bm_extremum_new_from_core(const bm_mass_tensor *t, gboolean fraction
         case BM_MASS_FINITE:    self->masses[i] = t->masses[i]; break;
         case BM_MASS_DIVERGENT: self->masses[i] = INFINITY; break;
         case BM_MASS_UNSAMPLED: self->masses[i] = NAN; break;
+        case BM_MASS_DEGENERATE: self->masses[i] = NAN; break;
         }
         for (int j = 0; j < 3; j++) {
             self->axes[3 * i + j] = finite_or_nan(t->axes[i][j]);

@@ -78,6 +78,8 @@ const char *bm_mass_tensor_kind_text(bm_extremum_kind k)
 BmMassState bm_mass_tensor_mass_state(const bm_mass_tensor *t, int m)
 {
     double v = t->masses[m];
+    if (t->degenerate && m < t->dims)
+        return BM_MASS_DEGENERATE;
     if (isfinite(v))
         return BM_MASS_FINITE;
     if (isinf(v) || (t->divergent && m < t->dims))
@@ -86,7 +88,8 @@ BmMassState bm_mass_tensor_mass_state(const bm_mass_tensor *t, int m)
 }
 
 /* The signed masses: finite numbers, "divergent" where the curvature
- * vanishes (or the point is conical), null where the data do not sample. */
+ * vanishes (or the point is conical), "degenerate" where other bands touch
+ * this one, null where the data do not sample. */
 static JsonArray *masses_array(const bm_mass_tensor *t)
 {
     JsonArray *a = json_array_new();
@@ -95,6 +98,7 @@ static JsonArray *masses_array(const bm_mass_tensor *t)
         case BM_MASS_FINITE:    json_array_add_double_element(a, t->masses[m]); break;
         case BM_MASS_DIVERGENT: json_array_add_string_element(a, "divergent"); break;
         case BM_MASS_UNSAMPLED: json_array_add_null_element(a); break;
+        case BM_MASS_DEGENERATE: json_array_add_string_element(a, "degenerate"); break;
         }
     }
     return a;

@@ -39,7 +39,8 @@ G_DEFINE_AUTOPTR_CLEANUP_FUNC(BmMassTensorSearch, bm_mass_tensor_search_free)
 typedef enum {
     BM_MASS_FINITE,
     BM_MASS_DIVERGENT,
-    BM_MASS_UNSAMPLED
+    BM_MASS_UNSAMPLED,
+    BM_MASS_DEGENERATE          /* bands touch at the extremum: no single-band mass */
 } BmMassState;
 BmMassState bm_mass_tensor_mass_state(const bm_mass_tensor *t, int m);
 

@@ -214,10 +214,14 @@ static gboolean parse_extremum(JsonObject *v, const char *where, gboolean list_e
             p->shape.masses[i] = json_node_get_double(e);
             continue;
         }
+        const char *word = t == G_TYPE_STRING ? json_node_get_string(e) : NULL;
+        gboolean degenerate = word && !strcmp(word, "degenerate");
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
                     "%s: principal_masses_me[%u] is %s: %s", where, i,
-                    t == G_TYPE_STRING ? "\"divergent\"" : "null",
-                    t == G_TYPE_STRING
+                    degenerate ? "\"degenerate\"" : word ? "\"divergent\"" : "null",
+                    degenerate
+                    ? "bands touch at this extremum, so it has no single-band valley mass"
+                    : word
                     ? "a direction without a finite inertial mass (a conical or flat band) "
                       "has no valley average"
                     : "a direction the band data do not sample has no valley average");

@@ -83,5 +83,21 @@ class ConductionMinimum(unittest.TestCase):
         self.assertGreater(dml / ml, 0.1)
 
 
+class ValenceTop(unittest.TestCase):
+    # Without spin-orbit coupling the silicon valence top at Gamma is threefold
+    # (common practice, no source): the sorted top band has no mass tensor
+    # there, and the old answer -- "saddle" with positive masses -- was wrong.
+    def test_degenerate_not_saddle(self):
+        for n in MESHES:
+            e = mass_tensor(n, 'v4', 'maximum')['extrema'][0]
+            with self.subTest(mesh=n):
+                self.assertEqual(e['kind'], 'maximum')
+                self.assertEqual(e['principal_masses_me'], ['degenerate'] * 3)
+                self.assertFalse(e['converged'])
+                self.assertIn('degenerate-extremum', e['warning_codes'])
+                self.assertNotIn('saddle-point', e['warning_codes'])
+                self.assertLess(max(abs(c) for c in e['k_inv_angstrom']), 1e-6)
+
+
 if __name__ == '__main__':
     unittest.main(argv=sys.argv[:1], verbosity=2)
