@@ -46,6 +46,7 @@ static const char *const warn_code_names[BM_WARN_COUNT] = {
     [BM_WARN_KIND_UNCERTAIN] = "kind-uncertain",
     [BM_WARN_NO_ERROR_ESTIMATE] = "no-error-estimate",
     [BM_WARN_DEGENERATE_EXTREMUM] = "degenerate-extremum",
+    [BM_WARN_UNIT_SUSPECT] = "unit-suspect",
 };
 
 const char *bm_warn_code_name(bm_warn_code code)

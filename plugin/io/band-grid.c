@@ -27,6 +27,8 @@
 #include "bm-error-private.h"
 #include "bm-linalg.h"
 
+#include <gsl/gsl_const_mksa.h>
+
 #include <math.h>
 #include <string.h>
 #include <json-glib/json-glib.h>
@@ -41,6 +43,7 @@ void bm_band_grid_free(BmBandGrid *grid)
     g_free(grid->source);
     g_free(grid->inline_energies);
     bm_npy_array_free(grid->array);
+    bm_warnings_clear(&grid->warnings);
     g_free(grid);
 }
 
@@ -150,12 +153,12 @@ static gboolean checked_count(const char *name, size_t nbands, const size_t mesh
 }
 
 /* Inline [band][i][j][l]; checks every level's length against the mesh. */
-static gboolean read_inline(JsonArray *bands, const char *name, const size_t mesh[3],
-                            BmBandGrid *g, GError **error)
+static gboolean read_inline(JsonArray *bands, const char *name, const char *key,
+                            const size_t mesh[3], BmBandGrid *g, GError **error)
 {
     size_t nb = json_array_get_length(bands);
     if (nb == 0)
-        return bm_error_invalid(error, name, "'energies_ev' is empty; expected [band][i][j][l]");
+        return bm_error_invalid(error, name, "'%s' is empty; expected [band][i][j][l]", key);
     size_t count = 0;
     if (!checked_count(name, nb, mesh, &count, error))
         return FALSE;
@@ -182,7 +185,8 @@ static gboolean read_inline(JsonArray *bands, const char *name, const size_t mes
         if (depth < 3) {
             if (JSON_NODE_TYPE(e) != JSON_NODE_ARRAY ||
                 json_array_get_length(json_node_get_array(e)) != len[depth + 1]) {
-                path = g_string_new("'energies_ev'");
+                path = g_string_new(NULL);
+                g_string_printf(path, "'%s'", key);
                 for (int d = 0; d <= depth; d++)
                     g_string_append_printf(path, "[%zu]", idx[d]);
                 gboolean arr = JSON_NODE_TYPE(e) == JSON_NODE_ARRAY;
@@ -204,7 +208,8 @@ static gboolean read_inline(JsonArray *bands, const char *name, const size_t mes
             continue;
         }
         if (!node_is_number(e) || !isfinite(json_node_get_double(e))) {
-            path = g_string_new("'energies_ev'");
+            path = g_string_new(NULL);
+            g_string_printf(path, "'%s'", key);
             for (int d = 0; d <= 3; d++)
                 g_string_append_printf(path, "[%zu]", idx[d]);
             if (node_is_number(e))
@@ -223,17 +228,18 @@ static gboolean read_inline(JsonArray *bands, const char *name, const size_t mes
     return TRUE;
 }
 
-static gboolean read_npy(const char *file, const char *name, const char *base_dir,
-                         const size_t mesh[3], BmBandGrid *g, GError **error)
+static gboolean read_npy(const char *file, const char *name, const char *key,
+                         const char *base_dir, const size_t mesh[3], BmBandGrid *g,
+                         GError **error)
 {
     if (!*file)
-        return bm_error_invalid(error, name, "'energies_ev' is an empty file name");
+        return bm_error_invalid(error, name, "'%s' is an empty file name", key);
     g_autofree char *path = g_path_is_absolute(file) || !base_dir
         ? g_strdup(file) : g_build_filename(base_dir, file, NULL);
     GError *local = NULL;
     g_autoptr(BmNpyArray) arr = bm_npy_read_f64(path, &local);
     if (!arr) {
-        g_set_error(error, BM_ERROR, local->code, "%s: 'energies_ev': %s", name, local->message);
+        g_set_error(error, BM_ERROR, local->code, "%s: '%s': %s", name, key, local->message);
         g_error_free(local);
         return FALSE;
     }
@@ -241,8 +247,8 @@ static gboolean read_npy(const char *file, const char *name, const char *base_di
         arr->shape[3] != mesh[2] || arr->shape[0] == 0) {
         g_autofree char *s = bm_npy_shape_string(arr->shape, arr->ndim);
         return bm_error_invalid(error, name, "'mesh' [%zu, %zu, %zu] disagrees with the shape %s of "
-                       "'energies_ev' file %s; expected (nbands, %zu, %zu, %zu) with nbands >= 1",
-                       mesh[0], mesh[1], mesh[2], s, path, mesh[0], mesh[1], mesh[2]);
+                       "'%s' file %s; expected (nbands, %zu, %zu, %zu) with nbands >= 1",
+                       mesh[0], mesh[1], mesh[2], s, key, path, mesh[0], mesh[1], mesh[2]);
     }
     g->grid.nbands = arr->shape[0];
     g->grid.energies = arr->data;   /* take the array over: no copy */
@@ -257,7 +263,7 @@ static gboolean read_names(JsonNode *node, const char *name, BmBandGrid *g, GErr
                        node_kind(node));
     JsonArray *a = json_node_get_array(node);
     if (json_array_get_length(a) != g->grid.nbands)
-        return bm_error_invalid(error, name, "'band_names' has %u names but 'energies_ev' has %zu bands",
+        return bm_error_invalid(error, name, "'band_names' has %u names but the energies have %zu bands",
                        json_array_get_length(a), g->grid.nbands);
     g->band_names = g_new0(char *, g->grid.nbands + 1);
     for (guint i = 0; i < g->grid.nbands; i++) {
@@ -277,12 +283,118 @@ static gboolean read_names(JsonNode *node, const char *name, BmBandGrid *g, GErr
     return TRUE;
 }
 
+/* A key that carries its unit, and the factor to the interface unit. */
+typedef struct {
+    const char *key;
+    double factor;
+} unit_key;
+
+/* Bohr radius in Angstrom and the hartree in eV, from GSL's CODATA values. */
+#define BOHR_A (GSL_CONST_MKSA_BOHR_RADIUS * 1e10)
+#define HARTREE_EV (2.0 * GSL_CONST_MKSA_RYDBERG / GSL_CONST_MKSA_ELECTRON_VOLT)
+
+/* The one key of a family present in o (NULL for none); two is an error. */
+static gboolean pick_unit(JsonObject *o, const char *name, const unit_key *keys, size_t n,
+                          const unit_key **out, GError **error)
+{
+    *out = NULL;
+    for (size_t i = 0; i < n; i++) {
+        if (!json_object_has_member(o, keys[i].key))
+            continue;
+        if (*out)
+            return bm_error_invalid(error, name, "give either '%s' or '%s', not both (one "
+                           "quantity, one unit)", (*out)->key, keys[i].key);
+        *out = &keys[i];
+    }
+    return TRUE;
+}
+
+static void scale3(double m[3][3], double f)
+{
+    for (int i = 0; i < 3; i++)
+        for (int j = 0; j < 3; j++)
+            m[i][j] *= f;
+}
+
+/* Lattice and reciprocal vectors given together must satisfy a_i . b_j =
+ * 2 pi delta_ij; the common slip, reciprocal vectors without the 2 pi, is
+ * named as such. */
+static gboolean lattice_matches(double a[3][3], double b[3][3], const char *name,
+                                const char *lkey, const char *rkey, GError **error)
+{
+    double dev = 0.0, dev_no2pi = 0.0;
+    for (int i = 0; i < 3; i++)
+        for (int j = 0; j < 3; j++) {
+            double d = a[i][0] * b[j][0] + a[i][1] * b[j][1] + a[i][2] * b[j][2];
+            dev = fmax(dev, fabs(d - (i == j ? 2.0 * G_PI : 0.0)));
+            dev_no2pi = fmax(dev_no2pi, fabs(d - (i == j ? 1.0 : 0.0)));
+        }
+    if (dev <= 1e-4 * 2.0 * G_PI)
+        return TRUE;
+    if (dev_no2pi <= 1e-4)
+        return bm_error_invalid(error, name, "'%s' lack the factor 2 pi: a_i . b_j = delta_ij "
+                       "with '%s', where the format expects 2 pi delta_ij (multiply them by 2 pi)",
+                       rkey, lkey);
+    return bm_error_invalid(error, name, "'%s' and '%s' do not belong together: a_i . b_j "
+                   "differs from 2 pi delta_ij by up to %.3g (check both, and their units)",
+                   lkey, rkey, dev);
+}
+
+/* Energies in another unit are scaled to eV into storage of the grid's own. */
+static gboolean to_ev(BmBandGrid *g, double factor, const char *name, GError **error)
+{
+    size_t count = 0;
+    if (!checked_count(name, g->grid.nbands, g->grid.mesh, &count, error))
+        return FALSE;
+    double *e = g->inline_energies ? g->inline_energies : g_try_new(double, count);
+    if (!e)
+        return bm_error_invalid(error, name, "out of memory converting %zu energies to eV", count);
+    for (size_t i = 0; i < count; i++)
+        e[i] = g->grid.energies[i] * factor;
+    g->inline_energies = e;
+    g->grid.energies = e;
+    g_clear_pointer(&g->array, bm_npy_array_free);
+    return TRUE;
+}
+
+/* Energies given in eV that span less than 1.5 eV over four or more bands
+ * look like hartree (a sampled check: every value is not read). */
+static void energy_scale_check(BmBandGrid *g, const unit_key *ek)
+{
+    size_t npt = g->grid.mesh[0] * g->grid.mesh[1] * g->grid.mesh[2];
+    size_t count = npt * g->grid.nbands, stride = count > 100000 ? count / 100000 : 1;
+    if (ek->factor != 1.0 || g->grid.nbands < 4)
+        return;
+    double lo = INFINITY, hi = -INFINITY;
+    for (size_t i = 0; i < count; i += stride) {
+        lo = fmin(lo, g->grid.energies[i]);
+        hi = fmax(hi, g->grid.energies[i]);
+    }
+    if (hi - lo < 1.5)
+        bm_warn(&g->warnings, BM_WARN_UNIT_SUSPECT, "the energies of %zu bands span only %.3g eV: "
+                "if they are in hartree or rydberg, name them 'energies_hartree' or "
+                "'energies_rydberg' (masses would otherwise be 27 or 14 times too large)",
+                g->grid.nbands, hi - lo);
+}
+
 static gboolean parse_document(JsonNode *root, const char *name, const char *base_dir,
                                BmBandGrid *g, GError **error)
 {
     static const char *known[] = {
-        "format", "reciprocal_vectors_inv_angstrom", "lattice_vectors_angstrom",
-        "mesh", "energies_ev", "band_names", "comment", "description", NULL
+        "format", "reciprocal_vectors_inv_angstrom", "reciprocal_vectors_inv_bohr",
+        "lattice_vectors_angstrom", "lattice_vectors_bohr", "mesh", "energies_ev",
+        "energies_hartree", "energies_rydberg", "band_names", "comment", "description", NULL
+    };
+    /* each quantity in one unit, the unit in the key: the factor to eV / Angstrom */
+    static const unit_key recip_keys[] = {
+        { "reciprocal_vectors_inv_angstrom", 1.0 }, { "reciprocal_vectors_inv_bohr", 1.0 / BOHR_A },
+    };
+    static const unit_key latt_keys[] = {
+        { "lattice_vectors_angstrom", 1.0 }, { "lattice_vectors_bohr", BOHR_A },
+    };
+    static const unit_key energy_keys[] = {
+        { "energies_ev", 1.0 }, { "energies_hartree", HARTREE_EV },
+        { "energies_rydberg", 0.5 * HARTREE_EV },
     };
     if (JSON_NODE_TYPE(root) != JSON_NODE_OBJECT)
         return bm_error_invalid(error, name, "expected a JSON object (a band grid document), found %s",
@@ -303,31 +415,36 @@ static gboolean parse_document(JsonNode *root, const char *name, const char *bas
     for (GList *m = members; m; m = m->next)
         if (!g_strv_contains(known, m->data))
             return bm_error_invalid(error, name, "unknown key '%s' (a band grid document takes 'format', "
-                           "'reciprocal_vectors_inv_angstrom' or 'lattice_vectors_angstrom', "
-                           "'mesh', 'energies_ev', 'band_names')", (const char *)m->data);
+                           "'reciprocal_vectors_inv_angstrom' / '_inv_bohr' and/or "
+                           "'lattice_vectors_angstrom' / '_bohr', 'mesh', 'energies_ev' / "
+                           "'_hartree' / '_rydberg', 'band_names')", (const char *)m->data);
 
-    JsonNode *recip = json_object_get_member(o, "reciprocal_vectors_inv_angstrom");
-    JsonNode *latt = json_object_get_member(o, "lattice_vectors_angstrom");
-    if (recip && latt)
-        return bm_error_invalid(error, name, "give either 'reciprocal_vectors_inv_angstrom' or "
-                       "'lattice_vectors_angstrom', not both");
-    if (!recip && !latt)
+    const unit_key *rk, *lk, *ek;
+    if (!pick_unit(o, name, recip_keys, G_N_ELEMENTS(recip_keys), &rk, error)
+        || !pick_unit(o, name, latt_keys, G_N_ELEMENTS(latt_keys), &lk, error)
+        || !pick_unit(o, name, energy_keys, G_N_ELEMENTS(energy_keys), &ek, error))
+        return FALSE;
+    if (!rk && !lk)
         return bm_error_invalid(error, name, "missing key 'reciprocal_vectors_inv_angstrom' "
-                       "(or 'lattice_vectors_angstrom')");
-    double det;
-    if (recip) {
-        if (!get_matrix3(recip, name, "reciprocal_vectors_inv_angstrom", g->grid.recip, error))
+                       "(or 'lattice_vectors_angstrom', or their _bohr forms)");
+    double det, a[3][3];
+    if (lk) {
+        if (!get_matrix3(json_object_get_member(o, lk->key), name, lk->key, a, error))
             return FALSE;
-        if (singular3(g->grid.recip, &det))
-            return bm_error_invalid(error, name, "'reciprocal_vectors_inv_angstrom' is singular "
-                           "(determinant %g): b1, b2, b3 must be linearly independent", det);
-    } else {
-        double a[3][3];
-        if (!get_matrix3(latt, name, "lattice_vectors_angstrom", a, error))
-            return FALSE;
+        scale3(a, lk->factor);
         if (singular3(a, &det) || bm_reciprocal3(a, g->grid.recip) != 0)
-            return bm_error_invalid(error, name, "'lattice_vectors_angstrom' is singular (determinant "
-                           "%g Angstrom^3): a1, a2, a3 must be linearly independent", det);
+            return bm_error_invalid(error, name, "'%s' is singular (determinant %g Angstrom^3): "
+                           "a1, a2, a3 must be linearly independent", lk->key, det);
+    }
+    if (rk) {
+        if (!get_matrix3(json_object_get_member(o, rk->key), name, rk->key, g->grid.recip, error))
+            return FALSE;
+        scale3(g->grid.recip, rk->factor);
+        if (singular3(g->grid.recip, &det))
+            return bm_error_invalid(error, name, "'%s' is singular (determinant %g): b1, b2, b3 "
+                           "must be linearly independent", rk->key, det);
+        if (lk && !lattice_matches(a, g->grid.recip, name, lk->key, rk->key, error))
+            return FALSE;
     }
 
     JsonNode *mesh = json_object_get_member(o, "mesh");
@@ -336,23 +453,27 @@ static gboolean parse_document(JsonNode *root, const char *name, const char *bas
     if (!get_mesh(mesh, name, g->grid.mesh, error))
         return FALSE;
 
-    JsonNode *en = json_object_get_member(o, "energies_ev");
-    if (!en)
-        return bm_error_invalid(error, name, "missing key 'energies_ev' (expected a nested array "
-                       "[band][i][j][l] or the name of a .npy file)");
+    if (!ek)
+        return bm_error_invalid(error, name, "missing key 'energies_ev' (or 'energies_hartree', "
+                       "'energies_rydberg'; expected a nested array [band][i][j][l] or the name "
+                       "of a .npy file)");
+    JsonNode *en = json_object_get_member(o, ek->key);
     if (JSON_NODE_TYPE(en) == JSON_NODE_ARRAY) {
-        if (!read_inline(json_node_get_array(en), name, g->grid.mesh, g, error))
+        if (!read_inline(json_node_get_array(en), name, ek->key, g->grid.mesh, g, error))
             return FALSE;
     } else if (JSON_NODE_TYPE(en) == JSON_NODE_VALUE &&
                json_node_get_value_type(en) == G_TYPE_STRING) {
-        if (!read_npy(json_node_get_string(en), name, base_dir, g->grid.mesh, g, error))
+        if (!read_npy(json_node_get_string(en), name, ek->key, base_dir, g->grid.mesh, g, error))
             return FALSE;
     } else {
-        return bm_error_invalid(error, name, "'energies_ev': expected a nested array [band][i][j][l] "
-                       "or a .npy file name, found %s", node_kind(en));
+        return bm_error_invalid(error, name, "'%s': expected a nested array [band][i][j][l] "
+                       "or a .npy file name, found %s", ek->key, node_kind(en));
     }
     if (g->inline_energies)
         g->grid.energies = g->inline_energies;
+    if (ek->factor != 1.0 && !to_ev(g, ek->factor, name, error))
+        return FALSE;
+    energy_scale_check(g, ek);
 
     JsonNode *names = json_object_get_member(o, "band_names");
     if (names && !read_names(names, name, g, error))

@@ -5,6 +5,7 @@
 
 #include <glib.h>
 #include "bm-bands.h"
+#include "bm-status.h"
 
 G_BEGIN_DECLS
 
@@ -17,6 +18,7 @@ typedef struct {
     char **band_names;       /* NULL-terminated, grid.nbands entries, or NULL if
                                 the document gives none */
     char *source;            /* the document path (or the name given for data) */
+    bm_warnings warnings;    /* findings about the document (a suspect unit) */
     /* private */
     double *inline_energies; /* storage of inline energies, or NULL */
     BmNpyArray *array;       /* the .npy array holding the energies, or NULL */

@@ -239,6 +239,9 @@ BmMassTensorSearch *bm_mass_tensor_search(JsonObject *request, const BmCallInput
         bm_error_from_core(error, &err, s->source);
         return NULL;
     }
+    for (size_t i = 0; grid && i < grid->warnings.count; i++)
+        bm_warn(&s->warnings, grid->warnings.items[i].code, "%s: %s", s->source,
+                grid->warnings.items[i].text);
     if (s->n_tensors == 0)
         bm_warn(&s->warnings, BM_WARN_NO_EXTREMUM, "no extremum found in band %zu of %s",
                 s->band, s->source);

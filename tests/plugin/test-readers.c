@@ -307,6 +307,34 @@ static void expect_grid_error(const char *doc, int code, const char *what, const
 }
 
 #define HEAD "{\"format\": \"bandmass-grid-1\", "
+
+/* Units named in the keys: hartree and bohr are converted with CODATA values
+ * (GSL: a0 = 0.529177 Angstrom, E_h = 27.2114 eV), lattice and reciprocal
+ * vectors may come together when a_i . b_j = 2 pi delta_ij, and eV energies
+ * of several bands spanning under 1.5 eV draw a unit warning. */
+static void test_grid_units(void)
+{
+    const char *bands = "[[[[0.0]],[[0.1]]],[[[0.2]],[[0.3]]],[[[0.4]],[[0.5]]],[[[0.6]],[[0.7]]]]";
+    g_autofree char *ev = g_strdup_printf("{\"format\": \"bandmass-grid-1\", "
+        "\"lattice_vectors_bohr\": [[1,0,0],[0,1,0],[0,0,2]], "
+        "\"reciprocal_vectors_inv_angstrom\": [[%.17g,0,0],[0,%.17g,0],[0,0,%.17g]], "
+        "\"mesh\": [2, 1, 1], \"energies_hartree\": %s}",
+        2 * G_PI / 0.529177210903, 2 * G_PI / 0.529177210903, G_PI / 0.529177210903, bands);
+    g_autoptr(GError) error = NULL;
+    g_autoptr(BmBandGrid) g = bm_band_grid_load_from_data(ev, -1, "units.json", NULL, &error);
+    g_assert_no_error(error);
+    /* 0.1 hartree = 2.72114 eV (CODATA 2018 via GSL; the sixth digit depends on the set) */
+    g_assert_cmpfloat_with_epsilon(g->grid.energies[1], 2.7211386, 1e-5);
+    g_assert_cmpuint(g->warnings.count, ==, 0);
+    g_autofree char *same = g_strdup_printf("{\"format\": \"bandmass-grid-1\", "
+        "\"lattice_vectors_angstrom\": [[1,0,0],[0,1,0],[0,0,1]], \"mesh\": [2, 1, 1], "
+        "\"energies_ev\": %s}", bands);
+    g_autoptr(BmBandGrid) h = bm_band_grid_load_from_data(same, -1, "ev.json", NULL, &error);
+    g_assert_no_error(error);
+    g_assert_cmpuint(h->warnings.count, ==, 1);
+    g_assert_cmpint(h->warnings.items[0].code, ==, BM_WARN_UNIT_SUSPECT);
+    g_assert_nonnull(strstr(h->warnings.items[0].text, "energies_hartree"));
+}
 #define RECIP "\"reciprocal_vectors_inv_angstrom\": [[1,0,0],[0,1,0],[0,0,1]], "
 #define MESH "\"mesh\": [4, 3, 2], "
 
@@ -329,8 +357,18 @@ static void test_grid_bad(void)
                       "missing key 'energies_ev'", NULL);
     expect_grid_error(HEAD RECIP MESH "\"energies\": [], \"energies_ev\": \"grid-le.npy\"}",
                       BM_ERROR_INVALID_INPUT, "unknown key 'energies'", NULL);
+    /* both sets: a_i . b_j = delta_ij is the missing 2 pi, named as such */
     expect_grid_error(HEAD RECIP "\"lattice_vectors_angstrom\": [[1,0,0],[0,1,0],[0,0,1]], "
                       MESH "\"energies_ev\": \"grid-le.npy\"}", BM_ERROR_INVALID_INPUT,
+                      "lack the factor 2 pi", NULL);
+    expect_grid_error(HEAD RECIP "\"lattice_vectors_angstrom\": [[2,0,0],[0,1,0],[0,0,1]], "
+                      MESH "\"energies_ev\": \"grid-le.npy\"}", BM_ERROR_INVALID_INPUT,
+                      "do not belong together", NULL);
+    expect_grid_error(HEAD RECIP "\"reciprocal_vectors_inv_bohr\": [[1,0,0],[0,1,0],[0,0,1]], "
+                      MESH "\"energies_ev\": \"grid-le.npy\"}", BM_ERROR_INVALID_INPUT,
+                      "not both", NULL);
+    expect_grid_error(HEAD RECIP MESH "\"energies_ev\": \"grid-le.npy\", "
+                      "\"energies_hartree\": \"grid-le.npy\"}", BM_ERROR_INVALID_INPUT,
                       "not both", NULL);
 
     /* reciprocal and lattice vectors */
@@ -408,7 +446,7 @@ static void test_grid_bad(void)
     /* band names */
     expect_grid_error(HEAD RECIP MESH "\"energies_ev\": \"grid-le.npy\", "
                       "\"band_names\": [\"vb\"]}", BM_ERROR_INVALID_INPUT,
-                      "'band_names' has 1 names but 'energies_ev' has 2 bands", NULL);
+                      "'band_names' has 1 names but the energies have 2 bands", NULL);
     expect_grid_error(HEAD RECIP MESH "\"energies_ev\": \"grid-le.npy\", "
                       "\"band_names\": [\"vb\", 3]}", BM_ERROR_INVALID_INPUT,
                       "'band_names'[1]: expected a string", NULL);
@@ -596,6 +634,7 @@ int main(int argc, char **argv)
     g_test_add_func("/readers/grid/npy", test_grid_npy);
     g_test_add_func("/readers/grid/lattice-vectors", test_grid_lattice);
     g_test_add_func("/readers/grid/bad", test_grid_bad);
+    g_test_add_func("/readers/grid/units", test_grid_units);
     g_test_add("/readers/grid/bad-files", tmpdir, NULL, tmp_setup, test_grid_bad_files,
                tmp_teardown);
     g_test_add_func("/readers/ktable/csv", test_ktable_csv);
