@@ -476,8 +476,8 @@ static int curvature_sign(double h[3][3], double p[3][3], int dims)
  * them, k's the largest distance between two positions; converged when every
  * error is within the tolerance, at least two estimates exist and all agree
  * on the kind. */
-static void assess(grid_ctx *c, const bm_bandfit *fits, int nfits, const double kc[3],
-                   bm_mass_tensor *t)
+static void assess_in(double p[3][3], int dims, double conv, const bm_bandfit *fits, int nfits,
+                      const double kc[3], bm_mass_tensor *t)
 {
     double lo[3], hi[3];
     for (int m = 0; m < t->dims; m++)
@@ -491,7 +491,7 @@ static void assess(grid_ctx *c, const bm_bandfit *fits, int nfits, const double 
         held++;
         double h[3][3], dk[3];
         memcpy(h, fits[f].hessian, sizeof h);
-        agree += curvature_sign(h, c->p, c->dims) == want;
+        agree += curvature_sign(h, p, dims) == want;
         for (int m = 0; m < t->dims; m++) {
             double mm = axis_mass(h, t->axes[m]);
             lo[m] = fmin(lo[m], mm);
@@ -509,14 +509,14 @@ static void assess(grid_ctx *c, const bm_bandfit *fits, int nfits, const double 
             t->k_error = fmax(t->k_error, bm_norm3(dk));
         }
     }
-    t->nfits = held + (t->method == BM_METHOD_INTERPOLANT);
+    t->nfits = held + (t->method != BM_METHOD_CROSSING_FIT);
     if (t->nfits < 2 || t->divergent) {
         t->converged = 0;
         t->k_error = NAN;
         bm_warn(&t->warnings, BM_WARN_NO_ERROR_ESTIMATE, "no error estimate: %s; a finer mesh or DFT energies at a "
                 "refinement stencil around this point would give one",
                 t->divergent ? "the mass is divergent here"
-                : "too few mesh points near this point for independent local fits");
+                : "too few points near this point for independent local fits");
         return;
     }
     int ok = want != 0 && agree == held;
@@ -530,7 +530,7 @@ static void assess(grid_ctx *c, const bm_bandfit *fits, int nfits, const double 
         }
         double rel = t->mass_errors[m] / fabs(t->masses[m]);
         worst = fmax(worst, rel);
-        if (rel > c->conv)
+        if (rel > conv)
             ok = 0;
     }
     t->converged = ok;
@@ -543,7 +543,13 @@ static void assess(grid_ctx *c, const bm_bandfit *fits, int nfits, const double 
         bm_warn(&t->warnings, BM_WARN_NOT_CONVERGED, "masses not converged: the estimated error reaches %.1f%% of "
                 "a mass (tolerance %.1f%%); a finer mesh, or DFT energies at a refinement "
                 "stencil around this point fitted as a k-table, would converge them",
-                100.0 * worst, 100.0 * c->conv);
+                100.0 * worst, 100.0 * conv);
+}
+
+static void assess(grid_ctx *c, const bm_bandfit *fits, int nfits, const double kc[3],
+                   bm_mass_tensor *t)
+{
+    assess_in(c->p, c->dims, c->conv, fits, nfits, kc, t);
 }
 
 /* Fractional coordinates of the Cartesian k. */
@@ -1010,6 +1016,7 @@ typedef struct {
     double p[3][3];
     double radius;
     double degen;
+    double conv;         /* convergence tolerance, relative */
     size_t nfit;         /* automatic point count */
     double *dist;        /* scratch [npoints] */
     size_t *order;       /* scratch [npoints] */
@@ -1094,6 +1101,42 @@ static double quad_norm(const bm_quadric *q)
     return sqrt(s);
 }
 
+/* An independent estimate from a quadric fit of fewer or more points around
+ * centre: its stationary point (one Newton step) and Hessian. */
+static void table_estimate(table_ctx *c, const double centre[3], double radius, size_t want,
+                           bm_bandfit *out)
+{
+    memset(out, 0, sizeof *out);
+    bm_quadric q;
+    double dmax, span;
+    size_t count;
+    if (table_fit(c, centre, radius, want, &q, &dmax, &span, &count) != 0)
+        return;
+    double h3[3][3] = { { 0 } }, hi[3][3];
+    for (int a = 0; a < 3; a++)
+        for (int b = 0; b < 3; b++)
+            h3[a][b] = a < c->dims && b < c->dims ? q.h[a][b] : (a == b ? 1.0 : 0.0);
+    if (bm_inv3(h3, hi) != 0)
+        return;
+    memcpy(out->k, centre, sizeof out->k);
+    for (int a = 0; a < c->dims; a++) {
+        double du = 0.0;
+        for (int b = 0; b < c->dims; b++)
+            du -= hi[a][b] * q.g[b];
+        for (int i = 0; i < 3; i++)
+            out->k[i] += du * c->p[a][i];
+    }
+    for (int i = 0; i < 3; i++)
+        for (int j = 0; j < 3; j++) {
+            out->hessian[i][j] = 0.0;
+            for (int a = 0; a < c->dims; a++)
+                for (int b = 0; b < c->dims; b++)
+                    out->hessian[i][j] += c->p[a][i] * q.h[a][b] * c->p[b][j];
+        }
+    out->npoints = count;
+    out->ok = 1;
+}
+
 static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
                                bm_extremum_kind hint, bm_mass_tensor *t, bm_errbuf *err)
 {
@@ -1152,6 +1195,20 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
         bm_warn(&t->warnings, BM_WARN_NOT_STATIONARY, "|dE/dk| = %.3g eV Angstrom at the given point: not a stationary "
                 "point, the tensor is the local curvature there", gnorm);
     nonparabolic_check(t, &q, span, dmax);
+    if (refine) {
+        /* errors: the same fit over about 0.6 and 1.7 times the points (or radius) */
+        bm_bandfit est[2];
+        size_t npar = bm_quadric_nparams(c->dims);
+        size_t fewer = (size_t)(0.6 * (double)count);
+        if (fewer < npar + 2)
+            fewer = npar + 2;
+        table_estimate(c, centre, c->radius > 0.0 ? 0.7 * c->radius : 0.0, fewer, &est[0]);
+        table_estimate(c, centre, c->radius > 0.0 ? 1.4 * c->radius : 0.0,
+                       (size_t)(1.7 * (double)count), &est[1]);
+        if (est[0].ok && est[1].ok && est[0].npoints == est[1].npoints)
+            est[1].ok = 0;   /* the table holds no more points: one estimate, not two */
+        assess_in(c->p, c->dims, c->conv, est, 2, centre, t);
+    }
     /* Conical test: refit with the radius doubled (or the point count grown by
      * 2^dims); curvature ~ 1/radius means E ~ |k|. */
     double r1 = dmax;
@@ -1233,8 +1290,7 @@ bm_status bm_ktable_mass_tensors(const bm_ktable *t, size_t band, bm_search whic
                        band, t->nbands, t->nbands == 1 ? "" : "s", t->nbands - 1);
     table_ctx c;
     memset(&c, 0, sizeof c);
-    double conv_unused;
-    bm_status s = check_options(opt, which, k_at, &c.radius, &c.degen, &conv_unused, err);
+    bm_status s = check_options(opt, which, k_at, &c.radius, &c.degen, &c.conv, err);
     if (s != BM_OK)
         return s;
     size_t np = t->npoints;

@@ -22,6 +22,8 @@
  * "warnings". */
 #include "ops.h"
 #include "bm-enums.h"
+#include "bm-linalg.h"
+#include "bm-stencil.h"
 #include "mass-tensor.h"
 #include "bm-json.h"
 #include "band-select.h"
@@ -52,6 +54,9 @@ static const BmParam params[] = {
     { "convergence_tolerance", BM_VALUE_NUMBER, FALSE, "0.02",
       "relative error a converged mass may have (errors are estimated from independent "
       "local fits)", .lower = BM_GT(0), .upper = BM_LE(1) },
+    { "stencil", BM_VALUE_BOOLEAN, FALSE, "false",
+      "give each extremum a refinement stencil: k-points to compute with the band-structure "
+      "code and fit back as a k-table (the refinement loop)", .unit = NULL },
     BM_PARAM_END
 };
 
@@ -66,7 +71,9 @@ static const BmField response[] = {
       "(interpolant, crossing-aware local fit, table fit), crossing_partner_band (null "
       "when none), principal_masses_error_me (estimated error of each mass, m_e: the "
       "spread of independent local fits; null where not assessed), k_error_inv_angstrom, "
-      "converged (errors within convergence_tolerance; null where not assessed), warnings" },
+      "converged (errors within convergence_tolerance; null where not assessed), "
+      "refinement_stencil (with \"stencil\": {step_inv_angstrom, k_inv_angstrom, "
+      "k_fractional (null for a table)}), warnings" },
     BM_FIELD_END
 };
 
@@ -227,6 +234,8 @@ BmMassTensorSearch *bm_mass_tensor_search(JsonObject *request, const BmCallInput
         return NULL;
     s->band_name = names ? names[s->band] : NULL;
     s->fractional = grid != NULL;
+    if (grid)
+        memcpy(s->recip, grid->grid.recip, sizeof s->recip);
 
     bm_errbuf err = { BM_OK, "" };
     bm_status st = grid ? bm_grid_mass_tensors(&grid->grid, s->band, which,
@@ -256,6 +265,44 @@ BmMassTensorSearch *bm_mass_tensor_search(JsonObject *request, const BmCallInput
     return g_steal_pointer(&s);
 }
 
+/* The refinement stencil of t (where its masses are finite): Cartesian points
+ * and, for a grid (recip given), their fractional coordinates k B^-1. */
+static void add_stencil(JsonObject *o, const bm_mass_tensor *t, double recip[3][3])
+{
+    for (int m = 0; m < t->dims; m++)
+        if (!isfinite(t->masses[m]) || t->degenerate)
+            return;
+    double pts[BM_STENCIL_MAX][3], binv[3][3];
+    size_t n = bm_stencil_size(t->dims);
+    double step = bm_stencil_step(t->k_error);
+    bm_stencil_points(t->k, t->axes, t->dims, step, pts);
+    JsonObject *st = json_object_new();
+    bm_json_set_number(st, "step_inv_angstrom", step);
+    JsonArray *kc = json_array_new(), *kf = json_array_new();
+    gboolean frac = recip && bm_inv3(recip, binv) == 0;
+    for (size_t i = 0; i < n; i++) {
+        JsonArray *row = json_array_new(), *frow = json_array_new();
+        for (int a = 0; a < 3; a++) {
+            json_array_add_double_element(row, pts[i][a]);
+            json_array_add_double_element(frow, pts[i][0] * binv[0][a] + pts[i][1] * binv[1][a]
+                                                 + pts[i][2] * binv[2][a]);
+        }
+        json_array_add_array_element(kc, row);
+        if (frac)
+            json_array_add_array_element(kf, frow);
+        else
+            json_array_unref(frow);
+    }
+    json_object_set_array_member(st, "k_inv_angstrom", kc);
+    if (frac)
+        json_object_set_array_member(st, "k_fractional", kf);
+    else {
+        json_array_unref(kf);
+        json_object_set_null_member(st, "k_fractional");
+    }
+    json_object_set_object_member(o, "refinement_stencil", st);
+}
+
 static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
 {
     g_autoptr(BmMassTensorSearch) s = bm_mass_tensor_search(request, inputs, error);
@@ -271,8 +318,13 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     json_object_set_object_member(response, "band", b);
     json_object_set_string_member(response, "source", s->source);
     JsonArray *list = json_array_new();
-    for (size_t i = 0; i < s->n_tensors; i++)
-        json_array_add_object_element(list, bm_mass_tensor_object(&s->tensors[i], s->fractional));
+    gboolean stencil = json_object_get_boolean_member(request, "stencil");
+    for (size_t i = 0; i < s->n_tensors; i++) {
+        JsonObject *o = bm_mass_tensor_object(&s->tensors[i], s->fractional);
+        if (stencil)
+            add_stencil(o, &s->tensors[i], s->fractional ? s->recip : NULL);
+        json_array_add_object_element(list, o);
+    }
     json_object_set_array_member(response, "extrema", list);
     bm_json_warn_all(response, &s->warnings);
     return response;

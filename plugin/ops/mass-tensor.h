@@ -19,6 +19,7 @@ typedef struct {
     const char *band_name;     /* its name, or NULL */
     const char *source;        /* where the band data came from */
     gboolean fractional;       /* a grid: k_fractional is meaningful */
+    double recip[3][3];        /* a grid's reciprocal vectors (rows), for stencils */
     bm_warnings warnings;      /* warnings of the whole search */
     /* private */
     BmBandGrid *grid;          /* loaded for this search, or NULL */
