@@ -199,74 +199,72 @@ static int solve(gsl_matrix *x, gsl_vector *y, gsl_vector *c, gsl_multifit_linea
     return gsl_multifit_linear_solve(0.0, x, y, c, &rnorm, &snorm, w);
 }
 
-int bm_bandfit_run(const bm_grid *g, size_t band, int partner, const double f0[3],
-                   const double kc[3], int dims, double p[3][3],
-                   const bm_bandfit_setting *s, bm_bandfit *out)
+/* Fits ys (and yd, the squared pair difference, when given) at the n scaled
+ * offsets u, then Newton from u = 0 to the stationary point of the model
+ * (the band itself, or (ys + sign sqrt yd) / 2 for a pair); the result in
+ * Cartesian terms around kc. Returns -1 on allocation or GSL failure. */
+static double monomial(const monomials *mono, int j, const double u[3])
 {
-    memset(out, 0, sizeof *out);
-    out->gap_ev = INFINITY;
-    double radius = s->radius_steps * bm_bandfit_step(g);
-    if (s->order < 2 || s->order > MAX_ORDER || !(radius > 0.0))
-        return 0;
-    monomials mono;
-    monomials_make(&mono, dims, s->order);
-    neighbourhood nb;
-    if (neighbourhood_collect(g, f0, kc, dims, p, radius, &nb) != 0) {
-        neighbourhood_free(&nb);
-        return -1;
+    double v = 1.0;
+    for (int a = 0; a < mono->dims; a++)
+        for (int k = 0; k < mono->ex[j][a]; k++)
+            v *= u[a];
+    return v;
+}
+
+static int fit_and_find(const monomials *mono, size_t n, const double (*uu)[3], const double *ys,
+                        const double *yd, double sign, int dims, double p[3][3], double radius,
+                        double cap, const double kc[3], bm_bandfit *out)
+{
+    /* monomials that vanish at every point (x y z on a stencil of axes and
+     * face diagonals) are not determined by the data: left out, coefficient 0 */
+    monomials used = { .n = 0, .dims = mono->dims };
+    for (int j = 0; j < mono->n; j++) {
+        double norm = 0.0;
+        for (size_t q = 0; q < n; q++)
+            norm = fmax(norm, fabs(monomial(mono, j, uu[q])));
+        if (norm > 1e-9) {
+            memcpy(used.ex[used.n], mono->ex[j], sizeof used.ex[0]);
+            used.n++;
+        }
     }
-    out->npoints = nb.n;
-    if ((double)nb.n < MIN_POINTS_PER_TERM * mono.n) {
-        neighbourhood_free(&nb);
-        return 0;
-    }
-    size_t npt = g->mesh[0] * g->mesh[1] * g->mesh[2];
-    const double *e = g->energies + band * npt;
-    const double *o = partner >= 0 ? g->energies + (size_t)partner * npt : NULL;
-    gsl_matrix *x = gsl_matrix_alloc(nb.n, (size_t)mono.n);
-    gsl_vector *y = gsl_vector_alloc(nb.n);
-    gsl_vector *cs = gsl_vector_alloc((size_t)mono.n), *cd = gsl_vector_alloc((size_t)mono.n);
-    gsl_multifit_linear_workspace *w = gsl_multifit_linear_alloc(nb.n, (size_t)mono.n);
+    mono = &used;
+    gsl_matrix *x = gsl_matrix_alloc(n, (size_t)mono->n);
+    gsl_vector *y = gsl_vector_alloc(n);
+    gsl_vector *cs = gsl_vector_alloc((size_t)mono->n), *cd = gsl_vector_alloc((size_t)mono->n);
+    gsl_multifit_linear_workspace *w = gsl_multifit_linear_alloc(n, (size_t)mono->n);
     int rc = -1;
     if (!x || !y || !cs || !cd || !w)
         goto done;
-    for (size_t q = 0; q < nb.n; q++)
-        for (int j = 0; j < mono.n; j++) {
-            double v = 1.0;
-            for (int a = 0; a < dims; a++)
-                for (int k = 0; k < mono.ex[j][a]; k++)
-                    v *= nb.u[q][a];
-            gsl_matrix_set(x, q, (size_t)j, v);
-        }
+    for (size_t q = 0; q < n; q++)
+        for (int j = 0; j < mono->n; j++)
+            gsl_matrix_set(x, q, (size_t)j, monomial(mono, j, uu[q]));
     if (gsl_multifit_linear_svd(x, w) != GSL_SUCCESS)
         goto done;
-    for (size_t q = 0; q < nb.n; q++)
-        gsl_vector_set(y, q, o ? e[nb.idx[q]] + o[nb.idx[q]] : e[nb.idx[q]]);
+    rc = 0;
+    /* a design still near-singular (points on too few lines) gives no estimate */
+    if (gsl_multifit_linear_rcond(w) < 1e-10)
+        goto done;
+    rc = -1;
+    for (size_t q = 0; q < n; q++)
+        gsl_vector_set(y, q, ys[q]);
     if (solve(x, y, cs, w) != GSL_SUCCESS)
         goto done;
-    if (o) {
-        for (size_t q = 0; q < nb.n; q++) {
-            double d = o[nb.idx[q]] - e[nb.idx[q]];
-            gsl_vector_set(y, q, d * d);
-        }
+    if (yd) {
+        for (size_t q = 0; q < n; q++)
+            gsl_vector_set(y, q, yd[q]);
         if (solve(x, y, cd, w) != GSL_SUCCESS)
             goto done;
     }
     rc = 0;
-    /* the lower band of a pair is (s - sqrt D) / 2, the upper (s + sqrt D) / 2;
-     * which one this band is, the data say (bands need not be sorted) */
-    double above = 0.0;
-    for (size_t q = 0; o && q < nb.n; q++)
-        above += e[nb.idx[q]] - o[nb.idx[q]];
-    double sign = above < 0.0 ? -1.0 : 1.0;
     double u[3] = { 0, 0, 0 }, val = 0.0, gu[3], hu[3][3];
     int converged = 0;
     for (int it = 0; it < NEWTON_MAX && !converged; it++) {
         double vs, gs[3], hs[3][3];
-        poly_eval(&mono, cs->data, u, &vs, gs, hs);
-        if (o) {
+        poly_eval(mono, cs->data, u, &vs, gs, hs);
+        if (yd) {
             double vd, gd[3], hd[3][3];
-            poly_eval(&mono, cd->data, u, &vd, gd, hd);
+            poly_eval(mono, cd->data, u, &vd, gd, hd);
             if (!(vd > 0.0))
                 goto done;      /* the pair closes here: a degenerate point, no fit */
             double r = sqrt(vd);
@@ -297,7 +295,6 @@ int bm_bandfit_run(const bm_grid *g, size_t band, int partner, const double f0[3
             len += du[a] * du[a];
         }
         len = sqrt(len);
-        double cap = STEP_CAP / s->radius_steps;
         double scale = len > cap ? cap / len : 1.0;
         double away = 0.0;
         for (int a = 0; a < 3; a++) {
@@ -335,6 +332,53 @@ done:
     gsl_vector_free(cd);
     if (w)
         gsl_multifit_linear_free(w);
+    return rc;
+}
+
+int bm_bandfit_run(const bm_grid *g, size_t band, int partner, const double f0[3],
+                   const double kc[3], int dims, double p[3][3],
+                   const bm_bandfit_setting *s, bm_bandfit *out)
+{
+    memset(out, 0, sizeof *out);
+    out->gap_ev = INFINITY;
+    double radius = s->radius_steps * bm_bandfit_step(g);
+    if (s->order < 2 || s->order > MAX_ORDER || !(radius > 0.0))
+        return 0;
+    monomials mono;
+    monomials_make(&mono, dims, s->order);
+    neighbourhood nb;
+    if (neighbourhood_collect(g, f0, kc, dims, p, radius, &nb) != 0) {
+        neighbourhood_free(&nb);
+        return -1;
+    }
+    out->npoints = nb.n;
+    if ((double)nb.n < MIN_POINTS_PER_TERM * mono.n) {
+        neighbourhood_free(&nb);
+        return 0;
+    }
+    size_t npt = g->mesh[0] * g->mesh[1] * g->mesh[2];
+    const double *e = g->energies + band * npt;
+    const double *o = partner >= 0 ? g->energies + (size_t)partner * npt : NULL;
+    double *ys = malloc(nb.n * sizeof *ys), *yd = o ? malloc(nb.n * sizeof *yd) : NULL;
+    int rc = -1;
+    if (ys && (!o || yd)) {
+        /* the lower band of a pair is (s - sqrt D) / 2, the upper (s + sqrt D) / 2;
+         * which one this band is, the data say (bands need not be sorted) */
+        double above = 0.0;
+        for (size_t q = 0; q < nb.n; q++) {
+            double eb = e[nb.idx[q]];
+            ys[q] = o ? eb + o[nb.idx[q]] : eb;
+            if (o) {
+                yd[q] = (o[nb.idx[q]] - eb) * (o[nb.idx[q]] - eb);
+                above += eb - o[nb.idx[q]];
+            }
+        }
+        rc = fit_and_find(&mono, nb.n, (const double (*)[3])nb.u, ys, yd,
+                          above < 0.0 ? -1.0 : 1.0, dims, p, radius,
+                          STEP_CAP / s->radius_steps, kc, out);
+    }
+    free(ys);
+    free(yd);
     neighbourhood_free(&nb);
     return rc;
 }

@@ -471,13 +471,13 @@ static int curvature_sign(double h[3][3], double p[3][3], int dims)
 }
 
 /* Errors of t from independent estimates: the local fits that held, beside
- * t's own tensor (kc: t's unwrapped Cartesian point).  A mass's error is the
- * spread (largest minus smallest) of its value along t's axis over all of
- * them, k's the largest distance between two positions; converged when every
+ * t's own tensor (kc: t's unwrapped Cartesian point).  A mass's error is
+ * widen times the spread (largest minus smallest) of its value along t's axis
+ * over all of them, k's the largest distance between two positions; converged when every
  * error is within the tolerance, at least two estimates exist and all agree
  * on the kind. */
-static void assess_in(double p[3][3], int dims, double conv, const bm_bandfit *fits, int nfits,
-                      const double kc[3], bm_mass_tensor *t)
+static void assess_in(double p[3][3], int dims, double conv, double widen,
+                      const bm_bandfit *fits, int nfits, const double kc[3], bm_mass_tensor *t)
 {
     double lo[3], hi[3];
     for (int m = 0; m < t->dims; m++)
@@ -522,7 +522,7 @@ static void assess_in(double p[3][3], int dims, double conv, const bm_bandfit *f
     int ok = want != 0 && agree == held;
     double worst = 0.0;
     for (int m = 0; m < t->dims; m++) {
-        t->mass_errors[m] = hi[m] - lo[m];
+        t->mass_errors[m] = widen * (hi[m] - lo[m]);
         if (!isfinite(t->mass_errors[m]) || !isfinite(t->masses[m])) {
             t->mass_errors[m] = NAN;
             ok = 0;
@@ -549,7 +549,7 @@ static void assess_in(double p[3][3], int dims, double conv, const bm_bandfit *f
 static void assess(grid_ctx *c, const bm_bandfit *fits, int nfits, const double kc[3],
                    bm_mass_tensor *t)
 {
-    assess_in(c->p, c->dims, c->conv, fits, nfits, kc, t);
+    assess_in(c->p, c->dims, c->conv, 1.0, fits, nfits, kc, t);
 }
 
 /* Fractional coordinates of the Cartesian k. */
@@ -1137,6 +1137,23 @@ static void table_estimate(table_ctx *c, const double centre[3], double radius, 
     out->ok = 1;
 }
 
+/* The sampled point nearest centre. */
+static const double *nearest_sample(table_ctx *c, const double centre[3])
+{
+    size_t near = 0;
+    double dn = INFINITY;
+    for (size_t m = 0; m < c->t->npoints; m++) {
+        double dk[3];
+        for (int i = 0; i < 3; i++)
+            dk[i] = tk(c, m)[i] - centre[i];
+        if (bm_norm3(dk) < dn) {
+            dn = bm_norm3(dk);
+            near = m;
+        }
+    }
+    return tk(c, near);
+}
+
 static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
                                bm_extremum_kind hint, bm_mass_tensor *t, bm_errbuf *err)
 {
@@ -1197,7 +1214,7 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
     nonparabolic_check(t, &q, span, dmax);
     if (refine) {
         /* errors: the same fit over about 0.6 and 1.7 times the points (or radius) */
-        bm_bandfit est[2];
+        bm_bandfit est[3];
         size_t npar = bm_quadric_nparams(c->dims);
         size_t fewer = (size_t)(0.6 * (double)count);
         if (fewer < npar + 2)
@@ -1207,7 +1224,16 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
                        (size_t)(1.7 * (double)count), &est[1]);
         if (est[0].ok && est[1].ok && est[0].npoints == est[1].npoints)
             est[1].ok = 0;   /* the table holds no more points: one estimate, not two */
-        assess_in(c->p, c->dims, c->conv, est, 2, centre, t);
+        /* a quadric's bias grows with the square of its radius, so the spread
+         * of two fits over fewer and more points understates the error of
+         * either: twice the spread (Richardson's estimate for radii 1 : 2
+         * gives 4/3) */
+        /* and the same points centred on the sampled point nearest the
+         * extremum: points lopsided about the extremum (a stencil centred on
+         * an earlier estimate) let the quadric take up the band's cubic terms
+         * as curvature, and the two then differ */
+        table_estimate(c, nearest_sample(c, centre), c->radius, count, &est[2]);
+        assess_in(c->p, c->dims, c->conv, 2.0, est, 3, centre, t);
     }
     /* Conical test: refit with the radius doubled (or the point count grown by
      * 2^dims); curvature ~ 1/radius means E ~ |k|. */
