@@ -7,6 +7,7 @@
 
 #include "registry.h"
 #include "bm-json.h"
+#include "render.h"
 
 #define EXIT_USAGE 2
 
@@ -463,10 +464,7 @@ static int cmd_operation(const BmOperation *op, int argc, char **argv)
         if (!render_csv(response, out, &error))
             return fail(error);
     } else {
-        if (op->render)
-            op->render(response, out);
-        else
-            bm_render_generic(response, out);
+        bm_cli_render(op, response, out);
         JsonArray *warnings = json_object_get_array_member(response, "warnings");
         for (guint i = 0; warnings && i < json_array_get_length(warnings); i++)
             g_string_append_printf(out, "warning: %s\n",

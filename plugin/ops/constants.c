@@ -49,26 +49,10 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     return response;
 }
 
-static void render(JsonObject *response, GString *out)
-{
-    JsonObject *all = json_object_get_object_member(response, "constants");
-    g_autoptr(GList) keys = json_object_get_members(all);
-    g_string_append_printf(out, "%-26s %-14s %s\n", "constant", "value", "meaning");
-    for (GList *l = keys; l; l = l->next) {
-        JsonObject *c = json_object_get_object_member(all, l->data);
-        g_string_append_printf(out, "%-26s %-14.7g %s\n", (const char *)l->data,
-                               json_object_get_double_member(c, "value"),
-                               json_object_get_string_member(c, "meaning"));
-    }
-    g_string_append_printf(out, "source: %s\n",
-                           json_object_get_string_member(response, "source"));
-}
-
 const BmOperation bm_op_constants = {
     .name = "constants",
     .summary = "Physical constants the project uses, in its interface units",
     .params = params,
     .run = run,
-    .render = render,
     .response = response,
 };

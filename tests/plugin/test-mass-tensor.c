@@ -6,6 +6,7 @@
 #include <glib/gstdio.h>
 
 #include "registry.h"
+#include "render.h"
 #include "bm-units.h"
 
 static char *tmp_dir;
@@ -303,7 +304,7 @@ static void test_render(void)
     const BmOperation *op = bm_registry_lookup("mass-tensor");
     g_assert_nonnull(op);
     g_autoptr(GString) out = g_string_new(NULL);
-    op->render(r, out);
+    bm_cli_render(op, r, out);
     g_autofree char *mass = g_strdup_printf("%.4f", BM_HBAR2_OVER_ME_EV_A2 / (LAT_A * LAT_A));
     g_assert_nonnull(strstr(out->str, "band 1 (cb) of"));
     g_assert_nonnull(strstr(out->str, "minimum"));

@@ -5,6 +5,7 @@
 #include <string.h>
 
 #include "registry.h"
+#include "render.h"
 
 
 /* Si X valleys m_l = 0.98, m_t = 0.19 (Sze & Ng 2007, Appendix G; from
@@ -181,11 +182,11 @@ static void test_hole_render(void)
     const BmOperation *op = bm_registry_lookup("hole-mass");
     g_autoptr(JsonObject) r = op_call("hole-mass", "{\"luttinger_parameters\": [6.98, 2.06, 2.93]}");
     g_autoptr(GString) out = g_string_new(NULL);
-    op->render(r, out);
+    bm_cli_render(op, r, out);
     g_assert_nonnull(strstr(out->str, "0.3497"));
     g_autoptr(JsonObject) open = op_call("hole-mass", "{\"luttinger_parameters\": [4, 2.5, 2.5]}");
     g_autoptr(GString) out2 = g_string_new(NULL);
-    op->render(open, out2);
+    bm_cli_render(op, open, out2);
     g_assert_null(strstr(out2->str, "nan"));
     g_assert_nonnull(strstr(out2->str, "         -"));
 }
