@@ -492,9 +492,6 @@ static void render_valley_average(const BmOperation *op,
                                json_object_get_double_member(o, "energy_offset_ev"),
                                json_object_get_double_member(o, "population_fraction"));
     }
-    JsonArray *w = json_object_get_array_member(response, "warnings");
-    for (guint i = 0; w && i < json_array_get_length(w); i++)
-        g_string_append_printf(out, "warning: %s\n", json_array_get_string_element(w, i));
 }
 
 /* ---- any other operation ---- */
