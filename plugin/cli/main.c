@@ -66,15 +66,10 @@ static gboolean emit(const char *path, const char *text, GError **error)
 
 static char *read_all(const char *path, GError **error)
 {
-    g_autoptr(GError) io = NULL;
     char *text = NULL;
     if (path) {
-        if (!g_file_get_contents(path, &text, NULL, &io)) {
-            g_set_error(error, BM_ERROR, BM_ERROR_IO, "cannot read request %s: %s",
-                        path, io->message);
-            return NULL;
-        }
-        return text;
+        g_autofree char *what = g_strdup_printf("request %s", path);
+        return bm_error_read_file(path, what, &text, NULL, error) ? text : NULL;
     }
     GString *s = g_string_new(NULL);
     char buf[65536];

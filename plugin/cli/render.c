@@ -26,6 +26,21 @@ static const char *unit_of(const BmOperation *op, const char *key)
     g_return_val_if_reached("");
 }
 
+typedef void (*RowFunc)(GString *out, JsonObject *row);
+
+/* One row per temperature: each of the response's "points" (a list of
+ * temperatures), or the response itself (one temperature). */
+static void render_rows(GString *out, JsonObject *response, RowFunc row)
+{
+    if (!json_object_has_member(response, "points")) {
+        row(out, response);
+        return;
+    }
+    JsonArray *pts = json_object_get_array_member(response, "points");
+    for (guint i = 0; i < json_array_get_length(pts); i++)
+        row(out, json_array_get_object_element(pts, i));
+}
+
 /* ---- constants ---- */
 
 static void render_constants(G_GNUC_UNUSED const BmOperation *op,
@@ -151,6 +166,12 @@ static void render_materials(G_GNUC_UNUSED const BmOperation *op,
 
 /* ---- band-gap ---- */
 
+static void band_gap_row(GString *out, JsonObject *o)
+{
+    g_string_append_printf(out, "%14g  %12.6f\n", member(o, "temperature_k"),
+                           member(o, "band_gap_ev"));
+}
+
 static void render_band_gap(G_GNUC_UNUSED const BmOperation *op,
                             JsonObject *response, GString *out)
 {
@@ -159,25 +180,12 @@ static void render_band_gap(G_GNUC_UNUSED const BmOperation *op,
                            json_object_get_string_member(response, "model"),
                            json_object_get_string_member(response, "source"));
     g_string_append_printf(out, "%14s  %12s\n", "temperature_k", "band_gap_ev");
-    if (json_object_has_member(response, "points")) {
-        JsonArray *pts = json_object_get_array_member(response, "points");
-        for (guint i = 0; i < json_array_get_length(pts); i++) {
-            JsonObject *p = json_array_get_object_element(pts, i);
-            g_string_append_printf(out, "%14g  %12.6f\n",
-                                   json_object_get_double_member(p, "temperature_k"),
-                                   json_object_get_double_member(p, "band_gap_ev"));
-        }
-    } else {
-        g_string_append_printf(out, "%14g  %12.6f\n",
-                               json_object_get_double_member(response, "temperature_k"),
-                               json_object_get_double_member(response, "band_gap_ev"));
-    }
+    render_rows(out, response, band_gap_row);
 }
 
 /* ---- carrier-statistics ---- */
 
-/* One row of the carrier table: a point, or the response for one temperature. */
-static void render_row(GString *out, JsonObject *o)
+static void carrier_row(GString *out, JsonObject *o)
 {
     g_string_append_printf(out, "%8g %8.4f %10.3e %10.3e %10.3e %9.4f %10.3e %10.3e  %s\n",
                            json_object_get_double_member(o, "temperature_k"),
@@ -206,13 +214,7 @@ static void render_carrier_statistics(G_GNUC_UNUSED const BmOperation *op,
                            json_object_get_string_member(src, "statistics_hole_dos_mass_me"));
     g_string_append_printf(out, "%8s %8s %10s %10s %10s %9s %10s %10s  %s\n", "T_K", "Eg_eV",
                            "Nc_cm3", "Nv_cm3", "ni_cm3", "EF_eV", "n_cm3", "p_cm3", "regime");
-    if (json_object_has_member(response, "points")) {
-        JsonArray *pts = json_object_get_array_member(response, "points");
-        for (guint i = 0; i < json_array_get_length(pts); i++)
-            render_row(out, json_array_get_object_element(pts, i));
-    } else {
-        render_row(out, response);
-    }
+    render_rows(out, response, carrier_row);
 }
 
 /* ---- drude ---- */
