@@ -19,7 +19,7 @@ from pathlib import Path
 
 import numpy as np
 
-from make_si_corpus import NBANDS, NCONV, scf   # the same DFT settings
+from make_si_corpus import A, NBANDS, NCONV, scf   # the same DFT settings
 
 HBAR2_ME = 7.619964   # eV Angstrom^2 (CODATA 2018: hbar^2 / m_e)
 
