@@ -46,23 +46,24 @@ def _flat(vectors):
     return out
 
 
+def _bands(energies, nbands, mesh, vectors, by_value, by_bytes):
+    """A grid through by_bytes (one block) for a buffer, else by_value."""
+    data = _energy_bytes(energies)
+    if data is None:
+        return by_value(energies, nbands, list(mesh), _flat(vectors))
+    return by_bytes(data, nbands, list(mesh), _flat(vectors))
+
+
 class Bands(Bandmass.Bands):
     @classmethod
     def new_from_array(cls, energies, nbands, mesh, reciprocal_vectors):
-        data = _energy_bytes(energies)
-        if data is None:
-            return Bandmass.Bands.new_from_array(energies, nbands, list(mesh),
-                                                 _flat(reciprocal_vectors))
-        return Bandmass.Bands.new_from_bytes(data, nbands, list(mesh), _flat(reciprocal_vectors))
+        return _bands(energies, nbands, mesh, reciprocal_vectors,
+                      Bandmass.Bands.new_from_array, Bandmass.Bands.new_from_bytes)
 
     @classmethod
     def new_from_lattice(cls, energies, nbands, mesh, lattice_vectors):
-        data = _energy_bytes(energies)
-        if data is None:
-            return Bandmass.Bands.new_from_lattice(energies, nbands, list(mesh),
-                                                   _flat(lattice_vectors))
-        return Bandmass.Bands.new_from_bytes_lattice(data, nbands, list(mesh),
-                                                     _flat(lattice_vectors))
+        return _bands(energies, nbands, mesh, lattice_vectors,
+                      Bandmass.Bands.new_from_lattice, Bandmass.Bands.new_from_bytes_lattice)
 
 
 Bands = override(Bands)
