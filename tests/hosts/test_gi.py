@@ -8,6 +8,7 @@ import subprocess
 import tempfile
 import time
 import unittest
+import unittest.mock
 
 import gi
 gi.require_version('Bandmass', '1.0')
@@ -177,6 +178,17 @@ class BandsFromBuffers(unittest.TestCase):
         b = Bandmass.Bands.new_from_array(e, 1, (6, 6, 6), recip)
         want = b.call('mass-tensor', request)
         e[:] = 0.0
+        self.assertEqual(b.call('mass-tensor', request), want)
+
+    def test_without_memory_files(self):
+        # where no memory file can be made, the bytes go through GLib.Bytes
+        e = cosine_band((0.5, 1.0, 2.0), 4.0, 6)
+        recip = np.eye(3) * 2 * np.pi / 4.0
+        request = '{"band": 0, "extremum": "minimum"}'
+        want = Bandmass.Bands.new_from_array(e, 1, (6, 6, 6), recip).call('mass-tensor', request)
+        with unittest.mock.patch.object(os, 'memfd_create', side_effect=OSError('no memfd'),
+                                        create=True):
+            b = Bandmass.Bands.new_from_array(e, 1, (6, 6, 6), recip)
         self.assertEqual(b.call('mass-tensor', request), want)
 
     def test_any_shape_same_grid(self):
