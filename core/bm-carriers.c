@@ -554,9 +554,14 @@ bm_status bm_2d_dos(double mass, double valley_degeneracy, double *dos_cm2_ev,
     return BM_OK;
 }
 
+/* The checks both 2D functions make; *result (the place for the answer) is
+ * set to NaN first. */
 static bm_status check_subbands(const bm_subband *sub, size_t nsub, double t_k,
-                                bm_errbuf *err)
+                                double *result, bm_errbuf *err)
 {
+    if (!result)
+        return bm_fail(err, BM_EINVAL, "2D gas: no place for the result");
+    *result = NAN;
     if (nsub == 0 || !sub)
         return bm_fail(err, BM_EINVAL, "2D gas: no subbands given");
     if (nsub > BM_MAX_SUBBANDS)
@@ -592,27 +597,33 @@ static double sub_log(const bm_subband *s, double kt, double u, double *dlog)
     return log(gv * s->mass * BM_DOS2D_PER_EV_CM2 * kt) + lsp;
 }
 
+/* Total sheet density at reduced Fermi level u, and each subband's share in
+ * per_subband (may be NULL). */
+static double sheet_at(const bm_subband *sub, size_t nsub, double kt, double u,
+                       double *per_subband)
+{
+    double total = 0.0, d;
+    for (size_t i = 0; i < nsub; i++) {
+        double ni = exp(sub_log(&sub[i], kt, u, &d));
+        if (per_subband)
+            per_subband[i] = ni;
+        total += ni;
+    }
+    return total;
+}
+
 bm_status bm_2d_sheet_density(const bm_subband *sub, size_t nsub, double t_k,
                               double fermi_level_ev, double *sheet_cm2,
                               double *per_subband, bm_errbuf *err)
 {
-    if (!sheet_cm2)
-        return bm_fail(err, BM_EINVAL, "2D gas: no place for the result");
-    *sheet_cm2 = NAN;
-    bm_status st = check_subbands(sub, nsub, t_k, err);
+    bm_status st = check_subbands(sub, nsub, t_k, sheet_cm2, err);
     if (st)
         return st;
     if (!isfinite(fermi_level_ev))
         return bm_fail(err, BM_EINVAL, "2D gas: Fermi level %g eV is not finite",
                        fermi_level_ev);
-    double kt = BM_KB_EV * t_k, total = 0.0, d;
-    for (size_t i = 0; i < nsub; i++) {
-        double ni = exp(sub_log(&sub[i], kt, fermi_level_ev / kt, &d));
-        if (per_subband)
-            per_subband[i] = ni;
-        total += ni;
-    }
-    *sheet_cm2 = total;
+    double kt = BM_KB_EV * t_k;
+    *sheet_cm2 = sheet_at(sub, nsub, kt, fermi_level_ev / kt, per_subband);
     return BM_OK;
 }
 
@@ -620,10 +631,7 @@ bm_status bm_2d_fermi_level(const bm_subband *sub, size_t nsub, double t_k,
                             double sheet_cm2, double *fermi_level_ev,
                             double *per_subband, bm_errbuf *err)
 {
-    if (!fermi_level_ev)
-        return bm_fail(err, BM_EINVAL, "2D gas: no place for the result");
-    *fermi_level_ev = NAN;
-    bm_status st = check_subbands(sub, nsub, t_k, err);
+    bm_status st = check_subbands(sub, nsub, t_k, fermi_level_ev, err);
     if (st)
         return st;
     if (!(sheet_cm2 > 0.0) || !isfinite(sheet_cm2))
@@ -693,11 +701,8 @@ bm_status bm_2d_fermi_level(const bm_subband *sub, size_t nsub, double t_k,
         return bm_fail(err, BM_ENOCONV, "2D gas: Fermi level for %g cm^-2 did not converge",
                        sheet_cm2);
     *fermi_level_ev = u * kt;
-    if (per_subband) {
-        double d;
-        for (size_t i = 0; i < nsub; i++)
-            per_subband[i] = exp(sub_log(&sub[i], kt, u, &d));
-    }
+    if (per_subband)
+        sheet_at(sub, nsub, kt, u, per_subband);
     return BM_OK;
 }
 

@@ -51,19 +51,23 @@ static inline void bm_m3_apply(double *y, const double *a, const double *x)
     y[0] = t[0]; y[1] = t[1]; y[2] = t[2];
 }
 
+/* b = a^T (b may alias a). */
+static inline void bm_m3_transpose(double *b, const double *a)
+{
+    double t[9];
+    for (int i = 0; i < 3; i++)
+        for (int j = 0; j < 3; j++)
+            BM_M3(t, i, j) = BM_M3(a, j, i);
+    bm_m3_copy(b, t);
+}
+
 /* out = r t r^T: a second-rank tensor t carried by the operation r. */
 static inline void bm_m3_rotate_tensor(double *out, const double *r, const double *t)
 {
-    double rt[9], res[9];
+    double rt[9], r_transposed[9];
     bm_m3_mul(rt, r, t);
-    for (int i = 0; i < 3; i++)
-        for (int j = 0; j < 3; j++) {
-            double s = 0.0;
-            for (int k = 0; k < 3; k++)
-                s += BM_M3(rt, i, k) * BM_M3(r, j, k);
-            BM_M3(res, i, j) = s;
-        }
-    bm_m3_copy(out, res);
+    bm_m3_transpose(r_transposed, r);
+    bm_m3_mul(out, rt, r_transposed);
 }
 
 static inline double bm_m3_det(const double *a)

@@ -1,6 +1,7 @@
 /* bm-error-private.h: the plugin's side of the error domain, not installed:
  * core error buffers become GErrors in one place (bm_error_from_core), and a
- * shorthand for invalid-input errors. */
+ * shorthand for invalid-input errors, and file reading with an error that
+ * says what was being read. */
 #ifndef BM_ERROR_PRIVATE_H
 #define BM_ERROR_PRIVATE_H
 
@@ -16,6 +17,12 @@ void bm_error_from_core(GError **error, const bm_errbuf *err, const char *contex
  * readers can write `return bm_error_invalid(error, path, "...", ...);`. */
 gboolean bm_error_invalid(GError **error, const char *context, const char *fmt, ...)
     G_GNUC_PRINTF(3, 4);
+
+/* Reads the whole file at path into *text (free it) and *length (may be
+ * NULL); on failure sets BM_ERROR_IO "cannot read WHAT: reason" and returns
+ * FALSE. The reason names the file. */
+gboolean bm_error_read_file(const char *path, const char *what, char **text, gsize *length,
+                            GError **error);
 
 G_END_DECLS
 

@@ -38,3 +38,13 @@ gboolean bm_error_invalid(GError **error, const char *context, const char *fmt, 
     g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: %s", context, msg);
     return FALSE;
 }
+
+gboolean bm_error_read_file(const char *path, const char *what, char **text, gsize *length,
+                            GError **error)
+{
+    g_autoptr(GError) io = NULL;
+    if (g_file_get_contents(path, text, length, &io))
+        return TRUE;
+    g_set_error(error, BM_ERROR, BM_ERROR_IO, "cannot read %s: %s", what, io->message);
+    return FALSE;
+}

@@ -118,15 +118,11 @@ typedef JsonObject *(*BmOperationFunc)(JsonObject *request,
                                        const BmCallInputs *inputs,
                                        GError **error);
 
-/* Appends a readable rendering of a response (the CLI's default view). */
-typedef void (*BmRenderFunc)(JsonObject *response, GString *out);
-
 typedef struct {
     const char *name;          /* e.g. "mass-tensor" */
     const char *summary;       /* one line */
     const BmParam *params;     /* terminated by BM_PARAM_END */
     BmOperationFunc run;
-    BmRenderFunc render;       /* NULL: generic key/value rendering */
     const BmField *response;   /* terminated by BM_FIELD_END */
 } BmOperation;
 
@@ -185,9 +181,6 @@ JsonNode *bm_registry_describe(void);
 /* The fields every response carries beside an operation's own table
  * ("warnings", "warning_codes"), terminated by BM_FIELD_END. */
 extern const BmField bm_common_fields[];
-
-/* Generic readable rendering, used when an operation has no renderer. */
-void bm_render_generic(JsonObject *response, GString *out);
 
 G_END_DECLS
 

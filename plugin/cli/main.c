@@ -7,6 +7,7 @@
 
 #include "registry.h"
 #include "bm-json.h"
+#include "render.h"
 
 #define EXIT_USAGE 2
 
@@ -65,15 +66,10 @@ static gboolean emit(const char *path, const char *text, GError **error)
 
 static char *read_all(const char *path, GError **error)
 {
-    g_autoptr(GError) io = NULL;
     char *text = NULL;
     if (path) {
-        if (!g_file_get_contents(path, &text, NULL, &io)) {
-            g_set_error(error, BM_ERROR, BM_ERROR_IO, "cannot read request %s: %s",
-                        path, io->message);
-            return NULL;
-        }
-        return text;
+        g_autofree char *what = g_strdup_printf("request %s", path);
+        return bm_error_read_file(path, what, &text, NULL, error) ? text : NULL;
     }
     GString *s = g_string_new(NULL);
     char buf[65536];
@@ -463,10 +459,7 @@ static int cmd_operation(const BmOperation *op, int argc, char **argv)
         if (!render_csv(response, out, &error))
             return fail(error);
     } else {
-        if (op->render)
-            op->render(response, out);
-        else
-            bm_render_generic(response, out);
+        bm_cli_render(op, response, out);
         JsonArray *warnings = json_object_get_array_member(response, "warnings");
         for (guint i = 0; warnings && i < json_array_get_length(warnings); i++)
             g_string_append_printf(out, "warning: %s\n",

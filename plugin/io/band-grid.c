@@ -524,13 +524,8 @@ BmBandGrid *bm_band_grid_load(const char *path, GError **error)
     g_return_val_if_fail(path != NULL, NULL);
     g_autofree char *text = NULL;
     gsize len = 0;
-    GError *local = NULL;
-    if (!g_file_get_contents(path, &text, &len, &local)) {
-        g_set_error(error, BM_ERROR, BM_ERROR_IO, "cannot read band grid document: %s",
-                    local->message);
-        g_error_free(local);
+    if (!bm_error_read_file(path, "band grid document", &text, &len, error))
         return NULL;
-    }
     if (len > G_MAXSSIZE) {
         g_set_error(error, BM_ERROR, BM_ERROR_IO, "%s: file too large", path);
         return NULL;

@@ -258,11 +258,7 @@ BmKTable *bm_ktable_load(const char *path, GError **error)
     g_return_val_if_fail(path != NULL, NULL);
     g_autofree char *text = NULL;
     gsize len = 0;
-    GError *local = NULL;
-    if (!g_file_get_contents(path, &text, &len, &local)) {
-        g_set_error(error, BM_ERROR, BM_ERROR_IO, "cannot read k-table: %s", local->message);
-        g_error_free(local);
+    if (!bm_error_read_file(path, "k-table", &text, &len, error))
         return NULL;
-    }
     return bm_ktable_load_from_data(text, len, path, error);
 }

@@ -128,34 +128,11 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     return resp;
 }
 
-static void render(JsonObject *response, GString *out)
-{
-    g_string_append_printf(out, "material   %s (%s form)\nsource     %s\n",
-                           json_object_get_string_member(response, "material"),
-                           json_object_get_string_member(response, "model"),
-                           json_object_get_string_member(response, "source"));
-    g_string_append_printf(out, "%14s  %12s\n", "temperature_k", "band_gap_ev");
-    if (json_object_has_member(response, "points")) {
-        JsonArray *pts = json_object_get_array_member(response, "points");
-        for (guint i = 0; i < json_array_get_length(pts); i++) {
-            JsonObject *p = json_array_get_object_element(pts, i);
-            g_string_append_printf(out, "%14g  %12.6f\n",
-                                   json_object_get_double_member(p, "temperature_k"),
-                                   json_object_get_double_member(p, "band_gap_ev"));
-        }
-    } else {
-        g_string_append_printf(out, "%14g  %12.6f\n",
-                               json_object_get_double_member(response, "temperature_k"),
-                               json_object_get_double_member(response, "band_gap_ev"));
-    }
-}
-
 const BmOperation bm_op_band_gap = {
     .name = "band-gap",
     .summary = "Band gap against temperature (the material's Varshni, Bose-Einstein or "
                "fixed gap)",
     .params = params,
     .run = run,
-    .render = render,
     .response = response,
 };

@@ -351,49 +351,11 @@ done:
     return resp;
 }
 
-static void render_row(GString *out, JsonObject *o)
-{
-    g_string_append_printf(out, "%8g %8.4f %10.3e %10.3e %10.3e %9.4f %10.3e %10.3e  %s\n",
-                           json_object_get_double_member(o, "temperature_k"),
-                           json_object_get_double_member(o, "band_gap_ev"),
-                           json_object_get_double_member(o, "nc_cm3"),
-                           json_object_get_double_member(o, "nv_cm3"),
-                           json_object_get_double_member(o, "ni_cm3"),
-                           json_object_get_double_member(o, "fermi_level_ev"),
-                           json_object_get_double_member(o, "n_cm3"),
-                           json_object_get_double_member(o, "p_cm3"),
-                           json_object_get_string_member(o, "regime"));
-}
-
-static void render(JsonObject *response, GString *out)
-{
-    g_string_append_printf(out, "material %s, Fermi level from the %s, %s statistics\n",
-                           json_object_get_string_member(response, "material"),
-                           json_object_get_string_member(response, "fermi_level_reference"),
-                           json_object_get_string_member(response, "statistics"));
-    JsonObject *src = json_object_get_object_member(response, "sources");
-    g_string_append_printf(out, "gap: %s\nelectron DOS mass: %s\nhole DOS mass (the "
-                           "statistics mass m_dh(T), statistics_hole_dos_mass_me): %s\n",
-                           json_object_get_string_member(src, "band_gap_ev"),
-                           json_object_get_string_member(src, "electron_dos_mass_me"),
-                           json_object_get_string_member(src, "statistics_hole_dos_mass_me"));
-    g_string_append_printf(out, "%8s %8s %10s %10s %10s %9s %10s %10s  %s\n", "T_K", "Eg_eV",
-                           "Nc_cm3", "Nv_cm3", "ni_cm3", "EF_eV", "n_cm3", "p_cm3", "regime");
-    if (json_object_has_member(response, "points")) {
-        JsonArray *pts = json_object_get_array_member(response, "points");
-        for (guint i = 0; i < json_array_get_length(pts); i++)
-            render_row(out, json_array_get_object_element(pts, i));
-    } else {
-        render_row(out, response);
-    }
-}
-
 const BmOperation bm_op_carrier_statistics = {
     .name = "carrier-statistics",
     .summary = "Effective densities of states, intrinsic density, Fermi level and ionised "
                "dopants from charge neutrality",
     .params = params,
     .run = run,
-    .render = render,
     .response = response,
 };

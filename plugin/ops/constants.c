@@ -15,33 +15,39 @@ static const BmField response[] = {
     BM_FIELD_END
 };
 
-static void add(JsonObject *all, const char *key, double value, const char *meaning)
-{
-    JsonObject *c = json_object_new();
-    bm_json_set_number(c, "value", value);
-    json_object_set_string_member(c, "meaning", meaning);
-    json_object_set_object_member(all, key, c);
-}
-
 static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
 {
     (void)request; (void)inputs; (void)error;
+    /* The constants, as data: key (unit in the name), value, meaning (a local
+     * table: some values are computed, not constant expressions). */
+    const struct {
+        const char *key;
+        double value;
+        const char *meaning;
+    } constants[] = {
+        { "hbar2_over_me_ev_a2", BM_HBAR2_OVER_ME_EV_A2,
+          "hbar^2/m_e: inverse mass tensor (1/m_e) = Hessian (eV A^2) / this" },
+        { "boltzmann_ev_per_k", BM_KB_EV, "k_B" },
+        { "nc_at_1k_cm3", BM_NC_PREFACTOR_CM3,
+          "2 (2 pi m_e k_B T / h^2)^(3/2) at 1 K; scale by (m/m_e)^(3/2) T^(3/2)" },
+        { "dos2d_per_ev_cm2", BM_DOS2D_PER_EV_CM2,
+          "m_e / (pi hbar^2): 2D density of states per spin-degenerate valley" },
+        { "cyclotron_ghz_per_tesla", BM_CYCLOTRON_GHZ_PER_T,
+          "e / (2 pi m_e): free-electron cyclotron frequency" },
+        { "damping_k_per_tesla", BM_LK_K_PER_T,
+          "2 pi^2 k_B m_e / (hbar e): X = this p (m/m_e) T / B" },
+        { "onsager_tesla_a2", BM_ONSAGER_T_A2,
+          "hbar / (2 pi e): oscillation frequency (T) per orbit area (A^-2)" },
+        { "cyclotron_mass_per_dade", BM_CYCLOTRON_MASS_PER_DADE,
+          "hbar^2 / (2 pi m_e): m_c/m_e per dA/dE (A^-2 per eV)" },
+    };
     JsonObject *all = json_object_new();
-    add(all, "hbar2_over_me_ev_a2", BM_HBAR2_OVER_ME_EV_A2,
-        "hbar^2/m_e: inverse mass tensor (1/m_e) = Hessian (eV A^2) / this");
-    add(all, "boltzmann_ev_per_k", BM_KB_EV, "k_B");
-    add(all, "nc_at_1k_cm3", BM_NC_PREFACTOR_CM3,
-        "2 (2 pi m_e k_B T / h^2)^(3/2) at 1 K; scale by (m/m_e)^(3/2) T^(3/2)");
-    add(all, "dos2d_per_ev_cm2", BM_DOS2D_PER_EV_CM2,
-        "m_e / (pi hbar^2): 2D density of states per spin-degenerate valley");
-    add(all, "cyclotron_ghz_per_tesla", BM_CYCLOTRON_GHZ_PER_T,
-        "e / (2 pi m_e): free-electron cyclotron frequency");
-    add(all, "damping_k_per_tesla", BM_LK_K_PER_T,
-        "2 pi^2 k_B m_e / (hbar e): X = this p (m/m_e) T / B");
-    add(all, "onsager_tesla_a2", BM_ONSAGER_T_A2,
-        "hbar / (2 pi e): oscillation frequency (T) per orbit area (A^-2)");
-    add(all, "cyclotron_mass_per_dade", BM_CYCLOTRON_MASS_PER_DADE,
-        "hbar^2 / (2 pi m_e): m_c/m_e per dA/dE (A^-2 per eV)");
+    for (gsize i = 0; i < G_N_ELEMENTS(constants); i++) {
+        JsonObject *c = json_object_new();
+        bm_json_set_number(c, "value", constants[i].value);
+        json_object_set_string_member(c, "meaning", constants[i].meaning);
+        json_object_set_object_member(all, constants[i].key, c);
+    }
     JsonObject *response = json_object_new();
     json_object_set_object_member(response, "constants", all);
     json_object_set_string_member(response, "source",
@@ -49,26 +55,10 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     return response;
 }
 
-static void render(JsonObject *response, GString *out)
-{
-    JsonObject *all = json_object_get_object_member(response, "constants");
-    g_autoptr(GList) keys = json_object_get_members(all);
-    g_string_append_printf(out, "%-26s %-14s %s\n", "constant", "value", "meaning");
-    for (GList *l = keys; l; l = l->next) {
-        JsonObject *c = json_object_get_object_member(all, l->data);
-        g_string_append_printf(out, "%-26s %-14.7g %s\n", (const char *)l->data,
-                               json_object_get_double_member(c, "value"),
-                               json_object_get_string_member(c, "meaning"));
-    }
-    g_string_append_printf(out, "source: %s\n",
-                           json_object_get_string_member(response, "source"));
-}
-
 const BmOperation bm_op_constants = {
     .name = "constants",
     .summary = "Physical constants the project uses, in its interface units",
     .params = params,
     .run = run,
-    .render = render,
     .response = response,
 };

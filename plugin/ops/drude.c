@@ -88,37 +88,11 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     return resp;
 }
 
-static void line(GString *out, JsonObject *r, const char *key, const char *label,
-                 const char *unit)
-{
-    if (!json_object_has_member(r, key))
-        return;
-    JsonNode *n = json_object_get_member(r, key);
-    if (JSON_NODE_HOLDS_NULL(n))
-        g_string_append_printf(out, "%-22s -\n", label);
-    else
-        g_string_append_printf(out, "%-22s %.6g %s\n", label, json_node_get_double(n), unit);
-}
-
-static void render(JsonObject *response, GString *out)
-{
-    line(out, response, "mass_me", "mass", "m_e");
-    line(out, response, "scattering_time_s", "scattering time", "s");
-    line(out, response, "mobility_cm2_per_vs", "mobility", "cm^2/(V s)");
-    line(out, response, "density_cm3", "density", "cm^-3");
-    line(out, response, "conductivity_s_per_cm", "conductivity", "S/cm");
-    line(out, response, "resistivity_ohm_cm", "resistivity", "ohm cm");
-    line(out, response, "temperature_k", "temperature", "K");
-    line(out, response, "thermal_velocity_cm_per_s", "thermal velocity", "cm/s");
-    line(out, response, "mean_free_path_nm", "mean free path", "nm");
-}
-
 const BmOperation bm_op_drude = {
     .name = "drude",
     .summary = "Drude transport: mobility, scattering time, conductivity, thermal velocity, "
                "mean free path",
     .params = params,
     .run = run,
-    .render = render,
     .response = response,
 };

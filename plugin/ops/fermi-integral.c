@@ -93,33 +93,10 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     return resp;
 }
 
-static double element(JsonNode *n, guint i)
-{
-    if (JSON_NODE_HOLDS_ARRAY(n)) {
-        JsonNode *e = json_array_get_element(json_node_get_array(n), i);
-        return JSON_NODE_HOLDS_NULL(e) ? NAN : json_node_get_double(e);
-    }
-    return JSON_NODE_HOLDS_NULL(n) ? NAN : json_node_get_double(n);
-}
-
-static void render(JsonObject *response, GString *out)
-{
-    double j = json_object_get_double_member(response, "order");
-    g_string_append_printf(out, "F_j, j = %g, normalisation %s\n", j,
-                           json_object_get_string_member(response, "normalisation"));
-    JsonNode *eta = json_object_get_member(response, "eta");
-    JsonNode *val = json_object_get_member(response, "values");
-    guint n = JSON_NODE_HOLDS_ARRAY(eta) ? json_array_get_length(json_node_get_array(eta)) : 1;
-    g_string_append_printf(out, "%22s  %22s\n", "eta", "F_j(eta)");
-    for (guint i = 0; i < n; i++)
-        g_string_append_printf(out, "%22.15g  %22.15g\n", element(eta, i), element(val, i));
-}
-
 const BmOperation bm_op_fermi_integral = {
     .name = "fermi-integral",
     .summary = "Complete Fermi-Dirac integrals F_j(eta), j = -1/2 ... 2, and the inverse of F_1/2",
     .params = params,
     .run = run,
-    .render = render,
     .response = response,
 };

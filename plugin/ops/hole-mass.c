@@ -337,81 +337,11 @@ done:
     return resp;
 }
 
-/* A number member of o, or NAN when it is absent or null. */
-static double member(JsonObject *o, const char *key)
-{
-    JsonNode *n = o ? json_object_get_member(o, key) : NULL;
-    return n && JSON_NODE_HOLDS_VALUE(n) ? json_node_get_double(n) : NAN;
-}
-
-/* A mass column; "-" where there is none (an open surface: see the warnings). */
-static void append_mass(GString *out, double v)
-{
-    if (isfinite(v))
-        g_string_append_printf(out, "  %8.4f", v);
-    else
-        g_string_append(out, "         -");
-}
-
-static const char *source_of(JsonObject *response, const char *key)
-{
-    JsonObject *s = json_object_get_object_member(response, "sources");
-    return s && json_object_has_member(s, key) ? json_object_get_string_member(s, key) : "-";
-}
-
-static void render(JsonObject *response, GString *out)
-{
-    if (json_object_has_member(response, "material"))
-        g_string_append_printf(out, "material %s\n",
-                               json_object_get_string_member(response, "material"));
-    if (json_object_has_member(response, "parabolic_hole_dos_mass_me")) {
-        JsonObject *f = json_object_get_object_member(response, "band_fractions");
-        g_string_append_printf(out, "parabolic hole DOS mass        %.4f m_e   (population: "
-                               "heavy %.3f, light %.3f, split-off %.3g)\n",
-                               member(response, "parabolic_hole_dos_mass_me"),
-                               member(f, "heavy"), member(f, "light"),
-                               member(f, "split_off"));
-    }
-    if (json_object_has_member(response, "luttinger")) {
-        JsonObject *l = json_object_get_object_member(response, "luttinger");
-        JsonObject *hh = json_object_get_object_member(l, "heavy_hole_mass_me");
-        JsonObject *lh = json_object_get_object_member(l, "light_hole_mass_me");
-        g_string_append(out, "Luttinger masses, m_e     [100]     [110]     [111]   DOS "
-                             "(angle average)\n");
-        const char *rows[2] = { "heavy hole", "light hole" };
-        JsonObject *dirs[2] = { hh, lh };
-        const char *dos[2] = { "heavy_hole_dos_mass_me", "light_hole_dos_mass_me" };
-        for (int r = 0; r < 2; r++) {
-            double v[4] = { member(dirs[r], "100"), member(dirs[r], "110"),
-                            member(dirs[r], "111"), member(l, dos[r]) };
-            g_string_append_printf(out, "  %-20s", rows[r]);
-            for (int c = 0; c < 4; c++)
-                append_mass(out, v[c]);
-            g_string_append_c(out, '\n');
-        }
-        g_string_append_printf(out, "  %-50s", "band-edge k.p hole DOS mass (heavy + light)");
-        append_mass(out, member(response, "band_edge_hole_dos_mass_me"));
-        g_string_append_c(out, '\n');
-        if (json_object_has_member(response, "band_edge_hole_dos_mass_with_split_off_me")) {
-            g_string_append_printf(out, "  %-50s", "  with the split-off band at temperature");
-            append_mass(out, member(response, "band_edge_hole_dos_mass_with_split_off_me"));
-            g_string_append_c(out, '\n');
-        }
-    }
-    if (json_object_has_member(response, "statistics_hole_dos_mass_me"))
-        g_string_append_printf(out, "statistics hole DOS mass m_dh(%g K) %.4f m_e (gives Nv)\n"
-                               "  source: %s\n",
-                               member(response, "temperature_k"),
-                               member(response, "statistics_hole_dos_mass_me"),
-                               source_of(response, "statistics_hole_dos_mass_me"));
-}
-
 const BmOperation bm_op_hole_mass = {
     .name = "hole-mass",
     .summary = "Hole DOS masses: parabolic heavy/light/split-off combination; directional "
                "masses and the band-edge k.p DOS mass from Luttinger parameters",
     .params = params,
     .run = run,
-    .render = render,
     .response = response,
 };

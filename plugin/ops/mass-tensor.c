@@ -330,83 +330,10 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     return response;
 }
 
-/* ---- readable table for the CLI ---- */
-
-static void append_value(GString *out, JsonNode *n, const char *fmt)
-{
-    if (n && JSON_NODE_HOLDS_VALUE(n) && json_node_get_value_type(n) == G_TYPE_STRING)
-        g_string_append_printf(out, " %10s", json_node_get_string(n));
-    else if (n && JSON_NODE_HOLDS_VALUE(n))
-        g_string_append_printf(out, fmt, json_node_get_double(n));
-    else
-        g_string_append_printf(out, " %10s", "-");
-}
-
-static void render(JsonObject *response, GString *out)
-{
-    JsonObject *b = json_object_get_object_member(response, "band");
-    const char *name = json_object_get_null_member(b, "name") ? NULL
-                     : json_object_get_string_member(b, "name");
-    g_string_append_printf(out, "band %" G_GINT64_FORMAT "%s%s%s of %s\n",
-                           json_object_get_int_member(b, "index"), name ? " (" : "",
-                           name ? name : "", name ? ")" : "",
-                           json_object_get_string_member(response, "source"));
-    JsonArray *list = json_object_get_array_member(response, "extrema");
-    guint n = json_array_get_length(list);
-    /* grids give fractional k; scattered tables only Cartesian k */
-    gboolean fractional = n > 0 && JSON_NODE_HOLDS_ARRAY(json_object_get_member(
-        json_array_get_object_element(list, 0), "k_fractional"));
-    g_string_append_printf(out, "%-3s %-8s %12s  %-28s %10s %10s %10s %10s\n", "#", "kind",
-                           "energy_ev", fractional ? "k_fractional" : "k_inv_angstrom",
-                           "m1_me", "m2_me", "m3_me", "fit_rms_ev");
-    for (guint i = 0; i < n; i++) {
-        JsonObject *e = json_array_get_object_element(list, i);
-        double energy = json_object_get_double_member(e, "energy_ev");
-        if (fabs(energy) < 5e-7)
-            energy = 0.0;   /* a rounding error below the printed digits is not "-0" */
-        g_string_append_printf(out, "%-3u %-8s %12.6f  ", i,
-                               json_object_get_string_member(e, "kind"), energy);
-        JsonArray *k = json_object_get_array_member(e, fractional ? "k_fractional"
-                                                                  : "k_inv_angstrom");
-        g_autofree char *ktext = g_strdup_printf("(%.4f, %.4f, %.4f)",
-                                                 json_array_get_double_element(k, 0),
-                                                 json_array_get_double_element(k, 1),
-                                                 json_array_get_double_element(k, 2));
-        g_string_append_printf(out, "%-28s", ktext);
-        JsonArray *m = json_object_get_array_member(e, "principal_masses_me");
-        for (guint c = 0; c < 3; c++)
-            append_value(out, json_array_get_element(m, c), " %10.4f");
-        append_value(out, json_object_get_member(e, "fit_rms_ev"), " %10.2e");
-        g_string_append_c(out, '\n');
-        JsonArray *axes = json_object_get_array_member(e, "principal_axes");
-        for (guint r = 0; r < 3; r++) {
-            JsonArray *row = json_array_get_array_element(axes, r);
-            JsonNode *mr = json_array_get_element(m, r);
-            if (JSON_NODE_HOLDS_NULL(mr))
-                continue;
-            g_string_append_printf(out, "      axis %u: (", r + 1);
-            for (guint c = 0; c < 3; c++) {
-                JsonNode *v = json_array_get_element(row, c);
-                g_string_append_printf(out, c ? ", %.4f" : "%.4f",
-                                       JSON_NODE_HOLDS_NULL(v) ? NAN : json_node_get_double(v));
-            }
-            g_string_append(out, ")\n");
-        }
-        JsonArray *w = json_object_get_array_member(e, "warnings");
-        for (guint c = 0; c < json_array_get_length(w); c++)
-            g_string_append_printf(out, "      warning: %s\n",
-                                   json_array_get_string_element(w, c));
-    }
-    if (n == 0)
-        g_string_append(out, "(no extrema)\n");
-    /* top-level warnings are printed by the host after the table */
-}
-
 const BmOperation bm_op_mass_tensor = {
     .name = "mass-tensor",
     .summary = "Band extrema of a grid or k-table and their inertial mass tensors",
     .params = params,
     .response = response,
     .run = run,
-    .render = render,
 };

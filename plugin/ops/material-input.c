@@ -444,14 +444,20 @@ static gboolean read_object(BmMaterialInput *in, JsonObject *o, const char *wher
 
 /* ---- writer ---- */
 
+/* A "source" member of o, written when the source is known. */
+static void set_source(JsonObject *o, const char *source)
+{
+    if (source)
+        json_object_set_string_member(o, "source", source);
+}
+
 static void set_sourced(JsonObject *o, const char *key, double v, const char *source)
 {
     if (!isfinite(v) && !source)
         return;
     JsonObject *s = json_object_new();
     bm_json_set_number(s, "value", v);
-    if (source)
-        json_object_set_string_member(s, "source", source);
+    set_source(s, source);
     json_object_set_object_member(o, key, s);
 }
 
@@ -466,8 +472,7 @@ static JsonObject *gap_json(const bm_gap_model *g)
         bm_json_set_number(p, "a_b_ev", g->a_b_ev);
         bm_json_set_number(p, "theta_k", g->theta_k);
     }
-    if (g->source)
-        json_object_set_string_member(p, "source", g->source);
+    set_source(p, g->source);
     return p;
 }
 
@@ -485,8 +490,7 @@ static JsonObject *valley_json(const bm_valley_info *e)
     bm_json_set_number(v, "longitudinal_mass_me", e->m_longitudinal);
     bm_json_set_number(v, "transverse_mass_me", e->m_transverse);
     bm_json_set_number(v, "transverse2_mass_me", e->m_transverse2);
-    if (e->source)
-        json_object_set_string_member(v, "source", e->source);
+    set_source(v, e->source);
     return v;
 }
 
@@ -508,8 +512,7 @@ static JsonObject *dos_json(const bm_dos_mass_model *m)
         }
         json_object_set_array_member(d, "points", a);
     }
-    if (m->source)
-        json_object_set_string_member(d, "source", m->source);
+    set_source(d, m->source);
     return d;
 }
 
@@ -564,8 +567,7 @@ static void write_field(JsonObject *o, const bm_material *m, const Field *f)
             bm_json_set_vec3(l, "value", g);
         else
             json_object_set_null_member(l, "value");
-        if (m->luttinger_source)
-            json_object_set_string_member(l, "source", m->luttinger_source);
+        set_source(l, m->luttinger_source);
         json_object_set_object_member(o, f->key, l);
         return;
     }
@@ -580,8 +582,7 @@ static void write_field(JsonObject *o, const bm_material *m, const Field *f)
             bm_json_set_number(e, "ionization_ev", md->ionisation_ev);
             if (md->degeneracy > 0.0)
                 bm_json_set_number(e, "degeneracy", md->degeneracy);
-            if (md->source)
-                json_object_set_string_member(e, "source", md->source);
+            set_source(e, md->source);
             json_array_add_object_element(d, e);
         }
         json_object_set_array_member(o, f->key, d);

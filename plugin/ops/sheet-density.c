@@ -111,37 +111,11 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     return resp;
 }
 
-static void render(JsonObject *response, GString *out)
-{
-    g_string_append_printf(out, "temperature        %g K\nFermi level        %.6f eV%s\n"
-                           "sheet density      %.6e cm^-2%s\n",
-                           json_object_get_double_member(response, "temperature_k"),
-                           json_object_get_double_member(response, "fermi_level_ev"),
-                           strcmp(json_object_get_string_member(response, "given"),
-                                  "fermi_level_ev") ? "" : " (given)",
-                           json_object_get_double_member(response, "sheet_density_cm2"),
-                           strcmp(json_object_get_string_member(response, "given"),
-                                  "sheet_density_cm2") ? "" : " (given)");
-    JsonArray *a = json_object_get_array_member(response, "subbands");
-    g_string_append_printf(out, "%10s %8s %4s %14s %14s\n", "energy_ev", "mass_me", "g_v",
-                           "dos_cm2_per_ev", "density_cm2");
-    for (guint i = 0; i < json_array_get_length(a); i++) {
-        JsonObject *o = json_array_get_object_element(a, i);
-        g_string_append_printf(out, "%10.4f %8.4g %4g %14.5e %14.5e\n",
-                               json_object_get_double_member(o, "energy_ev"),
-                               json_object_get_double_member(o, "mass_me"),
-                               json_object_get_double_member(o, "valley_degeneracy"),
-                               json_object_get_double_member(o, "dos_cm2_per_ev"),
-                               json_object_get_double_member(o, "sheet_density_cm2"));
-    }
-}
-
 const BmOperation bm_op_sheet_density = {
     .name = "sheet-density",
     .summary = "Two-dimensional electron gas: sheet density from a Fermi level, or the "
                "Fermi level of a sheet density",
     .params = params,
     .run = run,
-    .render = render,
     .response = response,
 };

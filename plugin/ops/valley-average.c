@@ -690,61 +690,11 @@ done:
     return resp;
 }
 
-static void render(JsonObject *response, GString *out)
-{
-    if (json_object_has_member(response, "material"))
-        g_string_append_printf(out, "material                %s (%s %s)\n",
-                               json_object_get_string_member(response, "material"),
-                               json_object_get_string_member(response, "point_group"),
-                               json_object_get_string_member(response, "position"));
-    if (json_object_has_member(response, "carrier_note"))
-        g_string_append_printf(out, "carrier                 hole (%s)\n",
-                               json_object_get_string_member(response, "carrier_note"));
-    g_string_append_printf(out, "valleys                 %g\n",
-                           json_object_get_double_member(response, "valley_count"));
-    g_string_append_printf(out, "DOS mass                %.6g m_e\n",
-                           json_object_get_double_member(response, "dos_mass_me"));
-    g_string_append_printf(out, "conductivity mass       %.6g m_e%s\n",
-                           json_object_get_double_member(response, "conductivity_mass_me"),
-                           json_object_get_boolean_member(response, "conductivity_isotropic")
-                           ? "" : " (harmonic mean)");
-    if (json_object_has_member(response, "conductivity_principal_masses_me")) {
-        JsonArray *m = json_object_get_array_member(response,
-                                                    "conductivity_principal_masses_me");
-        JsonArray *ax = json_object_get_array_member(response, "conductivity_principal_axes");
-        for (guint i = 0; i < json_array_get_length(m); i++) {
-            JsonArray *r = json_array_get_array_element(ax, i);
-            g_string_append_printf(out, "  principal %u           %.6g m_e along [%.4f %.4f %.4f]\n",
-                                   i + 1, json_array_get_double_element(m, i),
-                                   json_array_get_double_element(r, 0),
-                                   json_array_get_double_element(r, 1),
-                                   json_array_get_double_element(r, 2));
-        }
-    }
-    JsonArray *va = json_object_get_array_member(response, "valleys");
-    g_string_append(out, "direction                      weight  offset_ev  population\n");
-    for (guint i = 0; i < json_array_get_length(va); i++) {
-        JsonObject *o = json_array_get_object_element(va, i);
-        JsonArray *d = json_object_get_array_member(o, "direction");
-        g_string_append_printf(out, "[%7.4f %7.4f %7.4f]   %6.3g  %9.4g  %10.4g\n",
-                               json_array_get_double_element(d, 0),
-                               json_array_get_double_element(d, 1),
-                               json_array_get_double_element(d, 2),
-                               json_object_get_double_member(o, "weight"),
-                               json_object_get_double_member(o, "energy_offset_ev"),
-                               json_object_get_double_member(o, "population_fraction"));
-    }
-    JsonArray *w = json_object_get_array_member(response, "warnings");
-    for (guint i = 0; w && i < json_array_get_length(w); i++)
-        g_string_append_printf(out, "warning: %s\n", json_array_get_string_element(w, i));
-}
-
 const BmOperation bm_op_valley_average = {
     .name = "valley-average",
     .summary = "Valley star from a point group or a material (or an explicit list) and its "
                "conductivity and density-of-states masses",
     .params = params,
     .run = run,
-    .render = render,
     .response = response,
 };

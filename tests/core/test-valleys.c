@@ -26,6 +26,17 @@ static void star_of(const char *group, double ml, double mt, const double axis[3
     g_assert_cmpint(bm_valley_star_build(&s, site, axis, &g, star, &err), ==, BM_OK);
 }
 
+/* star_of, a check of the number of valleys, and their average (equal populations). */
+static void average_of(const char *group, double ml, double mt, const double axis[3],
+                       bm_valley_site site, size_t n, bm_valley_star *star,
+                       bm_valley_average *avg)
+{
+    star_of(group, ml, mt, axis, site, star);
+    g_assert_cmpuint(star->n, ==, n);
+    g_assert_cmpint(bm_valley_average_compute(star->valleys, star->n, NULL, avg, NULL), ==,
+                    BM_OK);
+}
+
 static void test_silicon(void)
 {
     const double ax[3] = {1, 0, 0};
@@ -195,9 +206,7 @@ static void test_hexagonal(void)
     const double ax[3] = {1, 0, 0};
     bm_valley_star star;
     bm_valley_average avg;
-    star_of("D6h", 0.9, 0.3, ax, BM_SITE_INTERIOR, &star);
-    g_assert_cmpuint(star.n, ==, 6);
-    g_assert_cmpint(bm_valley_average_compute(star.valleys, star.n, NULL, &avg, NULL), ==, BM_OK);
+    average_of("D6h", 0.9, 0.3, ax, BM_SITE_INTERIOR, 6, &star, &avg);
     g_assert_cmpint(avg.conductivity_isotropic, ==, 0);
     double mxy = 2.0 / (1 / 0.9 + 1 / 0.3);
     g_assert_cmpfloat_with_epsilon(avg.conductivity_mass_tensor[0][0], mxy, 1e-12);
@@ -350,9 +359,7 @@ static void test_warnings(void)
     const double ax[3] = {0, 0, 1};
     bm_valley_star star;
     bm_valley_average avg;
-    star_of("D4h", 25.0, 0.5, ax, BM_SITE_INTERIOR, &star);
-    g_assert_cmpuint(star.n, ==, 2);
-    g_assert_cmpint(bm_valley_average_compute(star.valleys, star.n, NULL, &avg, NULL), ==, BM_OK);
+    average_of("D4h", 25.0, 0.5, ax, BM_SITE_INTERIOR, 2, &star, &avg);
     g_assert_cmpint(avg.warnings.count, ==, 1);
     g_assert_nonnull(strstr(avg.warnings.items[0].text, "25"));
     g_assert_cmpint(avg.warnings.items[0].code, ==, BM_WARN_MASS_OUT_OF_RANGE);

@@ -233,6 +233,23 @@ static void test_valley_material(void)
     g_assert_cmpstr(json_object_get_string_member(o, "material"), ==, "Si");
 }
 
+/* The readable table shows each warning once, after the table: a Fermi
+ * level 0.5 eV into the band at 300 K is degenerate (0.5 / 0.02585 = 19.3 kT,
+ * kT from CODATA k_B). */
+static void test_table_warnings_once(void)
+{
+    g_auto(Run) r = { 0 };
+    run_cli(&r, NULL, "valley-average", "--valleys",
+            "[{\"longitudinal_mass_me\": 0.98, \"transverse_mass_me\": 0.19, "
+            "\"axis\": [1,0,0], \"energy_offset_ev\": 0.1}, {\"longitudinal_mass_me\": 0.98, "
+            "\"transverse_mass_me\": 0.19, \"axis\": [0,1,0]}]",
+            "--temperature-k", "300", "--fermi-level-ev", "0.5", NULL);
+    g_assert_cmpint(r.status, ==, 0);
+    g_auto(GStrv) parts = g_strsplit(r.out, "warning: the Fermi level lies 19.3 kT", -1);
+    g_assert_cmpuint(g_strv_length(parts), ==, 2);
+    g_assert_nonnull(strstr(parts[0], "population"));   /* after the table */
+}
+
 /* OP --help shows each key's unit, range, choices and default from the
  * table, and the response keys; a value outside the range is refused. */
 static void test_help_from_tables(void)
@@ -269,5 +286,6 @@ int main(int argc, char **argv)
     g_test_add_func("/cli/mass-tensor-bad-files", test_mass_tensor_bad_files);
     g_test_add_func("/cli/valley-material", test_valley_material);
     g_test_add_func("/cli/help-from-tables", test_help_from_tables);
+    g_test_add_func("/cli/table-warnings-once", test_table_warnings_once);
     return g_test_run();
 }

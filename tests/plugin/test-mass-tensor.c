@@ -6,6 +6,7 @@
 #include <glib/gstdio.h>
 
 #include "registry.h"
+#include "render.h"
 #include "bm-units.h"
 
 static char *tmp_dir;
@@ -115,6 +116,14 @@ static void expect_error(const char *request, int code, const char *what, const 
     if (!strstr(e->message, what) || (what2 && !strstr(e->message, what2)))
         g_error("message lacks \"%s\"/\"%s\": %s", what, what2 ? what2 : "", e->message);
     g_error_free(e);
+}
+
+/* expect_error for {"SOURCE": "path", KEYS} (SOURCE is "grid" or "table"). */
+static void expect_file_error(const char *source, const char *path, const char *keys,
+                              const char *what, const char *what2)
+{
+    g_autofree char *req = g_strdup_printf("{\"%s\": \"%s\", %s}", source, path, keys);
+    expect_error(req, BM_ERROR_INVALID_INPUT, what, what2);
 }
 
 static double mass_at(JsonObject *ext, guint m)
@@ -303,7 +312,7 @@ static void test_render(void)
     const BmOperation *op = bm_registry_lookup("mass-tensor");
     g_assert_nonnull(op);
     g_autoptr(GString) out = g_string_new(NULL);
-    op->render(r, out);
+    bm_cli_render(op, r, out);
     g_autofree char *mass = g_strdup_printf("%.4f", BM_HBAR2_OVER_ME_EV_A2 / (LAT_A * LAT_A));
     g_assert_nonnull(strstr(out->str, "band 1 (cb) of"));
     g_assert_nonnull(strstr(out->str, "minimum"));
@@ -314,32 +323,22 @@ static void test_render(void)
 static void test_bad(void)
 {
     g_autofree char *doc = tmp_path("cubic.json");
-    g_autofree char *req = NULL;
     expect_error("{\"band\": 0}", BM_ERROR_INVALID_INPUT, "give \"grid\"", "\"table\"");
     expect_error("{\"grid\": \"a.json\", \"table\": \"b.csv\", \"band\": 0}",
                  BM_ERROR_INVALID_INPUT, "not both", NULL);
     expect_error("{\"grid\": \"a.json\"}", BM_ERROR_INVALID_INPUT, "required key \"band\"", NULL);
     expect_error("{\"grid\": \"/nonexistent/a.json\", \"band\": 0}", BM_ERROR_IO,
                  "/nonexistent/a.json", NULL);
-    req = g_strdup_printf("{\"grid\": \"%s\", \"band\": \"so\"}", doc);
-    expect_error(req, BM_ERROR_INVALID_INPUT, "no band named 'so'", "'vb', 'cb'");
-    g_free(req);
-    req = g_strdup_printf("{\"grid\": \"%s\", \"band\": 2}", doc);
-    expect_error(req, BM_ERROR_INVALID_INPUT, "band index 2 is out of range", "indices 0..1");
-    g_free(req);
-    req = g_strdup_printf("{\"grid\": \"%s\", \"band\": 1, \"extremum\": \"lowest\"}", doc);
-    expect_error(req, BM_ERROR_INVALID_INPUT, "\"extremum\" must be one of minimum, maximum, all",
-                 "lowest");
-    g_free(req);
-    req = g_strdup_printf("{\"grid\": \"%s\", \"band\": 1, \"fit_radius_inv_angstrom\": -1}", doc);
-    expect_error(req, BM_ERROR_INVALID_INPUT, "fit_radius_inv_angstrom", ">= 0");
-    g_free(req);
-    req = g_strdup_printf("{\"grid\": \"%s\", \"band\": 1, \"degeneracy_tolerance_ev\": 0}", doc);
-    expect_error(req, BM_ERROR_INVALID_INPUT, "degeneracy_tolerance_ev", "> 0 eV");
-    g_free(req);
-    req = g_strdup_printf("{\"grid\": \"%s\", \"band\": 1, \"k_inv_angstrom\": [0, 0]}", doc);
-    expect_error(req, BM_ERROR_INVALID_INPUT, "k_inv_angstrom", "3 finite numbers");
-    g_free(req);
+    expect_file_error("grid", doc, "\"band\": \"so\"", "no band named 'so'", "'vb', 'cb'");
+    expect_file_error("grid", doc, "\"band\": 2", "band index 2 is out of range", "indices 0..1");
+    expect_file_error("grid", doc, "\"band\": 1, \"extremum\": \"lowest\"",
+                      "\"extremum\" must be one of minimum, maximum, all", "lowest");
+    expect_file_error("grid", doc, "\"band\": 1, \"fit_radius_inv_angstrom\": -1",
+                      "fit_radius_inv_angstrom", ">= 0");
+    expect_file_error("grid", doc, "\"band\": 1, \"degeneracy_tolerance_ev\": 0",
+                      "degeneracy_tolerance_ev", "> 0 eV");
+    expect_file_error("grid", doc, "\"band\": 1, \"k_inv_angstrom\": [0, 0]",
+                      "k_inv_angstrom", "3 finite numbers");
     /* a NaN inside the .npy file: the message names the document, band and mesh index */
     const size_t nshape[4] = { 1, 4, 4, 1 };
     double nv[16] = { 0 };
@@ -348,14 +347,11 @@ static void test_bad(void)
     write_text("nan.json", "{\"format\": \"bandmass-grid-1\", \"reciprocal_vectors_inv_angstrom\": "
                "[[1, 0, 0], [0, 1, 0], [0, 0, 1]], \"mesh\": [4, 4, 1], \"energies_ev\": \"nan.npy\"}");
     g_autofree char *nandoc = tmp_path("nan.json");
-    req = g_strdup_printf("{\"grid\": \"%s\", \"band\": 0}", nandoc);
-    expect_error(req, BM_ERROR_INVALID_INPUT, "nan.json: band 0, mesh index (i, j, l) = (1, 2, 0)",
-                 "not finite");
-    g_free(req);
+    expect_file_error("grid", nandoc, "\"band\": 0",
+                      "nan.json: band 0, mesh index (i, j, l) = (1, 2, 0)", "not finite");
     write_text("short.csv", "kx_inv_angstrom,ky_inv_angstrom,kz_inv_angstrom,cb_ev\n0,0,0,1\n0,0\n");
     g_autofree char *csv = tmp_path("short.csv");
-    req = g_strdup_printf("{\"table\": \"%s\", \"band\": 0}", csv);
-    expect_error(req, BM_ERROR_INVALID_INPUT, "short.csv: line 3: expected 4", "found 2");
+    expect_file_error("table", csv, "\"band\": 0", "short.csv: line 3: expected 4", "found 2");
 }
 
 int main(int argc, char **argv)

@@ -40,8 +40,7 @@ static const BmField echo_response[] = {
     BM_FIELD_END
 };
 
-static const BmOperation echo_op = { "echo", "test", echo_params, echo_run, NULL,
-                                     echo_response };
+static const BmOperation echo_op = { "echo", "test", echo_params, echo_run, echo_response };
 
 /* A reader of its own, defined here and nowhere in the registry: an
  * in-memory list of numbers standing in for the "values" key. */

@@ -28,10 +28,12 @@ A = 5.431
 NBANDS, NCONV = 10, 8
 
 
-def scf(out):
+def scf(out, log='scf.txt'):
+    """The self-consistent run both scripts start from (make_si_reference.py
+    imports it, so the settings are stated once)."""
     atoms = bulk('Si', 'diamond', a=A)
     calc = GPAW(mode=PW(300), xc='LDA', kpts={'size': (8, 8, 8), 'gamma': True},
-                occupations=FermiDirac(0.01), txt=str(out / 'scf.txt'))
+                occupations=FermiDirac(0.01), txt=str(out / log))
     atoms.calc = calc
     atoms.get_potential_energy()
     return atoms, calc

@@ -18,21 +18,10 @@ import sys
 from pathlib import Path
 
 import numpy as np
-from ase.build import bulk
-from gpaw import GPAW, PW, FermiDirac
 
-A = 5.431
+from make_si_corpus import A, NBANDS, NCONV, scf   # the same DFT settings
+
 HBAR2_ME = 7.619964   # eV Angstrom^2 (CODATA 2018: hbar^2 / m_e)
-NBANDS, NCONV = 10, 8
-
-
-def scf(out):
-    atoms = bulk('Si', 'diamond', a=A)
-    calc = GPAW(mode=PW(300), xc='LDA', kpts={'size': (8, 8, 8), 'gamma': True},
-                occupations=FermiDirac(0.01), txt=str(out / 'ref-scf.txt'))
-    atoms.calc = calc
-    atoms.get_potential_energy()
-    return atoms, calc
 
 
 def energies(calc, lattice, kcart, tag, out):
@@ -46,7 +35,7 @@ def energies(calc, lattice, kcart, tag, out):
 def main(out_dir):
     out = Path(out_dir)
     out.mkdir(parents=True, exist_ok=True)
-    atoms, calc = scf(out)
+    atoms, calc = scf(out, 'ref-scf.txt')
     lat = atoms.cell.array
     gx = 2 * np.pi / A                      # |Gamma-X|, 1/Angstrom
     ex, ey = np.array([1.0, 0, 0]), np.array([0, 1.0, 0])

@@ -5,6 +5,14 @@
 # shape, (nbands, n1, n2, n3) or flat, and hand its bytes over in one block
 # (Bands.new_from_bytes) instead of converting value by value. Lists and
 # other sequences still go the introspected way. Nothing is computed here.
+#
+# The block is an anonymous memory file the grid maps read-only (Linux
+# memfd): the kernel copies the array into it in one write, with no page
+# faults, where a Python bytes plus a GLib.Bytes would copy twice into fresh
+# memory and fault on every page. Elsewhere, or if the memory file cannot
+# be made, the bytes go through GLib.Bytes.
+import os
+
 from ..module import get_introspection_module
 from ..overrides import override
 
@@ -29,7 +37,29 @@ def _energy_bytes(energies):
             raise TypeError('Bandmass.Bands: the energies must be a C-contiguous buffer of '
                             'doubles (format "d"), got format %r' % view.format) from None
         view = memoryview(numpy.ascontiguousarray(energies, dtype=numpy.float64))
-    return GLib.Bytes.new(view.tobytes())
+    return _mapped_bytes(view) or GLib.Bytes.new(view.tobytes())
+
+
+def _mapped_bytes(view):
+    """The bytes of a C-contiguous view in a read-only mapping of an anonymous
+    memory file, or None where that is not available. The mapping keeps the
+    file alive; it is released with the last reference to the GLib.Bytes."""
+    create = getattr(os, 'memfd_create', None)
+    if create is None or view.nbytes == 0:
+        return None
+    try:
+        fd = create('bandmass-energies', os.MFD_CLOEXEC)
+    except OSError:
+        return None
+    try:
+        data, done = view.cast('B'), 0
+        while done < len(data):
+            done += os.write(fd, data[done:])
+        return GLib.MappedFile.new_from_fd(fd, False).get_bytes()
+    except (OSError, GLib.Error):
+        return None
+    finally:
+        os.close(fd)
 
 
 def _flat(vectors):
@@ -46,23 +76,24 @@ def _flat(vectors):
     return out
 
 
+def _bands(energies, nbands, mesh, vectors, by_value, by_bytes):
+    """A grid through by_bytes (one block) for a buffer, else by_value."""
+    data = _energy_bytes(energies)
+    if data is None:
+        return by_value(energies, nbands, list(mesh), _flat(vectors))
+    return by_bytes(data, nbands, list(mesh), _flat(vectors))
+
+
 class Bands(Bandmass.Bands):
     @classmethod
     def new_from_array(cls, energies, nbands, mesh, reciprocal_vectors):
-        data = _energy_bytes(energies)
-        if data is None:
-            return Bandmass.Bands.new_from_array(energies, nbands, list(mesh),
-                                                 _flat(reciprocal_vectors))
-        return Bandmass.Bands.new_from_bytes(data, nbands, list(mesh), _flat(reciprocal_vectors))
+        return _bands(energies, nbands, mesh, reciprocal_vectors,
+                      Bandmass.Bands.new_from_array, Bandmass.Bands.new_from_bytes)
 
     @classmethod
     def new_from_lattice(cls, energies, nbands, mesh, lattice_vectors):
-        data = _energy_bytes(energies)
-        if data is None:
-            return Bandmass.Bands.new_from_lattice(energies, nbands, list(mesh),
-                                                   _flat(lattice_vectors))
-        return Bandmass.Bands.new_from_bytes_lattice(data, nbands, list(mesh),
-                                                     _flat(lattice_vectors))
+        return _bands(energies, nbands, mesh, lattice_vectors,
+                      Bandmass.Bands.new_from_lattice, Bandmass.Bands.new_from_bytes_lattice)
 
 
 Bands = override(Bands)
