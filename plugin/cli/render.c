@@ -392,6 +392,30 @@ static void render_mass_tensor(G_GNUC_UNUSED const BmOperation *op,
             append_value(out, json_array_get_element(m, c), " %10.4f");
         append_value(out, json_object_get_member(e, "fit_rms_ev"), " %10.2e");
         g_string_append_c(out, '\n');
+        /* the error estimate beside the masses: what the numbers are worth */
+        JsonNode *errn = json_object_get_member(e, "principal_masses_error_me");
+        JsonNode *conv = json_object_get_member(e, "converged");
+        if (errn && JSON_NODE_HOLDS_ARRAY(errn) && conv && !JSON_NODE_HOLDS_NULL(conv)) {
+            g_string_append_printf(out, "    %-8s %12s  %-28s", "", "", "+- (estimated error)");
+            JsonArray *ea = json_node_get_array(errn);
+            for (guint c = 0; c < 3; c++)
+                append_value(out, json_array_get_element(ea, c), " %10.4f");
+            JsonNode *partner = json_object_get_member(e, "crossing_partner_band");
+            g_autofree char *with = partner && !JSON_NODE_HOLDS_NULL(partner)
+                ? g_strdup_printf(" with band %" G_GINT64_FORMAT, json_node_get_int(partner))
+                : g_strdup("");
+            g_string_append_printf(out, "  %s (%s%s)\n",
+                                   json_node_get_boolean(conv) ? "converged" : "NOT converged",
+                                   json_object_get_string_member(e, "method"), with);
+        }
+        if (json_object_has_member(e, "refinement_stencil")) {
+            JsonObject *st = json_object_get_object_member(e, "refinement_stencil");
+            g_string_append_printf(out, "      refinement stencil: %u k-points, step %g 1/Angstrom "
+                                   "(listed with --json)\n",
+                                   json_array_get_length(json_object_get_array_member(
+                                       st, "k_inv_angstrom")),
+                                   json_object_get_double_member(st, "step_inv_angstrom"));
+        }
         JsonArray *axes = json_object_get_array_member(e, "principal_axes");
         for (guint r = 0; r < 3; r++) {
             JsonArray *row = json_array_get_array_element(axes, r);
