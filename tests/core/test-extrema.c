@@ -222,6 +222,31 @@ static void round_trip(double recip[3][3], size_t n, double sign, const double f
     free(e);
 }
 
+/* A minimum just below the cell edge (f = -0.004 = 0.996) found from mesh
+ * point 0: the refined position wraps, and the local fit must still see the
+ * mesh around it (it once got the wrapped Cartesian k beside the unwrapped
+ * fractional one, so an explicit radius found no points). Regression test. */
+static void test_wrapped_fit(void)
+{
+    double recip[3][3];
+    cubic(5.43, recip);
+    cos_band b = { .nterms = 3, .q = { { 1, 0, 0 }, { 0, 1, 0 }, { 0, 0, 1 } },
+                   .amp = { 0.5, 0.8, 0.6 }, .sign = { 1, 1, 1 }, .f0 = { -0.004, 0.3, 0.6 },
+                   .e0 = 1.0 };
+    bm_grid g;
+    double *e = fill_grid(&g, recip, 12, 12, 12, 1, &b);
+    bm_fit_options opt = { .fit_radius_inv_angstrom = 0.2 };
+    bm_mass_tensor *res;
+    size_t nr;
+    g_assert_cmpint(bm_grid_mass_tensors(&g, 0, BM_SEARCH_MINIMUM, NULL, &opt, &res, &nr, NULL),
+                    ==, BM_OK);
+    g_assert_cmpfloat_with_epsilon(res[0].k_frac[0], 0.996, 1e-6);
+    g_assert_true(isfinite(res[0].fit_rms_ev));
+    g_assert_false(bm_warnings_has(&res[0].warnings, BM_WARN_FIT_UNDETERMINED));
+    bm_mass_tensors_free(res, nr);
+    free(e);
+}
+
 static void test_rotated_ellipsoid(void)
 {
     double recip[3][3], f0[3] = { 0.137, 0.561, 0.802 };
@@ -675,6 +700,7 @@ int main(int argc, char **argv)
     g_test_add_func("/core/extrema/all", test_all);
     g_test_add_func("/core/extrema/free-electron", test_free_electron);
     g_test_add_func("/core/extrema/cone", test_cone);
+    g_test_add_func("/core/extrema/wrapped-fit", test_wrapped_fit);
     g_test_add_func("/core/extrema/flat", test_flat);
     g_test_add_func("/core/extrema/degenerate", test_degenerate);
     g_test_add_func("/core/extrema/heavy", test_heavy);
