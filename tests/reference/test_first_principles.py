@@ -78,6 +78,23 @@ class ConductionMinimum(unittest.TestCase):
         for mt, _ in trans:
             self.assertLess(abs(mt / self.mt - 1), 0.02)
 
+    def test_piped_into_valley_average(self):
+        # the 24^3 extremum as it is, into valley-average with Oh: the six
+        # Delta valleys of silicon (common practice, no source), and the DOS
+        # mass 6^(2/3) (m_l m_t^2)^(1/3) of the reference masses within the
+        # propagated error (textbook formula, shared reference list)
+        mt = mass_tensor(24, 'c1', 'minimum')
+        p = subprocess.run([CLI, 'valley-average', '--valley', json.dumps(mt),
+                            '--point-group', 'Oh', '--json'], capture_output=True, text=True)
+        self.assertEqual(p.returncode, 0, p.stderr)
+        r = json.loads(p.stdout)
+        self.assertEqual(r['valley_count'], 6.0)
+        self.assertEqual(r['position'], 'interior')
+        md = 6 ** (2 / 3) * (self.ml * self.mt ** 2) ** (1 / 3)
+        (ml, dml), trans = along_x(mt['extrema'][0])
+        dmd = md * (dml / ml + 2 * trans[0][1] / trans[0][0]) / 3
+        self.assertLess(abs(r['dos_mass_me'] - md), dmd)
+
     def test_coarse_mesh_says_unconverged(self):
         # 12^3 cannot resolve the valley: the answer must say so
         e = mass_tensor(12, 'c1', 'minimum')['extrema'][0]
