@@ -1137,8 +1137,8 @@ static void table_estimate(table_ctx *c, const double centre[3], double radius, 
     out->ok = 1;
 }
 
-/* The sampled point nearest centre. */
-static const double *nearest_sample(table_ctx *c, const double centre[3])
+/* The index of the sampled point nearest centre, and its distance. */
+static size_t nearest_sample(table_ctx *c, const double centre[3], double *dist)
 {
     size_t near = 0;
     double dn = INFINITY;
@@ -1151,7 +1151,8 @@ static const double *nearest_sample(table_ctx *c, const double centre[3])
             near = m;
         }
     }
-    return tk(c, near);
+    *dist = dn;
+    return near;
 }
 
 static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
@@ -1232,7 +1233,8 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
          * extremum: points lopsided about the extremum (a stencil centred on
          * an earlier estimate) let the quadric take up the band's cubic terms
          * as curvature, and the two then differ */
-        table_estimate(c, nearest_sample(c, centre), c->radius, count, &est[2]);
+        double dn;
+        table_estimate(c, tk(c, nearest_sample(c, centre, &dn)), c->radius, count, &est[2]);
         assess_in(c->p, c->dims, c->conv, 2.0, est, 3, centre, t);
     }
     /* Conical test: refit with the radius doubled (or the point count grown by
@@ -1266,17 +1268,8 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
         range_warnings(t);
     }
     /* degeneracy: other bands at the sampled point nearest the extremum */
-    size_t near = 0;
-    double dn = INFINITY;
-    for (size_t m = 0; m < c->t->npoints; m++) {
-        double dk[3];
-        for (int i = 0; i < 3; i++)
-            dk[i] = tk(c, m)[i] - centre[i];
-        if (bm_norm3(dk) < dn) {
-            dn = bm_norm3(dk);
-            near = m;
-        }
-    }
+    double dn;
+    size_t near = nearest_sample(c, centre, &dn);
     double e_self = c->t->energies[c->band * c->t->npoints + near];
     int touching = 0;
     for (size_t b = 0; b < c->t->nbands; b++)
