@@ -561,15 +561,34 @@ static void to_fractional(grid_ctx *c, const double k[3], double f[3])
         f[2] = 0.0;
 }
 
+/* Reports f as its image in the first Brillouin zone: the k - G of least
+ * length (ties go to the first G tried, so equivalent inputs agree), with its
+ * fractional coordinates, so that k = k_frac B holds and a valley on the far
+ * side of the cell is not reported a reciprocal vector away. */
 static void set_position(grid_ctx *c, const double f[3], bm_mass_tensor *t)
 {
+    double w[3];
     for (int a = 0; a < 3; a++) {
         /* wrap into [0, 1); a value a rounding error below 1 is the point 0 */
-        double w = f[a] - floor(f[a]);
-        t->k_frac[a] = 1.0 - w < 1e-9 ? 0.0 : w;
+        w[a] = f[a] - floor(f[a]);
+        if (1.0 - w[a] < 1e-9)
+            w[a] = 0.0;
     }
-    for (int i = 0; i < 3; i++)
-        t->k[i] = t->k_frac[0] * c->b[0][i] + t->k_frac[1] * c->b[1][i] + t->k_frac[2] * c->b[2][i];
+    double best = INFINITY;
+    int reach2 = c->dims == 2 ? 0 : 1;
+    for (int n0 = -1; n0 <= 2; n0++)
+        for (int n1 = -1; n1 <= 2; n1++)
+            for (int n2 = -reach2; n2 <= 2 * reach2; n2++) {
+                double fr[3] = { w[0] - n0, w[1] - n1, w[2] - n2 }, k[3];
+                for (int i = 0; i < 3; i++)
+                    k[i] = fr[0] * c->b[0][i] + fr[1] * c->b[1][i] + fr[2] * c->b[2][i];
+                double len = bm_norm3(k);
+                if (len < best * (1.0 - 1e-12)) {
+                    best = len;
+                    memcpy(t->k_frac, fr, sizeof fr);
+                    memcpy(t->k, k, sizeof k);
+                }
+            }
 }
 
 /* Across a crossing: the mean of the local fits of the band and its partner. */
@@ -736,6 +755,23 @@ static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
         memcpy(fits[0].hessian, hrk, sizeof hrk);
         nfits = 1;
         assess(c, fits, nfits, kf, t);
+        /* the kind needs a check that does not share the interpolant's
+         * ringing: a local fit of the mesh data around the start point */
+        bm_bandfit local;
+        double kstart[3];
+        for (int i = 0; i < 3; i++)
+            kstart[i] = f_start[0] * c->b[0][i] + f_start[1] * c->b[1][i]
+                      + f_start[2] * c->b[2][i];
+        int want = t->kind == BM_EXTREMUM_MINIMUM ? 1 : t->kind == BM_EXTREMUM_MAXIMUM ? -1 : 0;
+        if (bm_bandfit_run(c->g, c->band, -1, f_start, kstart, c->dims, c->p,
+                           &bm_bandfit_settings[0], &local) == 0 && local.ok
+            && curvature_sign(local.hessian, c->p, c->dims) != want) {
+            t->converged = 0;
+            bm_warn(&t->warnings, BM_WARN_KIND_UNCERTAIN, "the kind of this point is not "
+                    "certain: a local fit of the mesh data around it does not give a %s "
+                    "(ringing of the interpolant, or a nearby feature); a finer mesh or a "
+                    "refinement stencil would settle it", kind_name(t->kind));
+        }
     }
     /* a search that lands where bands touch has no single-band tensor */
     int touching = 0;
