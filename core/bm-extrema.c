@@ -259,6 +259,10 @@ static bm_status grid_geometry(const bm_grid *g, bm_errbuf *err)
         for (int c = 0; c < 3; c++)
             if (!isfinite(g->recip[a][c]))
                 return bm_fail(err, BM_EINVAL, "reciprocal vector b%d component %d is not finite", a + 1, c);
+    for (int a = 0; a < 3; a++)
+        if (!(g->offset[a] >= 0.0 && g->offset[a] < 1.0))
+            return bm_fail(err, BM_EINVAL, "mesh offset o%d = %g steps: expected 0 <= o < 1", a + 1,
+                           g->offset[a]);
     double b[3][3];
     memcpy(b, g->recip, sizeof b);
     if (g->mesh[2] == 1) {
@@ -569,8 +573,10 @@ static void set_position(grid_ctx *c, const double f[3], bm_mass_tensor *t)
 {
     double w[3];
     for (int a = 0; a < 3; a++) {
-        /* wrap into [0, 1); a value a rounding error below 1 is the point 0 */
-        w[a] = f[a] - floor(f[a]);
+        /* f counts mesh indices; a shifted mesh's point 0 is not Gamma. Wrap
+         * into [0, 1); a value a rounding error below 1 is the point 0 */
+        double fa = f[a] + c->g->offset[a] / (double)c->g->mesh[a];
+        w[a] = fa - floor(fa);
         if (1.0 - w[a] < 1e-9)
             w[a] = 0.0;
     }
@@ -969,7 +975,8 @@ bm_status bm_grid_mass_tensors(const bm_grid *g, size_t band, bm_search which,
     if (k_at) {
         double f[3];
         for (int a = 0; a < 3; a++)
-            f[a] = k_at[0] * c.binv[0][a] + k_at[1] * c.binv[1][a] + k_at[2] * c.binv[2][a];
+            f[a] = k_at[0] * c.binv[0][a] + k_at[1] * c.binv[1][a] + k_at[2] * c.binv[2][a]
+                 - g->offset[a] / (double)g->mesh[a];
         if (c.dims == 2)
             f[2] = 0.0;
         res = malloc(sizeof *res);

@@ -283,6 +283,129 @@ static gboolean read_names(JsonNode *node, const char *name, BmBandGrid *g, GErr
     return TRUE;
 }
 
+/* "mesh_offset": [o1, o2, o3] in mesh steps, each in [0, 1). */
+static gboolean get_offset(JsonNode *node, const char *name, double off[3], GError **error)
+{
+    if (JSON_NODE_TYPE(node) != JSON_NODE_ARRAY
+        || json_array_get_length(json_node_get_array(node)) != 3)
+        return bm_error_invalid(error, name, "'mesh_offset': expected [o1, o2, o3] in mesh "
+                                "steps (0.5 on an axis of an even Monkhorst-Pack mesh)");
+    for (guint i = 0; i < 3; i++) {
+        g_autofree char *what = g_strdup_printf("'mesh_offset'[%u]", i);
+        if (!get_number(json_array_get_element(json_node_get_array(node), i), name, what,
+                        &off[i], error))
+            return FALSE;
+        if (off[i] < 0.0 || off[i] >= 1.0)
+            return bm_error_invalid(error, name, "%s = %g: expected a shift of 0 <= o < 1 mesh "
+                                    "steps", what, off[i]);
+    }
+    return TRUE;
+}
+
+/* "k_points_fractional" with energies [band][point] (inline, or a .npy of shape
+ * (nbands, npoints)): every point is placed on the mesh by its index, whatever
+ * the order or the (-1/2, 1/2] convention of the list; each mesh point must
+ * come exactly once. */
+static gboolean place_points(JsonArray *kl, JsonNode *en, const char *name, const char *key,
+                             const char *base_dir, BmBandGrid *g, GError **error)
+{
+    const size_t *n = g->grid.mesh;
+    size_t npt = n[0] * n[1] * n[2], nk = json_array_get_length(kl);
+    if (nk != npt)
+        return bm_error_invalid(error, name, "'k_points_fractional' lists %zu points; the "
+                                "%zu x %zu x %zu mesh has %zu", nk, n[0], n[1], n[2], npt);
+    /* energies [band][point] */
+    g_autoptr(BmNpyArray) arr = NULL;
+    g_autofree double *inl = NULL;
+    const double *src;
+    size_t nb;
+    if (JSON_NODE_TYPE(en) == JSON_NODE_VALUE && json_node_get_value_type(en) == G_TYPE_STRING) {
+        g_autofree char *path = g_path_is_absolute(json_node_get_string(en)) || !base_dir
+            ? g_strdup(json_node_get_string(en))
+            : g_build_filename(base_dir, json_node_get_string(en), NULL);
+        GError *local = NULL;
+        arr = bm_npy_read_f64(path, &local);
+        if (!arr) {
+            g_set_error(error, BM_ERROR, local->code, "%s: '%s': %s", name, key, local->message);
+            g_error_free(local);
+            return FALSE;
+        }
+        if (arr->ndim != 2 || arr->shape[1] != nk || arr->shape[0] == 0) {
+            g_autofree char *sh = bm_npy_shape_string(arr->shape, arr->ndim);
+            return bm_error_invalid(error, name, "'%s' file %s has shape %s; with "
+                                    "'k_points_fractional' expected (nbands, %zu)", key, path,
+                                    sh, nk);
+        }
+        nb = arr->shape[0];
+        src = arr->data;
+    } else if (JSON_NODE_TYPE(en) == JSON_NODE_ARRAY) {
+        JsonArray *ba = json_node_get_array(en);
+        nb = json_array_get_length(ba);
+        if (nb == 0)
+            return bm_error_invalid(error, name, "'%s' is empty; expected [band][point]", key);
+        inl = g_new(double, nb * nk);
+        for (size_t b = 0; b < nb; b++) {
+            JsonNode *row = json_array_get_element(ba, (guint)b);
+            if (JSON_NODE_TYPE(row) != JSON_NODE_ARRAY
+                || json_array_get_length(json_node_get_array(row)) != nk)
+                return bm_error_invalid(error, name, "'%s'[%zu]: expected %zu energies, one "
+                                        "per listed k-point", key, b, nk);
+            for (size_t q = 0; q < nk; q++) {
+                g_autofree char *what = g_strdup_printf("'%s'[%zu][%zu]", key, b, q);
+                if (!get_number(json_array_get_element(json_node_get_array(row), (guint)q),
+                                name, what, &inl[b * nk + q], error))
+                    return FALSE;
+            }
+        }
+        src = inl;
+    } else {
+        return bm_error_invalid(error, name, "'%s': expected [band][point] or a .npy file name, "
+                                "found %s", key, node_kind(en));
+    }
+    size_t count = 0;
+    if (!checked_count(name, nb, n, &count, error))
+        return FALSE;
+    g->inline_energies = g_new(double, count);
+    g_autofree gint64 *from = g_new(gint64, npt);
+    for (size_t p = 0; p < npt; p++)
+        from[p] = -1;
+    for (size_t q = 0; q < nk; q++) {
+        JsonNode *kn = json_array_get_element(kl, (guint)q);
+        if (JSON_NODE_TYPE(kn) != JSON_NODE_ARRAY || json_array_get_length(json_node_get_array(kn)) != 3)
+            return bm_error_invalid(error, name, "'k_points_fractional'[%zu]: expected [f1, f2, f3]", q);
+        size_t idx[3];
+        double f[3];
+        for (int a = 0; a < 3; a++) {
+            g_autofree char *what = g_strdup_printf("'k_points_fractional'[%zu][%d]", q, a);
+            if (!get_number(json_array_get_element(json_node_get_array(kn), (guint)a), name, what,
+                            &f[a], error))
+                return FALSE;
+            double x = f[a] * (double)n[a] - g->grid.offset[a];
+            double r = nearbyint(x);
+            if (fabs(x - r) > 1e-6)
+                return bm_error_invalid(error, name, "'k_points_fractional'[%zu] = (%g, %g, %g) "
+                                        "is not a point of the %zu x %zu x %zu mesh (offset "
+                                        "%g, %g, %g steps): component %d sits %.3g steps off",
+                                        q, f[0], f[1], f[2], n[0], n[1], n[2],
+                                        g->grid.offset[0], g->grid.offset[1], g->grid.offset[2],
+                                        a + 1, x - r);
+            long m = (long)r % (long)n[a];
+            idx[a] = (size_t)(m < 0 ? m + (long)n[a] : m);
+        }
+        size_t p = (idx[0] * n[1] + idx[1]) * n[2] + idx[2];
+        if (from[p] >= 0)
+            return bm_error_invalid(error, name, "'k_points_fractional'[%" G_GINT64_FORMAT "] and "
+                                    "[%zu] are the same mesh point (%zu, %zu, %zu)", from[p], q,
+                                    idx[0], idx[1], idx[2]);
+        from[p] = (gint64)q;
+        for (size_t b = 0; b < nb; b++)
+            g->inline_energies[b * npt + p] = src[b * nk + q];
+    }
+    g->grid.nbands = nb;
+    g->grid.energies = g->inline_energies;
+    return TRUE;
+}
+
 /* A key that carries its unit, and the factor to the interface unit. */
 typedef struct {
     const char *key;
@@ -383,7 +506,8 @@ static gboolean parse_document(JsonNode *root, const char *name, const char *bas
     static const char *known[] = {
         "format", "reciprocal_vectors_inv_angstrom", "reciprocal_vectors_inv_bohr",
         "lattice_vectors_angstrom", "lattice_vectors_bohr", "mesh", "energies_ev",
-        "energies_hartree", "energies_rydberg", "band_names", "comment", "description", NULL
+        "energies_hartree", "energies_rydberg", "band_names", "comment", "description",
+        "mesh_offset", "k_points_fractional", NULL
     };
     /* each quantity in one unit, the unit in the key: the factor to eV / Angstrom */
     static const unit_key recip_keys[] = {
@@ -417,7 +541,8 @@ static gboolean parse_document(JsonNode *root, const char *name, const char *bas
             return bm_error_invalid(error, name, "unknown key '%s' (a band grid document takes 'format', "
                            "'reciprocal_vectors_inv_angstrom' / '_inv_bohr' and/or "
                            "'lattice_vectors_angstrom' / '_bohr', 'mesh', 'energies_ev' / "
-                           "'_hartree' / '_rydberg', 'band_names')", (const char *)m->data);
+                           "'_hartree' / '_rydberg', 'mesh_offset', 'k_points_fractional', "
+                           "'band_names')", (const char *)m->data);
 
     const unit_key *rk, *lk, *ek;
     if (!pick_unit(o, name, recip_keys, G_N_ELEMENTS(recip_keys), &rk, error)
@@ -457,8 +582,20 @@ static gboolean parse_document(JsonNode *root, const char *name, const char *bas
         return bm_error_invalid(error, name, "missing key 'energies_ev' (or 'energies_hartree', "
                        "'energies_rydberg'; expected a nested array [band][i][j][l] or the name "
                        "of a .npy file)");
+    JsonNode *offn = json_object_get_member(o, "mesh_offset");
+    if (offn && !get_offset(offn, name, g->grid.offset, error))
+        return FALSE;
+    if (g->grid.mesh[2] == 1 && g->grid.offset[2] != 0.0)
+        return bm_error_invalid(error, name, "'mesh_offset'[2] must be 0 for a sheet (n3 = 1)");
     JsonNode *en = json_object_get_member(o, ek->key);
-    if (JSON_NODE_TYPE(en) == JSON_NODE_ARRAY) {
+    JsonNode *kl = json_object_get_member(o, "k_points_fractional");
+    if (kl) {
+        if (JSON_NODE_TYPE(kl) != JSON_NODE_ARRAY)
+            return bm_error_invalid(error, name, "'k_points_fractional': expected a list of "
+                                    "[f1, f2, f3]");
+        if (!place_points(json_node_get_array(kl), en, name, ek->key, base_dir, g, error))
+            return FALSE;
+    } else if (JSON_NODE_TYPE(en) == JSON_NODE_ARRAY) {
         if (!read_inline(json_node_get_array(en), name, ek->key, g->grid.mesh, g, error))
             return FALSE;
     } else if (JSON_NODE_TYPE(en) == JSON_NODE_VALUE &&

@@ -61,6 +61,7 @@ static void cos_band_hk(const cos_band *b, double recip[3][3], int dims, double 
 static double *fill_grid(bm_grid *g, double recip[3][3], size_t n1, size_t n2, size_t n3,
                          size_t nbands, const cos_band *bands)
 {
+    memset(g, 0, sizeof *g);
     memcpy(g->recip, recip, sizeof g->recip);
     g->mesh[0] = n1;
     g->mesh[1] = n2;
