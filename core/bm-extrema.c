@@ -1061,6 +1061,7 @@ typedef struct {
     double degen;
     double conv;         /* convergence tolerance, relative */
     size_t nfit;         /* automatic point count */
+    int npar_short;      /* fewer points than a quadric has parameters */
     double *dist;        /* scratch [npoints] */
     size_t *order;       /* scratch [npoints] */
     struct dist_pair { double d; size_t i; } *pairs;
@@ -1198,10 +1199,101 @@ static size_t nearest_sample(table_ctx *c, const double centre[3], double *dist)
     return near;
 }
 
+/* The distance from sample i to the nearest other sample. */
+static double nearest_spacing(table_ctx *c, size_t i)
+{
+    double best = INFINITY;
+    for (size_t m = 0; m < c->t->npoints; m++) {
+        if (m == i)
+            continue;
+        double dk[3];
+        for (int a = 0; a < 3; a++)
+            dk[a] = tk(c, m)[a] - tk(c, i)[a];
+        best = fmin(best, bm_norm3(dk));
+    }
+    return best;
+}
+
+/* Masses along the lines of samples through the degenerate sample i0: for
+ * each direction holding two samples at steps s1 < s2 (the nearest two),
+ * E - E0 = c2 s^2 + c4 s^4 through both gives m = hbar^2 / (2 c2 m_e); the
+ * error is the quartic correction, the change from the inner step alone. */
+static void directional_masses(table_ctx *c, size_t i0, bm_mass_tensor *t)
+{
+    const double *k0 = tk(c, i0), *eb = c->t->energies + c->band * c->t->npoints;
+    t->ndirectional = 0;
+    for (size_t m1 = 0; m1 < c->t->npoints && t->ndirectional < BM_DIRECTIONAL_MAX; m1++) {
+        double d1[3], s1, u[3];
+        for (int a = 0; a < 3; a++)
+            d1[a] = tk(c, m1)[a] - k0[a];
+        s1 = bm_norm3(d1);
+        if (m1 == i0 || !(s1 > 0.0))
+            continue;
+        for (int a = 0; a < 3; a++)
+            u[a] = d1[a] / s1;
+        /* the direction once, from its nearest sample */
+        int seen = 0, nearer = 0;
+        for (size_t q = 0; q < t->ndirectional; q++)
+            seen |= bm_dot3(t->directional[q].direction, u) > 1.0 - 1e-9;
+        size_t m2 = SIZE_MAX;
+        double s2 = INFINITY;
+        for (size_t m = 0; m < c->t->npoints && !seen; m++) {
+            double d[3];
+            for (int a = 0; a < 3; a++)
+                d[a] = tk(c, m)[a] - k0[a];
+            double s = bm_norm3(d);
+            if (m == m1 || m == i0 || !(s > 0.0) || bm_dot3(d, u) < s * (1.0 - 1e-9))
+                continue;
+            if (s < s1)
+                nearer = 1;
+            else if (s < s2) {
+                s2 = s;
+                m2 = m;
+            }
+        }
+        if (seen || nearer || m2 == SIZE_MAX || s2 < s1 * (1.0 + 1e-6))
+            continue;
+        double a1 = eb[m1] - eb[i0], a2 = eb[m2] - eb[i0];
+        double c4 = (a2 / (s2 * s2) - a1 / (s1 * s1)) / (s2 * s2 - s1 * s1);
+        double c2 = a1 / (s1 * s1) - c4 * s1 * s1;
+        double m = BM_HBAR2_OVER_ME_EV_A2 / (2.0 * c2);
+        double m_inner = BM_HBAR2_OVER_ME_EV_A2 / (2.0 * a1 / (s1 * s1));
+        size_t q = t->ndirectional++;
+        memcpy(t->directional[q].direction, u, sizeof u);
+        t->directional[q].mass = m;
+        t->directional[q].error = fabs(m_inner - m);
+    }
+}
+
 static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
                                bm_extremum_kind hint, bm_mass_tensor *t, bm_errbuf *err)
 {
     tensor_init(t, c->dims, BM_METHOD_TABLE_FIT);
+    if (refine) {
+        /* a search that starts where bands touch (the sample at a degenerate
+         * valence top): no quadric, directional masses along the sampled lines */
+        double d0;
+        size_t i0 = nearest_sample(c, start, &d0);
+        const double *e = c->t->energies;
+        size_t np = c->t->npoints;
+        int touching = 0;
+        for (size_t b = 0; b < c->t->nbands; b++)
+            touching += b != c->band && fabs(e[b * np + i0] - e[c->band * np + i0]) <= c->degen;
+        if (touching && d0 == 0.0) {
+            mark_degenerate(t, hint, touching);
+            memcpy(t->k, tk(c, i0), sizeof t->k);
+            t->k_frac[0] = t->k_frac[1] = t->k_frac[2] = NAN;
+            t->energy_ev = e[c->band * np + i0];
+            t->fit_rms_ev = NAN;
+            directional_masses(c, i0, t);
+            return BM_OK;
+        }
+    }
+    if (c->npar_short) {
+        size_t npar = bm_quadric_nparams(c->dims);
+        return bm_fail(err, BM_EINVAL, "k-table has %zu points but a %d-dimensional quadric needs at "
+                       "least %zu (rank-deficient fit)", c->t->npoints, c->dims, npar);
+    }
     double centre[3] = { start[0], start[1], start[2] };
     bm_quadric q;
     double dmax, span;
@@ -1318,8 +1410,14 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
     for (size_t b = 0; b < c->t->nbands; b++)
         touching += b != c->band
                  && fabs(c->t->energies[b * c->t->npoints + near] - e_self) <= c->degen;
-    if (touching && refine && !cone && dn <= 1e-9 + 1e-6 * bm_norm3(centre))
+    /* bands that touch at the sample nearest the extremum, closer to it than
+     * to any other sample: the degenerate point is that sample */
+    if (touching && refine && !cone && dn <= 0.5 * nearest_spacing(c, near)) {
         mark_degenerate(t, hint, touching);
+        memcpy(t->k, tk(c, near), sizeof t->k);
+        t->energy_ev = e_self;
+        directional_masses(c, near, t);
+    }
     for (size_t b = 0; b < c->t->nbands; b++) {
         if (b == c->band)
             continue;
@@ -1387,9 +1485,7 @@ bm_status bm_ktable_mass_tensors(const bm_ktable *t, size_t band, bm_search whic
     }
     bm_complete_basis(c.p, c.dims);
     size_t npar = bm_quadric_nparams(c.dims);
-    if (np < npar)
-        return bm_fail(err, BM_EINVAL, "k-table has %zu points but a %d-dimensional quadric needs at "
-                       "least %zu (rank-deficient fit)", np, c.dims, npar);
+    c.npar_short = np < npar;   /* only a degenerate extremum can do with fewer points */
     c.t = t;
     c.band = band;
     c.nfit = 3 * npar;

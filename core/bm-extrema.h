@@ -31,6 +31,8 @@ typedef enum {
     BM_METHOD_TABLE_FIT        /* quadric fit of scattered points */
 } bm_tensor_method;
 
+#define BM_DIRECTIONAL_MAX 13
+
 typedef struct {
     bm_extremum_kind kind;
     int dims;                 /* 3; 2 for a sheet; 1 for a line cut */
@@ -55,6 +57,13 @@ typedef struct {
                                  on the kind; 0: not; -1: not assessed */
     int degenerate;           /* other bands touch this one at the extremum: one band alone
                                  has no mass tensor there (masses NAN, kind from the search) */
+    size_t ndirectional;      /* a degenerate table extremum: masses along the lines of
+                                 sampled points through it */
+    struct {
+        double direction[3];  /* Cartesian unit vector */
+        double mass;          /* m_e, signed: hbar^2 / (d2E/ds2) at the extremum */
+        double error;         /* m_e: the quartic correction between the two steps */
+    } directional[BM_DIRECTIONAL_MAX];
     bm_warnings warnings;
 } bm_mass_tensor;
 

@@ -17,6 +17,20 @@ double bm_stencil_step(double k_error)
     return fmin(fmax(h, 0.01), 0.05);
 }
 
+void bm_stencil_directional(const double centre[3], double step, double (*out)[3])
+{
+    static const double dirs[3][3] = { { 1, 0, 0 }, { 1, 1, 0 }, { 1, 1, 1 } };
+    for (int i = 0; i < 3; i++)
+        out[0][i] = centre[i];
+    for (int d = 0; d < 3; d++) {
+        double len = sqrt(dirs[d][0] * dirs[d][0] + dirs[d][1] * dirs[d][1]
+                          + dirs[d][2] * dirs[d][2]);
+        for (int s = 1; s <= 2; s++)
+            for (int i = 0; i < 3; i++)
+                out[2 * d + s][i] = centre[i] + s * step * dirs[d][i] / len;
+    }
+}
+
 void bm_stencil_points(const double centre[3], const double axes[3][3], int dims, double step,
                        double (*out)[3])
 {

@@ -23,4 +23,11 @@ double bm_stencil_step(double k_error);
 void bm_stencil_points(const double centre[3], const double axes[3][3], int dims, double step,
                        double (*out)[3]);
 
+/* At a degenerate extremum (bands touching, no tensor) the stencil samples
+ * lines instead: the centre and the points step u and 2 step u along the
+ * Cartesian [100], [110] and [111] (the cube axes of a cubic crystal; both
+ * signs are equivalent where time reversal maps k0 to itself, as at Gamma). */
+#define BM_STENCIL_DIRECTIONAL 7
+void bm_stencil_directional(const double centre[3], double step, double (*out)[3]);
+
 #endif

@@ -72,8 +72,10 @@ static const BmField response[] = {
       "when none), principal_masses_error_me (estimated error of each mass, m_e: the "
       "spread of independent local fits; null where not assessed), k_error_inv_angstrom, "
       "converged (errors within convergence_tolerance; null where not assessed), "
-      "refinement_stencil (with \"stencil\": {step_inv_angstrom, k_inv_angstrom, "
-      "k_fractional (null for a table)}), warnings" },
+      "refinement_stencil (with \"stencil\": {kind (principal-axes, or directional at a "
+      "degenerate extremum), step_inv_angstrom, k_inv_angstrom, k_fractional (null for a "
+      "table)}), directional_masses (a degenerate extremum of a table: [{direction, "
+      "mass_me, error_me}] along the lines of samples through it), warnings" },
     BM_FIELD_END
 };
 
@@ -154,6 +156,17 @@ JsonObject *bm_mass_tensor_object(const bm_mass_tensor *t, gboolean fractional)
         json_object_set_null_member(o, "converged");
     else
         json_object_set_boolean_member(o, "converged", t->converged != 0);
+    if (t->ndirectional) {
+        JsonArray *da = json_array_new();
+        for (size_t q = 0; q < t->ndirectional; q++) {
+            JsonObject *d = json_object_new();
+            bm_json_set_vec3(d, "direction", t->directional[q].direction);
+            bm_json_set_number(d, "mass_me", t->directional[q].mass);
+            bm_json_set_number(d, "error_me", t->directional[q].error);
+            json_array_add_object_element(da, d);
+        }
+        json_object_set_array_member(o, "directional_masses", da);
+    }
     bm_json_warn_all(o, &t->warnings);
     return o;
 }
@@ -270,13 +283,23 @@ BmMassTensorSearch *bm_mass_tensor_search(JsonObject *request, const BmCallInput
 static void add_stencil(JsonObject *o, const bm_mass_tensor *t, double recip[3][3])
 {
     for (int m = 0; m < t->dims; m++)
-        if (!isfinite(t->masses[m]) || t->degenerate)
+        if (!isfinite(t->masses[m]) && !t->degenerate)
             return;
     double pts[BM_STENCIL_MAX][3], binv[3][3];
-    size_t n = bm_stencil_size(t->dims);
-    double step = bm_stencil_step(t->k_error);
-    bm_stencil_points(t->k, t->axes, t->dims, step, pts);
+    size_t n;
+    double step;
+    if (t->degenerate) {
+        /* no tensor to take axes from: lines along [100], [110], [111] */
+        n = BM_STENCIL_DIRECTIONAL;
+        step = 0.01;
+        bm_stencil_directional(t->k, step, pts);
+    } else {
+        n = bm_stencil_size(t->dims);
+        step = bm_stencil_step(t->k_error);
+        bm_stencil_points(t->k, t->axes, t->dims, step, pts);
+    }
     JsonObject *st = json_object_new();
+    json_object_set_string_member(st, "kind", t->degenerate ? "directional" : "principal-axes");
     bm_json_set_number(st, "step_inv_angstrom", step);
     JsonArray *kc = json_array_new(), *kf = json_array_new();
     gboolean frac = recip && bm_inv3(recip, binv) == 0;

@@ -90,14 +90,14 @@ static const char *const extremum_keys[] = {
     "kind", "dims", "energy_ev", "k_inv_angstrom", "k_fractional", "principal_masses_me",
     "principal_axes", "inverse_mass_tensor_per_me", "fit_rms_ev", "divergent", "method",
     "crossing_partner_band", "principal_masses_error_me", "k_error_inv_angstrom", "converged",
-    "refinement_stencil",
+    "refinement_stencil", "directional_masses",
     "warnings", "warning_codes", NULL
 };
 static const char *const extremum_entry_keys[] = {
     "kind", "dims", "energy_ev", "k_inv_angstrom", "k_fractional", "principal_masses_me",
     "principal_axes", "inverse_mass_tensor_per_me", "fit_rms_ev", "divergent", "method",
     "crossing_partner_band", "principal_masses_error_me", "k_error_inv_angstrom", "converged",
-    "refinement_stencil",
+    "refinement_stencil", "directional_masses",
     "warnings", "warning_codes", "energy_offset_ev", "weight", NULL
 };
 
