@@ -185,6 +185,33 @@ bm_status bm_valley_from_shape(const bm_valley_shape *shape, const double direct
     return BM_OK;
 }
 
+bm_status bm_valley_snap_direction(double dir[3], const bm_point_group *g, double tol,
+                                   double *moved, bm_errbuf *err)
+{
+    double n = sqrt(dir[0] * dir[0] + dir[1] * dir[1] + dir[2] * dir[2]);
+    if (!(n > 0.0) || !isfinite(n))
+        return bm_fail(err, BM_EINVAL, "valley: the direction to snap is zero or not finite");
+    double d[3] = { dir[0] / n, dir[1] / n, dir[2] / n }, sum[3] = { 0, 0, 0 };
+    for (int o = 0; o < g->order; o++)
+        for (int tr = 1; tr >= -1; tr -= 2) {     /* time reversal: -R too */
+            double r[3], diff = 0.0;
+            for (int i = 0; i < 3; i++) {
+                r[i] = tr * (g->ops[o][i][0] * d[0] + g->ops[o][i][1] * d[1]
+                             + g->ops[o][i][2] * d[2]);
+                diff += (r[i] - d[i]) * (r[i] - d[i]);
+            }
+            if (sqrt(diff) <= tol)
+                for (int i = 0; i < 3; i++)
+                    sum[i] += r[i];
+        }
+    double sn = sqrt(sum[0] * sum[0] + sum[1] * sum[1] + sum[2] * sum[2]);
+    double dot = (sum[0] * d[0] + sum[1] * d[1] + sum[2] * d[2]) / sn;
+    for (int i = 0; i < 3; i++)
+        dir[i] = sum[i] / sn;
+    *moved = acos(fmin(1.0, fmax(-1.0, dot)));
+    return BM_OK;
+}
+
 bm_status bm_valley_star_build(const bm_valley_shape *shape, bm_valley_site site,
                                const double direction[3], const bm_point_group *g,
                                bm_valley_star *out, bm_errbuf *err)

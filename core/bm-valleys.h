@@ -64,6 +64,16 @@ bm_status bm_valley_shape_normalise(bm_valley_shape *shape, bm_warnings *warn,
  * itself carry the tensor into a possibly different orientation; the stored
  * tensor is the average over them, with a warning when they disagree (the
  * valley shape then breaks the symmetry of its site). Energy offsets are 0. */
+/* Snaps a valley direction found numerically (a mass-tensor extremum) onto
+ * the symmetry element it lies on: the operations of g, with time reversal,
+ * that map the unit direction onto itself within tol (the length of R d - d)
+ * are its site group, and dir becomes the normalised mean of their images
+ * (exactly invariant under them). *moved gets the angle turned, radians.
+ * Without it a direction 1e-4 off [100] would build a star of 24 valleys
+ * instead of 6. BM_EINVAL for a zero or non-finite direction. */
+bm_status bm_valley_snap_direction(double dir[3], const bm_point_group *g, double tol,
+                                   double *moved, bm_errbuf *err);
+
 bm_status bm_valley_star_build(const bm_valley_shape *shape, bm_valley_site site,
                                const double direction[3], const bm_point_group *g,
                                bm_valley_star *out, bm_errbuf *err);

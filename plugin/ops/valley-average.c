@@ -66,6 +66,9 @@ static const BmField response[] = {
     { "position", NULL, TRUE, "the valley site of the star (with \"valley\" or \"material\")" },
     { "position_from", NULL, TRUE,
       "how the site was chosen: request, default, or the extremum's k (with \"valley\")" },
+    { "direction_snapped", NULL, TRUE,
+      "an extremum's direction turned onto its symmetry element: {angle_rad, tolerance_rad "
+      "(twice k_error / |k|, 1e-4 to 0.05)}" },
     { "carrier", NULL, FALSE,
       "electron, or hole when the valleys have negative masses (a band maximum)" },
     { "carrier_note", NULL, TRUE, "for holes: how the negative masses were taken" },
@@ -117,6 +120,7 @@ typedef struct {
     gboolean has_dir;
     Carrier carrier;
     gboolean site_known;        /* an extremum's k fixes gamma / interior / face */
+    double snap_tol;            /* an extremum's direction is snapped within this (0: not) */
     bm_valley_site site;
 } ParsedValley;
 
@@ -152,7 +156,8 @@ static gboolean is_extremum(JsonObject *v)
 static void extremum_site(JsonObject *v, const double k[3], ParsedValley *p)
 {
     double kf[3];
-    gboolean has_frac = JSON_NODE_HOLDS_ARRAY(json_object_get_member(v, "k_fractional"))
+    JsonNode *kfn = json_object_get_member(v, "k_fractional");
+    gboolean has_frac = kfn && JSON_NODE_HOLDS_ARRAY(kfn)
                      && bm_json_vec3(v, "k_fractional", NULL, kf, NULL);
     double kn = sqrt(k[0] * k[0] + k[1] * k[1] + k[2] * k[2]);
     p->site_known = TRUE;
@@ -247,6 +252,12 @@ static gboolean parse_extremum(JsonObject *v, const char *where, gboolean list_e
     }
     extremum_site(v, p->dir, p);
     p->has_dir = p->site != BM_SITE_GAMMA;
+    /* a numerical position is snapped onto its symmetry element, within its
+     * own error (k_error / |k|, at least 1e-4, at most 0.05 rad) */
+    double klen = sqrt(p->dir[0] * p->dir[0] + p->dir[1] * p->dir[1] + p->dir[2] * p->dir[2]);
+    JsonNode *ke = json_object_get_member(v, "k_error_inv_angstrom");
+    double kerr = ke && JSON_NODE_HOLDS_VALUE(ke) ? json_node_get_double(ke) : NAN;
+    p->snap_tol = isfinite(kerr) && klen > 0.0 ? fmin(fmax(2.0 * kerr / klen, 1e-4), 0.05) : 1e-3;
     return TRUE;
 }
 
@@ -320,6 +331,8 @@ typedef struct {
     const char *group_name;      /* star only */
     const char *site_name;
     const char *site_from;       /* how the position was chosen (star only) */
+    double snapped_rad;          /* the direction was turned by this onto its symmetry element */
+    double snap_tol;             /* within this tolerance (0: no snapping) */
     BmMaterialInput mat;         /* material path only */
     gboolean has_mat;
     Carrier carrier;             /* one kind for all valleys */
@@ -394,8 +407,14 @@ static gboolean build_star(ValleySet *s, const bm_valley_shape *shape, bm_valley
         bm_error_from_core(error, &err, group_where);
         return FALSE;
     }
+    double d[3] = { dir[0], dir[1], dir[2] };
+    if (s->snap_tol > 0.0 && site != BM_SITE_GAMMA
+        && bm_valley_snap_direction(d, &g, s->snap_tol, &s->snapped_rad, &err) != BM_OK) {
+        bm_error_from_core(error, &err, where);
+        return FALSE;
+    }
     s->star = g_new0(bm_valley_star, 1);
-    if (bm_valley_star_build(shape, site, dir, &g, s->star, &err) != BM_OK) {
+    if (bm_valley_star_build(shape, site, d, &g, s->star, &err) != BM_OK) {
         bm_error_from_core(error, &err, where);
         return FALSE;
     }
@@ -450,6 +469,7 @@ static gboolean from_valley(JsonObject *request, ValleySet *s, GError **error)
         s->site_from = "the extremum's k (gamma at k = 0, face where 2 k_fractional is a "
                        "reciprocal-lattice vector)";
     }
+    s->snap_tol = p.snap_tol;
     if (site != BM_SITE_GAMMA && !p.has_dir) {
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
                     "valley: a valley at position \"%s\" needs a direction (\"direction\", "
@@ -614,6 +634,12 @@ static JsonObject *respond(const ValleySet *s, const bm_population *pop, gboolea
         json_object_set_string_member(resp, "position", s->site_name);
         if (s->site_from)
             json_object_set_string_member(resp, "position_from", s->site_from);
+        if (s->snap_tol > 0.0) {
+            JsonObject *sn = json_object_new();
+            bm_json_set_number(sn, "angle_rad", s->snapped_rad);
+            bm_json_set_number(sn, "tolerance_rad", s->snap_tol);
+            json_object_set_object_member(resp, "direction_snapped", sn);
+        }
     }
     json_object_set_string_member(resp, "carrier", carrier_name(s->carrier));
     if (s->carrier == CARRIER_HOLE)

@@ -30,6 +30,11 @@ static const Case cases[] = {
     { "valley-average", NULL, "{\"valley\": " SI_VALLEY ", \"point_group\": \"Oh\", "
                               "\"position\": \"interior\"}" },
     { "valley-average", NULL, "{\"material\": \"Si\"}" },
+    /* an extremum of mass-tensor, its direction 1e-4 off [100] (snapped) */
+    { "valley-average", NULL, "{\"valley\": {\"kind\": \"minimum\", \"dims\": 3, "
+                              "\"principal_masses_me\": [0.19, 0.19, 0.98], \"principal_axes\": "
+                              "[[0,1,0],[0,0,1],[1,0,0]], \"k_inv_angstrom\": [0.977, 0.0001, 0], "
+                              "\"k_error_inv_angstrom\": 0.001}, \"point_group\": \"Oh\"}" },
     /* a hole valley (negative masses) at Gamma */
     { "valley-average", NULL, "{\"valley\": {\"principal_masses_me\": [-0.5, -0.5, -0.5], "
                               "\"axes\": [[1,0,0],[0,1,0],[0,0,1]]}, \"point_group\": \"Oh\", "

@@ -26,6 +26,29 @@ static void test_silicon(void)
 
 /* Ge L valleys m_l = 1.64, m_t = 0.082 (Sze & Ng; from memory): 8 face
  * half-valleys count 4; DOS mass 0.55-0.56. */
+/* A numerical valley direction 1e-4 off [100] (an extremum of mass-tensor):
+ * snapped onto the four-fold axis within its stated error, so the star is
+ * silicon's six valleys (common practice, no source), not the 24 of a general
+ * direction; the response says by how much it turned. */
+static void test_snapped_extremum(void)
+{
+    const char *valley = "{\"kind\": \"minimum\", \"dims\": 3, \"principal_masses_me\": "
+        "[0.19, 0.19, 0.98], \"principal_axes\": [[0,1,0],[0,0,1],[1,0,0]], "
+        "\"k_inv_angstrom\": [0.977, 0.0001, 0], \"k_error_inv_angstrom\": %s}";
+    g_autofree char *v1 = g_strdup_printf(valley, "0.001");
+    g_autofree char *r1 = g_strdup_printf("{\"valley\": %s, \"point_group\": \"Oh\"}", v1);
+    g_autoptr(JsonObject) a = op_call("valley-average", r1);
+    g_assert_cmpfloat(json_object_get_double_member(a, "valley_count"), ==, 6.0);
+    JsonObject *sn = json_object_get_object_member(a, "direction_snapped");
+    g_assert_cmpfloat_with_epsilon(json_object_get_double_member(sn, "angle_rad"), 1e-4 / 0.977,
+                                   1e-7);
+    /* a direction off by more than its error is a general one: 24 positions */
+    g_autofree char *v2 = g_strdup_printf(valley, "0.000001");
+    g_autofree char *r2 = g_strdup_printf("{\"valley\": %s, \"point_group\": \"Oh\"}", v2);
+    g_autoptr(JsonObject) b = op_call("valley-average", r2);
+    g_assert_cmpfloat(json_object_get_double_member(b, "valley_count"), ==, 24.0);
+}
+
 static void test_germanium(void)
 {
     g_autoptr(JsonObject) r = op_call("valley-average",
@@ -196,6 +219,7 @@ int main(int argc, char **argv)
     bm_registry_init();
     g_test_add_func("/plugin/valley-average/silicon", test_silicon);
     g_test_add_func("/plugin/valley-average/germanium", test_germanium);
+    g_test_add_func("/plugin/valley-average/snapped-extremum", test_snapped_extremum);
     g_test_add_func("/plugin/valley-average/strained-fermi-dirac-limit",
                     test_strained_fermi_dirac_limit);
     g_test_add_func("/plugin/valley-average/strained", test_strained);
