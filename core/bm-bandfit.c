@@ -177,7 +177,8 @@ int bm_bandfit_partner(const bm_grid *g, size_t band, const double f0[3], const 
     }
     *span = nb.n ? hi - lo : 0.0;
     for (int side = -1; side <= 1; side += 2) {
-        if ((side < 0 && band == 0) || (side > 0 && band + 1 >= g->nbands))
+        if ((side < 0 && band == 0) || (side > 0 && band + 1 >= g->nbands)
+            || !bm_grid_same_channel(g, band, (size_t)((long)band + side)))
             continue;
         const double *o = g->energies + (size_t)((long)band + side) * npt;
         for (size_t q = 0; q < nb.n; q++) {

@@ -15,7 +15,17 @@ typedef struct {
     double offset[3];         /* o1 o2 o3, mesh steps (zero-initialised: Gamma-centred) */
     size_t nbands;
     const double *energies;   /* [band][i][j][l], C order, eV */
+    size_t channel_bands;     /* bands per spin channel (spin-polarised grids: channel c
+                                 holds bands c * channel_bands ...); 0: one channel */
 } bm_grid;
+
+/* 1 when bands a and b belong to the same spin channel of g: only those can
+ * cross or touch each other (up and down bands of a collinear calculation are
+ * independent, and equal in a non-magnetic one). */
+static inline int bm_grid_same_channel(const bm_grid *g, size_t a, size_t b)
+{
+    return g->channel_bands == 0 || a / g->channel_bands == b / g->channel_bands;
+}
 
 /* Scattered points: a local mesh, a line cut or measured dispersion. */
 typedef struct {

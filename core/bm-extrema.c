@@ -191,7 +191,9 @@ static void mark_degenerate(bm_mass_tensor *t, bm_extremum_kind hint, int touchi
     bm_warn(&t->warnings, BM_WARN_DEGENERATE_EXTREMUM, "degenerate %s: %d other band%s touch%s "
             "this one here, so one sorted band has no mass tensor (none is given); the "
             "directional masses of the touching bands need a k.p fit (hole-mass with Luttinger "
-            "parameters, or DFT energies along [100], [110] and [111] fitted as k-tables)",
+            "parameters, or DFT energies along [100], [110] and [111] fitted as k-tables; "
+            "if a touching band is the other spin channel of a collinear calculation, give "
+            "the grid 'spin_channels': 2)",
             kind_name(hint), touching, touching == 1 ? "" : "s", touching == 1 ? "es" : "");
 }
 
@@ -259,6 +261,9 @@ static bm_status grid_geometry(const bm_grid *g, bm_errbuf *err)
         for (int c = 0; c < 3; c++)
             if (!isfinite(g->recip[a][c]))
                 return bm_fail(err, BM_EINVAL, "reciprocal vector b%d component %d is not finite", a + 1, c);
+    if (g->channel_bands && g->nbands % g->channel_bands != 0)
+        return bm_fail(err, BM_EINVAL, "%zu bands do not split into spin channels of %zu",
+                       g->nbands, g->channel_bands);
     for (int a = 0; a < 3; a++)
         if (!(g->offset[a] >= 0.0 && g->offset[a] < 1.0))
             return bm_fail(err, BM_EINVAL, "mesh offset o%d = %g steps: expected 0 <= o < 1", a + 1,
@@ -784,7 +789,8 @@ static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
     for (size_t b = 0; b < c->g->nbands; b++) {
         double eb;
         grid_eval(c, b, f, &eb, NULL, NULL);
-        touching += b != c->band && isfinite(eb) && fabs(eb - e) <= c->degen;
+        touching += b != c->band && bm_grid_same_channel(c->g, b, c->band) && isfinite(eb)
+                 && fabs(eb - e) <= c->degen;
     }
     /* a conical point is the more specific finding where two bands touch */
     if (touching && refine && !conical)
@@ -792,7 +798,8 @@ static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
     for (size_t b = 0; touching && b < c->g->nbands; b++) {
         double eb;
         grid_eval(c, b, f, &eb, NULL, NULL);
-        if (b != c->band && isfinite(eb) && fabs(eb - e) <= c->degen)
+        if (b != c->band && bm_grid_same_channel(c->g, b, c->band) && isfinite(eb)
+            && fabs(eb - e) <= c->degen)
             bm_warn(&t->warnings, BM_WARN_DEGENERATE_BAND, "band %zu lies %.3g meV from band %zu at this %s (E = %.6f eV; "
                     "tolerance %.3g meV): the bands are degenerate here and the mass tensor is ill-defined",
                     b, 1e3 * fabs(eb - e), c->band, kind_name(t->kind), e, 1e3 * c->degen);

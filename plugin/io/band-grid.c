@@ -507,7 +507,7 @@ static gboolean parse_document(JsonNode *root, const char *name, const char *bas
         "format", "reciprocal_vectors_inv_angstrom", "reciprocal_vectors_inv_bohr",
         "lattice_vectors_angstrom", "lattice_vectors_bohr", "mesh", "energies_ev",
         "energies_hartree", "energies_rydberg", "band_names", "comment", "description",
-        "mesh_offset", "k_points_fractional", NULL
+        "mesh_offset", "k_points_fractional", "spin_channels", NULL
     };
     /* each quantity in one unit, the unit in the key: the factor to eV / Angstrom */
     static const unit_key recip_keys[] = {
@@ -542,7 +542,7 @@ static gboolean parse_document(JsonNode *root, const char *name, const char *bas
                            "'reciprocal_vectors_inv_angstrom' / '_inv_bohr' and/or "
                            "'lattice_vectors_angstrom' / '_bohr', 'mesh', 'energies_ev' / "
                            "'_hartree' / '_rydberg', 'mesh_offset', 'k_points_fractional', "
-                           "'band_names')", (const char *)m->data);
+                           "'spin_channels', 'band_names')", (const char *)m->data);
 
     const unit_key *rk, *lk, *ek;
     if (!pick_unit(o, name, recip_keys, G_N_ELEMENTS(recip_keys), &rk, error)
@@ -610,6 +610,19 @@ static gboolean parse_document(JsonNode *root, const char *name, const char *bas
         g->grid.energies = g->inline_energies;
     if (ek->factor != 1.0 && !to_ev(g, ek->factor, name, error))
         return FALSE;
+    JsonNode *spin = json_object_get_member(o, "spin_channels");
+    if (spin) {
+        if (JSON_NODE_TYPE(spin) != JSON_NODE_VALUE || json_node_get_value_type(spin) != G_TYPE_INT64
+            || (json_node_get_int(spin) != 1 && json_node_get_int(spin) != 2))
+            return bm_error_invalid(error, name, "'spin_channels': expected 1 or 2");
+        if (json_node_get_int(spin) == 2) {
+            if (g->grid.nbands % 2)
+                return bm_error_invalid(error, name, "'spin_channels' is 2 but the energies hold %zu "
+                                        "bands (expected the up bands, then as many down bands)",
+                                        g->grid.nbands);
+            g->grid.channel_bands = g->grid.nbands / 2;
+        }
+    }
     energy_scale_check(g, ek);
 
     JsonNode *names = json_object_get_member(o, "band_names");

@@ -73,6 +73,29 @@ class Layouts(unittest.TestCase):
             self.assertEqual(p.returncode, 2, p.stderr)
             self.assertIn(fragment, p.stderr)
 
+    def test_spin_channels(self):
+        # a non-magnetic calculation written spin-polarised: the down bands
+        # equal the up bands. With spin_channels 2 each channel is its own set
+        # of bands and the masses are those of the plain grid; stacked without
+        # it, every band "touches" its twin and no mass is given.
+        doc = json.load(open(os.path.join(DATA, 'si-12.json')))
+        e = np.load(os.path.join(DATA, 'si-12.npy'))
+        np.save(os.path.join(self.tmp.name, 'spin.npy'), np.ascontiguousarray(np.concatenate([e, e])))
+        names = doc['band_names']
+        doc.update({'energies_ev': 'spin.npy', 'spin_channels': 2,
+                    'band_names': [f'up-{n}' for n in names] + [f'down-{n}' for n in names]})
+        plain = json.loads(call({'grid': os.path.join(DATA, 'si-12.json'), 'band': 'c2',
+                                 'extremum': 'all'}).stdout)['extrema']
+        spin = json.loads(call({'grid': self.write('spin.json', doc), 'band': 'down-c2',
+                                'extremum': 'all'}).stdout)['extrema']
+        self.assertEqual([x['principal_masses_me'] for x in spin],
+                         [x['principal_masses_me'] for x in plain])
+        del doc['spin_channels']
+        stacked = json.loads(call({'grid': self.write('stacked.json', doc), 'band': 'down-c2',
+                                   'extremum': 'all'}).stdout)['extrema']
+        self.assertTrue(any('degenerate-extremum' in x['warning_codes'] for x in stacked))
+        self.assertTrue(any('spin_channels' in w for x in stacked for w in x['warnings']))
+
     def test_shifted_mesh(self):
         # E = sum_a 2 t (1 - cos k_a a) on a simple cubic lattice, sampled on an
         # even 8^3 mesh shifted by half a step (no point at Gamma): with
