@@ -26,6 +26,7 @@
 #include "npy.h"
 #include "bm-error-private.h"
 #include "bm-linalg.h"
+#include "bm-crystal.h"
 
 #include <gsl/gsl_const_mksa.h>
 
@@ -306,14 +307,106 @@ static gboolean get_offset(JsonNode *node, const char *name, double off[3], GErr
  * (nbands, npoints)): every point is placed on the mesh by its index, whatever
  * the order or the (-1/2, 1/2] convention of the list; each mesh point must
  * come exactly once. */
+/* "positions_fractional" and "species": the crystal's rotations (spglib), to
+ * unfold an irreducible wedge of k-points; and the nearest-neighbour distance
+ * as a check of the length unit. lattice: rows in Angstrom, or NULL to take
+ * them from the reciprocal vectors. */
+static gboolean crystal_symmetry(JsonObject *o, const char *name, double lattice[3][3],
+                                 BmBandGrid *g, int rot[BM_CRYSTAL_MAX_ROTATIONS][3][3],
+                                 size_t *nrot, GError **error)
+{
+    JsonNode *pn = json_object_get_member(o, "positions_fractional");
+    JsonNode *sn = json_object_get_member(o, "species");
+    if (JSON_NODE_TYPE(pn) != JSON_NODE_ARRAY || !sn || JSON_NODE_TYPE(sn) != JSON_NODE_ARRAY
+        || json_array_get_length(json_node_get_array(pn))
+           != json_array_get_length(json_node_get_array(sn))
+        || json_array_get_length(json_node_get_array(pn)) == 0)
+        return bm_error_invalid(error, name, "'positions_fractional' (a list of [x, y, z]) and "
+                                "'species' (one name or number per atom) go together, with one "
+                                "entry per atom");
+    JsonArray *pa = json_node_get_array(pn), *sa = json_node_get_array(sn);
+    size_t na = json_array_get_length(pa);
+    g_autofree double (*pos)[3] = g_malloc(na * sizeof *pos);
+    g_autofree int *types = g_new(int, na);
+    for (size_t i = 0; i < na; i++) {
+        JsonNode *e = json_array_get_element(pa, (guint)i);
+        if (JSON_NODE_TYPE(e) != JSON_NODE_ARRAY || json_array_get_length(json_node_get_array(e)) != 3)
+            return bm_error_invalid(error, name, "'positions_fractional'[%zu]: expected [x, y, z]", i);
+        for (int a = 0; a < 3; a++) {
+            g_autofree char *what = g_strdup_printf("'positions_fractional'[%zu][%d]", i, a);
+            if (!get_number(json_array_get_element(json_node_get_array(e), (guint)a), name, what,
+                            &pos[i][a], error))
+                return FALSE;
+        }
+        JsonNode *s = json_array_get_element(sa, (guint)i);
+        if (JSON_NODE_TYPE(s) != JSON_NODE_VALUE)
+            return bm_error_invalid(error, name, "'species'[%zu]: expected a name or a number", i);
+        g_autofree char *label = json_node_get_value_type(s) == G_TYPE_STRING
+            ? g_strdup(json_node_get_string(s)) : g_strdup_printf("%g", json_node_get_double(s));
+        types[i] = (int)i;
+        for (size_t j = 0; j < i; j++) {
+            JsonNode *t = json_array_get_element(sa, (guint)j);
+            g_autofree char *other = json_node_get_value_type(t) == G_TYPE_STRING
+                ? g_strdup(json_node_get_string(t)) : g_strdup_printf("%g", json_node_get_double(t));
+            if (!strcmp(label, other)) {
+                types[i] = types[j];
+                break;
+            }
+        }
+    }
+    double a[3][3];
+    if (lattice)
+        memcpy(a, lattice, sizeof a);
+    else
+        bm_reciprocal3(g->grid.recip, a);   /* A = 2 pi B^-T, the same map both ways */
+    bm_errbuf err = { 0 };
+    if (bm_crystal_rotations(a, (const double (*)[3])pos, types, na, 1e-4, rot, nrot, &err)
+        != BM_OK) {
+        bm_error_from_core(error, &err, name);
+        return FALSE;
+    }
+    double nn = bm_crystal_nearest_neighbour(a, (const double (*)[3])pos, na);
+    if (nn < 0.7 || nn > 4.5)
+        bm_warn(&g->warnings, BM_WARN_UNIT_SUSPECT, "the nearest atoms are %.3g Angstrom apart "
+                "(bonds are 0.7 to 4.5 Angstrom): %s", nn, nn > 4.5
+                ? "if the lattice is in bohr, name it 'lattice_vectors_bohr'"
+                : "are the positions fractional, and the lattice in Angstrom?");
+    return TRUE;
+}
+
+/* The mesh index of fractional f, or FALSE when f is not a mesh point. */
+static gboolean mesh_index(const BmBandGrid *g, const double f[3], size_t idx[3], int *bad_axis,
+                           double *off_by)
+{
+    const size_t *n = g->grid.mesh;
+    for (int a = 0; a < 3; a++) {
+        double x = f[a] * (double)n[a] - g->grid.offset[a];
+        double r = nearbyint(x);
+        if (fabs(x - r) > 1e-6) {
+            *bad_axis = a;
+            *off_by = x - r;
+            return FALSE;
+        }
+        long m = (long)r % (long)n[a];
+        idx[a] = (size_t)(m < 0 ? m + (long)n[a] : m);
+    }
+    return TRUE;
+}
+
 static gboolean place_points(JsonArray *kl, JsonNode *en, const char *name, const char *key,
-                             const char *base_dir, BmBandGrid *g, GError **error)
+                             const char *base_dir, const int (*rot)[3][3], size_t nrot,
+                             BmBandGrid *g, GError **error)
 {
     const size_t *n = g->grid.mesh;
     size_t npt = n[0] * n[1] * n[2], nk = json_array_get_length(kl);
-    if (nk != npt)
+    if (nrot == 0 && nk != npt)
         return bm_error_invalid(error, name, "'k_points_fractional' lists %zu points; the "
-                                "%zu x %zu x %zu mesh has %zu", nk, n[0], n[1], n[2], npt);
+                                "%zu x %zu x %zu mesh has %zu (give 'positions_fractional' and "
+                                "'species' to unfold an irreducible wedge)", nk, n[0], n[1], n[2],
+                                npt);
+    if (nk > npt)
+        return bm_error_invalid(error, name, "'k_points_fractional' lists %zu points; the "
+                                "%zu x %zu x %zu mesh has only %zu", nk, n[0], n[1], n[2], npt);
     /* energies [band][point] */
     g_autoptr(BmNpyArray) arr = NULL;
     g_autofree double *inl = NULL;
@@ -367,6 +460,7 @@ static gboolean place_points(JsonArray *kl, JsonNode *en, const char *name, cons
         return FALSE;
     g->inline_energies = g_new(double, count);
     g_autofree gint64 *from = g_new(gint64, npt);
+    g_autofree char *listed = g_new0(char, npt);
     for (size_t p = 0; p < npt; p++)
         from[p] = -1;
     for (size_t q = 0; q < nk; q++) {
@@ -374,33 +468,66 @@ static gboolean place_points(JsonArray *kl, JsonNode *en, const char *name, cons
         if (JSON_NODE_TYPE(kn) != JSON_NODE_ARRAY || json_array_get_length(json_node_get_array(kn)) != 3)
             return bm_error_invalid(error, name, "'k_points_fractional'[%zu]: expected [f1, f2, f3]", q);
         size_t idx[3];
-        double f[3];
+        double f[3], off_by = 0.0;
+        int bad = 0;
         for (int a = 0; a < 3; a++) {
             g_autofree char *what = g_strdup_printf("'k_points_fractional'[%zu][%d]", q, a);
             if (!get_number(json_array_get_element(json_node_get_array(kn), (guint)a), name, what,
                             &f[a], error))
                 return FALSE;
-            double x = f[a] * (double)n[a] - g->grid.offset[a];
-            double r = nearbyint(x);
-            if (fabs(x - r) > 1e-6)
-                return bm_error_invalid(error, name, "'k_points_fractional'[%zu] = (%g, %g, %g) "
-                                        "is not a point of the %zu x %zu x %zu mesh (offset "
-                                        "%g, %g, %g steps): component %d sits %.3g steps off",
-                                        q, f[0], f[1], f[2], n[0], n[1], n[2],
-                                        g->grid.offset[0], g->grid.offset[1], g->grid.offset[2],
-                                        a + 1, x - r);
-            long m = (long)r % (long)n[a];
-            idx[a] = (size_t)(m < 0 ? m + (long)n[a] : m);
         }
+        if (!mesh_index(g, f, idx, &bad, &off_by))
+            return bm_error_invalid(error, name, "'k_points_fractional'[%zu] = (%g, %g, %g) "
+                                    "is not a point of the %zu x %zu x %zu mesh (offset "
+                                    "%g, %g, %g steps): component %d sits %.3g steps off",
+                                    q, f[0], f[1], f[2], n[0], n[1], n[2],
+                                    g->grid.offset[0], g->grid.offset[1], g->grid.offset[2],
+                                    bad + 1, off_by);
         size_t p = (idx[0] * n[1] + idx[1]) * n[2] + idx[2];
-        if (from[p] >= 0)
+        if (from[p] >= 0 && listed[p])
             return bm_error_invalid(error, name, "'k_points_fractional'[%" G_GINT64_FORMAT "] and "
                                     "[%zu] are the same mesh point (%zu, %zu, %zu)", from[p], q,
                                     idx[0], idx[1], idx[2]);
-        from[p] = (gint64)q;
-        for (size_t b = 0; b < nb; b++)
-            g->inline_energies[b * npt + p] = src[b * nk + q];
+        listed[p] = 1;
+        /* the point and its images under the crystal's rotations and time
+         * reversal: f' = f W (reciprocal fractional coordinates) and -f W */
+        for (size_t o = 0; o < (nrot ? nrot : 1); o++)
+            for (int tr = 1; tr >= (nrot ? -1 : 1); tr -= 2) {
+                double fi[3];
+                size_t ii[3];
+                for (int j = 0; j < 3; j++)
+                    fi[j] = nrot ? tr * (f[0] * rot[o][0][j] + f[1] * rot[o][1][j]
+                                         + f[2] * rot[o][2][j]) : f[j];
+                if (!mesh_index(g, fi, ii, &bad, &off_by))
+                    continue;   /* a shifted mesh need not hold every image */
+                size_t pi = (ii[0] * n[1] + ii[1]) * n[2] + ii[2];
+                if (from[pi] >= 0) {
+                    for (size_t b = 0; b < nb; b++)
+                        if (fabs(g->inline_energies[b * npt + pi] - src[b * nk + q]) > 1e-4)
+                            return bm_error_invalid(error, name, "band %zu disagrees by %.3g eV "
+                                "between 'k_points_fractional'[%" G_GINT64_FORMAT "] and an image "
+                                "of [%zu] at mesh point (%zu, %zu, %zu): the positions and "
+                                "species give a symmetry the calculation does not have", b,
+                                fabs(g->inline_energies[b * npt + pi] - src[b * nk + q]),
+                                from[pi], q, ii[0], ii[1], ii[2]);
+                    continue;
+                }
+                from[pi] = (gint64)q;
+                for (size_t b = 0; b < nb; b++)
+                    g->inline_energies[b * npt + pi] = src[b * nk + q];
+            }
     }
+    for (size_t p = 0; p < npt; p++)
+        if (from[p] < 0) {
+            size_t filled = 0;
+            for (size_t r = 0; r < npt; r++)
+                filled += from[r] >= 0;
+            return bm_error_invalid(error, name, "the k-points%s cover %zu of the %zu mesh points "
+                                    "(first missing: (%zu, %zu, %zu)): not a complete mesh%s",
+                                    nrot ? " and their images" : "", filled, npt,
+                                    p / (n[1] * n[2]), (p / n[2]) % n[1], p % n[2],
+                                    nrot ? ", or not an irreducible wedge of it" : "");
+        }
     g->grid.nbands = nb;
     g->grid.energies = g->inline_energies;
     return TRUE;
@@ -507,7 +634,8 @@ static gboolean parse_document(JsonNode *root, const char *name, const char *bas
         "format", "reciprocal_vectors_inv_angstrom", "reciprocal_vectors_inv_bohr",
         "lattice_vectors_angstrom", "lattice_vectors_bohr", "mesh", "energies_ev",
         "energies_hartree", "energies_rydberg", "band_names", "comment", "description",
-        "mesh_offset", "k_points_fractional", "spin_channels", NULL
+        "mesh_offset", "k_points_fractional", "spin_channels", "positions_fractional",
+        "species", NULL
     };
     /* each quantity in one unit, the unit in the key: the factor to eV / Angstrom */
     static const unit_key recip_keys[] = {
@@ -542,7 +670,8 @@ static gboolean parse_document(JsonNode *root, const char *name, const char *bas
                            "'reciprocal_vectors_inv_angstrom' / '_inv_bohr' and/or "
                            "'lattice_vectors_angstrom' / '_bohr', 'mesh', 'energies_ev' / "
                            "'_hartree' / '_rydberg', 'mesh_offset', 'k_points_fractional', "
-                           "'spin_channels', 'band_names')", (const char *)m->data);
+                           "'spin_channels', 'positions_fractional', 'species', 'band_names')",
+                           (const char *)m->data);
 
     const unit_key *rk, *lk, *ek;
     if (!pick_unit(o, name, recip_keys, G_N_ELEMENTS(recip_keys), &rk, error)
@@ -593,7 +722,13 @@ static gboolean parse_document(JsonNode *root, const char *name, const char *bas
         if (JSON_NODE_TYPE(kl) != JSON_NODE_ARRAY)
             return bm_error_invalid(error, name, "'k_points_fractional': expected a list of "
                                     "[f1, f2, f3]");
-        if (!place_points(json_node_get_array(kl), en, name, ek->key, base_dir, g, error))
+        int rot[BM_CRYSTAL_MAX_ROTATIONS][3][3];
+        size_t nrot = 0;
+        if (json_object_has_member(o, "positions_fractional")
+            && !crystal_symmetry(o, name, lk ? a : NULL, g, rot, &nrot, error))
+            return FALSE;
+        if (!place_points(json_node_get_array(kl), en, name, ek->key, base_dir,
+                          (const int (*)[3][3])rot, nrot, g, error))
             return FALSE;
     } else if (JSON_NODE_TYPE(en) == JSON_NODE_ARRAY) {
         if (!read_inline(json_node_get_array(en), name, ek->key, g->grid.mesh, g, error))

@@ -96,6 +96,33 @@ class Layouts(unittest.TestCase):
         self.assertTrue(any('degenerate-extremum' in x['warning_codes'] for x in stacked))
         self.assertTrue(any('spin_channels' in w for x in stacked for w in x['warnings']))
 
+    def test_irreducible_wedge(self):
+        # GPAW's 72 irreducible points of the 12^3 silicon mesh, unfolded with
+        # the rotations spglib finds for the diamond structure plus time
+        # reversal, give the full grid the code's own zone-to-wedge map gave
+        # (si-12.json; the two DFT runs agree to 1e-8 eV)
+        wedge = os.path.join(DATA, 'si-12-wedge.json')
+        a = json.loads(call({'grid': wedge, 'band': 'c1', 'extremum': 'minimum'}).stdout)
+        b = json.loads(call({'grid': os.path.join(DATA, 'si-12.json'), 'band': 'c1',
+                             'extremum': 'minimum'}).stdout)
+        for x, y in zip(a['extrema'][0]['principal_masses_me'],
+                        b['extrema'][0]['principal_masses_me']):
+            self.assertTrue(math.isclose(x, y, rel_tol=1e-5), (x, y))
+        doc = json.load(open(wedge))
+        # without the atoms the list is just incomplete
+        p = call({'grid': self.write('w1.json', {k: v for k, v in doc.items()
+                                                  if k not in ('positions_fractional', 'species')}),
+                  'band': 0})
+        self.assertEqual(p.returncode, 2)
+        self.assertIn("give 'positions_fractional' and 'species'", p.stderr)
+        # an atom moved off its site lowers the symmetry: the wedge no longer
+        # covers the mesh (two species would not: zincblende with time reversal
+        # has the same k-space symmetry as diamond)
+        moved = [doc['positions_fractional'][0], [0.25, 0.25, 0.31]]
+        p = call({'grid': self.write('w2.json', dict(doc, positions_fractional=moved)), 'band': 0})
+        self.assertEqual(p.returncode, 2)
+        self.assertIn('not an irreducible wedge', p.stderr)
+
     def test_shifted_mesh(self):
         # E = sum_a 2 t (1 - cos k_a a) on a simple cubic lattice, sampled on an
         # even 8^3 mesh shifted by half a step (no point at Gamma): with

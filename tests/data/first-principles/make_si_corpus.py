@@ -40,6 +40,7 @@ def scf(out, log='scf.txt'):
 
 
 def mesh_bands(calc, n, out):
+    """The bands on the full mesh, and the irreducible points with their bands."""
     nscf = calc.fixed_density(nbands=NBANDS, kpts={'size': (n, n, n), 'gamma': True},
                               convergence={'bands': NCONV}, txt=str(out / f'nscf-{n}.txt'))
     kd = nscf.wfs.kd
@@ -49,7 +50,7 @@ def mesh_bands(calc, n, out):
         # the code lists k over (-1/2, 1/2]: place each point by its index, not by reshaping
         idx = tuple(int(round(f * n)) % n for f in frac)
         e[(slice(None),) + idx] = ibz[kd.bz2ibz_k[bz]]
-    return e[:NCONV]
+    return e[:NCONV], np.array(kd.ibzk_kc), ibz[:, :NCONV].T
 
 
 def main(out_dir, meshes):
@@ -58,8 +59,23 @@ def main(out_dir, meshes):
     atoms, calc = scf(out)
     lattice = atoms.cell.array
     for n in meshes:
-        e = mesh_bands(calc, n, out)
+        e, ibz_k, ibz_e = mesh_bands(calc, n, out)
         vbm = e[3].max()
+        if n == 12:
+            # the irreducible wedge as the code lists it, with the atoms that
+            # give its symmetry: the reader unfolds it (tests/hosts/test_grid_layouts.py)
+            wedge = {
+                'format': 'bandmass-grid-1',
+                'lattice_vectors_angstrom': lattice.tolist(),
+                'positions_fractional': atoms.get_scaled_positions().tolist(),
+                'species': atoms.get_chemical_symbols(),
+                'mesh': [n, n, n],
+                'k_points_fractional': ibz_k.tolist(),
+                'energies_ev': (ibz_e - vbm).tolist(),
+                'band_names': ['v1', 'v2', 'v3', 'v4', 'c1', 'c2', 'c3', 'c4'],
+                'comment': f'the irreducible k-points of si-{n}.json; written by make_si_corpus.py',
+            }
+            (out / f'si-{n}-wedge.json').write_text(json.dumps(wedge) + '\n')
         np.save(out / f'si-{n}.npy', np.ascontiguousarray(e - vbm))
         doc = {
             'format': 'bandmass-grid-1',

@@ -1,0 +1,28 @@
+/* bm-crystal.h: the symmetry of a crystal from its lattice and atoms (spglib's
+ * C library): the rotations that unfold an irreducible wedge of k-points. */
+#ifndef BM_CRYSTAL_H
+#define BM_CRYSTAL_H
+
+#include <stddef.h>
+
+#include "bm-status.h"
+
+#define BM_CRYSTAL_MAX_ROTATIONS 48
+
+/* The distinct rotations W of the crystal's space group, integer matrices
+ * acting on fractional coordinates of the direct lattice (x' = W x).
+ * lattice: rows a1, a2, a3 in Angstrom; positions: fractional; types: one
+ * integer per atom (equal for equal species); symprec in Angstrom. BM_EINVAL
+ * naming the input when spglib finds no symmetry (overlapping atoms, a
+ * singular lattice). */
+bm_status bm_crystal_rotations(double lattice[3][3], const double (*positions)[3],
+                               const int *types, size_t natoms, double symprec,
+                               int rotations[BM_CRYSTAL_MAX_ROTATIONS][3][3], size_t *nrot,
+                               bm_errbuf *err);
+
+/* The shortest distance between two atoms of the crystal (periodic images
+ * included), Angstrom: a sanity check of the length unit. */
+double bm_crystal_nearest_neighbour(double lattice[3][3], const double (*positions)[3],
+                                    size_t natoms);
+
+#endif
