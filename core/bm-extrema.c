@@ -47,6 +47,7 @@ static void tensor_init(bm_mass_tensor *t, int dims, bm_tensor_method method)
     t->method = method;
     t->partner_band = -1;
     t->k_error = NAN;
+    t->sample_spacing = NAN;
     t->converged = -1;
     for (int m = 0; m < 3; m++)
         t->mass_errors[m] = NAN;
@@ -1412,6 +1413,7 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
     /* degeneracy: other bands at the sampled point nearest the extremum */
     double dn;
     size_t near = nearest_sample(c, centre, &dn);
+    t->sample_spacing = nearest_spacing(c, near);
     double e_self = c->t->energies[c->band * c->t->npoints + near];
     int touching = 0;
     for (size_t b = 0; b < c->t->nbands; b++)

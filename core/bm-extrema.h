@@ -53,6 +53,8 @@ typedef struct {
                                  independent local fits (NAN where not assessed) */
     double k_error;           /* estimated error of k, 1/Angstrom (NAN: not assessed) */
     int nfits;                /* independent estimates behind the errors */
+    double sample_spacing;    /* a table: distance from the sample nearest the extremum to
+                                 its nearest neighbour, 1/Angstrom (NAN for a grid) */
     int converged;            /* 1: every error within the tolerance and the estimates agree
                                  on the kind; 0: not; -1: not assessed */
     int degenerate;           /* other bands touch this one at the extremum: one band alone

@@ -11,9 +11,11 @@ size_t bm_stencil_size(int dims)
     return 1 + 2 * (2 * d + 2 * d * (d - 1));
 }
 
-double bm_stencil_step(double k_error)
+double bm_stencil_step(double k_error, double spacing)
 {
     double h = isfinite(k_error) ? 0.5 * k_error : 0.05;
+    if (isfinite(spacing) && spacing > 0.0)
+        h = fmin(h, spacing);
     return fmin(fmax(h, 0.01), 0.05);
 }
 

@@ -15,8 +15,11 @@ size_t bm_stencil_size(int dims);
 
 /* The stencil step (1/Angstrom) for a position known to within k_error: wide
  * enough to contain the extremum, never below 0.01 (finite differences of DFT
- * energies lose digits below that) nor above 0.05 (non-parabolicity). */
-double bm_stencil_step(double k_error);
+ * energies lose digits below that) nor above 0.05 (non-parabolicity); and,
+ * when the estimate came from samples spaced `spacing` apart (a previous
+ * stencil; NAN for a grid), not above that spacing (half the last step), so each round
+ * of the loop closes in even where a flat direction keeps k_error large. */
+double bm_stencil_step(double k_error, double spacing);
 
 /* Fills out[0 .. bm_stencil_size(dims) - 1] with Cartesian points around
  * centre; axes rows are orthonormal principal axes (the first dims used). */

@@ -295,7 +295,7 @@ static void add_stencil(JsonObject *o, const bm_mass_tensor *t, double recip[3][
         bm_stencil_directional(t->k, step, pts);
     } else {
         n = bm_stencil_size(t->dims);
-        step = bm_stencil_step(t->k_error);
+        step = bm_stencil_step(t->k_error, t->sample_spacing);
         bm_stencil_points(t->k, t->axes, t->dims, step, pts);
     }
     JsonObject *st = json_object_new();
