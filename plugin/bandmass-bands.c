@@ -395,6 +395,8 @@ GPtrArray *bm_bands_find_extrema(BmBands *self, const char *request_json, GError
         request_json = self->grid->grid.nbands == 1 ? "{\"band\": 0}" : "{}";
     const BmOperation *op = &bm_op_mass_tensor;
     g_autoptr(GError) parse_error = NULL;
+    if (!bm_json_check_depth(request_json, -1, "request for mass-tensor", error))
+        return NULL;
     g_autoptr(JsonNode) root = json_from_string(request_json, &parse_error);
     if (parse_error || !root || !JSON_NODE_HOLDS_OBJECT(root)) {
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,

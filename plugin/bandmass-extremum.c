@@ -217,6 +217,8 @@ BmExtremum *bm_extremum_new_from_json(const char *json, GError **error)
 {
     g_return_val_if_fail(json != NULL, NULL);
     g_autoptr(GError) parse_error = NULL;
+    if (!bm_json_check_depth(json, -1, "extremum", error))
+        return NULL;
     g_autoptr(JsonNode) root = json_from_string(json, &parse_error);
     if (!root || !JSON_NODE_HOLDS_OBJECT(root)) {
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,

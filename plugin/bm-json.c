@@ -365,6 +365,34 @@ void bm_json_write(GString *out, JsonNode *node, gboolean pretty)
     write_node(out, node, pretty, 0);
 }
 
+gboolean bm_json_check_depth(const char *text, gssize length, const char *what, GError **error)
+{
+    gsize n = length < 0 ? strlen(text) : (gsize)length;
+    guint depth = 0;
+    gboolean in_string = FALSE;
+    for (gsize i = 0; i < n; i++) {
+        char ch = text[i];
+        if (in_string) {
+            if (ch == '\\')
+                i++;
+            else if (ch == '"')
+                in_string = FALSE;
+        } else if (ch == '"') {
+            in_string = TRUE;
+        } else if (ch == '[' || ch == '{') {
+            if (++depth > BM_JSON_MAX_DEPTH) {
+                g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: JSON nested deeper than "
+                            "%d levels (at byte %zu); no bandmass document needs that many",
+                            what, BM_JSON_MAX_DEPTH, (size_t)i);
+                return FALSE;
+            }
+        } else if ((ch == ']' || ch == '}') && depth > 0) {
+            depth--;
+        }
+    }
+    return TRUE;
+}
+
 char *bm_json_to_string(JsonNode *node, gboolean pretty)
 {
     GString *out = g_string_new(NULL);

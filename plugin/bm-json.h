@@ -71,6 +71,16 @@ void bm_json_warn_all(JsonObject *o, const bm_warnings *w);
 /* Appends one warning with its code (arrays created on demand). */
 void bm_json_warn(JsonObject *o, bm_warn_code code, const char *fmt, ...) G_GNUC_PRINTF(3, 4);
 
+/* JSON text nested deeper than this is refused before parsing: json-glib's
+ * parser recurses once per level, and 10,000 levels overflow a thread's stack
+ * inside the host. No document of the project needs more than a handful. */
+#define BM_JSON_MAX_DEPTH 64
+
+/* FALSE, with BM_ERROR_INVALID_INPUT naming `what` ("request for mass-tensor",
+ * a file name), when text (length bytes, or up to its NUL when length < 0)
+ * nests arrays and objects deeper than BM_JSON_MAX_DEPTH; strings are skipped. */
+gboolean bm_json_check_depth(const char *text, gssize length, const char *what, GError **error);
+
 G_END_DECLS
 
 #endif

@@ -337,6 +337,9 @@ char *bm_registry_call_json(const char *op_name, const char *request_json,
         return NULL;
     }
     g_autoptr(GError) parse_error = NULL;
+    g_autofree char *what = g_strdup_printf("request for %s", op_name);
+    if (!bm_json_check_depth(request_json ? request_json : "", -1, what, error))
+        return NULL;
     g_autoptr(JsonNode) root = json_from_string(request_json ? request_json : "", &parse_error);
     if (parse_error) {
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,

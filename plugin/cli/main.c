@@ -53,8 +53,11 @@ static void print_main_help(void)
 static gboolean emit(const char *path, const char *text, GError **error)
 {
     if (!path) {
-        fputs(text, stdout);
-        return fflush(stdout) == 0;
+        if (fputs(text, stdout) >= 0 && fflush(stdout) == 0)
+            return TRUE;
+        g_set_error(error, BM_ERROR, BM_ERROR_IO, "could not write the output to standard "
+                    "output: %s", g_strerror(errno));
+        return FALSE;
     }
     g_autoptr(GError) io = NULL;
     if (!g_file_set_contents(path, text, -1, &io)) {
@@ -266,6 +269,9 @@ static JsonNode *option_value(const BmParam *p, const char *text, GError **error
 {
     if ((p->kinds & (BM_VALUE_ARRAY | BM_VALUE_OBJECT)) && (text[0] == '[' || text[0] == '{')) {
         g_autoptr(GError) parse = NULL;
+        g_autofree char *what = g_strdup_printf("option --%s", p->name);
+        if (!bm_json_check_depth(text, -1, what, error))
+            return NULL;
         JsonNode *n = json_from_string(text, &parse);
         if (!n) {
             g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
@@ -470,9 +476,8 @@ static int cmd_operation(const BmOperation *op, int argc, char **argv)
     return 0;
 }
 
-int main(int argc, char **argv)
+static int dispatch(int argc, char **argv)
 {
-    bm_registry_init();
     if (argc < 2) {
         print_main_help();
         return EXIT_USAGE;
@@ -498,4 +503,18 @@ int main(int argc, char **argv)
     if (!op)
         return usage_error("unknown command or operation \"%s\"", cmd);
     return cmd_operation(op, argc - 2, argv + 2);
+}
+
+int main(int argc, char **argv)
+{
+    bm_registry_init();
+    int status = dispatch(argc, argv);
+    /* every write to standard output is checked here, once: a full disk or a
+     * closed pipe is a failure, never a silent exit 0 */
+    if ((fflush(stdout) != 0 || ferror(stdout)) && status == 0) {
+        fprintf(stderr, "bandmass: error: could not write the output to standard output: %s\n",
+                g_strerror(errno));
+        return 1;
+    }
+    return status;
 }

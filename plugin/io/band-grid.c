@@ -27,6 +27,7 @@
 #include "bm-error-private.h"
 #include "bm-linalg.h"
 #include "bm-crystal.h"
+#include "bm-json.h"
 
 #include <gsl/gsl_const_mksa.h>
 
@@ -774,6 +775,8 @@ BmBandGrid *bm_band_grid_load_from_data(const char *data, gssize length,
     g_return_val_if_fail(error == NULL || *error == NULL, NULL);
     if (!name)
         name = "<band grid>";
+    if (!bm_json_check_depth(data, length, name, error))
+        return NULL;
     g_autoptr(JsonParser) parser = json_parser_new_immutable();
     GError *local = NULL;
     if (!json_parser_load_from_data(parser, data, length, &local)) {

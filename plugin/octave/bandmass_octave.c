@@ -436,6 +436,10 @@ static char *text_arg(const mxArray *a, const char *what, Failure *f)
 static mxArray *decode(const char *text, Failure *f)
 {
     g_autoptr(GError) error = NULL;
+    if (!bm_json_check_depth(text, -1, "JSON text", &error)) {
+        fail(f, "bandmass:invalidInput", "%s", error->message);
+        return NULL;
+    }
     g_autoptr(JsonNode) root = json_from_string(text, &error);
     if (!root) {
         fail(f, "bandmass:invalidInput", "not valid JSON: %s",
@@ -492,6 +496,10 @@ static mxArray *run(int nrhs, const mxArray *prhs[], Failure *f)
         if (!text)
             return NULL;
         g_autoptr(GError) parse_error = NULL;
+        if (!bm_json_check_depth(text, -1, "request", &parse_error)) {
+            fail(f, "bandmass:invalidInput", "%s", parse_error->message);
+            return NULL;
+        }
         request = json_from_string(text, &parse_error);
         if (parse_error || !request || !JSON_NODE_HOLDS_OBJECT(request)) {
             fail(f, "bandmass:invalidInput", "request for %s is not valid JSON%s%s", op,

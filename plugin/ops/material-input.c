@@ -636,9 +636,15 @@ static gboolean read_input(JsonObject *request, const char *key, BmMaterialInput
     }
     g_autoptr(JsonParser) parser = json_parser_new();
     g_autoptr(GError) io = NULL;
-    if (!json_parser_load_from_file(parser, name, &io)) {
-        g_set_error(error, BM_ERROR, BM_ERROR_IO, "request: key \"%s\": material file %s: %s",
-                    key, name, io->message);
+    g_autofree char *text = NULL;
+    gsize len = 0;
+    g_autofree char *what = g_strdup_printf("material file %s", name);
+    if (!g_file_get_contents(name, &text, &len, &io)
+        || !bm_json_check_depth(text, (gssize)len, what, error)
+        || !json_parser_load_from_data(parser, text, (gssize)len, &io)) {
+        if (io)
+            g_set_error(error, BM_ERROR, BM_ERROR_IO, "request: key \"%s\": material file %s: %s",
+                        key, name, io->message);
         return FALSE;
     }
     JsonNode *root = json_parser_get_root(parser);

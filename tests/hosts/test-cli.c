@@ -252,6 +252,65 @@ static void test_table_warnings_once(void)
 
 /* OP --help shows each key's unit, range, choices and default from the
  * table, and the response keys; a value outside the range is refused. */
+/* 100,000 nested brackets in a request, an option and a grid document: a
+ * clear error and exit 2, not a stack overflow in the parser. Regression test. */
+static void test_deep_nesting(void)
+{
+    GString *deep = g_string_new("{\"eta\": ");
+    for (int i = 0; i < 100000; i++)
+        g_string_append_c(deep, '[');
+    for (int i = 0; i < 100000; i++)
+        g_string_append_c(deep, ']');
+    g_string_append_c(deep, '}');
+    g_auto(Run) a = { 0 };
+    run_cli(&a, deep->str, "call", "fermi-integral", NULL);
+    assert_bad_input(&a, "nested deeper than 64 levels");
+    /* an option of 10,000 levels (one argument may not exceed 128 kB) */
+    g_autofree char *opt = g_strdup_printf("{\"a\": %.*s%.*s}", 10000, deep->str + 8, 10000,
+                                           deep->str + 8 + 100000);
+    g_auto(Run) b = { 0 };
+    run_cli(&b, NULL, "valley-average", "--valley", opt, "--point-group", "Oh", NULL);
+    assert_bad_input(&b, "nested deeper than 64 levels");
+    g_autofree char *path = g_build_filename(g_get_tmp_dir(), "bandmass-deep.json", NULL);
+    g_assert_true(g_file_set_contents(path, deep->str, -1, NULL));
+    g_auto(Run) c = { 0 };
+    run_cli(&c, NULL, "mass-tensor", "--grid", path, "--band", "0", NULL);
+    assert_bad_input(&c, "nested deeper than 64 levels");
+    g_unlink(path);
+    g_string_free(deep, TRUE);
+}
+
+/* Standard output on a full device (/dev/full): a failed write is an error
+ * with a message, never a signal or a silent exit 0. Regression test. */
+static void test_stdout_full(void)
+{
+    if (!g_file_test("/dev/full", G_FILE_TEST_EXISTS)) {
+        g_test_skip("no /dev/full");
+        return;
+    }
+    static const char *const cases[][3] = {
+        { "ops", NULL, NULL }, { "call", "constants", NULL }, { "constants", NULL, NULL },
+        { "constants", "--json", NULL }, { "mass-tensor", "--help", NULL },
+    };
+    for (gsize i = 0; i < G_N_ELEMENTS(cases); i++) {
+        g_autoptr(GError) error = NULL;
+        g_autoptr(GSubprocessLauncher) l = g_subprocess_launcher_new(
+            G_SUBPROCESS_FLAGS_STDIN_PIPE | G_SUBPROCESS_FLAGS_STDERR_PIPE);
+        g_subprocess_launcher_set_stdout_file_path(l, "/dev/full");
+        const char *argv[] = { g_getenv("BANDMASS_CLI"), cases[i][0], cases[i][1], NULL };
+        g_autoptr(GSubprocess) p = g_subprocess_launcher_spawnv(l, argv, &error);
+        g_assert_no_error(error);
+        g_autofree char *err = NULL;
+        g_subprocess_communicate_utf8(p, "{}", NULL, NULL, &err, &error);
+        g_assert_no_error(error);
+        g_assert_true(g_subprocess_get_if_exited(p));
+        g_assert_cmpint(g_subprocess_get_exit_status(p), !=, 0);
+        g_assert_nonnull(strstr(err, "could not write the output"));
+        /* said once */
+        g_assert_null(strstr(strstr(err, "could not write") + 1, "could not write"));
+    }
+}
+
 static void test_help_from_tables(void)
 {
     g_auto(Run) h = { 0 };
@@ -286,6 +345,8 @@ int main(int argc, char **argv)
     g_test_add_func("/cli/mass-tensor-bad-files", test_mass_tensor_bad_files);
     g_test_add_func("/cli/valley-material", test_valley_material);
     g_test_add_func("/cli/help-from-tables", test_help_from_tables);
+    g_test_add_func("/cli/stdout-full", test_stdout_full);
+    g_test_add_func("/cli/deep-nesting", test_deep_nesting);
     g_test_add_func("/cli/table-warnings-once", test_table_warnings_once);
     return g_test_run();
 }

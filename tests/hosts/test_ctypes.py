@@ -81,6 +81,22 @@ class Plugin(unittest.TestCase):
         self.assertEqual(status, UNKNOWN_OPERATION)
         self.assertIn('no operation named "nonesuch"', err)
 
+    def test_deep_nesting_in_a_small_thread(self):
+        # 10,000 nested brackets (20 kB) from a thread with a 1 MB stack: refused
+        # before the recursive parser sees them, so the host survives.
+        # Regression test: this used to kill the process.
+        import threading
+        deep = '{"eta": ' + '[' * 10000 + ']' * 10000 + '}'
+        out = {}
+        threading.stack_size(1 << 20)
+        t = threading.Thread(target=lambda: out.update(r=call(self.api, 'fermi-integral', deep)))
+        t.start()
+        t.join()
+        threading.stack_size(0)
+        status, text, err = out['r']
+        self.assertEqual(status, INVALID_INPUT)
+        self.assertIn('nested deeper than 64 levels', err)
+
 
 if __name__ == '__main__':
     unittest.main(verbosity=2)
