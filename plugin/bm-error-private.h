@@ -18,9 +18,15 @@ void bm_error_from_core(GError **error, const bm_errbuf *err, const char *contex
 gboolean bm_error_invalid(GError **error, const char *context, const char *fmt, ...)
     G_GNUC_PRINTF(3, 4);
 
-/* Reads the whole file at path into *text (free it) and *length (may be
- * NULL); on failure sets BM_ERROR_IO "cannot read WHAT: reason" and returns
- * FALSE. The reason names the file. */
+/* Documents (requests, grid documents, k-tables, material files) larger than
+ * this are refused rather than read: a request never needs more. */
+#define BM_MAX_DOCUMENT_BYTES ((gsize)1 << 30)
+
+/* Reads the whole file at path into *text (free it, NUL-terminated) and
+ * *length (may be NULL); on failure sets BM_ERROR_IO "cannot read WHAT:
+ * reason" and returns FALSE. The reason names the file. Only a regular file
+ * is read (a FIFO would block forever, /dev/zero would never end), and none
+ * larger than BM_MAX_DOCUMENT_BYTES. */
 gboolean bm_error_read_file(const char *path, const char *what, char **text, gsize *length,
                             GError **error);
 

@@ -71,14 +71,20 @@ static char *read_all(const char *path, GError **error)
 {
     char *text = NULL;
     if (path) {
-        g_autofree char *what = g_strdup_printf("request %s", path);
-        return bm_error_read_file(path, what, &text, NULL, error) ? text : NULL;
+        return bm_error_read_file(path, "request", &text, NULL, error) ? text : NULL;
     }
     GString *s = g_string_new(NULL);
     char buf[65536];
     size_t got;
-    while ((got = fread(buf, 1, sizeof buf, stdin)) > 0)
+    while ((got = fread(buf, 1, sizeof buf, stdin)) > 0) {
         g_string_append_len(s, buf, (gssize)got);
+        if (s->len > BM_MAX_DOCUMENT_BYTES) {
+            g_string_free(s, TRUE);
+            g_set_error(error, BM_ERROR, BM_ERROR_IO, "cannot read the request from standard "
+                        "input: larger than the 1 GiB a document may have");
+            return NULL;
+        }
+    }
     return g_string_free(s, FALSE);
 }
 

@@ -279,9 +279,16 @@ BmNpyArray *bm_npy_read_f64(const char *path, GError **error)
     g_return_val_if_fail(path != NULL, NULL);
     g_return_val_if_fail(error == NULL || *error == NULL, NULL);
 
-    int fd = open(path, O_RDONLY | O_CLOEXEC);
+    int fd = open(path, O_RDONLY | O_CLOEXEC | O_NONBLOCK);
     if (fd < 0)
         return fail_io(path, errno, "open the .npy file", error);
+    struct stat fst;
+    if (fstat(fd, &fst) != 0 || !S_ISREG(fst.st_mode)) {
+        close(fd);
+        g_set_error(error, BM_ERROR, BM_ERROR_IO, "%s: not a regular file (a FIFO, a device or a "
+                    "directory cannot be read as a .npy array)", path);
+        return NULL;
+    }
 
     BmNpyArray *result = NULL;
     g_autofree char *header = NULL;

@@ -639,7 +639,7 @@ static gboolean read_input(JsonObject *request, const char *key, BmMaterialInput
     g_autofree char *text = NULL;
     gsize len = 0;
     g_autofree char *what = g_strdup_printf("material file %s", name);
-    if (!g_file_get_contents(name, &text, &len, &io)
+    if (!bm_error_read_file(name, "material file", &text, &len, error)
         || !bm_json_check_depth(text, (gssize)len, what, error)
         || !json_parser_load_from_data(parser, text, (gssize)len, &io)) {
         if (io)

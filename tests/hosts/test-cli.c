@@ -3,6 +3,7 @@
 #include <glib.h>
 #include <glib/gstdio.h>
 #include <string.h>
+#include <sys/stat.h>
 #include <math.h>
 #include <gio/gio.h>
 #include <json-glib/json-glib.h>
@@ -79,7 +80,7 @@ static void test_bad_usage(void)
     assert_bad_input(&c, "unknown option --colour");
     g_auto(Run) d = { 0 };
     run_cli(&d, NULL, "call", "constants", "--input", "/nonexistent/request.json", NULL);
-    assert_bad_input(&d, "cannot read request /nonexistent/request.json");
+    assert_bad_input(&d, "cannot read request: /nonexistent/request.json");
 }
 
 static void test_friendly_equals_call(void)
@@ -280,6 +281,33 @@ static void test_deep_nesting(void)
     g_string_free(deep, TRUE);
 }
 
+/* A FIFO or a device given as an input file: refused at once (it would block
+ * forever, or never end), naming the file. Regression test. */
+static void test_special_inputs(void)
+{
+    g_autofree char *fifo = g_build_filename(g_get_tmp_dir(), "bandmass-fifo", NULL);
+    g_unlink(fifo);
+    g_assert_cmpint(mkfifo(fifo, 0600), ==, 0);
+    const char *zero = g_file_test("/dev/zero", G_FILE_TEST_EXISTS) ? "/dev/zero" : fifo;
+    g_auto(Run) a = { 0 };
+    run_cli(&a, NULL, "mass-tensor", "--grid", fifo, "--band", "0", NULL);
+    g_assert_cmpint(a.status, ==, 2);
+    g_assert_nonnull(strstr(a.err, "not a regular file"));
+    g_auto(Run) b = { 0 };
+    run_cli(&b, NULL, "mass-tensor", "--table", zero, "--band", "0", NULL);
+    g_assert_cmpint(b.status, ==, 2);
+    g_assert_nonnull(strstr(b.err, "not a regular file"));
+    g_auto(Run) c = { 0 };
+    run_cli(&c, NULL, "call", "constants", "--input", fifo, NULL);
+    g_assert_cmpint(c.status, ==, 2);
+    g_assert_nonnull(strstr(c.err, "not a regular file"));
+    g_auto(Run) d = { 0 };
+    run_cli(&d, NULL, "carrier-statistics", "--material", zero, "--temperature-k", "300", NULL);
+    g_assert_cmpint(d.status, ==, 2);
+    g_assert_nonnull(strstr(d.err, "not a regular file"));
+    g_unlink(fifo);
+}
+
 /* Standard output on a full device (/dev/full): a failed write is an error
  * with a message, never a signal or a silent exit 0. Regression test. */
 static void test_stdout_full(void)
@@ -347,6 +375,7 @@ int main(int argc, char **argv)
     g_test_add_func("/cli/help-from-tables", test_help_from_tables);
     g_test_add_func("/cli/stdout-full", test_stdout_full);
     g_test_add_func("/cli/deep-nesting", test_deep_nesting);
+    g_test_add_func("/cli/special-inputs", test_special_inputs);
     g_test_add_func("/cli/table-warnings-once", test_table_warnings_once);
     return g_test_run();
 }
