@@ -107,16 +107,7 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     }
     json_object_set_string_member(resp, "material", mat.mat.name);
     json_object_set_string_member(resp, "model", model_name);
-    JsonObject *par = json_object_new();
-    bm_json_set_number(par, "eg0_ev", g->eg0_ev);
-    if (g->kind == BM_GAP_VARSHNI) {
-        bm_json_set_number(par, "alpha_ev_per_k", g->alpha_ev_per_k);
-        bm_json_set_number(par, "beta_k", g->beta_k);
-    } else if (g->kind == BM_GAP_BOSE_EINSTEIN) {
-        bm_json_set_number(par, "a_b_ev", g->a_b_ev);
-        bm_json_set_number(par, "theta_k", g->theta_k);
-    }
-    json_object_set_object_member(resp, "parameters", par);
+    json_object_set_object_member(resp, "parameters", bm_material_gap_parameters(g));
     json_object_set_string_member(resp, "source", g->source ? g->source : mat.origin);
     if (list)
         json_object_set_array_member(resp, "points", pts);

@@ -461,17 +461,23 @@ static void set_sourced(JsonObject *o, const char *key, double v, const char *so
     json_object_set_object_member(o, key, s);
 }
 
-static JsonObject *gap_json(const bm_gap_model *g)
+JsonObject *bm_material_gap_parameters(const bm_gap_model *g)
 {
     JsonObject *p = json_object_new();
     bm_json_set_number(p, "eg0_ev", g->eg0_ev);
     if (g->kind == BM_GAP_VARSHNI) {
         bm_json_set_number(p, "alpha_ev_per_k", g->alpha_ev_per_k);
         bm_json_set_number(p, "beta_k", g->beta_k);
-    } else {
+    } else if (g->kind == BM_GAP_BOSE_EINSTEIN) {
         bm_json_set_number(p, "a_b_ev", g->a_b_ev);
         bm_json_set_number(p, "theta_k", g->theta_k);
     }
+    return p;
+}
+
+static JsonObject *gap_json(const bm_gap_model *g)
+{
+    JsonObject *p = bm_material_gap_parameters(g);
     set_source(p, g->source);
     return p;
 }

@@ -31,6 +31,11 @@ void bm_material_input_clear(BmMaterialInput *in);
  * {value, source}); the caller owns the result. */
 JsonObject *bm_material_to_json(const bm_material *m);
 
+/* The parameters of a gap model as the codec writes them, without their
+ * source: {eg0_ev, alpha_ev_per_k, beta_k}, {eg0_ev, a_b_ev, theta_k} or
+ * {eg0_ev} for a fixed gap; the caller owns the result. */
+JsonObject *bm_material_gap_parameters(const bm_gap_model *g);
+
 /* Keys a material object may hold that the reader skips: "comment", and
  * "derived" and "warnings", which the materials operation writes beside the
  * material (recomputed, never read back). */
