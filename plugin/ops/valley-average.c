@@ -78,31 +78,22 @@ static const BmField response[] = {
     BM_FIELD_END
 };
 
-/* A single valley takes the shape keys; an entry of a list also its offset and weight. */
-static const char *const valley_keys[] = {
-    "longitudinal_mass_me", "transverse_mass_me", "axis", "principal_masses_me", "axes",
-    "direction", NULL
-};
-static const char *const list_entry_keys[] = {
-    "longitudinal_mass_me", "transverse_mass_me", "axis", "principal_masses_me", "axes",
-    "direction", "energy_offset_ev", "weight", NULL
-};
-/* An element of mass-tensor's "extrema", taken as it is (a list entry may add
- * its offset and weight). */
-static const char *const extremum_keys[] = {
-    "kind", "dims", "energy_ev", "k_inv_angstrom", "k_fractional", "principal_masses_me",
-    "principal_axes", "inverse_mass_tensor_per_me", "fit_rms_ev", "divergent", "method",
-    "crossing_partner_band", "principal_masses_error_me", "k_error_inv_angstrom", "converged",
-    "refinement_stencil", "directional_masses",
-    "warnings", "warning_codes", NULL
-};
-static const char *const extremum_entry_keys[] = {
-    "kind", "dims", "energy_ev", "k_inv_angstrom", "k_fractional", "principal_masses_me",
-    "principal_axes", "inverse_mass_tensor_per_me", "fit_rms_ev", "divergent", "method",
-    "crossing_partner_band", "principal_masses_error_me", "k_error_inv_angstrom", "converged",
-    "refinement_stencil", "directional_masses",
-    "warnings", "warning_codes", "energy_offset_ev", "weight", NULL
-};
+/* A single valley takes the shape keys; an entry of a list also its offset
+ * and weight. Each list is written once and the entry form extends it. */
+#define VALLEY_KEYS \
+    "longitudinal_mass_me", "transverse_mass_me", "axis", "principal_masses_me", "axes", \
+    "direction"
+/* An element of mass-tensor's "extrema", taken as it is. */
+#define EXTREMUM_KEYS \
+    "kind", "dims", "energy_ev", "k_inv_angstrom", "k_fractional", "principal_masses_me", \
+    "principal_axes", "inverse_mass_tensor_per_me", "fit_rms_ev", "divergent", "method", \
+    "crossing_partner_band", "principal_masses_error_me", "k_error_inv_angstrom", \
+    "converged", "refinement_stencil", "directional_masses", "warnings", "warning_codes"
+#define LIST_ENTRY_KEYS "energy_offset_ev", "weight"
+static const char *const valley_keys[] = { VALLEY_KEYS, NULL };
+static const char *const list_entry_keys[] = { VALLEY_KEYS, LIST_ENTRY_KEYS, NULL };
+static const char *const extremum_keys[] = { EXTREMUM_KEYS, NULL };
+static const char *const extremum_entry_keys[] = { EXTREMUM_KEYS, LIST_ENTRY_KEYS, NULL };
 
 /* Which carriers a valley holds: negative inertial masses (a band maximum)
  * make a hole valley, averaged with the hole masses |m|. */
