@@ -656,11 +656,11 @@ static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
     /* Independent local fits around the start point: across a crossing with a
      * neighbouring band they give the tensor, elsewhere its error estimate. */
     bm_bandfit fits[BM_BANDFIT_NSETTINGS];
-    int nfits = 0;
+    double kstart[3];
+    for (int i = 0; i < 3; i++)
+        kstart[i] = f[0] * c->b[0][i] + f[1] * c->b[1][i] + f[2] * c->b[2][i];
     if (refine) {
-        double kstart[3], gap, span;
-        for (int i = 0; i < 3; i++)
-            kstart[i] = f[0] * c->b[0][i] + f[1] * c->b[1][i] + f[2] * c->b[2][i];
+        double gap, span;
         int partner = bm_bandfit_partner(c->g, c->band, f, kstart,
                                          PARTNER_RADIUS_STEPS * bm_bandfit_step(c->g),
                                          &gap, &span);
@@ -765,15 +765,10 @@ static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
         fits[0].ok = 1;
         memcpy(fits[0].k, kf, sizeof fits[0].k);
         memcpy(fits[0].hessian, hrk, sizeof hrk);
-        nfits = 1;
-        assess(c, fits, nfits, kf, t);
+        assess(c, fits, 1, kf, t);
         /* the kind needs a check that does not share the interpolant's
          * ringing: a local fit of the mesh data around the start point */
         bm_bandfit local;
-        double kstart[3];
-        for (int i = 0; i < 3; i++)
-            kstart[i] = f_start[0] * c->b[0][i] + f_start[1] * c->b[1][i]
-                      + f_start[2] * c->b[2][i];
         int want = t->kind == BM_EXTREMUM_MINIMUM ? 1 : t->kind == BM_EXTREMUM_MAXIMUM ? -1 : 0;
         if (bm_bandfit_run(c->g, c->band, -1, f_start, kstart, c->dims, c->p,
                            &bm_bandfit_settings[0], &local) == 0 && local.ok
