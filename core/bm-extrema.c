@@ -198,6 +198,42 @@ static void mark_degenerate(bm_mass_tensor *t, bm_extremum_kind hint, int touchi
             kind_name(hint), touching, touching == 1 ? "" : "s", touching == 1 ? "es" : "");
 }
 
+/* The k.p fit of the bands that touch at a degenerate extremum: points k
+ * ([n][3], relative to it) and energies [nb][n] of the touching bands in
+ * ascending order. On success the degeneracy warning points to the fit and
+ * an unconverged fit says what would converge it. */
+static void degenerate_kp(bm_mass_tensor *t, const double *k, const double *e, size_t n,
+                          double radius, const size_t *group, size_t nb, double tol,
+                          const char *frame_note)
+{
+    bm_kp_data d = { .npoints = n, .k = k, .nbands = nb, .energies = e, .radius = radius };
+    bm_errbuf err;
+    if (bm_kp_fit_bands(&d, &t->kp, &err) != BM_OK) {
+        bm_warnings_clear(&t->kp.warnings);
+        memset(&t->kp, 0, sizeof t->kp);
+        bm_warn(&t->warnings, BM_WARN_FIT_UNDETERMINED, "no k.p fit of the %zu touching "
+                "bands: %s", nb, err.message);
+        return;
+    }
+    t->kp.nbands = nb;
+    memcpy(t->kp.band_index, group, nb * sizeof *group);
+    for (size_t i = 0; i < t->kp.warnings.count; i++)
+        bm_warn(&t->warnings, t->kp.warnings.items[i].code, "%s", t->kp.warnings.items[i].text);
+    drop_warnings(t, BM_WARN_DEGENERATE_EXTREMUM);
+    bm_warn(&t->warnings, BM_WARN_DEGENERATE_EXTREMUM, "degenerate %s: %zu bands touch here, "
+            "so one sorted band has no mass tensor (none is given); their masses come from "
+            "the %s k.p fit of the %zu touching bands (degenerate_kp_fit)%s",
+            kind_name(t->kind), nb, t->kp.model == BM_KP_THREEFOLD
+            ? "threefold (no spin-orbit coupling)" : "fourfold (Luttinger)", nb, frame_note);
+    if (!(t->kp.rel_error <= tol))
+        bm_warn(&t->warnings, BM_WARN_NOT_CONVERGED, "the k.p fit of the degenerate bands "
+                "is not converged: its directional masses are uncertain by up to %.3g %% "
+                "(tolerance %.3g %%; the fit over %zu points within %.3g 1/Angstrom against an "
+                "independent fit); the directional refinement stencil (stencil: true) "
+                "computed with the band code and fitted as a k-table converges them",
+                100.0 * t->kp.rel_error, 100.0 * tol, t->kp.npoints, t->kp.radius);
+}
+
 static void nonparabolic_check(bm_mass_tensor *t, const bm_quadric *q, double span, double radius)
 {
     if (span > 0.0 && q->rms > NONPARABOLIC_REL * span)
@@ -603,6 +639,85 @@ static void set_position(grid_ctx *c, const double f[3], bm_mass_tensor *t)
             }
 }
 
+/* The k.p fit at a degenerate point f (fractional) of a grid: the mesh
+ * energies themselves (no interpolant: it is not smooth where bands touch)
+ * of the touching bands within 2.6 of the longest mesh steps. */
+static void grid_kp(grid_ctx *c, const double f[3], double e0, bm_mass_tensor *t)
+{
+    const bm_grid *g = c->g;
+    size_t group[4], nb = 0;
+    for (size_t b = 0; b < g->nbands; b++) {
+        double eb;
+        if (!bm_grid_same_channel(g, b, c->band))
+            continue;
+        grid_eval(c, b, f, &eb, NULL, NULL);
+        if (isfinite(eb) && fabs(eb - e0) <= c->degen) {
+            if (nb == 4) {
+                nb = 5;
+                break;
+            }
+            group[nb++] = b;
+        }
+    }
+    if (c->dims < 3 || nb < 3 || nb > 4)
+        return;
+    if (!bm_kp_cubic_frame(g->recip)) {
+        bm_warn(&t->warnings, BM_WARN_FIT_UNDETERMINED, "no k.p fit of the %zu touching bands: "
+                "the Cartesian axes of this lattice are not cubic axes (the cubic models need "
+                "them; give the lattice in a frame aligned with the cube)", nb);
+        return;
+    }
+    double h = 0.0;
+    for (int a = 0; a < 3; a++)
+        h = fmax(h, bm_norm3(g->recip[a]) / (double)g->mesh[a]);
+    /* the fit within 2.6 steps; the points out to 3.6 steps check it */
+    double rfit = 2.6 * h, rmax = 3.6 * h;
+    long base[3], span[3];
+    for (int a = 0; a < 3; a++) {
+        base[a] = lround(f[a] * (double)g->mesh[a] - g->offset[a]);
+        /* mesh steps along axis a that can lie within rmax: |b_a|/n_a times
+         * the steps is at least their distance over the cell's obliqueness */
+        span[a] = (long)ceil(rmax * bm_norm3(c->binv[a]) * (double)g->mesh[a]) + 1;
+    }
+    size_t cap = (size_t)((2 * span[0] + 1) * (2 * span[1] + 1) * (2 * span[2] + 1));
+    double *k = malloc(cap * 3 * sizeof *k), *en = malloc(cap * nb * sizeof *en);
+    size_t n = 0;
+    if (!k || !en)
+        goto done;
+    double kc[3];
+    for (int a = 0; a < 3; a++)
+        kc[a] = f[0] * g->recip[0][a] + f[1] * g->recip[1][a] + f[2] * g->recip[2][a];
+    for (long i = base[0] - span[0]; i <= base[0] + span[0]; i++)
+        for (long j = base[1] - span[1]; j <= base[1] + span[1]; j++)
+            for (long l = base[2] - span[2]; l <= base[2] + span[2]; l++) {
+                long idx[3] = { i, j, l };
+                double fr[3], dk[3];
+                size_t w[3];
+                for (int a = 0; a < 3; a++) {
+                    long m = (long)g->mesh[a];
+                    fr[a] = ((double)idx[a] + g->offset[a]) / (double)m;
+                    w[a] = (size_t)(((idx[a] % m) + m) % m);
+                }
+                for (int a = 0; a < 3; a++)
+                    dk[a] = fr[0] * g->recip[0][a] + fr[1] * g->recip[1][a]
+                          + fr[2] * g->recip[2][a] - kc[a];
+                if (bm_norm3(dk) > rmax * (1.0 + 1e-9))
+                    continue;
+                size_t lin = (w[0] * g->mesh[1] + w[1]) * g->mesh[2] + w[2];
+                memcpy(k + 3 * n, dk, sizeof dk);
+                for (size_t q = 0; q < nb; q++)
+                    en[q * cap + n] = g->energies[group[q] * c->npt + lin];
+                n++;
+            }
+    /* compact the band rows to n points */
+    for (size_t q = 1; q < nb; q++)
+        memmove(en + q * n, en + q * cap, n * sizeof *en);
+    degenerate_kp(t, k, en, n, rfit, group, nb, c->conv, "");
+done:
+    free(k);
+    free(en);
+}
+
 /* Across a crossing: the mean of the local fits of the band and its partner. */
 static int crossing_analyse(grid_ctx *c, const bm_bandfit *fits, int partner,
                             bm_extremum_kind hint, bm_mass_tensor *t)
@@ -789,8 +904,10 @@ static int grid_analyse(grid_ctx *c, const double f_start[3], int refine,
                  && fabs(eb - e) <= c->degen;
     }
     /* a conical point is the more specific finding where two bands touch */
-    if (touching && refine && !conical)
+    if (touching && refine && !conical) {
         mark_degenerate(t, hint, touching);
+        grid_kp(c, f, e, t);
+    }
     for (size_t b = 0; touching && b < c->g->nbands; b++) {
         double eb;
         grid_eval(c, b, f, &eb, NULL, NULL);
@@ -1268,6 +1385,37 @@ static void directional_masses(table_ctx *c, size_t i0, bm_mass_tensor *t)
     }
 }
 
+/* The k.p fit at the degenerate sample i0 of a table: every sample, the
+ * touching bands in index order (sorted tables give them ascending). */
+static void table_kp(table_ctx *c, size_t i0, bm_mass_tensor *t)
+{
+    const double *e = c->t->energies, *k0 = tk(c, i0);
+    size_t np = c->t->npoints, group[4], nb = 0;
+    for (size_t b = 0; b < c->t->nbands; b++)
+        if (fabs(e[b * np + i0] - e[c->band * np + i0]) <= c->degen) {
+            if (nb == 4) {
+                nb = 5;
+                break;
+            }
+            group[nb++] = b;
+        }
+    if (c->dims < 3 || nb < 3 || nb > 4)
+        return;   /* the cubic models need three dimensions and three or four bands */
+    double *k = malloc(np * 3 * sizeof *k), *en = malloc(np * nb * sizeof *en);
+    if (k && en) {
+        for (size_t i = 0; i < np; i++) {
+            for (int a = 0; a < 3; a++)
+                k[3 * i + a] = tk(c, i)[a] - k0[a];
+            for (size_t q = 0; q < nb; q++)
+                en[q * np + i] = e[group[q] * np + i];
+        }
+        degenerate_kp(t, k, en, np, 0.0, group, nb, c->conv, "; a table has no lattice: its Cartesian "
+                      "axes are taken as the cubic axes");
+    }
+    free(k);
+    free(en);
+}
+
 static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
                                bm_extremum_kind hint, bm_mass_tensor *t, bm_errbuf *err)
 {
@@ -1289,6 +1437,7 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
             t->energy_ev = e[c->band * np + i0];
             t->fit_rms_ev = NAN;
             directional_masses(c, i0, t);
+            table_kp(c, i0, t);
             return BM_OK;
         }
     }
@@ -1421,6 +1570,7 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
         memcpy(t->k, tk(c, near), sizeof t->k);
         t->energy_ev = e_self;
         directional_masses(c, near, t);
+        table_kp(c, near, t);
     }
     for (size_t b = 0; b < c->t->nbands; b++) {
         if (b == c->band)
@@ -1550,7 +1700,9 @@ done:
 
 void bm_mass_tensors_free(bm_mass_tensor *t, size_t n)
 {
-    for (size_t i = 0; t && i < n; i++)
+    for (size_t i = 0; t && i < n; i++) {
         bm_warnings_clear(&t[i].warnings);
+        bm_warnings_clear(&t[i].kp.warnings);
+    }
     free(t);
 }

@@ -4,6 +4,7 @@
 #define BM_EXTREMA_H
 
 #include "bm-bands.h"
+#include "bm-kp.h"
 #include "bm-status.h"
 
 typedef enum {
@@ -66,6 +67,8 @@ typedef struct {
         double mass;          /* m_e, signed: hbar^2 / (d2E/ds2) at the extremum */
         double error;         /* m_e: the quartic correction between the two steps */
     } directional[BM_DIRECTIONAL_MAX];
+    bm_kp_fit kp;             /* a degenerate extremum of a cubic crystal: the k.p fit of
+                                 the touching bands (kp.model BM_KP_NONE otherwise) */
     bm_warnings warnings;
 } bm_mass_tensor;
 

@@ -123,36 +123,59 @@ bm_status bm_luttinger_direction(const bm_luttinger *L, const double n[3],
  * suffices: u = cos(theta) in [0, 1] by Gauss-Legendre (GSL glfixed), phi in
  * [0, pi/2) by the midpoint rule, which is spectrally accurate because the
  * integrand is smooth and periodic in phi with period pi/2. */
-static bm_status warped_means(const bm_luttinger *L, size_t nu, double *heavy, double *light,
-                              bm_errbuf *err)
+bm_status bm_octant_means(void (*f)(const double n[3], void *ctx, double *vals), void *ctx,
+                          size_t nvals, size_t nu, double *means, bm_errbuf *err)
 {
+    if (nvals == 0 || nvals > BM_OCTANT_MAX_VALUES || nu == 0)
+        return bm_fail(err, BM_EINVAL, "octant means: %zu values, %zu nodes", nvals, nu);
     gsl_integration_glfixed_table *t = gsl_integration_glfixed_table_alloc(nu);
     if (!t)
-        return bm_fail(err, BM_ENOMEM, "Luttinger masses: quadrature table allocation failed");
+        return bm_fail(err, BM_ENOMEM, "octant means: quadrature table allocation failed");
     size_t nphi = 2 * nu;
-    double sh = 0.0, sl = 0.0;
+    double vals[BM_OCTANT_MAX_VALUES], row[BM_OCTANT_MAX_VALUES];
+    for (size_t v = 0; v < nvals; v++)
+        means[v] = 0.0;
     for (size_t i = 0; i < nu; i++) {
         double u, wu;
         if (gsl_integration_glfixed_point(0.0, 1.0, i, &u, &wu, t) != 0) {
             gsl_integration_glfixed_table_free(t);
-            return bm_fail(err, BM_EINTERNAL, "Luttinger masses: quadrature node %zu failed", i);
+            return bm_fail(err, BM_EINTERNAL, "octant means: quadrature node %zu failed", i);
         }
         double st = sqrt(fmax(0.0, 1.0 - u * u));
-        double rh = 0.0, rl = 0.0;
+        for (size_t v = 0; v < nvals; v++)
+            row[v] = 0.0;
         for (size_t j = 0; j < nphi; j++) {
             double phi = (j + 0.5) * (M_PI / 2.0) / (double)nphi;
-            double r = warp_root(L, st * cos(phi), st * sin(phi), u);
-            double fh = L->g1 - r;
-            rh += fh > 0.0 ? pow(fh, -1.5) : 0.0;
-            rl += pow(L->g1 + r, -1.5);
+            double n[3] = { st * cos(phi), st * sin(phi), u };
+            f(n, ctx, vals);
+            for (size_t v = 0; v < nvals; v++)
+                row[v] += vals[v];
         }
-        sh += wu * rh / (double)nphi;
-        sl += wu * rl / (double)nphi;
+        for (size_t v = 0; v < nvals; v++)
+            means[v] += wu * row[v] / (double)nphi;   /* weights over [0, 1] sum to 1 */
     }
     gsl_integration_glfixed_table_free(t);
-    *heavy = sh;   /* weights over [0, 1] sum to 1: already the mean */
-    *light = sl;
     return BM_OK;
+}
+
+/* The heavy and light integrands f^(-3/2) (an open heavy surface adds 0). */
+static void luttinger_integrand(const double n[3], void *ctx, double *vals)
+{
+    const bm_luttinger *L = ctx;
+    double r = warp_root(L, n[0], n[1], n[2]);
+    double fh = L->g1 - r;
+    vals[0] = fh > 0.0 ? pow(fh, -1.5) : 0.0;
+    vals[1] = pow(L->g1 + r, -1.5);
+}
+
+static bm_status warped_means(const bm_luttinger *L, size_t nu, double *heavy, double *light,
+                              bm_errbuf *err)
+{
+    double m[2] = { NAN, NAN };
+    bm_status st = bm_octant_means(luttinger_integrand, (void *)L, 2, nu, m, err);
+    *heavy = m[0];
+    *light = m[1];
+    return st;
 }
 
 bm_status bm_luttinger_masses_compute(const bm_luttinger *L, bm_luttinger_masses *out,

@@ -3,6 +3,8 @@
 #ifndef BM_HOLES_H
 #define BM_HOLES_H
 
+#include <stddef.h>
+
 #include "bm-status.h"
 
 /* Heavy, light and split-off bands at one valence-band maximum. */
@@ -26,6 +28,14 @@ typedef struct {
  * BM_EINVAL for non-positive masses, a negative m_so or Delta_so, or a
  * non-positive temperature when the split-off band is included. */
 bm_status bm_hole_dos_mass(const bm_hole_bands *b, bm_hole_dos *out, bm_errbuf *err);
+
+/* Means over the unit sphere of nvals functions of the direction that keep
+ * the cube's symmetry (so one octant stands for the sphere): f fills
+ * vals[0..nvals-1] at unit n; Gauss-Legendre with nu nodes in cos(theta),
+ * the midpoint rule with 2 nu in phi. nvals <= BM_OCTANT_MAX_VALUES. */
+#define BM_OCTANT_MAX_VALUES 16
+bm_status bm_octant_means(void (*f)(const double n[3], void *ctx, double *vals), void *ctx,
+                          size_t nvals, size_t nu, double *means, bm_errbuf *err);
 
 /* Luttinger parameters of the four-fold valence-band maximum of a cubic
  * semiconductor (Luttinger, Phys. Rev. 102, 1030 (1956)). */

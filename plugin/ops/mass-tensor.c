@@ -75,13 +75,66 @@ static const BmField response[] = {
       "refinement_stencil (with \"stencil\": {kind (principal-axes, or directional at a "
       "degenerate extremum), step_inv_angstrom, k_inv_angstrom, k_fractional (null for a "
       "table)}), directional_masses (a degenerate extremum of a table: [{direction, "
-      "mass_me, error_me}] along the lines of samples through it), warnings" },
+      "mass_me, error_me}] along the lines of samples through it), degenerate_kp_fit (a "
+      "degenerate extremum of three or four touching bands of a cubic crystal: model "
+      "(threefold-no-spin-orbit: L, M, N; fourfold-luttinger), bands, energy_ev, "
+      "fit_rms_ev, points, radius_inv_angstrom, quartic_terms, lmn_hbar2_over_2me "
+      "{L, M, N} and lmn_error, luttinger_parameters {gamma1, gamma2, gamma3} (the J = 3/2 "
+      "projection) and luttinger_parameters_error, directional_masses_me {100, 110, 111: "
+      "one signed mass per distinct band, lowest band first} and "
+      "directional_masses_error_me, dos_masses_me and dos_masses_error_me (null for an "
+      "open surface), luttinger_band_edge_hole_dos_mass_me (hole-mass's warped heavy and "
+      "light bands of these gamma), largest_relative_error), warnings" },
     BM_FIELD_END
 };
 
 const char *bm_mass_tensor_kind_text(bm_extremum_kind k)
 {
     return bm_enum_name(&bm_enum_extremum_kind, (int)k);
+}
+
+/* The k.p fit of a degenerate extremum (core/bm-kp.h). */
+static JsonObject *kp_fit_object(const bm_kp_fit *f)
+{
+    static const char *dir_names[3] = { "100", "110", "111" };
+    JsonObject *o = json_object_new();
+    json_object_set_string_member(o, "model", f->model == BM_KP_THREEFOLD
+                                  ? "threefold-no-spin-orbit" : "fourfold-luttinger");
+    JsonArray *bands = json_array_new();
+    for (size_t q = 0; q < f->nbands; q++)
+        json_array_add_int_element(bands, (gint64)f->band_index[q]);
+    json_object_set_array_member(o, "bands", bands);
+    bm_json_set_number(o, "energy_ev", f->e0_ev);
+    bm_json_set_number(o, "fit_rms_ev", f->rms_ev);
+    json_object_set_int_member(o, "points", (gint64)f->npoints);
+    bm_json_set_number(o, "radius_inv_angstrom", f->radius);
+    json_object_set_boolean_member(o, "quartic_terms", f->quartic);
+    static const char *lmn_names[3] = { "L", "M", "N" };
+    static const char *g_names[3] = { "gamma1", "gamma2", "gamma3" };
+    JsonObject *lmn = json_object_new(), *lmn_e = json_object_new();
+    JsonObject *g = json_object_new(), *g_e = json_object_new();
+    for (int i = 0; i < 3; i++) {
+        bm_json_set_number(lmn, lmn_names[i], f->lmn[i]);
+        bm_json_set_number(lmn_e, lmn_names[i], f->lmn_error[i]);
+        bm_json_set_number(g, g_names[i], f->gamma[i]);
+        bm_json_set_number(g_e, g_names[i], f->gamma_error[i]);
+    }
+    json_object_set_object_member(o, "lmn_hbar2_over_2me", lmn);
+    json_object_set_object_member(o, "lmn_error", lmn_e);
+    json_object_set_object_member(o, "luttinger_parameters", g);
+    json_object_set_object_member(o, "luttinger_parameters_error", g_e);
+    JsonObject *dm = json_object_new(), *de = json_object_new();
+    for (int d = 0; d < 3; d++) {
+        bm_json_set_numbers(dm, dir_names[d], f->directional[d], f->ndistinct);
+        bm_json_set_numbers(de, dir_names[d], f->directional_error[d], f->ndistinct);
+    }
+    json_object_set_object_member(o, "directional_masses_me", dm);
+    json_object_set_object_member(o, "directional_masses_error_me", de);
+    bm_json_set_numbers(o, "dos_masses_me", f->dos_mass, f->ndistinct);
+    bm_json_set_numbers(o, "dos_masses_error_me", f->dos_mass_error, f->ndistinct);
+    bm_json_set_number(o, "luttinger_band_edge_hole_dos_mass_me", f->luttinger_dos_mass);
+    bm_json_set_number(o, "largest_relative_error", f->rel_error);
+    return o;
 }
 
 BmMassState bm_mass_tensor_mass_state(const bm_mass_tensor *t, int m)
@@ -167,6 +220,8 @@ JsonObject *bm_mass_tensor_object(const bm_mass_tensor *t, gboolean fractional)
         }
         json_object_set_array_member(o, "directional_masses", da);
     }
+    if (t->kp.model != BM_KP_NONE)
+        json_object_set_object_member(o, "degenerate_kp_fit", kp_fit_object(&t->kp));
     bm_json_warn_all(o, &t->warnings);
     return o;
 }

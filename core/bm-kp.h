@@ -1,0 +1,82 @@
+/* bm-kp.h: k.p parameters of a degenerate band extremum of a cubic crystal,
+ * fitted to the energies of the touching bands near it, and the masses the
+ * fitted model gives: along [100], [110], [111] and averaged over the sphere.
+ *
+ * Two models, both in units of hbar^2 / 2 m_e (E - E0 = (hbar^2/2m_e) x
+ * eigenvalue), with the Cartesian axes taken as the cubic axes:
+ *  - threefold (no spin-orbit coupling; Dresselhaus, Kip & Kittel, Phys. Rev.
+ *    98, 368 (1955)): H_xx = L kx^2 + M (ky^2 + kz^2), H_xy = N kx ky and
+ *    cyclic, free-electron term included; with quartic terms the six
+ *    cubic invariants of a threefold band at fourth order (time reversal
+ *    without spin-orbit coupling forbids odd powers);
+ *  - fourfold (two Kramers pairs, split-off band far away; Luttinger, Phys.
+ *    Rev. 102, 1030 (1956)): E - E0 = -(gamma1 k^2 -/+ 2 sqrt(gamma2^2 k^4 +
+ *    3 (gamma3^2 - gamma2^2)(kx^2 ky^2 + ky^2 kz^2 + kz^2 kx^2))), quadratic only.
+ * The parameter sets are one linear map apart (the J = 3/2 projection of the
+ * threefold band when the spin-orbit splitting is large against the energies
+ * fitted): gamma1 = -(L + 2M)/3, gamma2 = -(L - M)/6, gamma3 = -N/6. */
+#ifndef BM_KP_H
+#define BM_KP_H
+
+#include <stddef.h>
+#include "bm-status.h"
+
+typedef enum {
+    BM_KP_NONE,        /* no fit */
+    BM_KP_THREEFOLD,   /* three bands, no spin-orbit coupling: L, M, N */
+    BM_KP_FOURFOLD     /* four bands in two Kramers pairs: gamma1, gamma2, gamma3 */
+} bm_kp_model;
+
+/* Energies of the touching bands around the degenerate point. */
+typedef struct {
+    size_t npoints;
+    const double *k;          /* [point][3], Cartesian, 1/Angstrom, relative to the
+                                 degenerate point, cubic axes */
+    size_t nbands;            /* 3: threefold; 4: fourfold */
+    const double *energies;   /* [band][point], eV, bands ascending at every point */
+    double radius;            /* the main fit takes the points within it, 1/Angstrom;
+                                 those beyond serve the error estimate (0: every point) */
+} bm_kp_data;
+
+typedef struct {
+    bm_kp_model model;
+    int quartic;              /* the quartic invariants were fitted (threefold) */
+    size_t npoints;           /* points fitted */
+    double radius;            /* largest |k| fitted, 1/Angstrom */
+    double e0_ev;             /* fitted energy of the degenerate point */
+    double rms_ev;            /* residual of the fit */
+    double lmn[3], lmn_error[3];        /* L, M, N (hbar^2/2m_e units) */
+    double gamma[3], gamma_error[3];    /* gamma1..3 of the J = 3/2 projection */
+    size_t ndistinct;         /* distinct bands: 3 (threefold) or 2 (fourfold) */
+    double directional[3][3]; /* [direction [100],[110],[111]][distinct band, lowest
+                                 first]: signed masses, m_e (INFINITY: flat) */
+    double directional_error[3][3];
+    double dos_mass[3];       /* sphere-averaged DOS mass of each distinct band, m_e,
+                                 signed like the band; INFINITY when its surface
+                                 is open (the curvature changes sign) */
+    double dos_mass_error[3];
+    double rel_error;         /* largest relative error of the directional masses */
+    double luttinger_dos_mass;/* hole-mass's band-edge DOS mass (warped heavy and light
+                                 bands) of gamma, m_e; NAN unless a hole maximum with
+                                 a closed heavy surface */
+    size_t nbands;            /* the caller's band indices of the fitted bands */
+    size_t band_index[4];
+    bm_warnings warnings;     /* the caller frees them: bm_warnings_clear */
+} bm_kp_fit;
+
+/* Fits the model the band count selects to the points, with the quartic
+ * invariants where there are enough points, and estimates each error as the
+ * statistical error of the fit combined with the largest change against
+ * independent fits (the quadratic model on the points within 0.7 of the
+ * radius, and the model on every point given when some lie beyond the
+ * radius): truncation of the model is the larger part on a mesh.
+ * BM_EINVAL for a band count other than 3 or 4, too few points, non-finite
+ * data; BM_ENOMEM. *out is zeroed first; free its warnings. */
+bm_status bm_kp_fit_bands(const bm_kp_data *d, bm_kp_fit *out, bm_errbuf *err);
+
+/* 1 when the lattice with reciprocal vectors in the rows of recip is mapped
+ * onto itself by the 48 operations of the cube in the Cartesian frame (so its
+ * Cartesian axes are cubic axes and the models above apply). */
+int bm_kp_cubic_frame(const double recip[3][3]);
+
+#endif
