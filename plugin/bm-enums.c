@@ -41,8 +41,16 @@ const BmEnum bm_enum_valley_site = { "valley site", valley_site };
 
 static const BmChoice regime[] = {
     { BM_REGIME_FREEZE_OUT, "freeze-out", "carriers frozen on the dopants" },
-    { BM_REGIME_EXTRINSIC, "extrinsic", "majority density set by the net doping" },
+    { BM_REGIME_EXTRINSIC, "extrinsic", "saturation: majority density set by the net "
+                                        "doping" },
     { BM_REGIME_INTRINSIC, "intrinsic", "thermally generated carriers dominate" },
+    { BM_REGIME_DEGENERATE, "degenerate", "Fermi level within 3 kT of a band edge or inside "
+                                          "a band" },
+    { BM_REGIME_COMPENSATED, "compensated", "donors and acceptors largely cancel" },
+    { BM_REGIME_PARTIAL, "partial-ionization", "between half and 90 % of the net doping "
+                                               "ionised" },
+    { BM_REGIME_NEAR_INTRINSIC, "near-intrinsic", "net doping ionised, but the intrinsic "
+                                                  "density is not below it" },
     { 0, NULL, NULL }
 };
 const BmEnum bm_enum_regime = { "regime", regime };
