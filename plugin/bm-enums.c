@@ -55,6 +55,26 @@ static const BmChoice regime[] = {
 };
 const BmEnum bm_enum_regime = { "regime", regime };
 
+static const BmChoice ionization_model[] = {
+    { BM_IONIZATION_AUTO, "auto", "the material's: pearson-bardeen where it has an alpha, "
+                                  "else mott where its Mott density is known, else "
+                                  "single-level" },
+    { BM_IONISATION_SINGLE_LEVEL, "single-level", "one level of fixed ionisation energy at "
+                                                  "every density" },
+    { BM_IONISATION_PEARSON_BARDEEN, "pearson-bardeen",
+      "E0 - alpha N^(1/3), clamped at zero: full ionisation there" },
+    { BM_IONISATION_MOTT, "mott", "full ionisation at and above the hydrogenic Mott density" },
+    { 0, NULL, NULL }
+};
+const BmEnum bm_enum_ionization_model = { "ionization model", ionization_model };
+
+static const BmChoice narrowing[] = {
+    { 1, "auto", "the material's band-gap narrowing model, where it has one" },
+    { 0, "none", "no band-gap narrowing" },
+    { 0, NULL, NULL }
+};
+const BmEnum bm_enum_band_gap_narrowing = { "band-gap narrowing", narrowing };
+
 static const BmChoice gap_model[] = {
     { BM_GAP_VARSHNI, "varshni", "Eg0 - alpha T^2 / (T + beta)" },
     { BM_GAP_BOSE_EINSTEIN, "bose-einstein",
