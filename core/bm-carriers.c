@@ -707,13 +707,13 @@ bm_status bm_carriers_solve(const bm_semiconductor *s, double t_k,
     if (s->skip_statistics_check)
         return BM_OK;
 
-    /* Re-solve with the other statistics from this Fermi level. */
+    /* Re-solve with the other statistics and the same gap (narrowing included):
+     * the deviation measures the counting of the band states alone. */
     nctx o = c;
     o.boltzmann = !c.boltzmann;
-    bm_carrier_state scratch = *out;   /* narrowing fields of the comparison only */
     double uo;
     int it2;
-    if (solve_state(s, &o, &scratch, u, &uo, &it2)) {
+    if (solve_u(&o, u, &uo, &it2)) {
         bm_warnings_clear(&out->warnings);
         return bm_fail(err, BM_ENOCONV, "carrier statistics: the comparison solve did not "
                        "converge at %g K", t_k);
