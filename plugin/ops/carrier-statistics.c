@@ -281,11 +281,12 @@ static JsonArray *dopant_list(const Dopants *d, const double *used, const int *f
 
 /* The heavy-doping description of one dopant kind. */
 static JsonObject *kind_json(const bm_material *m, bm_dopant_kind kind,
-                             const bm_ionisation_model *im)
+                             const bm_ionisation_model *im, double *mott_density_cm3)
 {
     JsonObject *o = json_object_new();
     bm_hydrogenic_info h;
     bm_material_hydrogenic(m, kind, &h, NULL);
+    *mott_density_cm3 = h.mott_density_cm3;
     json_object_set_string_member(o, "model", bm_ionisation_kind_name(im->kind));
     bm_json_set_number(o, "alpha_ev_cm", im->kind == BM_IONISATION_PEARSON_BARDEEN
                                          ? im->alpha_ev_cm : NAN);
@@ -433,12 +434,11 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
                                   bm_bgn_kind_name(bgn ? bgn->kind : BM_BGN_NONE));
     {
         JsonObject *hd = json_object_new();
-        JsonObject *dj = kind_json(&mat.mat, BM_DOPANT_DONOR, &s.donor_ionisation);
-        JsonObject *aj = kind_json(&mat.mat, BM_DOPANT_ACCEPTOR, &s.acceptor_ionisation);
-        bm_json_set_number(resp, "donor_mott_density_cm3",
-                           json_object_get_double_member(dj, "mott_density_cm3"));
-        bm_json_set_number(resp, "acceptor_mott_density_cm3",
-                           json_object_get_double_member(aj, "mott_density_cm3"));
+        double md, ma;
+        JsonObject *dj = kind_json(&mat.mat, BM_DOPANT_DONOR, &s.donor_ionisation, &md);
+        JsonObject *aj = kind_json(&mat.mat, BM_DOPANT_ACCEPTOR, &s.acceptor_ionisation, &ma);
+        bm_json_set_number(resp, "donor_mott_density_cm3", md);
+        bm_json_set_number(resp, "acceptor_mott_density_cm3", ma);
         json_object_set_object_member(hd, "donors", dj);
         json_object_set_object_member(hd, "acceptors", aj);
         JsonObject *b = json_object_new();

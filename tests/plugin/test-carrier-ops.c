@@ -168,6 +168,116 @@ static void test_degenerate_warning(void)
     g_assert_cmpfloat(num(d0, "density_cm3"), ==, 5e19);
 }
 
+static gboolean has_code(JsonObject *r, const char *code)
+{
+    JsonArray *c = json_object_get_array_member(r, "warning_codes");
+    for (guint i = 0; i < json_array_get_length(c); i++)
+        if (strcmp(json_array_get_string_element(c, i), code) == 0)
+            return TRUE;
+    return FALSE;
+}
+
+#define SI_AS_1E20 "{\"material\": \"Si\", \"temperature_k\": 300, \"donors\": " \
+                   "[{\"species\": \"As\", \"density_cm3\": 1e20}]"
+#define GAAS_SI_1E17 "{\"material\": \"GaAs\", \"temperature_k\": 300, \"donors\": " \
+                     "[{\"species\": \"Si\", \"density_cm3\": 1e17}]"
+
+/* Heavy doping through the operation: the models on by default, off on request. */
+static void test_heavy_doping(void)
+{
+    /* Si:As 1e20 at 300 K, defaults: Pearson-Bardeen lowering (alpha 3.1e-8 eV cm,
+     * Pearson & Bardeen 1949; from memory) brings the 54 meV level to zero well below
+     * 1e20, so the donors are all ionised (practitioners count them ionised above the
+     * Mott density, about 4e18 cm^-3 in Si: REFERENCES, common practice) */
+    g_autoptr(JsonObject) on = op_call("carrier-statistics", SI_AS_1E20 "}");
+    g_assert_cmpstr(json_object_get_string_member(on, "donor_ionization_model"), ==,
+                    "pearson-bardeen");
+    g_assert_cmpfloat(num(on, "ionized_fraction"), >, 0.99);
+    g_assert_cmpfloat(rel(num(on, "n_cm3"), 1e20), <, 1e-9);
+    g_assert_cmpstr(json_object_get_string_member(on, "regime"), ==, "degenerate");
+    g_assert_false(has_code(on, "above-mott-density"));
+    JsonObject *d0 = json_array_get_object_element(json_object_get_array_member(on, "donors"), 0);
+    g_assert_true(json_object_get_boolean_member(d0, "fully_ionized"));
+    g_assert_cmpfloat(num(d0, "effective_ionization_ev"), ==, 0.0);
+    /* band-gap narrowing: Klaassen et al. 1992 (from memory) give 92.2 meV apparent
+     * at 1e20 (their formula, evaluated by hand); the Fermi-Dirac solve uses more */
+    g_assert_cmpstr(json_object_get_string_member(on, "band_gap_narrowing_model"), ==,
+                    "slotboom");
+    JsonObject *hd = json_object_get_object_member(on, "heavy_doping");
+    JsonObject *bg = json_object_get_object_member(hd, "band_gap_narrowing");
+    g_assert_cmpfloat(rel(num(bg, "apparent_narrowing_ev"), 92.231809713115e-3), <, 1e-9);
+    g_assert_true(json_object_get_boolean_member(bg, "fermi_dirac_corrected"));
+    g_assert_cmpfloat(num(on, "band_gap_narrowing_ev"), >, num(bg, "apparent_narrowing_ev"));
+    g_assert_cmpfloat(num(on, "nie_cm3"), >, num(on, "ni_cm3"));
+    g_assert_cmpfloat(fabs(num(on, "effective_band_gap_ev") - num(on, "band_gap_ev")
+                           + num(on, "band_gap_narrowing_ev")), <, 1e-15);
+    g_assert_cmpfloat(fabs(num(on, "fermi_level_undoped_reference_ev") - num(on, "fermi_level_ev")
+                           - 0.5 * num(on, "band_gap_narrowing_ev")), <, 1e-15);
+    /* Si:P Mott density: measured 3.74e18 cm^-3 (Rosenbaum, Andres, Thomas & Bhatt,
+     * Phys. Rev. Lett. 45, 1723 (1980); from memory); the hydrogenic estimate with
+     * an isotropic valley mass and the constant 0.26 is good to a factor of 2 (the
+     * scatter of N_c^(1/3) a* about 0.26 in Edwards & Sienko 1978 is about 25 %,
+     * cubed: a factor of 2; from memory) */
+    double nm = num(on, "donor_mott_density_cm3");
+    g_assert_cmpfloat(nm, >, 3.74e18 / 2.0);
+    g_assert_cmpfloat(nm, <, 3.74e18 * 2.0);
+
+    /* models off: the single-level numbers (regression, exact solution of that
+     * model: n = 1.1555e19, 12 % ionised, EF 19 meV below Ec) and a warning */
+    g_autoptr(JsonObject) off = op_call("carrier-statistics", SI_AS_1E20
+        ", \"ionization_model\": \"single-level\", \"band_gap_narrowing\": \"none\"}");
+    g_assert_cmpfloat(rel(num(off, "n_cm3"), 1.1555186e19), <, 1e-6);
+    g_assert_cmpfloat(fabs(num(off, "ionized_fraction") - 0.11555), <, 1e-4);
+    g_assert_cmpfloat(fabs(num(off, "band_gap_ev") - num(off, "fermi_level_ev") - 0.0193), <,
+                      1e-3);
+    g_assert_cmpfloat(num(off, "band_gap_narrowing_ev"), ==, 0.0);
+    g_assert_cmpstr(json_object_get_string_member(off, "band_gap_narrowing_model"), ==, "none");
+    g_assert_cmpstr(json_object_get_string_member(off, "donor_ionization_model"), ==,
+                    "single-level");
+    g_assert_true(has_code(off, "above-mott-density"));
+    /* within 3 kT of Ec: degenerate, not freeze-out */
+    g_assert_cmpstr(json_object_get_string_member(off, "regime"), ==, "degenerate");
+
+    /* GaAs:Si 1e17: no Pearson-Bardeen alpha for GaAs, so the Mott threshold:
+     * hydrogenic 1.7e16 cm^-3 (m 0.067, eps_r 12.9), against about 1e16 (REFERENCES,
+     * common practice, order of magnitude: factor 3) */
+    g_autoptr(JsonObject) g = op_call("carrier-statistics", GAAS_SI_1E17 "}");
+    g_assert_cmpstr(json_object_get_string_member(g, "donor_ionization_model"), ==, "mott");
+    g_assert_cmpfloat(num(g, "ionized_fraction"), >, 0.999);
+    g_assert_cmpfloat(num(g, "donor_mott_density_cm3"), >, 1e16 / 3.0);
+    g_assert_cmpfloat(num(g, "donor_mott_density_cm3"), <, 1e16 * 3.0);
+    g_assert_cmpstr(json_object_get_string_member(g, "band_gap_narrowing_model"), ==, "none");
+    g_autoptr(JsonObject) g0 = op_call("carrier-statistics", GAAS_SI_1E17
+        ", \"ionization_model\": \"single-level\"}");
+    /* the single level of 5.8 meV: 70 % (regression, exact solution of that model) */
+    g_assert_cmpfloat(fabs(num(g0, "ionized_fraction") - 0.7009), <, 1e-3);
+    g_assert_true(has_code(g0, "above-mott-density"));
+    /* below the Mott density the Mott model changes nothing */
+    g_autoptr(JsonObject) lo = op_call("carrier-statistics", "{\"material\": \"GaAs\", "
+        "\"temperature_k\": 300, \"donors\": [{\"species\": \"Si\", \"density_cm3\": 1e15}]}");
+    g_autoptr(JsonObject) lo0 = op_call("carrier-statistics", "{\"material\": \"GaAs\", "
+        "\"temperature_k\": 300, \"donors\": [{\"species\": \"Si\", \"density_cm3\": 1e15}], "
+        "\"ionization_model\": \"single-level\"}");
+    g_assert_cmpfloat(num(lo, "n_cm3"), ==, num(lo0, "n_cm3"));
+    g_assert_false(has_code(lo0, "above-mott-density"));
+    /* a model the material has no parameter for is refused, naming the key */
+    op_expect_invalid("carrier-statistics", GAAS_SI_1E17
+                      ", \"ionization_model\": \"pearson-bardeen\"}", "ionization_model");
+    op_expect_invalid("carrier-statistics", GAAS_SI_1E17
+                      ", \"ionization_model\": \"sharp\"}", "ionization_model");
+    op_expect_invalid("carrier-statistics", "{\"material\": {\"band_gap_ev\": 1, "
+                      "\"electron_dos_mass_me\": 0.1, \"statistics_hole_dos_mass_me\": 0.5}, "
+                      "\"temperature_k\": 300, \"ionization_model\": \"mott\"}",
+                      "relative_permittivity");
+    /* a material object without heavy-doping data: single level, no narrowing */
+    g_autoptr(JsonObject) bare = op_call("carrier-statistics", "{\"material\": {\"band_gap_ev\": "
+        "1, \"electron_dos_mass_me\": 0.1, \"statistics_hole_dos_mass_me\": 0.5}, "
+        "\"temperature_k\": 300}");
+    g_assert_cmpstr(json_object_get_string_member(bare, "donor_ionization_model"), ==,
+                    "single-level");
+    g_assert_true(JSON_NODE_HOLDS_NULL(json_object_get_member(bare, "donor_mott_density_cm3")));
+}
+
 static void test_points(void)
 {
     g_autofree char *req = g_strdup_printf("{\"material\": \"Si\", \"temperatures_k\": "
@@ -462,5 +572,6 @@ int main(int argc, char **argv)
     g_test_add_func("/carrier-ops/sheet-density", test_sheet_density);
     g_test_add_func("/carrier-ops/drude", test_drude);
     g_test_add_func("/carrier-ops/materials", test_materials);
+    g_test_add_func("/carrier-ops/heavy-doping", test_heavy_doping);
     return g_test_run();
 }
