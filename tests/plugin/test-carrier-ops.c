@@ -269,6 +269,21 @@ static void test_heavy_doping(void)
                       "\"electron_dos_mass_me\": 0.1, \"statistics_hole_dos_mass_me\": 0.5}, "
                       "\"temperature_k\": 300, \"ionization_model\": \"mott\"}",
                       "relative_permittivity");
+    /* bad narrowing sets in a material object name the key at fault */
+    op_expect_invalid("carrier-statistics", "{\"material\": {\"band_gap_ev\": 1, "
+                      "\"electron_dos_mass_me\": 0.1, \"statistics_hole_dos_mass_me\": 0.5, "
+                      "\"band_gap_narrowing\": {\"model\": \"other\"}}, \"temperature_k\": 300}",
+                      "band_gap_narrowing: key \"model\"");
+    op_expect_invalid("carrier-statistics", "{\"material\": {\"band_gap_ev\": 1, "
+                      "\"electron_dos_mass_me\": 0.1, \"statistics_hole_dos_mass_me\": 0.5, "
+                      "\"band_gap_narrowing\": {\"model\": \"slotboom\", \"e1_ev\": 0.007, "
+                      "\"n0_cm3\": 1e17, \"c\": 0.5}}, \"temperature_k\": 300}",
+                      "\"apparent\"");
+    op_expect_invalid("carrier-statistics", "{\"material\": {\"band_gap_ev\": 1, "
+                      "\"electron_dos_mass_me\": 0.1, \"statistics_hole_dos_mass_me\": 0.5, "
+                      "\"band_gap_narrowing\": {\"model\": \"slotboom\", \"e1_ev\": 0.007, "
+                      "\"n0_cm3\": -1, \"c\": 0.5, \"apparent\": true}}, \"temperature_k\": 300}",
+                      "N0");
     /* a material object without heavy-doping data: single level, no narrowing */
     g_autoptr(JsonObject) bare = op_call("carrier-statistics", "{\"material\": {\"band_gap_ev\": "
         "1, \"electron_dos_mass_me\": 0.1, \"statistics_hole_dos_mass_me\": 0.5}, "
