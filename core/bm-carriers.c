@@ -12,11 +12,144 @@
 const char *bm_regime_name(bm_regime r)
 {
     switch (r) {
-    case BM_REGIME_FREEZE_OUT: return "freeze-out";
-    case BM_REGIME_EXTRINSIC:  return "extrinsic";
-    case BM_REGIME_INTRINSIC:  return "intrinsic";
+    case BM_REGIME_FREEZE_OUT:     return "freeze-out";
+    case BM_REGIME_EXTRINSIC:      return "extrinsic";
+    case BM_REGIME_INTRINSIC:      return "intrinsic";
+    case BM_REGIME_DEGENERATE:     return "degenerate";
+    case BM_REGIME_COMPENSATED:    return "compensated";
+    case BM_REGIME_PARTIAL:        return "partial-ionization";
+    case BM_REGIME_NEAR_INTRINSIC: return "near-intrinsic";
     }
     return "unknown";
+}
+
+/* ---- heavy doping ---- */
+
+/* Rydberg energy in eV and Bohr radius in cm (GSL's CODATA values). */
+#define RYDBERG_EV (GSL_CONST_MKSA_RYDBERG / GSL_CONST_MKSA_ELECTRON_VOLT)
+#define BOHR_CM (GSL_CONST_MKSA_BOHR_RADIUS * 100.0)
+
+const char *bm_ionisation_kind_name(bm_ionisation_kind k)
+{
+    switch (k) {
+    case BM_IONISATION_SINGLE_LEVEL:    return "single-level";
+    case BM_IONISATION_PEARSON_BARDEEN: return "pearson-bardeen";
+    case BM_IONISATION_MOTT:            return "mott";
+    }
+    return "unknown";
+}
+
+bm_status bm_ionisation_energy(const bm_ionisation_model *m, double e0_ev, double density_cm3,
+                               double *energy_ev, int *fully_ionised, bm_errbuf *err)
+{
+    if (!m || !energy_ev || !fully_ionised)
+        return bm_fail(err, BM_EINVAL, "ionisation energy: missing model or result");
+    *energy_ev = e0_ev;
+    *fully_ionised = 0;
+    if (!isfinite(e0_ev))
+        return bm_fail(err, BM_EINVAL, "ionisation energy: %g eV is not finite", e0_ev);
+    if (!(density_cm3 >= 0.0) || !isfinite(density_cm3))
+        return bm_fail(err, BM_EINVAL, "ionisation energy: density %g cm^-3 must be finite "
+                       "and >= 0", density_cm3);
+    switch (m->kind) {
+    case BM_IONISATION_SINGLE_LEVEL:
+        return BM_OK;
+    case BM_IONISATION_PEARSON_BARDEEN: {
+        if (!(m->alpha_ev_cm > 0.0) || !isfinite(m->alpha_ev_cm))
+            return bm_fail(err, BM_EINVAL, "ionisation energy: Pearson-Bardeen alpha %g eV cm "
+                           "must be finite and > 0", m->alpha_ev_cm);
+        double e = e0_ev - m->alpha_ev_cm * cbrt(density_cm3);
+        if (e <= 0.0) {
+            *energy_ev = 0.0;
+            *fully_ionised = 1;
+        } else {
+            *energy_ev = e;
+        }
+        return BM_OK;
+    }
+    case BM_IONISATION_MOTT:
+        if (!(m->mott_density_cm3 > 0.0) || !isfinite(m->mott_density_cm3))
+            return bm_fail(err, BM_EINVAL, "ionisation energy: Mott density %g cm^-3 must be "
+                           "finite and > 0", m->mott_density_cm3);
+        *fully_ionised = density_cm3 >= m->mott_density_cm3;
+        return BM_OK;
+    }
+    return bm_fail(err, BM_EINVAL, "ionisation energy: unknown model %d", (int)m->kind);
+}
+
+bm_status bm_hydrogenic_impurity(double mass, double eps_r, double *binding_ev,
+                                 double *bohr_radius_angstrom, double *mott_density_cm3,
+                                 bm_errbuf *err)
+{
+    if (binding_ev)
+        *binding_ev = NAN;
+    if (bohr_radius_angstrom)
+        *bohr_radius_angstrom = NAN;
+    if (mott_density_cm3)
+        *mott_density_cm3 = NAN;
+    if (!(mass > 0.0) || !isfinite(mass))
+        return bm_fail(err, BM_EINVAL, "hydrogenic impurity: mass %g m_e must be finite and "
+                       "> 0", mass);
+    if (!(eps_r > 0.0) || !isfinite(eps_r))
+        return bm_fail(err, BM_EINVAL, "hydrogenic impurity: relative permittivity %g must "
+                       "be finite and > 0", eps_r);
+    double a_cm = BOHR_CM * eps_r / mass;
+    if (binding_ev)
+        *binding_ev = RYDBERG_EV * mass / (eps_r * eps_r);
+    if (bohr_radius_angstrom)
+        *bohr_radius_angstrom = a_cm * 1e8;
+    if (mott_density_cm3) {
+        double x = BM_MOTT_CONSTANT / a_cm;
+        *mott_density_cm3 = x * x * x;
+    }
+    return BM_OK;
+}
+
+const char *bm_bgn_kind_name(bm_bgn_kind k)
+{
+    switch (k) {
+    case BM_BGN_NONE:     return "none";
+    case BM_BGN_SLOTBOOM: return "slotboom";
+    }
+    return "unknown";
+}
+
+static bm_status bgn_check(const bm_bgn_model *m, bm_errbuf *err)
+{
+    if (m->kind == BM_BGN_NONE)
+        return BM_OK;
+    if (m->kind != BM_BGN_SLOTBOOM)
+        return bm_fail(err, BM_EINVAL, "band-gap narrowing: unknown model %d", (int)m->kind);
+    if (!(m->e1_ev > 0.0) || !isfinite(m->e1_ev))
+        return bm_fail(err, BM_EINVAL, "band-gap narrowing: E1 %g eV must be finite and > 0",
+                       m->e1_ev);
+    if (!(m->n0_cm3 > 0.0) || !isfinite(m->n0_cm3))
+        return bm_fail(err, BM_EINVAL, "band-gap narrowing: N0 %g cm^-3 must be finite and > 0",
+                       m->n0_cm3);
+    if (!(m->c >= 0.0) || !isfinite(m->c))
+        return bm_fail(err, BM_EINVAL, "band-gap narrowing: C %g must be finite and >= 0",
+                       m->c);
+    return BM_OK;
+}
+
+bm_status bm_bgn_value(const bm_bgn_model *m, double n_cm3, double *dEg_ev, bm_errbuf *err)
+{
+    if (!m || !dEg_ev)
+        return bm_fail(err, BM_EINVAL, "band-gap narrowing: missing model or result");
+    *dEg_ev = 0.0;
+    bm_status st = bgn_check(m, err);
+    if (st)
+        return st;
+    if (!(n_cm3 >= 0.0) || !isfinite(n_cm3))
+        return bm_fail(err, BM_EINVAL, "band-gap narrowing: density %g cm^-3 must be finite "
+                       "and >= 0", n_cm3);
+    if (m->kind == BM_BGN_NONE || n_cm3 == 0.0)
+        return BM_OK;
+    double l = log(n_cm3 / m->n0_cm3);
+    /* l + sqrt(l^2 + C) without cancellation for l << 0: C / (sqrt(l^2 + C) - l) */
+    double r = sqrt(l * l + m->c);
+    *dEg_ev = m->e1_ev * (l >= 0.0 ? l + r : m->c / (r - l));
+    return BM_OK;
 }
 
 /* 2 (2 pi m k T / h^2)^(3/2) in cm^-3 (the prefactor lives in bm-units.h). */
@@ -57,7 +190,22 @@ typedef struct {
     double dens_d[BM_MAX_DOPANTS], off_d[BM_MAX_DOPANTS];  /* x = u - off_d */
     double dens_a[BM_MAX_DOPANTS], off_a[BM_MAX_DOPANTS];  /* x = off_a - u */
     double sum_d, sum_a;
+    /* ionisation energies / kT, ln g, and the heavy-doping flags (1: every dopant
+     * of the species counts ionised: offset +-infinity, occupation exactly 0) */
+    double ion_d[BM_MAX_DOPANTS], lng_d[BM_MAX_DOPANTS];
+    double ion_a[BM_MAX_DOPANTS], lng_a[BM_MAX_DOPANTS];
+    int full_d[BM_MAX_DOPANTS], full_a[BM_MAX_DOPANTS];
+    double eg0_kt;                 /* the gap before narrowing, / kT */
 } nctx;
+
+/* Level offsets for the current gap c->eg_kt. */
+static void place_levels(nctx *c)
+{
+    for (size_t i = 0; i < c->nd; i++)
+        c->off_d[i] = c->full_d[i] ? INFINITY : c->eg_kt - c->ion_d[i] - c->lng_d[i];
+    for (size_t i = 0; i < c->na; i++)
+        c->off_a[i] = c->full_a[i] ? -INFINITY : c->ion_a[i] + c->lng_a[i];
+}
 
 /* Occupation split of 1/(1 + e^x) without overflow: s = 1/(1+e^x), c = 1 - s. */
 static inline void fermi_split(double x, double *s, double *c)
@@ -208,8 +356,7 @@ static double bound_eta(const nctx *c, double ratio)
     return fmax(40.0, pow(GAMMA_5_2 * ratio, 2.0 / 3.0) * 1.0001);
 }
 
-static double initial_u(const nctx *c, const double *ion_d_kt, const double *ion_a_kt,
-                        const double *lng_d, const double *lng_a)
+static double initial_u(const nctx *c)
 {
     double net = c->sum_d - c->sum_a;
     double ln_ni = 0.5 * (c->lnnc + c->lnnv) - 0.5 * c->eg_kt;
@@ -227,19 +374,20 @@ static double initial_u(const nctx *c, const double *ion_d_kt, const double *ion
         if (dens[i] > dens[k])
             k = i;
     double ln_band = ntype ? c->lnnc : c->lnnv;
-    double ion = ntype ? ion_d_kt[k] : ion_a_kt[k];
-    double lng = ntype ? lng_d[k] : lng_a[k];
+    double ion = ntype ? c->ion_d[k] : c->ion_a[k];
+    double lng = ntype ? c->lng_d[k] : c->lng_a[k];
+    int full = ntype ? c->full_d[k] : c->full_a[k];
     double n1g = exp(fmax(fmin(ln_band - ion - lng, 650.0), -650.0));
     double comp = ntype ? c->sum_a : c->sum_d;
     double b = comp + n1g, cc = n1g * fabs(net);
-    double n_ext = 2.0 * cc / (b + sqrt(b * b + 4.0 * cc));
+    double n_ext = full ? fabs(net) : 2.0 * cc / (b + sqrt(b * b + 4.0 * cc));
     double n0 = 0.5 * n_ext + hypot(0.5 * n_ext, ni);
     double band = ntype ? c->nc : c->nv;
     double eta;
     if (n0 > 1e-280 && isfinite(n0))
         eta = guess_eta(c, n0 / band);
     else
-        eta = -ion;   /* at the dopant level */
+        eta = full ? 0.0 : -ion;   /* at the dopant level */
     return ntype ? c->eg_kt + eta : -eta;
 }
 
@@ -305,9 +453,45 @@ static bm_status check_dopants(const char *kind, const bm_dopant *d, size_t nd, 
 }
 
 /* Validates s and fills the context; masses may come from the hook. */
+/* The gap c->eg_kt after a narrowing dEg (eV), and what depends on it. */
+static void set_narrowing(nctx *c, bm_carrier_state *out, double deg)
+{
+    out->band_gap_narrowing_ev = deg;
+    out->effective_band_gap_ev = out->band_gap_ev - deg;
+    c->eg_kt = c->eg0_kt - deg / out->kt_ev;
+    out->nie_cm3 = exp(0.5 * (c->lnnc + c->lnnv) - 0.5 * c->eg_kt);
+    place_levels(c);
+}
+
+/* Heavy-doping energies of one kind; the above-mott-density warning. */
+static bm_status heavy_levels(const char *kind, const bm_ionisation_model *m,
+                              const bm_dopant *d, size_t nd, double total, double kt,
+                              double *ion_kt, int *full, double *used_ev,
+                              int *full_out, bm_warnings *w, bm_errbuf *err)
+{
+    for (size_t i = 0; i < nd; i++) {
+        double e = NAN;
+        int f = 0;
+        bm_errbuf local = {0};
+        bm_status st = bm_ionisation_energy(m, d[i].ionisation_ev, total, &e, &f, &local);
+        if (st)
+            return bm_fail(err, st, "carrier statistics: %s %zu: %s", kind, i, local.message);
+        ion_kt[i] = e / kt;
+        full[i] = f;
+        used_ev[i] = e;
+        full_out[i] = f;
+    }
+    if (m->kind == BM_IONISATION_SINGLE_LEVEL && m->mott_density_cm3 > 0.0 && nd > 0
+        && total >= m->mott_density_cm3)
+        bm_warn(w, BM_WARN_ABOVE_MOTT_DENSITY, "%s density %.3g cm^-3 is at or above the Mott "
+                "density %.3g cm^-3, but the single-level model counts the %ss as isolated "
+                "levels: it underestimates their ionisation", kind, total,
+                m->mott_density_cm3, kind);
+    return BM_OK;
+}
+
 static bm_status setup(const bm_semiconductor *s, double t_k, bm_statistics stats,
-                       nctx *c, bm_carrier_state *out, double *ion_d_kt,
-                       double *ion_a_kt, double *lng_d, double *lng_a, bm_errbuf *err)
+                       nctx *c, bm_carrier_state *out, bm_errbuf *err)
 {
     if (!s || !out)
         return bm_fail(err, BM_EINVAL, "carrier statistics: missing input or result");
@@ -375,20 +559,33 @@ static bm_status setup(const bm_semiconductor *s, double t_k, bm_statistics stat
     c->sum_d = c->sum_a = 0.0;
     for (size_t i = 0; i < c->nd; i++) {
         double g = s->donors[i].degeneracy > 0.0 ? s->donors[i].degeneracy : 2.0;
-        ion_d_kt[i] = s->donors[i].ionisation_ev / kt;
-        lng_d[i] = log(g);
+        c->lng_d[i] = log(g);
         c->dens_d[i] = s->donors[i].density_cm3;
-        c->off_d[i] = c->eg_kt - ion_d_kt[i] - lng_d[i];
         c->sum_d += c->dens_d[i];
     }
     for (size_t i = 0; i < c->na; i++) {
         double g = s->acceptors[i].degeneracy > 0.0 ? s->acceptors[i].degeneracy : 4.0;
-        ion_a_kt[i] = s->acceptors[i].ionisation_ev / kt;
-        lng_a[i] = log(g);
+        c->lng_a[i] = log(g);
         c->dens_a[i] = s->acceptors[i].density_cm3;
-        c->off_a[i] = ion_a_kt[i] + lng_a[i];
         c->sum_a += c->dens_a[i];
     }
+    st = heavy_levels("donor", &s->donor_ionisation, s->donors, c->nd, c->sum_d, kt, c->ion_d,
+                      c->full_d, out->donor_ionisation_ev, out->donor_fully_ionised,
+                      &out->warnings, err);
+    if (!st)
+        st = heavy_levels("acceptor", &s->acceptor_ionisation, s->acceptors, c->na, c->sum_a,
+                          kt, c->ion_a, c->full_a, out->acceptor_ionisation_ev,
+                          out->acceptor_fully_ionised, &out->warnings, err);
+    double app = 0.0;
+    if (!st && s->band_gap_narrowing)
+        st = bm_bgn_value(s->band_gap_narrowing, c->sum_d + c->sum_a, &app, err);
+    if (st) {
+        bm_warnings_clear(&out->warnings);
+        return st;
+    }
+    out->apparent_narrowing_ev = app;
+    c->eg0_kt = c->eg_kt;
+    set_narrowing(c, out, app);
     return BM_OK;
 }
 
@@ -410,13 +607,23 @@ static void fill_state(const nctx *c, double u, bm_carrier_state *out)
         out->acceptor_ionised_cm3[i] = d.a[i];
         out->acceptors_ionised_cm3 += d.a[i];
     }
-    double maj = fmax(d.n, d.p), mino = fmin(d.n, d.p);
-    double net = fabs(c->sum_d - c->sum_a);
-    /* both densities may underflow to 0 deep in freeze-out: that is not intrinsic */
-    if (net == 0.0 || (maj > 0.0 && mino >= 0.1 * maj))
+    /* the regimes of bm-carriers.h, first match wins */
+    double nd = c->sum_d, na = c->sum_a, nnet = fabs(nd - na), ntot = nd + na;
+    double ni = out->nie_cm3;
+    double f = nd != na ? (d.n - d.p) / (nd - na) : NAN;
+    out->ionised_fraction = f;
+    if (u > c->eg_kt - 3.0 || u < 3.0)
+        out->regime = BM_REGIME_DEGENERATE;
+    else if (ni >= 10.0 * nnet && ni >= 0.1 * ntot)
         out->regime = BM_REGIME_INTRINSIC;
-    else if (maj < 0.9 * net)
+    else if (nd > 0.0 && na > 0.0 && nnet < 0.1 * ntot)
+        out->regime = BM_REGIME_COMPENSATED;
+    else if (!(f >= 0.5))
         out->regime = BM_REGIME_FREEZE_OUT;
+    else if (f < 0.9)
+        out->regime = BM_REGIME_PARTIAL;
+    else if (ni >= nnet)
+        out->regime = BM_REGIME_NEAR_INTRINSIC;
     else
         out->regime = BM_REGIME_EXTRINSIC;
     out->other_fermi_level_ev = out->other_n_cm3 = out->other_p_cm3 = NAN;
@@ -445,34 +652,72 @@ static double rel_dev(double a, double b)
     return fabs(a / b - 1.0);
 }
 
+/* Neutrality in c from u0.  An apparent (Boltzmann-fitted) narrowing under
+ * Fermi-Dirac statistics is made consistent by the fixed point
+ * dEg = dEg_app + kT [F_1/2^-1(r) - ln r], r the majority density over its
+ * band's effective density of states (bm-carriers.h); the narrowing fields of
+ * out follow the gap used. */
+static bm_status solve_state(const bm_semiconductor *s, nctx *c, bm_carrier_state *out,
+                             double u0, double *u, int *iters)
+{
+    const bm_bgn_model *m = s->band_gap_narrowing;
+    double app = out->apparent_narrowing_ev, deg = app;
+    int fd_fix = !c->boltzmann && m && m->kind != BM_BGN_NONE && m->apparent && app > 0.0;
+    set_narrowing(c, out, deg);
+    *iters = 0;
+    for (int k = 0; k < 100; k++) {
+        int it;
+        bm_status st = solve_u(c, u0, u, &it);
+        *iters += it;
+        if (st || !fd_fix)
+            return st;
+        double g, gp, eta, corr = 0.0;
+        ndens d;
+        neutrality_eval(c, *u, &g, &gp, &d);
+        double r = d.n >= d.p ? d.n / c->nc : d.p / c->nv;
+        if (r > 0.0 && isfinite(r) && bm_fermi_dirac_half_inverse(r, &eta, NULL) == BM_OK)
+            corr = out->kt_ev * (eta - log(r));
+        double next = app + corr;
+        if (fabs(next - deg) <= 1e-12 + 1e-12 * deg)
+            return BM_OK;
+        deg = next;
+        set_narrowing(c, out, deg);
+        u0 = *u;
+    }
+    return BM_ENOCONV;
+}
+
 bm_status bm_carriers_solve(const bm_semiconductor *s, double t_k,
                             bm_carrier_state *out, bm_errbuf *err)
 {
     nctx c;
-    double ion_d[BM_MAX_DOPANTS], ion_a[BM_MAX_DOPANTS], lng_d[BM_MAX_DOPANTS],
-        lng_a[BM_MAX_DOPANTS];
     bm_statistics stats = s && s->statistics == BM_BOLTZMANN ? BM_BOLTZMANN : BM_FERMI_DIRAC;
-    bm_status st = setup(s, t_k, stats, &c, out, ion_d, ion_a, lng_d, lng_a, err);
+    bm_status st = setup(s, t_k, stats, &c, out, err);
     if (st)
         return st;
     double u;
-    st = solve_u(&c, initial_u(&c, ion_d, ion_a, lng_d, lng_a), &u, &out->iterations);
-    if (st)
+    st = solve_state(s, &c, out, initial_u(&c), &u, &out->iterations);
+    if (st) {
+        bm_warnings_clear(&out->warnings);
         return bm_fail(err, st, "carrier statistics: neutrality did not converge at %g K",
                        t_k);
+    }
     fill_state(&c, u, out);
     common_warnings(s, out, out);
     if (s->skip_statistics_check)
         return BM_OK;
 
-    /* Re-solve with the other statistics from this Fermi level. */
+    /* Re-solve with the other statistics and the same gap (narrowing included):
+     * the deviation measures the counting of the band states alone. */
     nctx o = c;
     o.boltzmann = !c.boltzmann;
     double uo;
     int it2;
-    if (solve_u(&o, u, &uo, &it2))
+    if (solve_u(&o, u, &uo, &it2)) {
+        bm_warnings_clear(&out->warnings);
         return bm_fail(err, BM_ENOCONV, "carrier statistics: the comparison solve did not "
                        "converge at %g K", t_k);
+    }
     double g, gp;
     ndens d;
     neutrality_eval(&o, uo, &g, &gp, &d);
@@ -495,15 +740,17 @@ bm_status bm_carriers_at_fermi_level(const bm_semiconductor *s, double t_k,
                                      bm_errbuf *err)
 {
     nctx c;
-    double ion_d[BM_MAX_DOPANTS], ion_a[BM_MAX_DOPANTS], lng_d[BM_MAX_DOPANTS],
-        lng_a[BM_MAX_DOPANTS];
     bm_statistics stats = s && s->statistics == BM_BOLTZMANN ? BM_BOLTZMANN : BM_FERMI_DIRAC;
-    bm_status st = setup(s, t_k, stats, &c, out, ion_d, ion_a, lng_d, lng_a, err);
+    bm_status st = setup(s, t_k, stats, &c, out, err);
     if (st)
         return st;
-    if (!isfinite(fermi_level_ev))
+    if (!isfinite(fermi_level_ev)) {
+        bm_warnings_clear(&out->warnings);
         return bm_fail(err, BM_EINVAL, "carrier statistics: Fermi level %g eV is not finite",
                        fermi_level_ev);
+    }
+    /* at a given Fermi level the narrowing is the model's own value (no
+     * neutrality, hence no self-consistent majority density) */
     out->iterations = 0;
     fill_state(&c, fermi_level_ev / out->kt_ev, out);
     out->fermi_level_ev = fermi_level_ev;

@@ -79,6 +79,84 @@ bm_status bm_dos_mass_check(const bm_dos_mass_model *m, const char *what, bm_err
 bm_status bm_dos_mass_at(const bm_dos_mass_model *m, double t_k, const char *what,
                          double *mass, bm_errbuf *err);
 
+/* ---- Heavy doping ----
+ * How a dopant level's ionisation energy depends on the density of its kind
+ * (all donors for a donor level, all acceptors for an acceptor level):
+ *   SINGLE_LEVEL     the energy as given, at every density (zero-initialised);
+ *   PEARSON_BARDEEN  E(N) = E0 - alpha N^(1/3) (Pearson & Bardeen, Phys. Rev. 75,
+ *                    865 (1949); from memory), clamped at zero; once it reaches
+ *                    zero the level has merged with the band and every dopant of
+ *                    the kind counts ionised (no Fermi-level dependence left);
+ *   MOTT             the energy as given below the Mott density, and every dopant
+ *                    of the kind ionised at and above it (the donors form a band:
+ *                    N_c^(1/3) a* = 0.26, Mott; Edwards & Sienko, Phys. Rev. B 17,
+ *                    2575 (1978); from memory).
+ * Both heavy-doping forms jump from partial to full ionisation at one density
+ * ((E0/alpha)^3, or the Mott density): the transition is sharp in the model,
+ * gradual in a crystal. */
+typedef enum {
+    BM_IONISATION_SINGLE_LEVEL = 0,
+    BM_IONISATION_PEARSON_BARDEEN,
+    BM_IONISATION_MOTT
+} bm_ionisation_kind;
+
+typedef struct {
+    bm_ionisation_kind kind;
+    double alpha_ev_cm;        /* PEARSON_BARDEEN: alpha in eV cm, > 0 */
+    double mott_density_cm3;   /* MOTT: the threshold, > 0; with the other kinds a
+                                  Mott density (or 0 when unknown) only for the
+                                  above-mott-density warning of SINGLE_LEVEL */
+} bm_ionisation_model;
+
+const char *bm_ionisation_kind_name(bm_ionisation_kind k);  /* "single-level",
+                                                               "pearson-bardeen", "mott" */
+
+/* The ionisation energy of a level of zero-density energy e0_ev in a crystal
+ * holding density_cm3 dopants of its kind; *fully_ionised = 1 when the model
+ * counts them all ionised there (the energy is then 0 for PEARSON_BARDEEN and
+ * e0_ev for MOTT).  BM_EINVAL for a bad model or density. */
+bm_status bm_ionisation_energy(const bm_ionisation_model *m, double e0_ev, double density_cm3,
+                               double *energy_ev, int *fully_ionised, bm_errbuf *err);
+
+/* Hydrogenic impurity in a dielectric: binding energy E_H = Ry m* / eps_r^2
+ * (13.606 eV m* / eps_r^2), effective Bohr radius a* = a0 eps_r / m*
+ * (0.529177 A eps_r / m*), and the Mott density (0.26 / a*)^3 (Mott criterion,
+ * Edwards & Sienko 1978; from memory), from CODATA's Rydberg energy and Bohr
+ * radius.  mass (m_e) and eps_r finite and > 0, else BM_EINVAL; any output may
+ * be NULL. */
+#define BM_MOTT_CONSTANT 0.26
+bm_status bm_hydrogenic_impurity(double mass, double eps_r, double *binding_ev,
+                                 double *bohr_radius_angstrom, double *mott_density_cm3,
+                                 bm_errbuf *err);
+
+/* Band-gap narrowing dEg(N) with N the total dopant density (donors plus
+ * acceptors):
+ *   SLOTBOOM  dEg = E1 [ln(N/N0) + sqrt(ln(N/N0)^2 + C)], the form of Slotboom &
+ *             de Graaff (Solid-State Electron. 19, 857 (1976); from memory),
+ *             with the parameters of the set given (silicon: Klaassen, Slotboom
+ *             & de Graaff, Solid-State Electron. 35, 125 (1992): E1 6.92 meV,
+ *             N0 1.3e17 cm^-3, C 0.5; from memory).
+ * apparent = 1 marks a set fitted to measurements analysed with Boltzmann
+ * statistics (an "apparent" narrowing, defined by n p = ni^2 exp(dEg/kT)).
+ * With Fermi-Dirac statistics the solver then uses the real narrowing
+ *   dEg_FD = dEg_app + kT [F_1/2^-1(r) - ln(r)],  r = majority density / N_band,
+ * solved self-consistently with the majority density, so that n p reproduces
+ * the apparent narrowing the fit was made from (the correction vanishes for
+ * non-degenerate carriers).  With Boltzmann statistics dEg_app is used as it is. */
+typedef enum { BM_BGN_NONE = 0, BM_BGN_SLOTBOOM } bm_bgn_kind;
+
+typedef struct {
+    bm_bgn_kind kind;
+    double e1_ev, n0_cm3, c;   /* SLOTBOOM: E1 > 0, N0 > 0, C >= 0 */
+    int apparent;              /* 1: a Boltzmann-statistics (apparent) fit */
+    const char *source;
+} bm_bgn_model;
+
+const char *bm_bgn_kind_name(bm_bgn_kind k);   /* "none", "slotboom" */
+
+/* The model's own dEg at total density n_cm3 (>= 0; 0 gives 0), eV. */
+bm_status bm_bgn_value(const bm_bgn_model *m, double n_cm3, double *dEg_ev, bm_errbuf *err);
+
 /* A zero-initialised struct plus gap, masses and dopants is a valid input.
  * The models gap, electron_dos_mass and hole_dos_mass, when given, are
  * evaluated at the solve temperature and replace band_gap_ev, m_dos_electron
@@ -100,22 +178,42 @@ typedef struct {
     bm_statistics statistics;
     int skip_statistics_check; /* 1: do not re-solve with Boltzmann statistics
                                   to fill the comparison fields */
+    bm_ionisation_model donor_ionisation, acceptor_ionisation;  /* zero: single level */
+    const bm_bgn_model *band_gap_narrowing;   /* NULL (or kind NONE): none */
 } bm_semiconductor;
 
-/* Regimes (thresholds chosen here; the trade uses them loosely):
- *   INTRINSIC   min(n, p) >= 0.1 max(n, p): the minority density is at least a
- *               tenth of the majority, so thermal generation across the gap is
- *               comparable with the doping (or the material is undoped);
- *   FREEZE_OUT  not intrinsic, and the majority density is below 90 % of the
- *               net doping |sum N_D - sum N_A|: carriers are frozen on dopants;
- *   EXTRINSIC   otherwise (majority density set by the net doping). */
+/* Regimes, the first that applies in this order (thresholds chosen here; the
+ * trade uses the words loosely).  Ec = the (narrowed) gap above Ev = 0;
+ * N_D, N_A the total donor and acceptor densities, N_net = |N_D - N_A|,
+ * N_tot = N_D + N_A; ni the intrinsic density of the (narrowed) gap;
+ * f = (n - p) / (N_D - N_A) the ionised fraction of the net doping:
+ *   DEGENERATE   EF within 3 kT of a band edge or inside a band
+ *                (EF > Ec - 3 kT or EF < 3 kT): Boltzmann counting fails;
+ *   INTRINSIC    ni >= 10 N_net and ni >= 0.1 N_tot (undoped included):
+ *                thermal generation across the gap outweighs the doping;
+ *   COMPENSATED  N_D > 0, N_A > 0 and N_net < 0.1 N_tot: the dopants largely
+ *                cancel, the carriers are far fewer than the dopants;
+ *   FREEZE_OUT   f < 0.5: most of the net doping holds its carriers (outside
+ *                DEGENERATE this needs an ionisation energy above about 2.3 kT,
+ *                so it is a low-temperature or deep-level state);
+ *   PARTIAL      0.5 <= f < 0.9: partly ionised;
+ *   NEAR_INTRINSIC  f >= 0.9 and ni >= N_net: minority carriers are no longer
+ *                negligible;
+ *   EXTRINSIC    f >= 0.9 and ni < N_net (saturation): the majority density is
+ *                the net doping. */
 typedef enum {
     BM_REGIME_FREEZE_OUT,
     BM_REGIME_EXTRINSIC,
-    BM_REGIME_INTRINSIC
+    BM_REGIME_INTRINSIC,
+    BM_REGIME_DEGENERATE,
+    BM_REGIME_COMPENSATED,
+    BM_REGIME_PARTIAL,
+    BM_REGIME_NEAR_INTRINSIC
 } bm_regime;
 
-const char *bm_regime_name(bm_regime r);  /* "freeze-out", "extrinsic", "intrinsic" */
+const char *bm_regime_name(bm_regime r);  /* "freeze-out", "extrinsic", "intrinsic",
+                                             "degenerate", "compensated",
+                                             "partial-ionization", "near-intrinsic" */
 
 typedef struct {
     double temperature_k;
@@ -123,8 +221,17 @@ typedef struct {
     double band_gap_ev;
     double m_dos_electron, m_dos_hole;     /* the masses used (after the hook) */
     double nc_cm3, nv_cm3;
-    double ni_cm3;                 /* textbook sqrt(Nc Nv) exp(-Eg / 2kT) */
-    double fermi_level_ev;         /* from Ev */
+    double ni_cm3;                 /* textbook sqrt(Nc Nv) exp(-Eg / 2kT), undoped gap */
+    double band_gap_narrowing_ev;  /* dEg used in the solve (0 without a model) */
+    double apparent_narrowing_ev;  /* the model's own value (0 without a model) */
+    double effective_band_gap_ev;  /* band_gap_ev - band_gap_narrowing_ev */
+    double nie_cm3;                /* sqrt(Nc Nv) exp(-effective gap / 2kT) */
+    double donor_ionisation_ev[BM_MAX_DOPANTS];   /* energies used (heavy-doping model) */
+    double acceptor_ionisation_ev[BM_MAX_DOPANTS];
+    int donor_fully_ionised[BM_MAX_DOPANTS];      /* 1: counted ionised by the model */
+    int acceptor_fully_ionised[BM_MAX_DOPANTS];
+    double ionised_fraction;       /* (n - p) / (N_D - N_A); NAN without net doping */
+    double fermi_level_ev;         /* from Ev of the (narrowed) crystal */
     double n_cm3, p_cm3;
     double donors_ionised_cm3, acceptors_ionised_cm3;
     double donor_ionised_cm3[BM_MAX_DOPANTS];

@@ -27,6 +27,19 @@
 #define DERIVED_LUTT "derived from the Luttinger parameters listed, along [001]: " \
                      "m_hh = 1/(g1 - 2 g2), m_lh = 1/(g1 + 2 g2)"
 #define NONE "not in the sources used here"
+#define SZE_EPS "Sze & Ng, Physics of Semiconductor Devices, 3rd ed. (2007), Appendix " \
+                "(properties of important semiconductors); from memory"
+#define PB_SI "Pearson & Bardeen, Phys. Rev. 75, 865 (1949), for P and B in Si, applied " \
+              "here to every Si dopant of the kind; from memory"
+#define KSG "Klaassen, Slotboom & de Graaff, Solid-State Electron. 35, 125 (1992): apparent " \
+            "(Boltzmann-analysed) narrowing of n- and p-type Si, E1 6.92 meV, N0 1.3e17 " \
+            "cm^-3, C 0.5, in the form of Slotboom & de Graaff, Solid-State Electron. 19, " \
+            "857 (1976); from memory"
+#define NO_PB "no Pearson-Bardeen alpha in the sources used here"
+#define NO_EPS "not in the sources used here (anisotropic crystal)"
+#define EPS(v, src) .relative_permittivity = { v, src }
+#define NO_ALPHA .donor_ionisation_alpha = { NAN, NO_PB }, \
+                 .acceptor_ionisation_alpha = { NAN, NO_PB }
 #define GDEF "degeneracy: common practice, no source"
 
 #define VARSHNI(eg0, alpha, beta, src) \
@@ -73,6 +86,15 @@ static const bm_material table[] = {
                      DON("Sb", 0.039, SZE_CHART), ACC("B", 0.045, SZE_CHART),
                      ACC("Al", 0.067, SZE_CHART), ACC("Ga", 0.072, SZE_CHART),
                      ACC("In", 0.16, SZE_CHART) },
+        /* eps_r 11.7: Sze & Ng 2007 Appendix, from memory */
+        EPS(11.7, SZE_EPS),
+        /* alpha 3.1e-8 eV cm: Pearson & Bardeen 1949, from memory; E_ion reaches 0
+         * at (E0 / alpha)^3 = 3.1e18 (P, B) and 5.3e18 cm^-3 (As) */
+        .donor_ionisation_alpha = { 3.1e-8, PB_SI },
+        .acceptor_ionisation_alpha = { 3.1e-8, PB_SI },
+        /* E1 6.92 meV, N0 1.3e17 cm^-3, C 0.5: Klaassen et al. 1992, from memory */
+        .band_gap_narrowing = { .kind = BM_BGN_SLOTBOOM, .e1_ev = 6.92e-3, .n0_cm3 = 1.3e17,
+                                .c = 0.5, .apparent = 1, .source = KSG },
     },
     {
         .name = "Ge", .long_name = "germanium", .structure = "diamond", .point_group = "Oh",
@@ -101,6 +123,8 @@ static const bm_material table[] = {
                      DON("Sb", 0.0096, SZE_CHART), ACC("B", 0.010, SZE_CHART),
                      ACC("Al", 0.010, SZE_CHART), ACC("Ga", 0.011, SZE_CHART),
                      ACC("In", 0.011, SZE_CHART) },
+        /* eps_r 16.2: Sze & Ng 2007 Appendix, from memory */
+        EPS(16.2, SZE_EPS), NO_ALPHA,
     },
     {
         .name = "GaAs", .long_name = "gallium arsenide", .structure = "zincblende",
@@ -128,6 +152,8 @@ static const bm_material table[] = {
                      DON("Se", 0.0059, SZE_CHART), DON("Te", 0.0058, SZE_CHART),
                      ACC("C", 0.026, SZE_CHART), ACC("Be", 0.028, SZE_CHART),
                      ACC("Zn", 0.031, SZE_CHART) },
+        /* eps_r 12.9: Sze & Ng 2007 Appendix, from memory */
+        EPS(12.9, SZE_EPS), NO_ALPHA,
     },
     {
         .name = "InP", .long_name = "indium phosphide", .structure = "zincblende",
@@ -145,6 +171,8 @@ static const bm_material table[] = {
         .luttinger = { 5.08, 1.60, 2.10 }, .luttinger_source = VMR,
         .ndopants = 2,
         .dopants = { DON("Si", 0.0057, MADELUNG), ACC("Zn", 0.035, MADELUNG) },
+        /* eps_r 12.56: Sze & Ng 2007 Appendix, from memory */
+        EPS(12.56, SZE_EPS), NO_ALPHA,
     },
     {
         .name = "InAs", .long_name = "indium arsenide", .structure = "zincblende",
@@ -161,6 +189,8 @@ static const bm_material table[] = {
         .split_off_mass = { 0.14, VMR }, .split_off_ev = { 0.39, VMR },
         .luttinger = { 20.0, 8.5, 9.2 }, .luttinger_source = VMR,
         .ndopants = 0,   /* shallow levels within a few meV of the band: " NONE " */
+        /* eps_r 15.15: Sze & Ng 2007 Appendix, from memory */
+        EPS(15.15, SZE_EPS), NO_ALPHA,
     },
     {
         .name = "InSb", .long_name = "indium antimonide", .structure = "zincblende",
@@ -177,6 +207,8 @@ static const bm_material table[] = {
         .split_off_mass = { 0.11, VMR }, .split_off_ev = { 0.81, VMR },
         .luttinger = { 34.8, 15.5, 16.5 }, .luttinger_source = VMR,
         .ndopants = 0,
+        /* eps_r 16.8: Sze & Ng 2007 Appendix, from memory */
+        EPS(16.8, SZE_EPS), NO_ALPHA,
     },
     {
         .name = "GaN", .long_name = "gallium nitride (wurtzite)", .structure = "wurtzite",
@@ -199,6 +231,7 @@ static const bm_material table[] = {
         .luttinger_source = "not applicable: wurtzite valence bands need the A1..A6 set",
         .ndopants = 2,
         .dopants = { DON("Si", 0.015, LEVINSHTEIN), ACC("Mg", 0.17, LEVINSHTEIN) },
+        EPS(NAN, NO_EPS), NO_ALPHA,
     },
     {
         .name = "4H-SiC", .long_name = "silicon carbide (4H)", .structure = "4H polytype",
@@ -222,6 +255,7 @@ static const bm_material table[] = {
         .dopants = { DON("N (hexagonal site)", 0.052, LEVINSHTEIN),
                      DON("N (cubic site)", 0.092, LEVINSHTEIN),
                      ACC("Al", 0.19, LEVINSHTEIN), ACC("B", 0.29, LEVINSHTEIN) },
+        EPS(NAN, NO_EPS), NO_ALPHA,
     },
     {
         .name = "AlAs", .long_name = "aluminium arsenide", .structure = "zincblende",
@@ -240,6 +274,8 @@ static const bm_material table[] = {
         .split_off_mass = { 0.28, VMR }, .split_off_ev = { 0.28, VMR },
         .luttinger = { 3.76, 0.82, 1.42 }, .luttinger_source = VMR,
         .ndopants = 0,
+        /* eps_r 10.06: Sze & Ng 2007 Appendix, from memory */
+        EPS(10.06, SZE_EPS), NO_ALPHA,
     },
     {
         .name = "GaP", .long_name = "gallium phosphide", .structure = "zincblende",
@@ -259,6 +295,8 @@ static const bm_material table[] = {
         .ndopants = 4,
         .dopants = { DON("S", 0.107, MADELUNG), DON("Te", 0.093, MADELUNG),
                      ACC("Zn", 0.064, MADELUNG), ACC("Mg", 0.054, MADELUNG) },
+        /* eps_r 11.1: Sze & Ng 2007 Appendix, from memory */
+        EPS(11.1, SZE_EPS), NO_ALPHA,
     },
 };
 
@@ -376,6 +414,95 @@ bm_status bm_material_band_gap(const bm_material *m, double t_k, double *eg_ev,
     if (!m)
         return bm_fail(err, BM_EINVAL, "materials: no material given");
     return bm_gap_at(&m->gap, t_k, eg_ev, w, err);
+}
+
+bm_status bm_material_hydrogenic(const bm_material *m, bm_dopant_kind kind,
+                                 bm_hydrogenic_info *out, bm_errbuf *err)
+{
+    if (!m || !out)
+        return bm_fail(err, BM_EINVAL, "materials: no material or result given");
+    *out = (bm_hydrogenic_info){ NAN, NULL, NAN, NAN, NAN };
+    if (kind == BM_DOPANT_DONOR) {
+        const bm_valley_info *v = &m->electron;
+        double p = v->m_longitudinal * v->m_transverse * v->m_transverse2;
+        if (v->label && p > 0.0 && isfinite(p)) {
+            out->mass = cbrt(p);
+            out->mass_source = "(m_l m_t m_t2)^(1/3) of the conduction valley";
+        } else if (m->electron_dos_mass.kind == BM_DOS_MASS_FIXED) {
+            out->mass = m->electron_dos_mass.value;
+            out->mass_source = "the fixed electron DOS mass (one valley assumed)";
+        } else {
+            out->mass_source = "none: no conduction valley and no fixed electron DOS mass";
+            return BM_OK;
+        }
+    } else {
+        double hh = m->heavy_hole_mass.value, lh = m->light_hole_mass.value;
+        if (hh > 0.0 && lh > 0.0 && isfinite(hh) && isfinite(lh)) {
+            out->mass = pow(pow(hh, 1.5) + pow(lh, 1.5), 2.0 / 3.0);
+            out->mass_source = "(m_hh^(3/2) + m_lh^(3/2))^(2/3) of the parabolic holes "
+                               "(hydrogenic acceptor: rough)";
+        } else if (m->statistics_hole_dos_mass.kind == BM_DOS_MASS_FIXED) {
+            out->mass = m->statistics_hole_dos_mass.value;
+            out->mass_source = "the fixed statistics hole DOS mass (hydrogenic acceptor: rough)";
+        } else {
+            out->mass_source = "none: no parabolic hole masses and no fixed hole DOS mass";
+            return BM_OK;
+        }
+    }
+    double eps = m->relative_permittivity.value;
+    if (!(eps > 0.0) || !isfinite(eps)) {
+        out->mass_source = "none: no relative permittivity";
+        return BM_OK;
+    }
+    return bm_hydrogenic_impurity(out->mass, eps, &out->binding_ev, &out->bohr_radius_angstrom,
+                                  &out->mott_density_cm3, err);
+}
+
+bm_status bm_material_ionisation_model(const bm_material *m, bm_dopant_kind kind,
+                                       int requested, bm_ionisation_model *out,
+                                       bm_errbuf *err)
+{
+    if (!m || !out)
+        return bm_fail(err, BM_EINVAL, "materials: no material or result given");
+    bm_hydrogenic_info h;
+    bm_status st = bm_material_hydrogenic(m, kind, &h, err);
+    if (st)
+        return st;
+    const char *what = kind == BM_DOPANT_DONOR ? "donor" : "acceptor";
+    double alpha = kind == BM_DOPANT_DONOR ? m->donor_ionisation_alpha.value
+                                           : m->acceptor_ionisation_alpha.value;
+    int has_alpha = alpha > 0.0 && isfinite(alpha);
+    int has_mott = h.mott_density_cm3 > 0.0 && isfinite(h.mott_density_cm3);
+    *out = (bm_ionisation_model){ BM_IONISATION_SINGLE_LEVEL, NAN,
+                                  has_mott ? h.mott_density_cm3 : 0.0 };
+    int k = requested;
+    if (k < 0)
+        k = has_alpha ? BM_IONISATION_PEARSON_BARDEEN
+            : has_mott ? BM_IONISATION_MOTT : BM_IONISATION_SINGLE_LEVEL;
+    switch (k) {
+    case BM_IONISATION_SINGLE_LEVEL:
+        return BM_OK;
+    case BM_IONISATION_PEARSON_BARDEEN:
+        if (!has_alpha)
+            return bm_fail(err, BM_EINVAL, "materials: %s has no Pearson-Bardeen alpha for "
+                           "%ss (material key \"%s_ionization_lowering_ev_cm\")",
+                           m->name ? m->name : "the material", what, what);
+        out->kind = BM_IONISATION_PEARSON_BARDEEN;
+        out->alpha_ev_cm = alpha;
+        return BM_OK;
+    case BM_IONISATION_MOTT:
+        if (!has_mott)
+            return bm_fail(err, BM_EINVAL, "materials: %s has no Mott density for %ss (it "
+                           "needs \"relative_permittivity\" and a %s mass: %s)",
+                           m->name ? m->name : "the material", what,
+                           kind == BM_DOPANT_DONOR ? "conduction-valley" : "hole",
+                           h.mass_source);
+        out->kind = BM_IONISATION_MOTT;
+        return BM_OK;
+    default:
+        break;
+    }
+    return bm_fail(err, BM_EINVAL, "materials: unknown ionisation model %d", requested);
 }
 
 bm_status bm_material_statistics_hole_dos_mass(const bm_material *m, double t_k,

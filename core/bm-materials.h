@@ -98,6 +98,13 @@ typedef struct {
     const char *luttinger_source;
     size_t ndopants;
     bm_material_dopant dopants[BM_MATERIAL_MAX_DOPANTS];
+    /* heavy doping (NAN / kind NONE where the sources used give none) */
+    bm_sourced relative_permittivity;      /* static eps_r, for the hydrogenic
+                                              binding energy and the Mott density */
+    bm_sourced donor_ionisation_alpha;     /* Pearson-Bardeen alpha, eV cm:
+                                              E_ion(N) = E0 - alpha N^(1/3) */
+    bm_sourced acceptor_ionisation_alpha;
+    bm_bgn_model band_gap_narrowing;       /* with its source */
 } bm_material;
 
 size_t bm_material_count(void);
@@ -113,6 +120,33 @@ const bm_material *bm_material_find(const char *name, bm_errbuf *err);
  * other kind) when absent. */
 const bm_material_dopant *bm_material_find_dopant(const bm_material *m, const char *element,
                                                   bm_dopant_kind kind, bm_errbuf *err);
+
+/* The hydrogenic impurity of a material (bm_hydrogenic_impurity).  The mass:
+ * donors (m_l m_t m_t2)^(1/3) of the conduction valley (one valley's
+ * DOS mass: the isotropic average that the effective-mass donor uses), else a
+ * fixed electron DOS mass (one valley assumed); acceptors the parabolic
+ * combination (m_hh^(3/2) + m_lh^(3/2))^(2/3), else a fixed statistics hole DOS
+ * mass.  A hydrogenic acceptor ignores the degenerate valence band: treat its
+ * numbers as rough.  Values are NAN and mass_source says why when the material
+ * lacks the mass or the permittivity; BM_EINVAL only for missing arguments. */
+typedef struct {
+    double mass;                   /* m_e */
+    const char *mass_source;       /* how the mass was chosen (static text) */
+    double binding_ev, bohr_radius_angstrom, mott_density_cm3;
+} bm_hydrogenic_info;
+
+bm_status bm_material_hydrogenic(const bm_material *m, bm_dopant_kind kind,
+                                 bm_hydrogenic_info *out, bm_errbuf *err);
+
+/* The ionisation model of one dopant kind: `requested` is a bm_ionisation_kind,
+ * or -1 for the material's default: Pearson-Bardeen where the material has an
+ * alpha for the kind, else the Mott threshold where the hydrogenic Mott density
+ * is known, else the single level.  A requested model whose parameter the
+ * material lacks is BM_EINVAL naming it.  The Mott density (0 when unknown) is
+ * always filled in, so that a single-level solve can warn above it. */
+bm_status bm_material_ionisation_model(const bm_material *m, bm_dopant_kind kind,
+                                       int requested, bm_ionisation_model *out,
+                                       bm_errbuf *err);
 
 /* The gap of the material's model at t_k (bm_gap_at). */
 bm_status bm_material_band_gap(const bm_material *m, double t_k, double *eg_ev,

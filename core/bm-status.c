@@ -47,6 +47,7 @@ static const char *const warn_code_names[BM_WARN_COUNT] = {
     [BM_WARN_NO_ERROR_ESTIMATE] = "no-error-estimate",
     [BM_WARN_DEGENERATE_EXTREMUM] = "degenerate-extremum",
     [BM_WARN_UNIT_SUSPECT] = "unit-suspect",
+    [BM_WARN_ABOVE_MOTT_DENSITY] = "above-mott-density",
 };
 
 const char *bm_warn_code_name(bm_warn_code code)

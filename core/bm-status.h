@@ -57,6 +57,7 @@ typedef enum {
     BM_WARN_NO_ERROR_ESTIMATE,       /* no independent estimate: error unknown */
     BM_WARN_DEGENERATE_EXTREMUM,     /* bands touch at the extremum: no single-band tensor */
     BM_WARN_UNIT_SUSPECT,            /* input numbers look like another unit than their key says */
+    BM_WARN_ABOVE_MOTT_DENSITY,      /* single-level dopants above the Mott density */
     BM_WARN_COUNT                    /* not a code: the number of codes */
 } bm_warn_code;
 

@@ -41,11 +41,39 @@ const BmEnum bm_enum_valley_site = { "valley site", valley_site };
 
 static const BmChoice regime[] = {
     { BM_REGIME_FREEZE_OUT, "freeze-out", "carriers frozen on the dopants" },
-    { BM_REGIME_EXTRINSIC, "extrinsic", "majority density set by the net doping" },
+    { BM_REGIME_EXTRINSIC, "extrinsic", "saturation: majority density set by the net "
+                                        "doping" },
     { BM_REGIME_INTRINSIC, "intrinsic", "thermally generated carriers dominate" },
+    { BM_REGIME_DEGENERATE, "degenerate", "Fermi level within 3 kT of a band edge or inside "
+                                          "a band" },
+    { BM_REGIME_COMPENSATED, "compensated", "donors and acceptors largely cancel" },
+    { BM_REGIME_PARTIAL, "partial-ionization", "between half and 90 % of the net doping "
+                                               "ionised" },
+    { BM_REGIME_NEAR_INTRINSIC, "near-intrinsic", "net doping ionised, but the intrinsic "
+                                                  "density is not below it" },
     { 0, NULL, NULL }
 };
 const BmEnum bm_enum_regime = { "regime", regime };
+
+static const BmChoice ionization_model[] = {
+    { BM_IONIZATION_AUTO, "auto", "the material's: pearson-bardeen where it has an alpha, "
+                                  "else mott where its Mott density is known, else "
+                                  "single-level" },
+    { BM_IONISATION_SINGLE_LEVEL, "single-level", "one level of fixed ionisation energy at "
+                                                  "every density" },
+    { BM_IONISATION_PEARSON_BARDEEN, "pearson-bardeen",
+      "E0 - alpha N^(1/3), clamped at zero: full ionisation there" },
+    { BM_IONISATION_MOTT, "mott", "full ionisation at and above the hydrogenic Mott density" },
+    { 0, NULL, NULL }
+};
+const BmEnum bm_enum_ionization_model = { "ionization model", ionization_model };
+
+static const BmChoice narrowing[] = {
+    { 1, "auto", "the material's band-gap narrowing model, where it has one" },
+    { 0, "none", "no band-gap narrowing" },
+    { 0, NULL, NULL }
+};
+const BmEnum bm_enum_band_gap_narrowing = { "band-gap narrowing", narrowing };
 
 static const BmChoice gap_model[] = {
     { BM_GAP_VARSHNI, "varshni", "Eg0 - alpha T^2 / (T + beta)" },

@@ -16,6 +16,10 @@ extern const BmEnum bm_enum_extremum_kind;   /* bm_extremum_kind (bm-extrema.h) 
 extern const BmEnum bm_enum_valley_site;     /* bm_valley_site (bm-valleys.h) */
 extern const BmEnum bm_enum_regime;          /* bm_regime (bm-carriers.h) */
 extern const BmEnum bm_enum_gap_model;       /* bm_gap_kind (core bm-bandgap.h) */
+/* bm_ionisation_kind (bm-carriers.h), plus "auto": the material's default */
+#define BM_IONIZATION_AUTO (-1)
+extern const BmEnum bm_enum_ionization_model;
+extern const BmEnum bm_enum_band_gap_narrowing;  /* 1 "auto" (the material's), 0 "none" */
 
 /* The default of every "statistics" request key, as JSON text. */
 #define BM_STATISTICS_DEFAULT_JSON "\"fermi-dirac\""

@@ -27,6 +27,11 @@ static const BmParam params[] = {
       "or {species, density_cm3}", .unit = NULL },
     { "statistics", BM_VALUE_STRING, FALSE, BM_STATISTICS_DEFAULT_JSON, "band occupation",
       .choices = &bm_enum_statistics },
+    { "ionization_model", BM_VALUE_STRING, FALSE, "\"auto\"",
+      "how a dopant level's ionisation energy depends on the density of its kind "
+      "(heavy doping)", .choices = &bm_enum_ionization_model },
+    { "band_gap_narrowing", BM_VALUE_STRING, FALSE, "\"auto\"",
+      "band-gap narrowing by the total dopant density", .choices = &bm_enum_band_gap_narrowing },
     { "dos_mass_points", BM_VALUE_ARRAY, FALSE, NULL,
       "temperature-dependent DOS masses, linearly interpolated, replacing the material's: "
       "[{temperature_k, electron_dos_mass_me, statistics_hole_dos_mass_me}, ...] in "
@@ -43,9 +48,17 @@ static const BmField response[] = {
       "valence-band DOS mass m_dh(T) used for Nv (the carrier-statistics hole DOS mass)" },
     { "nc_cm3", "cm^-3", TRUE, "effective density of states of the conduction band" },
     { "nv_cm3", "cm^-3", TRUE, "effective density of states of the valence band" },
-    { "ni_cm3", "cm^-3", TRUE, "intrinsic density sqrt(Nc Nv) exp(-Eg / 2kT)" },
+    { "ni_cm3", "cm^-3", TRUE, "intrinsic density sqrt(Nc Nv) exp(-Eg / 2kT) of the "
+      "undoped gap" },
+    { "band_gap_narrowing_ev", "eV", TRUE, "band-gap narrowing used in the solve (0 without)" },
+    { "effective_band_gap_ev", "eV", TRUE, "band_gap_ev minus the narrowing" },
+    { "nie_cm3", "cm^-3", TRUE, "effective intrinsic density sqrt(Nc Nv) exp(-Eg_eff / 2kT)" },
     { "fermi_level_ev", "eV", TRUE, "Fermi level from charge neutrality, above the "
-      "valence-band maximum" },
+      "valence-band maximum of the doped (narrowed) crystal" },
+    { "fermi_level_undoped_reference_ev", "eV", TRUE, "the same Fermi level above the "
+      "undoped crystal's valence-band maximum (the narrowing split half to each edge)" },
+    { "ionized_fraction", NULL, TRUE, "(n - p) / (N_D - N_A), the ionised share of the net "
+      "doping (null without net doping)" },
     { "n_cm3", "cm^-3", TRUE, "electron density" },
     { "p_cm3", "cm^-3", TRUE, "hole density" },
     { "ionized_donors_cm3", "cm^-3", TRUE, "ionised donors, all species" },
@@ -53,7 +66,8 @@ static const BmField response[] = {
     { "ionized_donors_per_species_cm3", "cm^-3", TRUE, "per donor species (when there are some)" },
     { "ionized_acceptors_per_species_cm3", "cm^-3", TRUE,
       "per acceptor species (when there are some)" },
-    { "regime", NULL, TRUE, "freeze-out, extrinsic or intrinsic" },
+    { "regime", NULL, TRUE, "degenerate, intrinsic, compensated, freeze-out, "
+      "partial-ionization, near-intrinsic or extrinsic (README, Carrier statistics)" },
     { "statistics", NULL, FALSE, "the statistics of the numbers: fermi-dirac or boltzmann" },
     { "boltzmann_deviation", NULL, TRUE,
       "largest relative change of n or p had the other statistics been used" },
@@ -62,8 +76,19 @@ static const BmField response[] = {
     { "fermi_level_reference", NULL, FALSE, "the zero of fermi_level_ev" },
     { "band_gap_model", NULL, FALSE, "varshni, bose-einstein or fixed" },
     { "sources", NULL, FALSE, "where the gap and the DOS masses come from" },
-    { "donors", NULL, FALSE, "the donors as resolved: density_cm3, ionization_ev, degeneracy, "
-      "source (species when named)" },
+    { "donor_ionization_model", NULL, FALSE, "the donors' ionisation model used" },
+    { "acceptor_ionization_model", NULL, FALSE, "the acceptors' ionisation model used" },
+    { "donor_mott_density_cm3", "cm^-3", FALSE, "hydrogenic Mott density of the donors "
+      "(null when the material lacks a permittivity or mass)" },
+    { "acceptor_mott_density_cm3", "cm^-3", FALSE, "hydrogenic Mott density of the "
+      "acceptors (rough: hydrogenic acceptor)" },
+    { "band_gap_narrowing_model", NULL, FALSE, "slotboom or none" },
+    { "heavy_doping", NULL, FALSE, "the heavy-doping models in detail: donors, acceptors "
+      "{model, alpha_ev_cm, mott_density_cm3, hydrogenic_binding_ev, bohr_radius_angstrom, "
+      "hydrogenic_mass_me, mass_source, source}, band_gap_narrowing {model, parameters, "
+      "total_density_cm3, apparent_narrowing_ev, fermi_dirac_corrected, edge_split, source}" },
+    { "donors", NULL, FALSE, "the donors as resolved: density_cm3, ionization_ev, "
+      "effective_ionization_ev, fully_ionized, degeneracy, source (species when named)" },
     { "acceptors", NULL, FALSE, "the acceptors as resolved, as donors" },
     BM_FIELD_END
 };
@@ -146,6 +171,14 @@ static gboolean read_dopants(JsonObject *request, const char *key, bm_dopant_kin
     return TRUE;
 }
 
+static double s_total(const Dopants *d)
+{
+    double t = 0.0;
+    for (size_t i = 0; i < d->n; i++)
+        t += d->d[i].density_cm3;
+    return t;
+}
+
 typedef struct {
     gsize n;
     double *t, *me, *mh;
@@ -201,7 +234,13 @@ static void set_state(JsonObject *o, const bm_carrier_state *st, const Dopants *
     bm_json_set_number(o, "nc_cm3", st->nc_cm3);
     bm_json_set_number(o, "nv_cm3", st->nv_cm3);
     bm_json_set_number(o, "ni_cm3", st->ni_cm3);
+    bm_json_set_number(o, "band_gap_narrowing_ev", st->band_gap_narrowing_ev);
+    bm_json_set_number(o, "effective_band_gap_ev", st->effective_band_gap_ev);
+    bm_json_set_number(o, "nie_cm3", st->nie_cm3);
     bm_json_set_number(o, "fermi_level_ev", st->fermi_level_ev);
+    bm_json_set_number(o, "fermi_level_undoped_reference_ev",
+                       st->fermi_level_ev + 0.5 * st->band_gap_narrowing_ev);
+    bm_json_set_number(o, "ionized_fraction", st->ionised_fraction);
     bm_json_set_number(o, "n_cm3", st->n_cm3);
     bm_json_set_number(o, "p_cm3", st->p_cm3);
     bm_json_set_number(o, "ionized_donors_cm3", st->donors_ionised_cm3);
@@ -217,7 +256,9 @@ static void set_state(JsonObject *o, const bm_carrier_state *st, const Dopants *
     bm_json_set_number(o, "boltzmann_deviation", st->boltzmann_deviation);
 }
 
-static JsonArray *dopant_list(const Dopants *d)
+/* used and full: the effective energies and flags of the solve (the same at
+ * every temperature: they depend on the densities only) */
+static JsonArray *dopant_list(const Dopants *d, const double *used, const int *full)
 {
     JsonArray *a = json_array_new();
     for (size_t i = 0; i < d->n; i++) {
@@ -226,6 +267,8 @@ static JsonArray *dopant_list(const Dopants *d)
             json_object_set_string_member(o, "species", d->species[i]);
         bm_json_set_number(o, "density_cm3", d->d[i].density_cm3);
         bm_json_set_number(o, "ionization_ev", d->d[i].ionisation_ev);
+        bm_json_set_number(o, "effective_ionization_ev", used[i]);
+        json_object_set_boolean_member(o, "fully_ionized", full[i] != 0);
         if (d->d[i].degeneracy > 0)
             bm_json_set_number(o, "degeneracy", d->d[i].degeneracy);
         else
@@ -234,6 +277,35 @@ static JsonArray *dopant_list(const Dopants *d)
         json_array_add_object_element(a, o);
     }
     return a;
+}
+
+/* The heavy-doping description of one dopant kind. */
+static JsonObject *kind_json(const bm_material *m, bm_dopant_kind kind,
+                             const bm_ionisation_model *im, double *mott_density_cm3)
+{
+    JsonObject *o = json_object_new();
+    bm_hydrogenic_info h;
+    bm_material_hydrogenic(m, kind, &h, NULL);
+    *mott_density_cm3 = h.mott_density_cm3;
+    json_object_set_string_member(o, "model", bm_ionisation_kind_name(im->kind));
+    bm_json_set_number(o, "alpha_ev_cm", im->kind == BM_IONISATION_PEARSON_BARDEEN
+                                         ? im->alpha_ev_cm : NAN);
+    bm_json_set_number(o, "mott_density_cm3", h.mott_density_cm3);
+    bm_json_set_number(o, "hydrogenic_binding_ev", h.binding_ev);
+    bm_json_set_number(o, "bohr_radius_angstrom", h.bohr_radius_angstrom);
+    bm_json_set_number(o, "hydrogenic_mass_me", h.mass);
+    json_object_set_string_member(o, "mass_source", h.mass_source);
+    const bm_sourced *alpha = kind == BM_DOPANT_DONOR ? &m->donor_ionisation_alpha
+                                                      : &m->acceptor_ionisation_alpha;
+    const char *src = "single level: the ionisation energies as given";
+    if (im->kind == BM_IONISATION_PEARSON_BARDEEN)
+        src = alpha->source ? alpha->source : "the material";
+    else if (im->kind == BM_IONISATION_MOTT)
+        src = "full ionisation at and above N_c = (0.26 / a*)^3 (Mott criterion; Edwards & "
+              "Sienko, Phys. Rev. B 17, 2575 (1978); from memory), a* from the hydrogenic "
+              "mass and relative_permittivity";
+    json_object_set_string_member(o, "source", src);
+    return o;
 }
 
 static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
@@ -252,6 +324,9 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     const char *stats = json_object_get_string_member(request, "statistics");
     bm_statistics statistics = (bm_statistics)bm_enum_value(request, "statistics",
                                                             &bm_enum_statistics);
+    int ion_choice = bm_enum_value(request, "ionization_model", &bm_enum_ionization_model);
+    int bgn_choice = bm_enum_value(request, "band_gap_narrowing", &bm_enum_band_gap_narrowing);
+    bm_carrier_state first = {0};
     gboolean one = json_object_has_member(request, "temperature_k");
     gboolean list = json_object_has_member(request, "temperatures_k");
     if (one == list) {
@@ -295,6 +370,19 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     s.acceptors = acc.d;
     s.nacceptors = acc.n;
     s.statistics = statistics;
+    {
+        bm_errbuf err = {0};
+        if (bm_material_ionisation_model(&mat.mat, BM_DOPANT_DONOR, ion_choice,
+                                         &s.donor_ionisation, &err) != BM_OK
+            || bm_material_ionisation_model(&mat.mat, BM_DOPANT_ACCEPTOR, ion_choice,
+                                            &s.acceptor_ionisation, &err) != BM_OK) {
+            bm_error_from_core(error, &err, "request: key \"ionization_model\"");
+            goto done;
+        }
+    }
+    const bm_bgn_model *bgn = bgn_choice && mat.mat.band_gap_narrowing.kind != BM_BGN_NONE
+                              ? &mat.mat.band_gap_narrowing : NULL;
+    s.band_gap_narrowing = bgn;
 
     resp = json_object_new();
     pts = list ? json_array_new() : NULL;
@@ -310,6 +398,10 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
         }
         JsonObject *row = list ? json_object_new() : resp;
         set_state(row, &st, &don, &acc);
+        if (i == 0) {
+            first = st;
+            first.warnings = (bm_warnings){0};
+        }
         if (list)
             json_array_add_object_element(pts, row);
         g_autofree char *prefix = list ? g_strdup_printf("%g K: ", t[i]) : g_strdup("");
@@ -329,8 +421,52 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     json_object_set_string_member(src, "statistics_hole_dos_mass_me",
                                   mat.mat.statistics_hole_dos_mass.source);
     json_object_set_object_member(resp, "sources", src);
-    json_object_set_array_member(resp, "donors", dopant_list(&don));
-    json_object_set_array_member(resp, "acceptors", dopant_list(&acc));
+    json_object_set_array_member(resp, "donors", dopant_list(&don, first.donor_ionisation_ev,
+                                                             first.donor_fully_ionised));
+    json_object_set_array_member(resp, "acceptors",
+                                 dopant_list(&acc, first.acceptor_ionisation_ev,
+                                             first.acceptor_fully_ionised));
+    json_object_set_string_member(resp, "donor_ionization_model",
+                                  bm_ionisation_kind_name(s.donor_ionisation.kind));
+    json_object_set_string_member(resp, "acceptor_ionization_model",
+                                  bm_ionisation_kind_name(s.acceptor_ionisation.kind));
+    json_object_set_string_member(resp, "band_gap_narrowing_model",
+                                  bm_bgn_kind_name(bgn ? bgn->kind : BM_BGN_NONE));
+    {
+        JsonObject *hd = json_object_new();
+        double md, ma;
+        JsonObject *dj = kind_json(&mat.mat, BM_DOPANT_DONOR, &s.donor_ionisation, &md);
+        JsonObject *aj = kind_json(&mat.mat, BM_DOPANT_ACCEPTOR, &s.acceptor_ionisation, &ma);
+        bm_json_set_number(resp, "donor_mott_density_cm3", md);
+        bm_json_set_number(resp, "acceptor_mott_density_cm3", ma);
+        json_object_set_object_member(hd, "donors", dj);
+        json_object_set_object_member(hd, "acceptors", aj);
+        JsonObject *b = json_object_new();
+        json_object_set_string_member(b, "model", bm_bgn_kind_name(bgn ? bgn->kind
+                                                                     : BM_BGN_NONE));
+        if (bgn) {
+            bm_json_set_number(b, "e1_ev", bgn->e1_ev);
+            bm_json_set_number(b, "n0_cm3", bgn->n0_cm3);
+            bm_json_set_number(b, "c", bgn->c);
+            json_object_set_boolean_member(b, "apparent", bgn->apparent != 0);
+            bm_json_set_number(b, "total_density_cm3", s_total(&don) + s_total(&acc));
+            bm_json_set_number(b, "apparent_narrowing_ev", first.apparent_narrowing_ev);
+            json_object_set_boolean_member(b, "fermi_dirac_corrected",
+                                           bgn->apparent && statistics == BM_FERMI_DIRAC);
+            json_object_set_string_member(b, "edge_split",
+                "half to each edge: against the undoped crystal Ev rises and Ec falls by "
+                "dEg/2 (chosen here, no source); fermi_level_ev is measured from the "
+                "narrowed Ev, fermi_level_undoped_reference_ev from the undoped one");
+            json_object_set_string_member(b, "source", bgn->source ? bgn->source
+                                                                   : mat.origin);
+        } else {
+            json_object_set_string_member(b, "source", bgn_choice
+                                          ? "the material has no band-gap narrowing model"
+                                          : "switched off in the request");
+        }
+        json_object_set_object_member(hd, "band_gap_narrowing", b);
+        json_object_set_object_member(resp, "heavy_doping", hd);
+    }
     if (list) {
         json_object_set_string_member(resp, "statistics", stats);
         json_object_set_array_member(resp, "points", pts);

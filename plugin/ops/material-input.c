@@ -15,7 +15,8 @@ typedef enum {
     F_DOS,         /* bm_dos_mass_model */
     F_SOURCED,     /* bm_sourced */
     F_LUTTINGER,   /* double[3] + source */
-    F_DOPANTS      /* ndopants + dopants[] */
+    F_DOPANTS,     /* ndopants + dopants[] */
+    F_BGN          /* bm_bgn_model */
 } FieldType;
 
 typedef struct {
@@ -46,6 +47,10 @@ static const Field fields[] = {
     { "split_off_ev", F_SOURCED, AT(split_off_ev), 0 },
     { "luttinger_parameters", F_LUTTINGER, AT(luttinger), 0 },
     { "dopants", F_DOPANTS, AT(ndopants), 0 },
+    { "relative_permittivity", F_SOURCED, AT(relative_permittivity), 0 },
+    { "donor_ionization_lowering_ev_cm", F_SOURCED, AT(donor_ionisation_alpha), 0 },
+    { "acceptor_ionization_lowering_ev_cm", F_SOURCED, AT(acceptor_ionisation_alpha), 0 },
+    { "band_gap_narrowing", F_BGN, AT(band_gap_narrowing), 0 },
 };
 
 const char *const bm_material_ignored_keys[] = { "comment", "derived", "warnings",
@@ -385,6 +390,43 @@ static gboolean read_dopants(BmMaterialInput *in, JsonObject *o, const Field *f,
     return TRUE;
 }
 
+/* "band_gap_narrowing": {model: "slotboom", e1_ev, n0_cm3, c, apparent, source}. */
+static gboolean read_bgn(BmMaterialInput *in, JsonObject *o, const Field *f, const char *where,
+                         GError **error)
+{
+    static const char *const keys[] = { "model", "e1_ev", "n0_cm3", "c", "apparent", "source",
+                                        NULL };
+    bm_bgn_model *m = FIELD(&in->mat, f, bm_bgn_model);
+    memset(m, 0, sizeof *m);
+    g_autofree char *w = g_strdup_printf("%s: %s", where, f->key);
+    JsonObject *b = NULL;
+    const char *model = NULL;
+    if (!sub_object(o, f->key, where, &b, error) || !bm_json_only_keys(b, keys, w, error)
+        || !string_member(b, "model", w, &model, error))
+        return FALSE;
+    if (strcmp(model, bm_bgn_kind_name(BM_BGN_SLOTBOOM)))
+        return invalid(error, "%s: key \"model\" must be \"slotboom\" (got \"%.40s\")", w,
+                       model);
+    m->kind = BM_BGN_SLOTBOOM;
+    JsonNode *ap = json_object_get_member(b, "apparent");
+    if (!ap || !JSON_NODE_HOLDS_VALUE(ap) || json_node_get_value_type(ap) != G_TYPE_BOOLEAN)
+        return invalid(error, "%s: key \"apparent\" must be true (fitted with Boltzmann "
+                       "statistics) or false", w);
+    m->apparent = json_node_get_boolean(ap) ? 1 : 0;
+    bm_errbuf err = {0};
+    double probe;
+    if (!bm_json_number(b, "e1_ev", w, &m->e1_ev, error)
+        || !bm_json_number(b, "n0_cm3", w, &m->n0_cm3, error)
+        || !bm_json_number(b, "c", w, &m->c, error)
+        || !source_of(in, b, w, in->origin, &m->source, error))
+        return FALSE;
+    if (bm_bgn_value(m, 0.0, &probe, &err) != BM_OK) {
+        bm_error_from_core(error, &err, w);
+        return FALSE;
+    }
+    return TRUE;
+}
+
 static gboolean read_field(BmMaterialInput *in, JsonObject *o, const Field *f,
                            const char *where, GError **error)
 {
@@ -410,6 +452,7 @@ static gboolean read_field(BmMaterialInput *in, JsonObject *o, const Field *f,
         return read_sourced(in, o, f->key, where, TRUE, FIELD(&in->mat, f, bm_sourced), error);
     case F_LUTTINGER: return read_luttinger(in, o, f, where, error);
     case F_DOPANTS:   return read_dopants(in, o, f, where, error);
+    case F_BGN:       return read_bgn(in, o, f, where, error);
     }
     return FALSE;
 }
@@ -431,7 +474,8 @@ static gboolean read_object(BmMaterialInput *in, JsonObject *o, const char *wher
     m->name = "custom";
     m->direct_gap = -1;
     bm_sourced *none[] = { &m->heavy_hole_mass, &m->light_hole_mass, &m->split_off_mass,
-                           &m->split_off_ev };
+                           &m->split_off_ev, &m->relative_permittivity,
+                           &m->donor_ionisation_alpha, &m->acceptor_ionisation_alpha };
     for (size_t i = 0; i < G_N_ELEMENTS(none); i++)
         *none[i] = (bm_sourced){ NAN, NULL };
     m->luttinger[0] = m->luttinger[1] = m->luttinger[2] = NAN;
@@ -592,6 +636,20 @@ static void write_field(JsonObject *o, const bm_material *m, const Field *f)
             json_array_add_object_element(d, e);
         }
         json_object_set_array_member(o, f->key, d);
+        return;
+    }
+    case F_BGN: {
+        const bm_bgn_model *b = CFIELD(m, f, bm_bgn_model);
+        if (b->kind == BM_BGN_NONE)
+            return;
+        JsonObject *e = json_object_new();
+        json_object_set_string_member(e, "model", bm_bgn_kind_name(b->kind));
+        bm_json_set_number(e, "e1_ev", b->e1_ev);
+        bm_json_set_number(e, "n0_cm3", b->n0_cm3);
+        bm_json_set_number(e, "c", b->c);
+        json_object_set_boolean_member(e, "apparent", b->apparent != 0);
+        set_source(e, b->source);
+        json_object_set_object_member(o, f->key, e);
         return;
     }
     }

@@ -46,6 +46,13 @@ static const BmField response[] = {
     WITH_NAME("split_off_ev", "eV", "spin-orbit splitting {value, source}"),
     WITH_NAME("luttinger_parameters", NULL, "{value: [gamma1, gamma2, gamma3], source}"),
     WITH_NAME("dopants", NULL, "[{species, kind, ionization_ev, degeneracy, source}]"),
+    WITH_NAME("relative_permittivity", NULL, "static relative permittivity {value, source}"),
+    WITH_NAME("donor_ionization_lowering_ev_cm", "eV cm",
+              "Pearson-Bardeen alpha of the donors, E(N) = E0 - alpha N^(1/3) {value, source}"),
+    WITH_NAME("acceptor_ionization_lowering_ev_cm", "eV cm",
+              "Pearson-Bardeen alpha of the acceptors {value, source}"),
+    WITH_NAME("band_gap_narrowing", NULL,
+              "{model: slotboom, e1_ev, n0_cm3, c, apparent, source}"),
     { "derived", NULL, TRUE,
       "with \"name\": values computed from the material at temperature_k, skipped when the "
       "response is read back as a material" },
@@ -115,6 +122,24 @@ static JsonObject *derived(const bm_material *m, double t, double eg, double mdh
     json_object_set_int_member(v, "star_size", m->electron.star_size);
     bm_json_set_number(v, "valleys", m->electron.valleys);
     json_object_set_object_member(o, "conduction_valley", v);
+    static const struct { const char *key; bm_dopant_kind kind; } kinds[] = {
+        { "hydrogenic_donor", BM_DOPANT_DONOR }, { "hydrogenic_acceptor", BM_DOPANT_ACCEPTOR }
+    };
+    for (size_t i = 0; i < G_N_ELEMENTS(kinds); i++) {
+        bm_hydrogenic_info h;
+        bm_material_hydrogenic(m, kinds[i].kind, &h, NULL);
+        JsonObject *e = json_object_new();
+        bm_json_set_number(e, "mass_me", h.mass);
+        bm_json_set_number(e, "binding_ev", h.binding_ev);
+        bm_json_set_number(e, "bohr_radius_angstrom", h.bohr_radius_angstrom);
+        bm_json_set_number(e, "mott_density_cm3", h.mott_density_cm3);
+        g_autofree char *src = g_strdup_printf(
+            "E_H = 13.606 eV m / eps_r^2, a* = 0.529 A eps_r / m, Mott density (0.26 / a*)^3 "
+            "(Edwards & Sienko, Phys. Rev. B 17, 2575 (1978); from memory); mass: %s",
+            h.mass_source);
+        json_object_set_string_member(e, "source", src);
+        json_object_set_object_member(o, kinds[i].key, e);
+    }
     return o;
 }
 

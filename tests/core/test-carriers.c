@@ -7,6 +7,7 @@
 #include "bm-bandgap.h"
 #include "bm-carriers.h"
 #include "bm-drude.h"
+#include "bm-fermi.h"
 #include "bm-units.h"
 
 #define KT300 (BM_KB_EV * 300.0)
@@ -191,6 +192,269 @@ static void test_freeze_out_limits(void)
     g_assert_cmpint(bm_carriers_solve(&s, 0.01, &st, NULL), ==, BM_OK);
     g_assert_cmpint(st.regime, ==, BM_REGIME_FREEZE_OUT);
     g_assert_cmpfloat(fabs(st.fermi_level_ev - (1.12 - 0.045 / 2)), <, 1e-3);
+}
+
+/* ---- heavy doping: the model functions ---- */
+
+static void test_hydrogenic_impurity(void)
+{
+    double e, a, nm;
+    /* m = eps_r = 1: the hydrogen atom, Ry = 13.6057 eV and a0 = 0.529177 A
+     * (CODATA; GSL's 2006 set agrees to 1e-6), Mott density (0.26 / a0)^3 */
+    g_assert_cmpint(bm_hydrogenic_impurity(1.0, 1.0, &e, &a, &nm, NULL), ==, BM_OK);
+    g_assert_cmpfloat(rel(e, 13.6057), <, 1e-5);
+    g_assert_cmpfloat(rel(a, 0.529177), <, 1e-5);
+    g_assert_cmpfloat(rel(nm, pow(0.26 / 0.529177e-8, 3)), <, 3e-5);
+    /* scaling E_H ~ m / eps^2, a* ~ eps / m (identity) */
+    double e2, a2;
+    g_assert_cmpint(bm_hydrogenic_impurity(0.067, 12.9, &e2, &a2, NULL, NULL), ==, BM_OK);
+    g_assert_cmpfloat(rel(e2, e * 0.067 / (12.9 * 12.9)), <, 1e-12);
+    g_assert_cmpfloat(rel(a2, a * 12.9 / 0.067), <, 1e-12);
+    /* GaAs donor 5.5 meV hydrogenic against 5.8 meV measured for Si on a Ga site
+     * (Sze & Ng 2007 ionisation-energy chart; from memory): 10 % */
+    g_assert_cmpfloat(rel(e2, 0.0058), <, 0.10);
+    g_assert_cmpint(bm_hydrogenic_impurity(0.0, 12.9, &e2, NULL, NULL, NULL), ==, BM_EINVAL);
+    g_assert_cmpint(bm_hydrogenic_impurity(0.1, NAN, &e2, NULL, NULL, NULL), ==, BM_EINVAL);
+}
+
+static void test_ionisation_models(void)
+{
+    bm_ionisation_model pb = { BM_IONISATION_PEARSON_BARDEEN, 3.1e-8, 0.0 };
+    double e;
+    int full;
+    /* E(N) = E0 - alpha N^(1/3) (Pearson & Bardeen 1949, the form; identity):
+     * 0.045 - 3.1e-8 * 1e6 = 0.014 eV at 1e18 cm^-3 */
+    g_assert_cmpint(bm_ionisation_energy(&pb, 0.045, 1e18, &e, &full, NULL), ==, BM_OK);
+    g_assert_cmpfloat(fabs(e - 0.014), <, 1e-12);
+    g_assert_cmpint(full, ==, 0);
+    /* clamped at zero, fully ionised from (E0 / alpha)^3 = 3.06e18 on */
+    double nstar = pow(0.045 / 3.1e-8, 3);
+    g_assert_cmpint(bm_ionisation_energy(&pb, 0.045, nstar * 0.999, &e, &full, NULL), ==, BM_OK);
+    g_assert_cmpint(full, ==, 0);
+    g_assert_cmpfloat(e, >, 0.0);
+    g_assert_cmpint(bm_ionisation_energy(&pb, 0.045, nstar * 1.001, &e, &full, NULL), ==, BM_OK);
+    g_assert_cmpint(full, ==, 1);
+    g_assert_cmpfloat(e, ==, 0.0);
+    /* Mott: the level as given below the threshold, all ionised at and above */
+    bm_ionisation_model mott = { BM_IONISATION_MOTT, NAN, 1.7e16 };
+    g_assert_cmpint(bm_ionisation_energy(&mott, 0.0058, 1.69e16, &e, &full, NULL), ==, BM_OK);
+    g_assert_cmpint(full, ==, 0);
+    g_assert_cmpfloat(e, ==, 0.0058);
+    g_assert_cmpint(bm_ionisation_energy(&mott, 0.0058, 1.7e16, &e, &full, NULL), ==, BM_OK);
+    g_assert_cmpint(full, ==, 1);
+    bm_ionisation_model bad = { BM_IONISATION_PEARSON_BARDEEN, 0.0, 0.0 };
+    g_assert_cmpint(bm_ionisation_energy(&bad, 0.045, 1e18, &e, &full, NULL), ==, BM_EINVAL);
+    bad = (bm_ionisation_model){ BM_IONISATION_MOTT, NAN, -1.0 };
+    g_assert_cmpint(bm_ionisation_energy(&bad, 0.045, 1e18, &e, &full, NULL), ==, BM_EINVAL);
+}
+
+static const bm_bgn_model KLAASSEN = { BM_BGN_SLOTBOOM, 6.92e-3, 1.3e17, 0.5, 1, "test" };
+
+static void test_bgn_formula(void)
+{
+    /* dEg = E1 [ln(N/N0) + sqrt(ln(N/N0)^2 + C)] with E1 6.92 meV, N0 1.3e17 cm^-3,
+     * C 0.5 (Klaassen, Slotboom & de Graaff, Solid-State Electron. 35, 125 (1992);
+     * from memory), evaluated by hand with Python's math module: */
+    static const double n[] = { 1e16, 1e17, 1e18, 1e19, 1e20 };
+    static const double want[] = { 0.6621272244966e-3, 3.4035829641014e-3,
+                                   29.060563216632e-3, 60.500188095341e-3,
+                                   92.231809713115e-3 };
+    for (size_t i = 0; i < G_N_ELEMENTS(n); i++) {
+        double d;
+        g_assert_cmpint(bm_bgn_value(&KLAASSEN, n[i], &d, NULL), ==, BM_OK);
+        g_assert_cmpfloat(rel(d, want[i]), <, 1e-11);
+    }
+    double d;
+    g_assert_cmpint(bm_bgn_value(&KLAASSEN, 0.0, &d, NULL), ==, BM_OK);
+    g_assert_cmpfloat(d, ==, 0.0);
+    /* far below N0 the form tends to E1 C / (2 |ln(N/N0)|) > 0 (series; identity) */
+    g_assert_cmpint(bm_bgn_value(&KLAASSEN, 1.0, &d, NULL), ==, BM_OK);
+    double l = log(1.0 / 1.3e17);
+    g_assert_cmpfloat(rel(d, 6.92e-3 * 0.5 / (2.0 * fabs(l))), <, 1e-3);
+    bm_bgn_model bad = KLAASSEN;
+    bad.n0_cm3 = 0.0;
+    g_assert_cmpint(bm_bgn_value(&bad, 1e18, &d, NULL), ==, BM_EINVAL);
+}
+
+static void test_heavy_doping_solve(void)
+{
+    bm_semiconductor s = silicon();
+    bm_dopant as = { 1e20, 0.054, 2.0 };   /* As in Si (Sze & Ng chart; from memory) */
+    s.donors = &as;
+    s.ndonors = 1;
+    bm_carrier_state st;
+    /* single level: the exact solution of the one-level model leaves most donors
+     * neutral (regression figure, no outside source: n = 1.2e19 here) */
+    g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, NULL), ==, BM_OK);
+    g_assert_cmpfloat(st.ionised_fraction, <, 0.2);
+    g_assert_cmpint(st.donor_fully_ionised[0], ==, 0);
+    g_assert_false(bm_warnings_has(&st.warnings, BM_WARN_ABOVE_MOTT_DENSITY));
+    bm_warnings_clear(&st.warnings);
+    /* the same with a known Mott density: warned */
+    s.donor_ionisation.mott_density_cm3 = 3.7e18;
+    g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, NULL), ==, BM_OK);
+    g_assert_true(bm_warnings_has(&st.warnings, BM_WARN_ABOVE_MOTT_DENSITY));
+    bm_warnings_clear(&st.warnings);
+    /* Pearson-Bardeen: 0.054 - 3.1e-8 * (1e20)^(1/3) < 0, so every donor is
+     * ionised (the model's clamp) and n = N_D (neutrality; identity) */
+    s.donor_ionisation = (bm_ionisation_model){ BM_IONISATION_PEARSON_BARDEEN, 3.1e-8, 3.7e18 };
+    g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, NULL), ==, BM_OK);
+    g_assert_cmpint(st.donor_fully_ionised[0], ==, 1);
+    g_assert_cmpfloat(st.donor_ionisation_ev[0], ==, 0.0);
+    g_assert_cmpfloat(rel(st.n_cm3, 1e20), <, 1e-12);
+    g_assert_cmpfloat(rel(st.donors_ionised_cm3, 1e20), <, 1e-15);
+    g_assert_false(bm_warnings_has(&st.warnings, BM_WARN_ABOVE_MOTT_DENSITY));
+    g_assert_cmpint(st.regime, ==, BM_REGIME_DEGENERATE);   /* EF above Ec */
+    g_assert_cmpfloat(st.fermi_level_ev, >, st.effective_band_gap_ev);
+    bm_warnings_clear(&st.warnings);
+    /* at 1e17 the lowered level (0.054 - 0.0144 eV) still holds a few per cent */
+    as.density_cm3 = 1e17;
+    g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, NULL), ==, BM_OK);
+    g_assert_cmpfloat(fabs(st.donor_ionisation_ev[0] - (0.054 - 3.1e-8 * cbrt(1e17))), <, 1e-15);
+    g_assert_cmpfloat(st.ionised_fraction, >, 0.9);
+    g_assert_cmpfloat(st.ionised_fraction, <, 1.0);
+    bm_warnings_clear(&st.warnings);
+}
+
+static void test_bgn_solve(void)
+{
+    bm_semiconductor s = silicon();
+    bm_dopant d = { 1e20, 0.0, 2.0 };
+    s.donors = &d;
+    s.ndonors = 1;
+    s.donor_ionisation = (bm_ionisation_model){ BM_IONISATION_PEARSON_BARDEEN, 3.1e-8, 0.0 };
+    s.band_gap_narrowing = &KLAASSEN;
+    bm_carrier_state st;
+    g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, NULL), ==, BM_OK);
+    double kt = BM_KB_EV * 300.0;
+    /* An apparent narrowing is defined by n p = ni^2 exp(dEg_app / kT) (Klaassen et
+     * al. 1992; Slotboom & de Graaff 1976; from memory): the Fermi-Dirac solve with
+     * the corrected narrowing reproduces it (identity of the correction) */
+    g_assert_cmpfloat(rel(st.apparent_narrowing_ev, 92.231809713115e-3), <, 1e-11);
+    g_assert_cmpfloat(rel(st.n_cm3 * st.p_cm3,
+                          st.ni_cm3 * st.ni_cm3 * exp(st.apparent_narrowing_ev / kt)), <, 1e-6);
+    /* degenerate electrons: the real narrowing exceeds the apparent one by
+     * kT [F_1/2^-1(n/Nc) - ln(n/Nc)] > 0 */
+    double eta;
+    g_assert_cmpint(bm_fermi_dirac_half_inverse(st.n_cm3 / st.nc_cm3, &eta, NULL), ==, BM_OK);
+    g_assert_cmpfloat(fabs(st.band_gap_narrowing_ev - st.apparent_narrowing_ev
+                           - kt * (eta - log(st.n_cm3 / st.nc_cm3))), <, 1e-9);
+    g_assert_cmpfloat(st.band_gap_narrowing_ev, >, st.apparent_narrowing_ev);
+    g_assert_cmpfloat(rel(st.effective_band_gap_ev, 1.12 - st.band_gap_narrowing_ev), <, 1e-15);
+    /* nie = ni exp(dEg / 2kT) (identity) */
+    g_assert_cmpfloat(rel(st.nie_cm3, st.ni_cm3 * exp(st.band_gap_narrowing_ev / (2 * kt))),
+                      <, 1e-12);
+    bm_warnings_clear(&st.warnings);
+    /* Boltzmann statistics use the apparent narrowing as fitted: the same n p */
+    s.statistics = BM_BOLTZMANN;
+    g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, NULL), ==, BM_OK);
+    g_assert_cmpfloat(st.band_gap_narrowing_ev, ==, st.apparent_narrowing_ev);
+    g_assert_cmpfloat(rel(st.n_cm3 * st.p_cm3,
+                          st.ni_cm3 * st.ni_cm3 * exp(st.apparent_narrowing_ev / kt)), <, 1e-9);
+    bm_warnings_clear(&st.warnings);
+    /* non-degenerate doping: the correction vanishes as kT r / 2^(3/2), r = n / Nc
+     * (F_1/2(eta) = e^eta (1 - e^eta / 2^(3/2) + ...), series; identity) */
+    s.statistics = BM_FERMI_DIRAC;
+    d.density_cm3 = 1e15;
+    g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, NULL), ==, BM_OK);
+    g_assert_cmpfloat(rel(st.band_gap_narrowing_ev - st.apparent_narrowing_ev,
+                          kt * st.n_cm3 / st.nc_cm3 / pow(2.0, 1.5)), <, 1e-3);
+    bm_warnings_clear(&st.warnings);
+}
+
+/* Each regime boundary of bm-carriers.h, crossed both ways (the thresholds are
+ * the project's definitions: common practice, no source). */
+static bm_regime regime_of(bm_semiconductor *s, double t)
+{
+    bm_carrier_state st;
+    g_assert_cmpint(bm_carriers_solve(s, t, &st, NULL), ==, BM_OK);
+    bm_warnings_clear(&st.warnings);
+    return st.regime;
+}
+
+static void test_regime_boundaries(void)
+{
+    bm_semiconductor s = silicon();
+    bm_dopant d = { 1e16, 0.0, 2.0 }, a = { 0.0, 0.0, 4.0 };
+    s.donors = &d;
+    s.ndonors = 1;
+    s.acceptors = &a;
+    s.nacceptors = 1;
+    double kt = BM_KB_EV * 300.0;
+    bm_carrier_state st;
+
+    /* degenerate: EF = Ec - 3 kT when n = Nc F_1/2(-3); fully ionised donors
+     * (ionisation energy 0 but counted ionised by a Mott threshold) */
+    s.donor_ionisation = (bm_ionisation_model){ BM_IONISATION_MOTT, NAN, 1.0 };
+    double f3;
+    g_assert_cmpint(bm_fermi_dirac(0.5, -3.0, &f3, NULL), ==, BM_OK);
+    g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, NULL), ==, BM_OK);
+    double nc = st.nc_cm3;
+    bm_warnings_clear(&st.warnings);
+    d.density_cm3 = nc * f3 * 1.01;
+    g_assert_cmpint(regime_of(&s, 300.0), ==, BM_REGIME_DEGENERATE);
+    d.density_cm3 = nc * f3 * 0.99;
+    g_assert_cmpint(regime_of(&s, 300.0), ==, BM_REGIME_EXTRINSIC);
+
+    /* extrinsic / near-intrinsic / intrinsic: ni against N_net and 10 N_net
+     * (undoped-like gap changed to move ni; full ionisation) */
+    d.density_cm3 = 1e16;
+    s.band_gap_ev = 1.12;
+    g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, NULL), ==, BM_OK);
+    double lnncnv = log(st.nc_cm3 * st.nv_cm3);
+    bm_warnings_clear(&st.warnings);
+    /* gap for ni = x: Eg = kT (ln(Nc Nv) - 2 ln x) */
+    s.band_gap_ev = kt * (lnncnv - 2.0 * log(0.99e16));
+    g_assert_cmpint(regime_of(&s, 300.0), ==, BM_REGIME_EXTRINSIC);
+    s.band_gap_ev = kt * (lnncnv - 2.0 * log(1.01e16));
+    g_assert_cmpint(regime_of(&s, 300.0), ==, BM_REGIME_NEAR_INTRINSIC);
+    s.band_gap_ev = kt * (lnncnv - 2.0 * log(0.99e17));
+    g_assert_cmpint(regime_of(&s, 300.0), ==, BM_REGIME_NEAR_INTRINSIC);
+    s.band_gap_ev = kt * (lnncnv - 2.0 * log(1.01e17));
+    g_assert_cmpint(regime_of(&s, 300.0), ==, BM_REGIME_INTRINSIC);
+    s.band_gap_ev = 1.12;
+
+    /* freeze-out / partial / extrinsic: the ionised fraction crosses 0.5 and 0.9
+     * as the single level deepens (bisection on the ionisation energy) */
+    s.donor_ionisation = (bm_ionisation_model){ 0 };
+    for (int k = 0; k < 2; k++) {
+        double target = k == 0 ? 0.9 : 0.5, lo = 0.0, hi = 0.5;
+        for (int it = 0; it < 80; it++) {
+            d.ionisation_ev = 0.5 * (lo + hi);
+            g_assert_cmpint(bm_carriers_solve(&s, 300.0, &st, NULL), ==, BM_OK);
+            bm_warnings_clear(&st.warnings);
+            if (st.ionised_fraction > target)
+                lo = d.ionisation_ev;
+            else
+                hi = d.ionisation_ev;
+        }
+        d.ionisation_ev = lo * 0.999;
+        g_assert_cmpint(regime_of(&s, 300.0), ==, k == 0 ? BM_REGIME_EXTRINSIC
+                                                         : BM_REGIME_PARTIAL);
+        d.ionisation_ev = hi * 1.001;
+        g_assert_cmpint(regime_of(&s, 300.0), ==, k == 0 ? BM_REGIME_PARTIAL
+                                                         : BM_REGIME_FREEZE_OUT);
+    }
+    d.ionisation_ev = 0.045;
+
+    /* compensated: N_net against 0.1 N_tot (N_A = 0.9 N_D is the boundary),
+     * and exactly compensated Si at 77 K (not intrinsic: ni there is ~1e-20) */
+    a.density_cm3 = 0.905e16;   /* N_net 0.095e16 < 0.1905e16 */
+    a.ionisation_ev = 0.045;
+    g_assert_cmpint(regime_of(&s, 300.0), ==, BM_REGIME_COMPENSATED);
+    a.density_cm3 = 0.8e16;     /* N_net 0.2e16 > 0.18e16 */
+    g_assert_cmpint(regime_of(&s, 300.0), ==, BM_REGIME_EXTRINSIC);
+    a.density_cm3 = 1e16;
+    g_assert_cmpint(regime_of(&s, 77.0), ==, BM_REGIME_COMPENSATED);
+    /* ... and intrinsic once ni passes 0.1 N_tot (1000 K) */
+    g_assert_cmpint(regime_of(&s, 1000.0), ==, BM_REGIME_INTRINSIC);
+    /* undoped: intrinsic at any temperature */
+    d.density_cm3 = a.density_cm3 = 0.0;
+    g_assert_cmpint(regime_of(&s, 77.0), ==, BM_REGIME_INTRINSIC);
+    /* Si:P 1e16 at 600 K: ni = 4e15 < N_D, so extrinsic, not intrinsic (the
+     * textbook saturation range of Sze & Ng 2007 ch. 1; from memory) */
+    d.density_cm3 = 1e16;
+    g_assert_cmpint(regime_of(&s, 600.0), ==, BM_REGIME_EXTRINSIC);
 }
 
 static void test_degenerate_flag(void)
@@ -514,6 +778,12 @@ int main(int argc, char **argv)
     g_test_add_func("/carriers/fermi-level-at-band-edge", test_fermi_level_at_band_edge);
     g_test_add_func("/carriers/freeze-out-limits", test_freeze_out_limits);
     g_test_add_func("/carriers/degenerate-flag", test_degenerate_flag);
+    g_test_add_func("/carriers/hydrogenic-impurity", test_hydrogenic_impurity);
+    g_test_add_func("/carriers/ionisation-models", test_ionisation_models);
+    g_test_add_func("/carriers/band-gap-narrowing-formula", test_bgn_formula);
+    g_test_add_func("/carriers/heavy-doping-solve", test_heavy_doping_solve);
+    g_test_add_func("/carriers/band-gap-narrowing-solve", test_bgn_solve);
+    g_test_add_func("/carriers/regime-boundaries", test_regime_boundaries);
     g_test_add_func("/carriers/mass-hook", test_mass_hook);
     g_test_add_func("/carriers/mass-table", test_mass_table);
     g_test_add_func("/carriers/robustness-sweep", test_robustness_sweep);

@@ -333,6 +333,58 @@ static void test_dopant_lookup(void)
     g_assert_nonnull(strstr(err.message, "P, As, Sb"));
 }
 
+/* Hydrogenic impurities and Mott densities of the built-in sets. */
+static void test_hydrogenic(void)
+{
+    bm_hydrogenic_info h;
+    /* Si donors: mass (0.98 * 0.19^2)^(1/3) = 0.3283, eps_r 11.7 (Sze & Ng 2007;
+     * from memory): E_H = 13.606 * 0.3283 / 11.7^2 = 32.6 meV, a* = 18.9 A */
+    g_assert_cmpint(bm_material_hydrogenic(get("Si"), BM_DOPANT_DONOR, &h, NULL), ==, BM_OK);
+    g_assert_cmpfloat(fabs(h.mass - cbrt(0.98 * 0.19 * 0.19)), <, 1e-12);
+    g_assert_cmpfloat(fabs(h.binding_ev - 13.6057 * h.mass / (11.7 * 11.7)), <, 1e-6);
+    g_assert_cmpfloat(fabs(h.bohr_radius_angstrom - 0.529177 * 11.7 / h.mass), <, 1e-4);
+    /* Si:P metal-insulator transition measured at 3.74e18 cm^-3 (Rosenbaum,
+     * Andres, Thomas & Bhatt, Phys. Rev. Lett. 45, 1723 (1980); from memory): the
+     * hydrogenic estimate lies within a factor of 2 (see test-carrier-ops) */
+    g_assert_cmpfloat(h.mott_density_cm3, >, 3.74e18 / 2.0);
+    g_assert_cmpfloat(h.mott_density_cm3, <, 3.74e18 * 2.0);
+    /* GaAs donors: about 1e16 cm^-3 (REFERENCES, common practice; factor 3) */
+    g_assert_cmpint(bm_material_hydrogenic(get("GaAs"), BM_DOPANT_DONOR, &h, NULL), ==, BM_OK);
+    g_assert_cmpfloat(h.mott_density_cm3, >, 1e16 / 3.0);
+    g_assert_cmpfloat(h.mott_density_cm3, <, 1e16 * 3.0);
+    /* no permittivity (GaN here): NAN and a reason */
+    g_assert_cmpint(bm_material_hydrogenic(get("GaN"), BM_DOPANT_DONOR, &h, NULL), ==, BM_OK);
+    g_assert_true(isnan(h.mott_density_cm3));
+    g_assert_nonnull(strstr(h.mass_source, "permittivity"));
+    /* model choice: Si Pearson-Bardeen, GaAs Mott, GaN single level; a requested
+     * model without its parameter is refused */
+    bm_ionisation_model im;
+    bm_errbuf err = {0};
+    g_assert_cmpint(bm_material_ionisation_model(get("Si"), BM_DOPANT_DONOR, -1, &im, NULL),
+                    ==, BM_OK);
+    g_assert_cmpint(im.kind, ==, BM_IONISATION_PEARSON_BARDEEN);
+    g_assert_cmpfloat(im.alpha_ev_cm, ==, 3.1e-8);
+    g_assert_cmpint(bm_material_ionisation_model(get("GaAs"), BM_DOPANT_DONOR, -1, &im, NULL),
+                    ==, BM_OK);
+    g_assert_cmpint(im.kind, ==, BM_IONISATION_MOTT);
+    g_assert_cmpint(bm_material_ionisation_model(get("GaN"), BM_DOPANT_DONOR, -1, &im, NULL),
+                    ==, BM_OK);
+    g_assert_cmpint(im.kind, ==, BM_IONISATION_SINGLE_LEVEL);
+    g_assert_cmpint(bm_material_ionisation_model(get("GaAs"), BM_DOPANT_DONOR,
+                                                 BM_IONISATION_PEARSON_BARDEEN, &im, &err),
+                    ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "donor_ionization_lowering_ev_cm"));
+    /* every built-in value carries a source */
+    for (size_t i = 0; i < bm_material_count(); i++) {
+        const bm_material *m = bm_material_at(i);
+        g_assert_nonnull(m->relative_permittivity.source);
+        g_assert_nonnull(m->donor_ionisation_alpha.source);
+        g_assert_nonnull(m->acceptor_ionisation_alpha.source);
+        if (m->band_gap_narrowing.kind != BM_BGN_NONE)
+            g_assert_nonnull(m->band_gap_narrowing.source);
+    }
+}
+
 int main(int argc, char **argv)
 {
     bm_core_init();
@@ -347,5 +399,6 @@ int main(int argc, char **argv)
     g_test_add_func("/materials/hexagonal-axes", test_hexagonal_axes);
     g_test_add_func("/materials/derived-entries", test_derived_entries);
     g_test_add_func("/materials/dopant-lookup", test_dopant_lookup);
+    g_test_add_func("/materials/hydrogenic", test_hydrogenic);
     return g_test_run();
 }

@@ -123,15 +123,17 @@ static void test_silicon(void)
     /* n-Si, N_D = 1e16: Ec - EF = kT ln(Nc / N_D) = 0.2052 eV (textbook worked example,
      * Sze & Ng 2007 ch. 1; from memory). The example assumes full ionisation and
      * Nc = 2.8e19; P at 45 meV is 99.6 % ionised here: 1 meV tolerance. */
-    g_assert_cmpfloat(fabs(num(r, "band_gap_ev") - num(r, "fermi_level_ev") - 0.2052), <, 1e-3);
+    g_assert_cmpfloat(fabs(num(r, "effective_band_gap_ev") - num(r, "fermi_level_ev") - 0.2052),
+                      <, 1e-3);
     g_assert_cmpstr(json_object_get_string_member(r, "regime"), ==, "extrinsic");
     g_assert_cmpstr(json_object_get_string_member(r, "statistics"), ==, "boltzmann");
     /* charge neutrality n + N_A- = p + N_D+ (identity) */
     g_assert_cmpfloat(rel(num(r, "n_cm3"), num(r, "p_cm3") + num(r, "ionized_donors_cm3")),
                       <, 1e-10);
-    /* n p = ni^2 with Boltzmann statistics (mass-action law; identity) */
+    /* n p = nie^2 with Boltzmann statistics (mass-action law with the narrowed
+     * gap; identity) */
     g_assert_cmpfloat(rel(num(r, "n_cm3") * num(r, "p_cm3"),
-                          num(r, "ni_cm3") * num(r, "ni_cm3")), <, 1e-9);
+                          num(r, "nie_cm3") * num(r, "nie_cm3")), <, 1e-9);
     JsonArray *per = json_object_get_array_member(r, "ionized_donors_per_species_cm3");
     g_assert_cmpuint(json_array_get_length(per), ==, 1);
     JsonObject *d0 = json_array_get_object_element(json_object_get_array_member(r, "donors"), 0);
@@ -166,10 +168,135 @@ static void test_degenerate_warning(void)
     g_assert_cmpfloat(num(d0, "density_cm3"), ==, 5e19);
 }
 
+static gboolean has_code(JsonObject *r, const char *code)
+{
+    JsonArray *c = json_object_get_array_member(r, "warning_codes");
+    for (guint i = 0; i < json_array_get_length(c); i++)
+        if (strcmp(json_array_get_string_element(c, i), code) == 0)
+            return TRUE;
+    return FALSE;
+}
+
+#define SI_AS_1E20 "{\"material\": \"Si\", \"temperature_k\": 300, \"donors\": " \
+                   "[{\"species\": \"As\", \"density_cm3\": 1e20}]"
+#define GAAS_SI_1E17 "{\"material\": \"GaAs\", \"temperature_k\": 300, \"donors\": " \
+                     "[{\"species\": \"Si\", \"density_cm3\": 1e17}]"
+
+/* Heavy doping through the operation: the models on by default, off on request. */
+static void test_heavy_doping(void)
+{
+    /* Si:As 1e20 at 300 K, defaults: Pearson-Bardeen lowering (alpha 3.1e-8 eV cm,
+     * Pearson & Bardeen 1949; from memory) brings the 54 meV level to zero well below
+     * 1e20, so the donors are all ionised (practitioners count them ionised above the
+     * Mott density, about 4e18 cm^-3 in Si: REFERENCES, common practice) */
+    g_autoptr(JsonObject) on = op_call("carrier-statistics", SI_AS_1E20 "}");
+    g_assert_cmpstr(json_object_get_string_member(on, "donor_ionization_model"), ==,
+                    "pearson-bardeen");
+    g_assert_cmpfloat(num(on, "ionized_fraction"), >, 0.99);
+    g_assert_cmpfloat(rel(num(on, "n_cm3"), 1e20), <, 1e-9);
+    g_assert_cmpstr(json_object_get_string_member(on, "regime"), ==, "degenerate");
+    g_assert_false(has_code(on, "above-mott-density"));
+    JsonObject *d0 = json_array_get_object_element(json_object_get_array_member(on, "donors"), 0);
+    g_assert_true(json_object_get_boolean_member(d0, "fully_ionized"));
+    g_assert_cmpfloat(num(d0, "effective_ionization_ev"), ==, 0.0);
+    /* band-gap narrowing: Klaassen et al. 1992 (from memory) give 92.2 meV apparent
+     * at 1e20 (their formula, evaluated by hand); the Fermi-Dirac solve uses more */
+    g_assert_cmpstr(json_object_get_string_member(on, "band_gap_narrowing_model"), ==,
+                    "slotboom");
+    JsonObject *hd = json_object_get_object_member(on, "heavy_doping");
+    JsonObject *bg = json_object_get_object_member(hd, "band_gap_narrowing");
+    g_assert_cmpfloat(rel(num(bg, "apparent_narrowing_ev"), 92.231809713115e-3), <, 1e-9);
+    g_assert_true(json_object_get_boolean_member(bg, "fermi_dirac_corrected"));
+    g_assert_cmpfloat(num(on, "band_gap_narrowing_ev"), >, num(bg, "apparent_narrowing_ev"));
+    g_assert_cmpfloat(num(on, "nie_cm3"), >, num(on, "ni_cm3"));
+    g_assert_cmpfloat(fabs(num(on, "effective_band_gap_ev") - num(on, "band_gap_ev")
+                           + num(on, "band_gap_narrowing_ev")), <, 1e-15);
+    g_assert_cmpfloat(fabs(num(on, "fermi_level_undoped_reference_ev") - num(on, "fermi_level_ev")
+                           - 0.5 * num(on, "band_gap_narrowing_ev")), <, 1e-15);
+    /* Si:P Mott density: measured 3.74e18 cm^-3 (Rosenbaum, Andres, Thomas & Bhatt,
+     * Phys. Rev. Lett. 45, 1723 (1980); from memory); the hydrogenic estimate with
+     * an isotropic valley mass and the constant 0.26 is good to a factor of 2 (the
+     * scatter of N_c^(1/3) a* about 0.26 in Edwards & Sienko 1978 is about 25 %,
+     * cubed: a factor of 2; from memory) */
+    double nm = num(on, "donor_mott_density_cm3");
+    g_assert_cmpfloat(nm, >, 3.74e18 / 2.0);
+    g_assert_cmpfloat(nm, <, 3.74e18 * 2.0);
+
+    /* models off: the single-level numbers (regression, exact solution of that
+     * model: n = 1.1555e19, 12 % ionised, EF 19 meV below Ec) and a warning */
+    g_autoptr(JsonObject) off = op_call("carrier-statistics", SI_AS_1E20
+        ", \"ionization_model\": \"single-level\", \"band_gap_narrowing\": \"none\"}");
+    g_assert_cmpfloat(rel(num(off, "n_cm3"), 1.1555186e19), <, 1e-6);
+    g_assert_cmpfloat(fabs(num(off, "ionized_fraction") - 0.11555), <, 1e-4);
+    g_assert_cmpfloat(fabs(num(off, "band_gap_ev") - num(off, "fermi_level_ev") - 0.0193), <,
+                      1e-3);
+    g_assert_cmpfloat(num(off, "band_gap_narrowing_ev"), ==, 0.0);
+    g_assert_cmpstr(json_object_get_string_member(off, "band_gap_narrowing_model"), ==, "none");
+    g_assert_cmpstr(json_object_get_string_member(off, "donor_ionization_model"), ==,
+                    "single-level");
+    g_assert_true(has_code(off, "above-mott-density"));
+    /* within 3 kT of Ec: degenerate, not freeze-out */
+    g_assert_cmpstr(json_object_get_string_member(off, "regime"), ==, "degenerate");
+
+    /* GaAs:Si 1e17: no Pearson-Bardeen alpha for GaAs, so the Mott threshold:
+     * hydrogenic 1.7e16 cm^-3 (m 0.067, eps_r 12.9), against about 1e16 (REFERENCES,
+     * common practice, order of magnitude: factor 3) */
+    g_autoptr(JsonObject) g = op_call("carrier-statistics", GAAS_SI_1E17 "}");
+    g_assert_cmpstr(json_object_get_string_member(g, "donor_ionization_model"), ==, "mott");
+    g_assert_cmpfloat(num(g, "ionized_fraction"), >, 0.999);
+    g_assert_cmpfloat(num(g, "donor_mott_density_cm3"), >, 1e16 / 3.0);
+    g_assert_cmpfloat(num(g, "donor_mott_density_cm3"), <, 1e16 * 3.0);
+    g_assert_cmpstr(json_object_get_string_member(g, "band_gap_narrowing_model"), ==, "none");
+    g_autoptr(JsonObject) g0 = op_call("carrier-statistics", GAAS_SI_1E17
+        ", \"ionization_model\": \"single-level\"}");
+    /* the single level of 5.8 meV: 70 % (regression, exact solution of that model) */
+    g_assert_cmpfloat(fabs(num(g0, "ionized_fraction") - 0.7009), <, 1e-3);
+    g_assert_true(has_code(g0, "above-mott-density"));
+    /* below the Mott density the Mott model changes nothing */
+    g_autoptr(JsonObject) lo = op_call("carrier-statistics", "{\"material\": \"GaAs\", "
+        "\"temperature_k\": 300, \"donors\": [{\"species\": \"Si\", \"density_cm3\": 1e15}]}");
+    g_autoptr(JsonObject) lo0 = op_call("carrier-statistics", "{\"material\": \"GaAs\", "
+        "\"temperature_k\": 300, \"donors\": [{\"species\": \"Si\", \"density_cm3\": 1e15}], "
+        "\"ionization_model\": \"single-level\"}");
+    g_assert_cmpfloat(num(lo, "n_cm3"), ==, num(lo0, "n_cm3"));
+    g_assert_false(has_code(lo0, "above-mott-density"));
+    /* a model the material has no parameter for is refused, naming the key */
+    op_expect_invalid("carrier-statistics", GAAS_SI_1E17
+                      ", \"ionization_model\": \"pearson-bardeen\"}", "ionization_model");
+    op_expect_invalid("carrier-statistics", GAAS_SI_1E17
+                      ", \"ionization_model\": \"sharp\"}", "ionization_model");
+    op_expect_invalid("carrier-statistics", "{\"material\": {\"band_gap_ev\": 1, "
+                      "\"electron_dos_mass_me\": 0.1, \"statistics_hole_dos_mass_me\": 0.5}, "
+                      "\"temperature_k\": 300, \"ionization_model\": \"mott\"}",
+                      "relative_permittivity");
+    /* bad narrowing sets in a material object name the key at fault */
+    op_expect_invalid("carrier-statistics", "{\"material\": {\"band_gap_ev\": 1, "
+                      "\"electron_dos_mass_me\": 0.1, \"statistics_hole_dos_mass_me\": 0.5, "
+                      "\"band_gap_narrowing\": {\"model\": \"other\"}}, \"temperature_k\": 300}",
+                      "band_gap_narrowing: key \"model\"");
+    op_expect_invalid("carrier-statistics", "{\"material\": {\"band_gap_ev\": 1, "
+                      "\"electron_dos_mass_me\": 0.1, \"statistics_hole_dos_mass_me\": 0.5, "
+                      "\"band_gap_narrowing\": {\"model\": \"slotboom\", \"e1_ev\": 0.007, "
+                      "\"n0_cm3\": 1e17, \"c\": 0.5}}, \"temperature_k\": 300}",
+                      "\"apparent\"");
+    op_expect_invalid("carrier-statistics", "{\"material\": {\"band_gap_ev\": 1, "
+                      "\"electron_dos_mass_me\": 0.1, \"statistics_hole_dos_mass_me\": 0.5, "
+                      "\"band_gap_narrowing\": {\"model\": \"slotboom\", \"e1_ev\": 0.007, "
+                      "\"n0_cm3\": -1, \"c\": 0.5, \"apparent\": true}}, \"temperature_k\": 300}",
+                      "N0");
+    /* a material object without heavy-doping data: single level, no narrowing */
+    g_autoptr(JsonObject) bare = op_call("carrier-statistics", "{\"material\": {\"band_gap_ev\": "
+        "1, \"electron_dos_mass_me\": 0.1, \"statistics_hole_dos_mass_me\": 0.5}, "
+        "\"temperature_k\": 300}");
+    g_assert_cmpstr(json_object_get_string_member(bare, "donor_ionization_model"), ==,
+                    "single-level");
+    g_assert_true(JSON_NODE_HOLDS_NULL(json_object_get_member(bare, "donor_mott_density_cm3")));
+}
+
 static void test_points(void)
 {
     g_autofree char *req = g_strdup_printf("{\"material\": \"Si\", \"temperatures_k\": "
-                                           "[50, 300, 700], %s}", P_SI);
+                                           "[50, 300, 900], %s}", P_SI);
     g_autoptr(JsonObject) r = op_call("carrier-statistics", req);
     JsonArray *pts = json_object_get_array_member(r, "points");
     g_assert_cmpuint(json_array_get_length(pts), ==, 3);
@@ -177,12 +304,13 @@ static void test_points(void)
     JsonObject *room = json_array_get_object_element(pts, 1);
     JsonObject *hot = json_array_get_object_element(pts, 2);
     /* the three regimes of a doped semiconductor with temperature (freeze-out,
-     * extrinsic, intrinsic: Sze & Ng 2007 ch. 1 figure of n against 1000/T; from memory) */
+     * extrinsic, intrinsic: Sze & Ng 2007 ch. 1 figure of n against 1000/T; from memory;
+     * at 900 K ni = 4.7e17 > 10 N_D, at 700 K ni = 3.1e16 is only "near-intrinsic") */
     g_assert_cmpstr(json_object_get_string_member(cold, "regime"), ==, "freeze-out");
     g_assert_cmpstr(json_object_get_string_member(room, "regime"), ==, "extrinsic");
     g_assert_cmpstr(json_object_get_string_member(hot, "regime"), ==, "intrinsic");
     /* Nc scales as T^(3/2) at fixed mass (identity) */
-    g_assert_cmpfloat(rel(num(hot, "nc_cm3") / num(room, "nc_cm3"), pow(700.0 / 300.0, 1.5)),
+    g_assert_cmpfloat(rel(num(hot, "nc_cm3") / num(room, "nc_cm3"), pow(900.0 / 300.0, 1.5)),
                       <, 1e-12);
     /* each row carries the single-temperature keys */
     g_autofree char *one = g_strdup_printf("{\"material\": \"Si\", \"temperature_k\": 300, %s}",
@@ -229,6 +357,9 @@ static void test_material_file(void)
         "0.1173515e-3, 0.1263218e-5, 0.3025581e-8], \"fit_denominator\": [0.4683382e-2, "
         "0.2286895e-3, 0.7469271e-6, 0.1727481e-8]},"
         " \"varshni\": {\"eg0_ev\": 1.170, \"alpha_ev_per_k\": 4.73e-4, \"beta_k\": 636},"
+        " \"relative_permittivity\": 11.7, \"donor_ionization_lowering_ev_cm\": 3.1e-8,"
+        " \"acceptor_ionization_lowering_ev_cm\": 3.1e-8, \"band_gap_narrowing\": {\"model\":"
+        " \"slotboom\", \"e1_ev\": 6.92e-3, \"n0_cm3\": 1.3e17, \"c\": 0.5, \"apparent\": true},"
         " \"dopants\": [{\"species\": \"P\", \"kind\": \"donor\", \"ionization_ev\": 0.045}]}";
     g_assert_true(g_file_set_contents(path, doc, -1, NULL));
     g_autofree char *req = g_strdup_printf("{\"material\": \"%s\", \"temperature_k\": 300, %s}",
@@ -456,5 +587,6 @@ int main(int argc, char **argv)
     g_test_add_func("/carrier-ops/sheet-density", test_sheet_density);
     g_test_add_func("/carrier-ops/drude", test_drude);
     g_test_add_func("/carrier-ops/materials", test_materials);
+    g_test_add_func("/carrier-ops/heavy-doping", test_heavy_doping);
     return g_test_run();
 }

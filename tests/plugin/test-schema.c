@@ -65,6 +65,10 @@ static const Case cases[] = {
     { "drude", NULL, "{\"mass_me\": 0.26, \"scattering_time_s\": 1e-13}" },
     { "materials", NULL, "{}" },
     { "materials", NULL, "{\"name\": \"GaAs\"}" },
+    { "materials", NULL, "{\"name\": \"Si\"}" },
+    { "carrier-statistics", NULL, "{\"material\": \"Si\", \"temperatures_k\": [300, 600], "
+      "\"donors\": [{\"species\": \"As\", \"density_cm3\": 1e20}], "
+      "\"ionization_model\": \"single-level\", \"band_gap_narrowing\": \"none\"}" },
 };
 
 static gboolean declared(const BmOperation *op, const char *key)
