@@ -8,6 +8,8 @@
 
 #include <spglib.h>
 
+#include "bm-linalg.h"
+
 bm_status bm_crystal_rotations(double lattice[3][3], const double (*positions)[3],
                                const int *types, size_t natoms, double symprec,
                                int rotations[BM_CRYSTAL_MAX_ROTATIONS][3][3], size_t *nrot,
@@ -74,4 +76,39 @@ double bm_crystal_nearest_neighbour(double lattice[3][3], const double (*positio
                         best = fmin(best, sqrt(c[0] * c[0] + c[1] * c[1] + c[2] * c[2]));
                     }
     return best;
+}
+
+bm_status bm_lattice_rotations_cartesian(const double recip[3][3],
+                                         double rot[BM_CRYSTAL_MAX_ROTATIONS][3][3],
+                                         size_t *nrot, bm_errbuf *err)
+{
+    *nrot = 0;
+    double b[3][3], a[3][3], at[3][3], ainvt[3][3];
+    memcpy(b, recip, sizeof b);
+    /* the direct lattice: A = 2 pi B^-T, the same map as B from A */
+    if (bm_reciprocal3(b, a) != 0)
+        return bm_fail(err, BM_EINVAL, "lattice symmetry: singular reciprocal vectors");
+    /* one atom at the origin: the space group of the lattice itself */
+    double origin[1][3] = { { 0, 0, 0 } };
+    int types[1] = { 1 }, w[BM_CRYSTAL_MAX_ROTATIONS][3][3];
+    double scale = fmax(bm_norm3(a[0]), fmax(bm_norm3(a[1]), bm_norm3(a[2])));
+    size_t n;
+    bm_status st = bm_crystal_rotations(a, (const double (*)[3])origin, types, 1,
+                                        1e-5 * scale, w, &n, err);
+    if (st != BM_OK)
+        return st;
+    /* x = A^T x_f, x_f' = W x_f: R = A^T W A^-T on Cartesian vectors */
+    bm_transpose3(a, at);
+    if (bm_inv3(at, ainvt) != 0)
+        return bm_fail(err, BM_EINVAL, "lattice symmetry: singular lattice");
+    for (size_t o = 0; o < n; o++) {
+        double wd[3][3], t1[3][3];
+        for (int i = 0; i < 3; i++)
+            for (int j = 0; j < 3; j++)
+                wd[i][j] = w[o][i][j];
+        bm_matmul3(at, wd, t1);
+        bm_matmul3(t1, ainvt, rot[o]);
+    }
+    *nrot = n;
+    return BM_OK;
 }

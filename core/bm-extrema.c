@@ -8,6 +8,7 @@
 #include <string.h>
 
 #include "bm-bandfit.h"
+#include "bm-crystal.h"
 #include "bm-linalg.h"
 #include "bm-quadric.h"
 #include "bm-spectral.h"
@@ -1040,6 +1041,139 @@ static int by_energy(const void *a, const void *b)
     return (ea > eb) - (ea < eb);
 }
 
+/* Snaps a refined extremum onto the symmetry element it lies on. The
+ * rotations R of the lattice that map k onto itself (modulo a reciprocal
+ * vector) within tol form its site group; the average of R k - G over them is
+ * the nearest point they fix exactly. The tensor is averaged over the same
+ * rotations, but only where that changes no mass by more than twice its
+ * error: a crystal of lower symmetry than its lattice keeps its own tensor
+ * (and its k). */
+static void snap_to_symmetry(grid_ctx *c, const double rot[][3][3], size_t nrot,
+                             bm_mass_tensor *t)
+{
+    if (t->degenerate || t->divergent || c->dims != 3 || !isfinite(t->k_error))
+        return;
+    double h = INFINITY;
+    for (int a = 0; a < 3; a++)
+        h = fmin(h, bm_norm3(c->g->recip[a]) / (double)c->g->mesh[a]);
+    /* within twice the error of k, at least the Newton refinement's own
+     * resolution (1e-6 of a mesh step), never beyond a quarter of a step */
+    double tol = fmin(fmax(2.0 * t->k_error, 1e-6 * h), 0.25 * h);
+    double ksum[3] = { 0, 0, 0 }, msum[3][3] = { { 0 } };
+    int nsite = 0;
+    for (size_t o = 0; o < nrot; o++) {
+        double rk[3], d[3], fr[3], gk[3];
+        for (int i = 0; i < 3; i++)
+            rk[i] = bm_dot3(rot[o][i], t->k);
+        for (int i = 0; i < 3; i++)
+            d[i] = rk[i] - t->k[i];
+        for (int j = 0; j < 3; j++)
+            fr[j] = nearbyint(d[0] * c->binv[0][j] + d[1] * c->binv[1][j] + d[2] * c->binv[2][j]);
+        for (int i = 0; i < 3; i++)
+            gk[i] = fr[0] * c->g->recip[0][i] + fr[1] * c->g->recip[1][i] + fr[2] * c->g->recip[2][i];
+        double off[3] = { d[0] - gk[0], d[1] - gk[1], d[2] - gk[2] };
+        if (bm_norm3(off) > tol)
+            continue;
+        nsite++;
+        for (int i = 0; i < 3; i++)
+            ksum[i] += rk[i] - gk[i];
+        /* R M R^T */
+        for (int i = 0; i < 3; i++)
+            for (int j = 0; j < 3; j++) {
+                double v = 0.0;
+                for (int a = 0; a < 3; a++)
+                    for (int b = 0; b < 3; b++)
+                        v += rot[o][i][a] * t->inv_mass[a][b] * rot[o][j][b];
+                msum[i][j] += v;
+            }
+    }
+    if (nsite < 2)
+        return;   /* a general point: nothing to snap to */
+    double ms[3][3], ev[3], vec[3][3], ks[3];
+    for (int i = 0; i < 3; i++) {
+        ks[i] = ksum[i] / nsite;
+        for (int j = 0; j < 3; j++)
+            ms[i][j] = msum[i][j] / nsite;
+    }
+    double work[3][3];
+    memcpy(work, ms, sizeof work);
+    if (bm_symeig(work, 3, ev, vec) != 0)
+        return;
+    /* order by decreasing |curvature| (increasing |m|), as finish_tensor does */
+    int order[3] = { 0, 1, 2 };
+    for (int a = 0; a < 3; a++)
+        for (int b = a + 1; b < 3; b++)
+            if (fabs(ev[order[b]]) > fabs(ev[order[a]])) {
+                int tmp = order[a];
+                order[a] = order[b];
+                order[b] = tmp;
+            }
+    for (int m = 0; m < 3; m++) {
+        double mm = 1.0 / ev[order[m]];
+        double allowed = 2.0 * (isfinite(t->mass_errors[m]) ? t->mass_errors[m] : 0.0)
+                       + 1e-9 * fabs(t->masses[m]);
+        if (!(fabs(mm - t->masses[m]) <= allowed) || (mm > 0) != (t->masses[m] > 0))
+            return;   /* the tensor breaks the site symmetry beyond its errors */
+    }
+    double dk[3] = { ks[0] - t->k[0], ks[1] - t->k[1], ks[2] - t->k[2] };
+    t->snap_shift = bm_norm3(dk);
+    memcpy(t->k, ks, sizeof ks);
+    for (int j = 0; j < 3; j++)
+        t->k_frac[j] = ks[0] * c->binv[0][j] + ks[1] * c->binv[1][j] + ks[2] * c->binv[2][j];
+    memcpy(t->inv_mass, ms, sizeof ms);
+    for (int m = 0; m < 3; m++) {
+        t->masses[m] = 1.0 / ev[order[m]];
+        memcpy(t->axes[m], vec[order[m]], sizeof t->axes[m]);
+    }
+    t->symmetry_snapped = 1;
+    t->site_rotations = nsite;
+}
+
+/* 1 when a and b are images of one point (a reciprocal vector apart within tol). */
+static int same_point(grid_ctx *c, const double a[3], const double b[3], double tol)
+{
+    double d[3] = { a[0] - b[0], a[1] - b[1], a[2] - b[2] }, fr[3], off[3];
+    for (int j = 0; j < 3; j++)
+        fr[j] = nearbyint(d[0] * c->binv[0][j] + d[1] * c->binv[1][j] + d[2] * c->binv[2][j]);
+    for (int i = 0; i < 3; i++)
+        off[i] = d[i] - (fr[0] * c->g->recip[0][i] + fr[1] * c->g->recip[1][i]
+                         + fr[2] * c->g->recip[2][i]);
+    return bm_norm3(off) <= tol;
+}
+
+/* Snaps every refined extremum (see snap_to_symmetry) and merges the images
+ * of one extremum that separate refinements reached, keeping the first. */
+static void snap_and_merge(grid_ctx *c, bm_mass_tensor *res, size_t *nres)
+{
+    double rot[BM_CRYSTAL_MAX_ROTATIONS][3][3];
+    size_t nrot = 0;
+    bm_errbuf err;
+    if (c->dims == 3 && bm_lattice_rotations_cartesian(c->g->recip, rot, &nrot, &err) != BM_OK)
+        nrot = 0;
+    for (size_t i = 0; i < *nres; i++)
+        snap_to_symmetry(c, (const double (*)[3][3])rot, nrot, &res[i]);
+    size_t keep = 0;
+    for (size_t i = 0; i < *nres; i++) {
+        int dup = 0;
+        for (size_t j = 0; j < keep && !dup; j++) {
+            double ei = isfinite(res[i].k_error) ? res[i].k_error : 0.0;
+            double ej = isfinite(res[j].k_error) ? res[j].k_error : 0.0;
+            double tol = fmax(2.0 * (ei + ej), 1e-7);
+            dup = res[i].kind == res[j].kind && same_point(c, res[i].k, res[j].k, tol)
+               && fabs(res[i].energy_ev - res[j].energy_ev) <= c->degen;
+        }
+        if (dup) {
+            bm_warnings_clear(&res[i].warnings);
+            bm_warnings_clear(&res[i].kp.warnings);
+            continue;
+        }
+        if (keep != i)
+            res[keep] = res[i];
+        keep++;
+    }
+    *nres = keep;
+}
+
 bm_status bm_grid_mass_tensors(const bm_grid *g, size_t band, bm_search which,
                                const double *k_at, const bm_fit_options *opt,
                                bm_mass_tensor **out, size_t *n_out, bm_errbuf *err)
@@ -1156,6 +1290,8 @@ bm_status bm_grid_mass_tensors(const bm_grid *g, size_t band, bm_search which,
                 nres++;
         }
         free(cl);
+        if (s == BM_OK)
+            snap_and_merge(&c, res, &nres);
         if (s == BM_OK && nres > 1)
             qsort(res, nres, sizeof *res, by_energy);
     }

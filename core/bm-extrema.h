@@ -67,6 +67,11 @@ typedef struct {
         double mass;          /* m_e, signed: hbar^2 / (d2E/ds2) at the extremum */
         double error;         /* m_e: the quartic correction between the two steps */
     } directional[BM_DIRECTIONAL_MAX];
+    int symmetry_snapped;     /* 1: k lay within its error of a point the lattice's symmetry
+                                 fixes and was moved there, the tensor symmetrised over
+                                 the rotations that fix it */
+    double snap_shift;        /* how far k moved, 1/Angstrom (0 when not snapped) */
+    int site_rotations;       /* lattice rotations fixing the snapped k (0: not snapped) */
     bm_kp_fit kp;             /* a degenerate extremum of a cubic crystal: the k.p fit of
                                  the touching bands (kp.model BM_KP_NONE otherwise) */
     bm_warnings warnings;

@@ -75,7 +75,10 @@ static const BmField response[] = {
       "refinement_stencil (with \"stencil\": {kind (principal-axes, or directional at a "
       "degenerate extremum), step_inv_angstrom, k_inv_angstrom, k_fractional (null for a "
       "table)}), directional_masses (a degenerate extremum of a table: [{direction, "
-      "mass_me, error_me}] along the lines of samples through it), degenerate_kp_fit (a "
+      "mass_me, error_me}] along the lines of samples through it), symmetry_snap (a grid "
+      "extremum within its k error of a point that rotations of the lattice fix: moved "
+      "there, its tensor averaged over those rotations: {k_shift_inv_angstrom, "
+      "site_rotations}), degenerate_kp_fit (a "
       "degenerate extremum of three or four touching bands of a cubic crystal: model "
       "(threefold-no-spin-orbit: L, M, N; fourfold-luttinger), bands, energy_ev, "
       "fit_rms_ev, points, radius_inv_angstrom, quartic_terms, lmn_hbar2_over_2me "
@@ -219,6 +222,12 @@ JsonObject *bm_mass_tensor_object(const bm_mass_tensor *t, gboolean fractional)
             json_array_add_object_element(da, d);
         }
         json_object_set_array_member(o, "directional_masses", da);
+    }
+    if (t->symmetry_snapped) {
+        JsonObject *sn = json_object_new();
+        bm_json_set_number(sn, "k_shift_inv_angstrom", t->snap_shift);
+        json_object_set_int_member(sn, "site_rotations", t->site_rotations);
+        json_object_set_object_member(o, "symmetry_snap", sn);
     }
     if (t->kp.model != BM_KP_NONE)
         json_object_set_object_member(o, "degenerate_kp_fit", kp_fit_object(&t->kp));

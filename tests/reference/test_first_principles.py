@@ -95,6 +95,27 @@ class ConductionMinimum(unittest.TestCase):
         dmd = md * (dml / ml + 2 * trans[0][1] / trans[0][0]) / 3
         self.assertLess(abs(r['dos_mass_me'] - md), dmd)
 
+    def test_valleys_snapped_to_axes(self):
+        # Every Delta minimum of the whole band (extremum all) lies on a
+        # Gamma-X axis, fixed by the 8 rotations of C4v (common practice, no
+        # source): snapped there, its longitudinal axis exactly along the cube
+        # axis, and no minimum reported twice (images merged)
+        for n in (24, 32):
+            ext = [e for e in mass_tensor(n, 'c1', 'all')['extrema']
+                   if e['kind'] == 'minimum' and abs(e['energy_ev'] - REF['conduction_minimum_ev']) < 0.05]
+            with self.subTest(mesh=n):
+                self.assertGreaterEqual(len(ext), 1)
+                keys = set()
+                for e in ext:
+                    k = e['k_inv_angstrom']
+                    self.assertEqual(e['symmetry_snap']['site_rotations'], 8)
+                    self.assertEqual(sorted(abs(c) < 1e-12 for c in k), [False, True, True])
+                    along = max(range(3), key=lambda i: abs(k[i]))
+                    axis = e['principal_axes'][2]     # the heaviest: longitudinal
+                    self.assertAlmostEqual(abs(axis[along]), 1.0, places=12)
+                    keys.add(tuple(round(c, 6) for c in k))
+                self.assertEqual(len(keys), len(ext))
+
     def test_coarse_mesh_says_unconverged(self):
         # 12^3 cannot resolve the valley: the answer must say so
         e = mass_tensor(12, 'c1', 'minimum')['extrema'][0]
