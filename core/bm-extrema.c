@@ -1141,6 +1141,44 @@ static int same_point(grid_ctx *c, const double a[3], const double b[3], double 
     return bm_norm3(off) <= tol;
 }
 
+/* Extrema (sorted by energy) that rotations of the lattice map onto each
+ * other are one star and should agree; where the kinds differ (an interpolant that breaks the
+ * symmetry: three L points minima and the fourth a saddle), none of them is
+ * asserted. A crystal of lower symmetry than its lattice can differ for real:
+ * the warning says so. */
+static void check_stars(grid_ctx *c, const double rot[][3][3], size_t nrot,
+                        bm_mass_tensor *res, size_t n)
+{
+    for (size_t i = 0; i < n; i++) {
+        int clash = 0;
+        size_t lo = i;
+        while (lo > 0 && res[i].energy_ev - res[lo - 1].energy_ev <= c->degen)
+            lo--;
+        for (size_t j = lo; j < n && !clash
+             && res[j].energy_ev - res[i].energy_ev <= c->degen; j++) {
+            if (j == i || res[j].kind == res[i].kind || res[i].degenerate || res[j].degenerate)
+                continue;
+            double ei = isfinite(res[i].k_error) ? res[i].k_error : 0.0;
+            double ej = isfinite(res[j].k_error) ? res[j].k_error : 0.0;
+            double tol = fmax(2.0 * (ei + ej), 1e-7);
+            for (size_t o = 0; o < nrot && !clash; o++) {
+                double rk[3];
+                for (int a = 0; a < 3; a++)
+                    rk[a] = bm_dot3(rot[o][a], res[i].k);
+                clash = same_point(c, rk, res[j].k, tol);
+            }
+        }
+        if (clash)
+            res[i].converged = 0;
+        if (clash && !bm_warnings_has(&res[i].warnings, BM_WARN_KIND_UNCERTAIN))
+            bm_warn(&res[i].warnings, BM_WARN_KIND_UNCERTAIN, "the kind of this point is not "
+                    "certain: a point that a rotation of the lattice maps it onto, at the same "
+                    "energy, came out as another kind (the band interpolant breaks the "
+                    "symmetry here, unless the crystal has less symmetry than its lattice); a "
+                    "finer mesh or a refinement stencil would settle it");
+    }
+}
+
 /* Snaps every refined extremum (see snap_to_symmetry) and merges the images
  * of one extremum that separate refinements reached, keeping the first. */
 static void snap_and_merge(grid_ctx *c, bm_mass_tensor *res, size_t *nres)
@@ -1152,10 +1190,15 @@ static void snap_and_merge(grid_ctx *c, bm_mass_tensor *res, size_t *nres)
         nrot = 0;
     for (size_t i = 0; i < *nres; i++)
         snap_to_symmetry(c, (const double (*)[3][3])rot, nrot, &res[i]);
+    /* sorted by energy, only neighbours within the degeneracy tolerance can
+     * be images of one point or members of one star: linear in practice */
+    if (*nres > 1)
+        qsort(res, *nres, sizeof *res, by_energy);
     size_t keep = 0;
     for (size_t i = 0; i < *nres; i++) {
         int dup = 0;
-        for (size_t j = 0; j < keep && !dup; j++) {
+        for (size_t j = keep; j-- > 0 && !dup
+             && res[i].energy_ev - res[j].energy_ev <= c->degen;) {
             double ei = isfinite(res[i].k_error) ? res[i].k_error : 0.0;
             double ej = isfinite(res[j].k_error) ? res[j].k_error : 0.0;
             double tol = fmax(2.0 * (ei + ej), 1e-7);
@@ -1172,6 +1215,7 @@ static void snap_and_merge(grid_ctx *c, bm_mass_tensor *res, size_t *nres)
         keep++;
     }
     *nres = keep;
+    check_stars(c, (const double (*)[3][3])rot, nrot, res, keep);
 }
 
 bm_status bm_grid_mass_tensors(const bm_grid *g, size_t band, bm_search which,

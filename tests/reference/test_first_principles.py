@@ -116,6 +116,21 @@ class ConductionMinimum(unittest.TestCase):
                     keys.add(tuple(round(c, 6) for c in k))
                 self.assertEqual(len(keys), len(ext))
 
+    def test_l_star_never_confidently_split(self):
+        # The four L points of silicon are one star (common practice, no
+        # source): where the mesh interpolant makes some minima and another a
+        # saddle, none of them may be asserted (kind-uncertain, not converged)
+        for n in MESHES:
+            # L = (pi/a)(1, 1, 1) and its images: |k_i| = 0.5785 1/A each
+            ext = [e for e in mass_tensor(n, 'c1', 'all')['extrema']
+                   if all(abs(abs(c) - 0.5785) < 0.01 for c in e['k_inv_angstrom'])]
+            kinds = {e['kind'] for e in ext}
+            with self.subTest(mesh=n, kinds=sorted(kinds)):
+                if len(kinds) > 1:
+                    for e in ext:
+                        self.assertIn('kind-uncertain', e['warning_codes'])
+                        self.assertFalse(e['converged'])
+
     def test_coarse_mesh_says_unconverged(self):
         # 12^3 cannot resolve the valley: the answer must say so
         e = mass_tensor(12, 'c1', 'minimum')['extrema'][0]
