@@ -50,6 +50,38 @@ static void threefold_basis(int p, const double k[3], double b[3][3])
     }
 }
 
+/* Eigenvalues of a symmetric 3x3 matrix, ascending, by the trigonometric
+ * solution of the characteristic cubic (Smith, Commun. ACM 4, 168 (1961)):
+ * the sphere averages need millions of them and no eigenvectors. */
+static void symeig3_values(double h[3][3], double lam[3])
+{
+    double p1 = h[0][1] * h[0][1] + h[0][2] * h[0][2] + h[1][2] * h[1][2];
+    double q = (h[0][0] + h[1][1] + h[2][2]) / 3.0;
+    if (p1 <= 1e-30 * (q * q + 1e-300)) {
+        double d[3] = { h[0][0], h[1][1], h[2][2] };
+        for (int a = 0; a < 3; a++)
+            for (int b = a + 1; b < 3; b++)
+                if (d[b] < d[a]) {
+                    double t = d[a]; d[a] = d[b]; d[b] = t;
+                }
+        memcpy(lam, d, sizeof d);
+        return;
+    }
+    double p2 = (h[0][0] - q) * (h[0][0] - q) + (h[1][1] - q) * (h[1][1] - q)
+              + (h[2][2] - q) * (h[2][2] - q) + 2.0 * p1;
+    double p = sqrt(p2 / 6.0), b[3][3];
+    for (int i = 0; i < 3; i++)
+        for (int j = 0; j < 3; j++)
+            b[i][j] = (h[i][j] - (i == j ? q : 0.0)) / p;
+    double r = 0.5 * (b[0][0] * (b[1][1] * b[2][2] - b[1][2] * b[2][1])
+                    - b[0][1] * (b[1][0] * b[2][2] - b[1][2] * b[2][0])
+                    + b[0][2] * (b[1][0] * b[2][1] - b[1][1] * b[2][0]));
+    double phi = r <= -1.0 ? M_PI / 3.0 : r >= 1.0 ? 0.0 : acos(r) / 3.0;
+    lam[2] = q + 2.0 * p * cos(phi);
+    lam[0] = q + 2.0 * p * cos(phi + 2.0 * M_PI / 3.0);
+    lam[1] = 3.0 * q - lam[0] - lam[2];
+}
+
 /* Sorted model eigenvalues (units of hbar^2/2m_e) at k and, when d is not
  * NULL, their derivatives d[band][p] with respect to the band parameters
  * p = 1..npar-1. Returns the number of distinct bands, or -1. */
@@ -81,6 +113,10 @@ static int model_eval(const kp_params *m, const double k[3], double lam[3],
         for (int i = 0; i < 3; i++)
             for (int j = 0; j < 3; j++)
                 h[i][j] += m->x[p] * b[i][j];
+    }
+    if (!d) {
+        symeig3_values(h, lam);
+        return 3;
     }
     if (bm_symeig(h, 3, lam, v) != 0)
         return -1;
@@ -269,6 +305,21 @@ static int fit_model(const bm_kp_data *d, bm_kp_model model, int quartic, double
     return found;
 }
 
+/* A refit of other points or a smaller model from the main fit's parameters
+ * (one start is enough there). */
+static int refit_from(const bm_kp_data *d, const kp_params *from, int quartic, double rmax,
+                      kp_params *m, fit_stats *fs)
+{
+    *m = *from;
+    if (m->model == BM_KP_THREEFOLD) {
+        int np = quartic ? NPAR_MAX : 4;
+        for (int p = m->npar; p < np; p++)
+            m->x[p] = 0.0;
+        m->npar = np;
+    }
+    return gauss_newton(d, rmax, m, fs);
+}
+
 /* ------------------------------------------------------------ derived values */
 
 static const double dirs[3][3] = {
@@ -449,14 +500,14 @@ bm_status bm_kp_fit_bands(const bm_kp_data *d, bm_kp_fit *out, bm_errbuf *err)
      * on every point given when the main radius leaves some out */
     kp_params m3;
     fit_stats f3;
-    int rc2 = fit_model(d, model, 0, quartic ? 0.7 * rfit : rfit, &m2, &f2);
+    int rc2 = refit_from(d, &m1, 0, quartic ? 0.7 * rfit : rfit, &m2, &f2);
     if (rc2 != 0 && quartic)
-        rc2 = fit_model(d, model, 0, rfit, &m2, &f2);
+        rc2 = refit_from(d, &m1, 0, rfit, &m2, &f2);
     if (rc2 == 0 && !quartic && rfit == rmax) {
         /* a quadratic main fit: the inner points are the check */
-        rc2 = fit_model(d, model, 0, 0.7 * rfit, &m2, &f2);
+        rc2 = refit_from(d, &m1, 0, 0.7 * rfit, &m2, &f2);
     }
-    int rc3 = rfit < rmax ? fit_model(d, model, quartic, rmax, &m3, &f3) : -1;
+    int rc3 = rfit < rmax ? refit_from(d, &m1, quartic, rmax, &m3, &f3) : -1;
     if (rc2 == -2 || rc3 == -2)
         return bm_fail(err, BM_ENOMEM, "k.p fit: out of memory");
 
