@@ -35,7 +35,8 @@
 
 static const char *kind_name(bm_extremum_kind k)
 {
-    return k == BM_EXTREMUM_MINIMUM ? "minimum" : k == BM_EXTREMUM_MAXIMUM ? "maximum" : "saddle point";
+    return k == BM_EXTREMUM_MINIMUM ? "minimum" : k == BM_EXTREMUM_MAXIMUM ? "maximum"
+         : k == BM_EXTREMUM_SADDLE ? "saddle point" : "non-stationary point";
 }
 
 /* ---------------------------------------------------------------- tensor */
@@ -1596,8 +1597,52 @@ static void table_kp(table_ctx *c, size_t i0, bm_mass_tensor *t)
     free(en);
 }
 
+/* 1 when x lies outside the data: beyond every sample along one of the
+ * directions of the principal frame (axes, face and body diagonals) or the
+ * direction from the samples' centre to x. A cheap, slightly generous
+ * stand-in for the convex hull. */
+static int outside_data(const table_ctx *c, const double x[3])
+{
+    double dirs[27][3], cen[3] = { 0, 0, 0 };
+    size_t np = c->t->npoints, nd = 0;
+    for (size_t m = 0; m < np; m++)
+        for (int i = 0; i < 3; i++)
+            cen[i] += tk(c, m)[i] / (double)np;
+    for (int a = -1; a <= 1; a++)
+        for (int b = -1; b <= 1; b++)
+            for (int d = -1; d <= 1; d++) {
+                int w[3] = { a, b, d };
+                if (!a && !b && !d)
+                    continue;
+                int skip = 0;
+                for (int q = c->dims; q < 3; q++)
+                    skip |= w[q] != 0;
+                if (skip)
+                    continue;
+                for (int i = 0; i < 3; i++)
+                    dirs[nd][i] = w[0] * c->p[0][i] + w[1] * c->p[1][i] + w[2] * c->p[2][i];
+                nd++;
+            }
+    for (int i = 0; i < 3; i++)
+        dirs[nd][i] = x[i] - cen[i];
+    nd++;
+    double scale = 0.0;
+    for (size_t m = 0; m < np; m++)
+        scale = fmax(scale, fabs(tk(c, m)[0] - cen[0]) + fabs(tk(c, m)[1] - cen[1])
+                            + fabs(tk(c, m)[2] - cen[2]));
+    for (size_t q = 0; q < nd; q++) {
+        double best = -INFINITY;
+        for (size_t m = 0; m < np; m++)
+            best = fmax(best, bm_dot3(dirs[q], tk(c, m)));
+        if (bm_dot3(dirs[q], x) > best + 1e-9 * scale * bm_norm3(dirs[q]))
+            return 1;
+    }
+    return 0;
+}
+
 static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
-                               bm_extremum_kind hint, bm_mass_tensor *t, bm_errbuf *err)
+                               bm_extremum_kind hint, bm_mass_tensor *t, int *left,
+                               bm_errbuf *err)
 {
     tensor_init(t, c->dims, BM_METHOD_TABLE_FIT);
     if (refine) {
@@ -1639,7 +1684,7 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
                            "rank-deficient: %zu points within %.3g 1/Angstrom determine only %zu of the "
                            "%zu parameters of a %d-dimensional quadric", centre[0], centre[1], centre[2],
                            count, dmax, q.rank, q.nparams, c->dims);
-        if (!refine || it >= 3)
+        if (!refine || it >= 40)
             break;
         double h3[3][3] = { { 0 } }, hi[3][3];
         for (int a = 0; a < 3; a++)
@@ -1652,19 +1697,35 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
             for (int b = 0; b < c->dims; b++)
                 du[a] -= hi[a][b] * q.g[b];
         double step = sqrt(du[0] * du[0] + du[1] * du[1] + du[2] * du[2]);
-        if (step > dmax) {
-            bm_warn(&t->warnings, BM_WARN_REFINEMENT_ESCAPED, "Newton step %.3g 1/Angstrom leaves the fit region (%.3g 1/Angstrom); "
-                    "the extremum is reported at the sampled point", step, dmax);
+        /* a step beyond the fit window moves the window (half its radius
+         * towards the stationary point) and refits there: the walk */
+        double scale_step = step > dmax ? 0.5 * dmax / step : 1.0;
+        double next[3];
+        for (int i = 0; i < 3; i++) {
+            next[i] = centre[i];
+            for (int a = 0; a < c->dims; a++)
+                next[i] += scale_step * du[a] * c->p[a][i];
+        }
+        if (outside_data(c, next)) {
+            /* the fit's stationary point lies beyond the data: its estimate is
+             * the last fit inside extrapolated (refits out there would stand
+             * on the edge of the data alone) */
+            *left = 1;
+            for (int i = 0; i < 3; i++)
+                for (int a = 0; a < c->dims; a++)
+                    centre[i] += du[a] * c->p[a][i];
             break;
         }
-        for (int i = 0; i < 3; i++)
-            for (int a = 0; a < c->dims; a++)
-                centre[i] += du[a] * c->p[a][i];
-        if (step <= 1e-10 * (dmax > 0 ? dmax : 1.0))
+        memcpy(centre, next, sizeof centre);
+        if (scale_step == 1.0 && step <= 1e-10 * (dmax > 0 ? dmax : 1.0))
             break;
+        if (it == 40)
+            bm_warn(&t->warnings, BM_WARN_REFINEMENT_NOT_CONVERGED, "the walk to the "
+                    "stationary point did not converge in 40 refits; reported where it stopped");
     }
     memcpy(t->k, centre, sizeof t->k);
     t->k_frac[0] = t->k_frac[1] = t->k_frac[2] = NAN;
+    t->outside_data = *left;
     t->energy_ev = q.e0;
     t->fit_rms_ev = q.rms;
     double hk[3][3] = { { 0 } };
@@ -1676,9 +1737,30 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
     if (finish_tensor(t, hk, c->p, c->dims, hint) != 0)
         return bm_fail(err, BM_EINTERNAL, "eigen-decomposition of the fitted Hessian failed");
     double gnorm = sqrt(q.g[0] * q.g[0] + q.g[1] * q.g[1] + q.g[2] * q.g[2]);
-    if (!refine && gnorm > 1e-6)
+    if (!refine && gnorm > 1e-6) {
+        /* the fit's stationary point is away from the given point: neither an
+         * extremum nor a saddle there, only the local curvature */
+        double h3[3][3] = { { 0 } }, hi[3][3], du = 0.0;
+        for (int a = 0; a < 3; a++)
+            for (int b = 0; b < 3; b++)
+                h3[a][b] = a < c->dims && b < c->dims ? q.h[a][b] : (a == b ? 1.0 : 0.0);
+        if (bm_inv3(h3, hi) == 0)
+            for (int a = 0; a < c->dims; a++) {
+                double s = 0.0;
+                for (int b = 0; b < c->dims; b++)
+                    s += hi[a][b] * q.g[b];
+                du += s * s;
+            }
+        else
+            du = INFINITY;
+        if (sqrt(du) > 0.05 * dmax) {
+            drop_warnings(t, BM_WARN_SADDLE_POINT);
+            t->kind = BM_EXTREMUM_NOT_STATIONARY;
+        }
         bm_warn(&t->warnings, BM_WARN_NOT_STATIONARY, "|dE/dk| = %.3g eV Angstrom at the given point: not a stationary "
-                "point, the tensor is the local curvature there", gnorm);
+                "point (the fit's stationary point is %.3g 1/Angstrom away), the tensor is the "
+                "local curvature there", gnorm, sqrt(du));
+    }
     nonparabolic_check(t, &q, span, dmax);
     if (refine) {
         /* errors: the same fit over about 0.6 and 1.7 times the points (or radius) */
@@ -1767,7 +1849,8 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
 
 bm_status bm_ktable_mass_tensors(const bm_ktable *t, size_t band, bm_search which,
                                  const double *k_at, const bm_fit_options *opt,
-                                 bm_mass_tensor **out, size_t *n_out, bm_errbuf *err)
+                                 bm_mass_tensor **out, size_t *n_out, bm_warnings *notes,
+                                 bm_errbuf *err)
 {
     if (!out || !n_out)
         return bm_fail(err, BM_EINVAL, "output pointers are NULL");
@@ -1837,7 +1920,8 @@ bm_status bm_ktable_mass_tensors(const bm_ktable *t, size_t band, bm_search whic
     }
     const double *eb = t->energies + band * np;
     if (k_at) {
-        s = table_analyse(&c, k_at, 0, BM_EXTREMUM_MINIMUM, &res[0], err);
+        int left = 0;
+        s = table_analyse(&c, k_at, 0, BM_EXTREMUM_MINIMUM, &res[0], &left, err);
         nres = s == BM_OK;
         if (s != BM_OK)
             bm_warnings_clear(&res[nres].warnings);
@@ -1849,17 +1933,62 @@ bm_status bm_ktable_mass_tensors(const bm_ktable *t, size_t band, bm_search whic
             if (eb[m] > eb[hi])
                 hi = m;
         }
-        if (which != BM_SEARCH_MAXIMUM) {
-            s = table_analyse(&c, t->k + 3 * lo, 1, BM_EXTREMUM_MINIMUM, &res[nres], err);
-            nres += s == BM_OK;
-            if (s != BM_OK)
-                bm_warnings_clear(&res[nres].warnings);
+        for (int pass = 0; pass < 2 && s == BM_OK; pass++) {
+            int want_min = pass == 0;
+            if ((want_min && which == BM_SEARCH_MAXIMUM) || (!want_min && which == BM_SEARCH_MINIMUM))
+                continue;
+            size_t from = want_min ? lo : hi;
+            bm_extremum_kind want = want_min ? BM_EXTREMUM_MINIMUM : BM_EXTREMUM_MAXIMUM;
+            const char *what = want_min ? "minimum" : "maximum";
+            int left = 0;
+            bm_mass_tensor *r = &res[nres];
+            s = table_analyse(&c, t->k + 3 * from, 1, want, r, &left, err);
+            if (s != BM_OK) {
+                bm_warnings_clear(&r->warnings);
+                break;
+            }
+            int drop = 0;
+            if (!r->degenerate && r->kind != want && r->kind != BM_EXTREMUM_SADDLE) {
+                drop = 1;
+                if (notes)
+                    bm_warn(notes, BM_WARN_NO_EXTREMUM, "no %s reported: from the %s sample "
+                            "(point %zu) the fit reaches a %s, not a %s (the %s sample lies "
+                            "on the boundary of the table)", what, want_min ? "lowest" : "highest",
+                            from, kind_name(r->kind), what, want_min ? "lowest" : "highest");
+            } else if (nres == 1 && r->kind == BM_EXTREMUM_SADDLE && res[0].kind == BM_EXTREMUM_SADDLE) {
+                double d[3] = { r->k[0] - res[0].k[0], r->k[1] - res[0].k[1], r->k[2] - res[0].k[2] };
+                double tol = 1e-6 * fmax(1.0, bm_norm3(res[0].k));
+                if (isfinite(r->k_error) && isfinite(res[0].k_error))
+                    tol = fmax(tol, r->k_error + res[0].k_error);
+                drop = bm_norm3(d) <= tol;   /* one saddle reached from both ends */
+            }
+            if (!drop && left) {
+                /* kept apart from the extrema: an estimate to refine, never converged */
+                r->converged = 0;
+                bm_warn(&r->warnings, BM_WARN_NO_EXTREMUM, "beyond the data: the %s sample "
+                        "(point %zu) lies on the boundary of the table and the fit's stationary "
+                        "point is outside the points given, at about (%.5g, %.5g, %.5g) "
+                        "1/Angstrom (an extrapolation, not an extremum: sample around it)",
+                        want_min ? "lowest" : "highest", from, r->k[0], r->k[1], r->k[2]);
+                if (notes)
+                    bm_warn(notes, BM_WARN_NO_EXTREMUM, "no %s reported: the %s sample (point "
+                            "%zu, E = %.6f eV) lies on the boundary of the table and the fit's "
+                            "stationary point is beyond the points given; its estimate is under "
+                            "beyond_data (sample around it, or extend the table)", what,
+                            want_min ? "lowest" : "highest", from, eb[from]);
+            }
+            if (drop) {
+                bm_warnings_clear(&r->warnings);
+                bm_warnings_clear(&r->kp.warnings);
+            } else {
+                nres++;
+            }
         }
-        if (s == BM_OK && which != BM_SEARCH_MINIMUM) {
-            s = table_analyse(&c, t->k + 3 * hi, 1, BM_EXTREMUM_MAXIMUM, &res[nres], err);
-            nres += s == BM_OK;
-            if (s != BM_OK)
-                bm_warnings_clear(&res[nres].warnings);
+        /* extrema inside the data first, estimates beyond it after them */
+        if (nres == 2 && res[0].outside_data && !res[1].outside_data) {
+            bm_mass_tensor tmp = res[0];
+            res[0] = res[1];
+            res[1] = tmp;
         }
     }
 done:

@@ -10,7 +10,8 @@
 typedef enum {
     BM_EXTREMUM_MINIMUM,
     BM_EXTREMUM_MAXIMUM,
-    BM_EXTREMUM_SADDLE
+    BM_EXTREMUM_SADDLE,
+    BM_EXTREMUM_NOT_STATIONARY   /* a given point where the gradient does not vanish */
 } bm_extremum_kind;
 
 typedef enum {
@@ -67,6 +68,9 @@ typedef struct {
         double mass;          /* m_e, signed: hbar^2 / (d2E/ds2) at the extremum */
         double error;         /* m_e: the quartic correction between the two steps */
     } directional[BM_DIRECTIONAL_MAX];
+    int outside_data;         /* a table: the fit's stationary point lies beyond the points
+                                 given, so this is an estimate to sample around, not an
+                                 extremum (bm_ktable_mass_tensors lists these last) */
     int symmetry_snapped;     /* 1: k lay within its error of a point the lattice's symmetry
                                  fixes and was moved there, the tensor symmetrised over
                                  the rotations that fix it */
@@ -88,11 +92,16 @@ bm_status bm_grid_mass_tensors(const bm_grid *g, size_t band, bm_search which,
                                const double *k_at, const bm_fit_options *opt,
                                bm_mass_tensor **out, size_t *n_out, bm_errbuf *err);
 
-/* The same for scattered points (BM_SEARCH_ALL gives the lowest minimum and
- * the highest maximum of the table). */
+/* The same for scattered points. An extremum of a table is a stationary
+ * point of the fit inside the data: the search starts at the lowest (highest)
+ * sample and walks the fit window to the stationary point; where the walk
+ * leaves the data, or reaches a stationary point of the other kind, that
+ * search reports nothing and says why in notes (may be NULL). BM_SEARCH_ALL
+ * runs both searches (a saddle they both reach is reported once). */
 bm_status bm_ktable_mass_tensors(const bm_ktable *t, size_t band, bm_search which,
                                  const double *k_at, const bm_fit_options *opt,
-                                 bm_mass_tensor **out, size_t *n_out, bm_errbuf *err);
+                                 bm_mass_tensor **out, size_t *n_out, bm_warnings *notes,
+                                 bm_errbuf *err);
 
 /* Frees n tensors from bm_grid_mass_tensors/bm_ktable_mass_tensors with
  * their warnings. t may be NULL. */

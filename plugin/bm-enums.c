@@ -27,6 +27,8 @@ static const BmChoice extremum_kind[] = {
     { BM_EXTREMUM_MINIMUM, "minimum", "all curvatures positive" },
     { BM_EXTREMUM_MAXIMUM, "maximum", "all curvatures negative" },
     { BM_EXTREMUM_SADDLE, "saddle", "curvatures of both signs" },
+    { BM_EXTREMUM_NOT_STATIONARY, "not-stationary",
+      "a given point where the gradient does not vanish: the local curvature only" },
     { 0, NULL, NULL }
 };
 const BmEnum bm_enum_extremum_kind = { "extremum kind", extremum_kind };

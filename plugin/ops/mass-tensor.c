@@ -88,6 +88,11 @@ static const BmField response[] = {
       "directional_masses_error_me, dos_masses_me and dos_masses_error_me (null for an "
       "open surface), luttinger_band_edge_hole_dos_mass_me (hole-mass's warped heavy and "
       "light bands of these gamma), largest_relative_error), warnings" },
+    { "beyond_data", NULL, TRUE,
+      "a table only, when present: where the lowest (highest) sample lies on the boundary "
+      "and the fit's stationary point is outside the points given, its estimate (objects "
+      "as in extrema, never converged; with \"stencil\", the stencil to compute around "
+      "it): an extrapolation to sample, not an extremum" },
     BM_FIELD_END
 };
 
@@ -239,7 +244,7 @@ void bm_mass_tensor_search_free(BmMassTensorSearch *s)
 {
     if (!s)
         return;
-    bm_mass_tensors_free(s->tensors, s->n_tensors);
+    bm_mass_tensors_free(s->tensors, s->n_tensors + s->n_beyond);
     bm_warnings_clear(&s->warnings);
     if (s->grid)
         bm_band_grid_free(s->grid);
@@ -320,7 +325,8 @@ BmMassTensorSearch *bm_mass_tensor_search(JsonObject *request, const BmCallInput
                                                &s->tensors, &s->n_tensors, &err)
                         : bm_ktable_mass_tensors(&s->table->table, s->band, which,
                                                  have_k ? k_at : NULL, &opt,
-                                                 &s->tensors, &s->n_tensors, &err);
+                                                 &s->tensors, &s->n_tensors, &s->warnings,
+                                                 &err);
     if (st != BM_OK) {
         bm_error_from_core(error, &err, s->source);
         return NULL;
@@ -328,7 +334,12 @@ BmMassTensorSearch *bm_mass_tensor_search(JsonObject *request, const BmCallInput
     for (size_t i = 0; grid && i < grid->warnings.count; i++)
         bm_warn(&s->warnings, grid->warnings.items[i].code, "%s: %s", s->source,
                 grid->warnings.items[i].text);
-    if (s->n_tensors == 0)
+    /* the core lists a table's estimates beyond the data last */
+    while (s->n_tensors > 0 && s->tensors[s->n_tensors - 1].outside_data) {
+        s->n_tensors--;
+        s->n_beyond++;
+    }
+    if (s->n_tensors == 0 && !bm_warnings_has(&s->warnings, BM_WARN_NO_EXTREMUM))
         bm_warn(&s->warnings, BM_WARN_NO_EXTREMUM, "no extremum found in band %zu of %s",
                 s->band, s->source);
     for (size_t i = 0; i < s->n_tensors; i++) {
@@ -413,6 +424,16 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
         json_array_add_object_element(list, o);
     }
     json_object_set_array_member(response, "extrema", list);
+    if (s->n_beyond) {
+        JsonArray *bl = json_array_new();
+        for (size_t i = s->n_tensors; i < s->n_tensors + s->n_beyond; i++) {
+            JsonObject *o = bm_mass_tensor_object(&s->tensors[i], s->fractional);
+            if (stencil)
+                add_stencil(o, &s->tensors[i], s->fractional ? s->recip : NULL);
+            json_array_add_object_element(bl, o);
+        }
+        json_object_set_array_member(response, "beyond_data", bl);
+    }
     bm_json_warn_all(response, &s->warnings);
     return response;
 }

@@ -13,8 +13,10 @@
 G_BEGIN_DECLS
 
 typedef struct {
-    bm_mass_tensor *tensors;   /* n_tensors results of the core */
+    bm_mass_tensor *tensors;   /* n_tensors extrema, then n_beyond estimates of a table
+                                  fit's stationary point beyond the data */
     size_t n_tensors;
+    size_t n_beyond;
     size_t band;               /* the band searched, 0-based */
     const char *band_name;     /* its name, or NULL */
     const char *source;        /* where the band data came from */

@@ -521,7 +521,7 @@ static void test_table_nonparabolic(void)
     bm_ktable t = { .npoints = np, .k = k, .nbands = 1, .energies = e };
     bm_mass_tensor *res;
     size_t n;
-    g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_MINIMUM, NULL, NULL, &res, &n, NULL), ==, BM_OK);
+    g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_MINIMUM, NULL, NULL, &res, &n, NULL, NULL), ==, BM_OK);
     g_assert_cmpfloat(res[0].fit_rms_ev, >, 0.0);
     g_assert_true(has_warning(&res[0], "non-parabolic"));
     g_assert_true(bm_warnings_has(&res[0].warnings, BM_WARN_NON_PARABOLIC));
@@ -555,7 +555,7 @@ static void test_table_parabola(void)
     bm_mass_tensor *res;
     size_t n;
     bm_errbuf err = { 0 };
-    g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_MINIMUM, NULL, NULL, &res, &n, &err), ==, BM_OK);
+    g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_MINIMUM, NULL, NULL, &res, &n, NULL, &err), ==, BM_OK);
     g_assert_cmpint(res[0].dims, ==, 3);
     check_tensor(&res[0], h, 1e-9);
     for (int c = 0; c < 3; c++)
@@ -583,7 +583,7 @@ static void test_table_line(void)
     bm_ktable t = { .npoints = np, .k = k, .nbands = 1, .energies = e };
     bm_mass_tensor *res;
     size_t n;
-    g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_MAXIMUM, NULL, NULL, &res, &n, NULL), ==, BM_OK);
+    g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_MAXIMUM, NULL, NULL, &res, &n, NULL, NULL), ==, BM_OK);
     g_assert_cmpint(res[0].dims, ==, 1);
     g_assert_cmpint(res[0].kind, ==, BM_EXTREMUM_MAXIMUM);
     g_assert_cmpfloat_with_epsilon(res[0].masses[0], -BM_HBAR2_OVER_ME_EV_A2 / c, 1e-9);
@@ -609,14 +609,14 @@ static void test_table_plane_and_cone(void)
     bm_ktable t = { .npoints = np, .k = k, .nbands = 1, .energies = e };
     bm_mass_tensor *res;
     size_t n;
-    g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_MINIMUM, NULL, NULL, &res, &n, NULL), ==, BM_OK);
+    g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_MINIMUM, NULL, NULL, &res, &n, NULL, NULL), ==, BM_OK);
     g_assert_cmpint(res[0].dims, ==, 2);
     g_assert_cmpfloat_with_epsilon(res[0].masses[0], BM_HBAR2_OVER_ME_EV_A2 / 4.0, 1e-9);
     g_assert_cmpfloat_with_epsilon(res[0].masses[1], BM_HBAR2_OVER_ME_EV_A2 / 2.0, 1e-9);
     g_assert_false(res[0].divergent);
     bm_mass_tensors_free(res, n);
     t.energies = ec;
-    g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_MINIMUM, NULL, NULL, &res, &n, NULL), ==, BM_OK);
+    g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_MINIMUM, NULL, NULL, &res, &n, NULL, NULL), ==, BM_OK);
     g_assert_cmpint(res[0].divergent, ==, 1);
     g_assert_true(has_warning(&res[0], "conical"));
     g_assert_true(bm_warnings_has(&res[0].warnings, BM_WARN_CONICAL_POINT));
@@ -672,19 +672,141 @@ static void test_bad_input(void)
             }
     bm_ktable t = { .npoints = 27, .k = k, .nbands = 1, .energies = et };
     opt.fit_radius_inv_angstrom = 0.11;
-    g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_MINIMUM, NULL, &opt, &res, &n, &err), ==, BM_EINVAL);
+    g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_MINIMUM, NULL, &opt, &res, &n, NULL, &err), ==, BM_EINVAL);
     g_assert_nonnull(strstr(err.message, "rank-deficient"));
     g_assert_nonnull(strstr(err.message, "7 points"));
     /* the first 5 points lie in the plane kx = -0.1: a 2D quadric needs 6 */
     t.npoints = 5;
-    g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_MINIMUM, NULL, NULL, &res, &n, &err), ==, BM_EINVAL);
+    g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_MINIMUM, NULL, NULL, &res, &n, NULL, &err), ==, BM_EINVAL);
     g_assert_nonnull(strstr(err.message, "has 5 points but a 2-dimensional quadric needs at least 6"));
     t.npoints = 27;
-    g_assert_cmpint(bm_ktable_mass_tensors(&t, 3, BM_SEARCH_MINIMUM, NULL, NULL, &res, &n, &err), ==, BM_EINVAL);
+    g_assert_cmpint(bm_ktable_mass_tensors(&t, 3, BM_SEARCH_MINIMUM, NULL, NULL, &res, &n, NULL, &err), ==, BM_EINVAL);
     g_assert_nonnull(strstr(err.message, "band index 3 is out of range: the table has 1 band"));
     et[5] = INFINITY;
-    g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_MINIMUM, NULL, NULL, &res, &n, &err), ==, BM_EINVAL);
+    g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_MINIMUM, NULL, NULL, &res, &n, NULL, &err), ==, BM_EINVAL);
     g_assert_nonnull(strstr(err.message, "point 5"));
+}
+
+
+/* ---------------------------------------------------------- table extrema */
+
+/* A 7 x 7 x 7 cube of points, spacing 0.01 1/A, centred at c, with
+ * E = sum_i s_i hbar^2 (k_i - k0_i)^2 / (2 m_i): a quadric, so the fit is
+ * exact (identity) and k0 the one stationary point. */
+static void quadric_table(const double c[3], const double k0[3], const double m[3],
+                          const double sign[3], double *k, double *e)
+{
+    size_t n = 0;
+    for (int i = -3; i <= 3; i++)
+        for (int j = -3; j <= 3; j++)
+            for (int l = -3; l <= 3; l++, n++) {
+                double q[3] = { c[0] + 0.01 * i, c[1] + 0.01 * j, c[2] + 0.01 * l };
+                memcpy(k + 3 * n, q, sizeof q);
+                e[n] = 0.0;
+                for (int a = 0; a < 3; a++)
+                    e[n] += sign[a] * HB2M_HALF_REF * (q[a] - k0[a]) * (q[a] - k0[a]) / m[a];
+            }
+}
+
+static void test_table_extremum_inside(void)
+{
+    /* one clean minimum, off the samples: "all" reports it once, at the fitted
+     * position, and says why the maximum search reports nothing */
+    static double k[343 * 3], e[343];
+    const double c[3] = { 0, 0, 0 }, k0[3] = { 0.0037, -0.0052, 0.0011 };
+    const double m[3] = { 0.3, 0.5, 0.8 }, up[3] = { 1, 1, 1 }, down[3] = { -1, -1, -1 };
+    quadric_table(c, k0, m, up, k, e);
+    bm_ktable t = { .npoints = 343, .k = k, .nbands = 1, .energies = e };
+    bm_mass_tensor *res;
+    size_t n;
+    bm_warnings notes = { 0 };
+    g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_ALL, NULL, NULL, &res, &n, &notes,
+                                           NULL), ==, BM_OK);
+    g_assert_cmpuint(n, ==, 1);
+    g_assert_cmpint(res[0].kind, ==, BM_EXTREMUM_MINIMUM);
+    for (int a = 0; a < 3; a++)
+        g_assert_cmpfloat_with_epsilon(res[0].k[a], k0[a], 1e-9);
+    g_assert_cmpfloat_with_epsilon(res[0].masses[0], 0.3, 1e-6);
+    g_assert_true(bm_warnings_has(&notes, BM_WARN_NO_EXTREMUM));
+    bm_mass_tensors_free(res, n);
+    bm_warnings_clear(&notes);
+    /* a pure maximum: the same, and the maximum is the one entry */
+    quadric_table(c, k0, m, down, k, e);
+    g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_ALL, NULL, NULL, &res, &n, &notes,
+                                           NULL), ==, BM_OK);
+    g_assert_cmpuint(n, ==, 1);
+    g_assert_cmpint(res[0].kind, ==, BM_EXTREMUM_MAXIMUM);
+    g_assert_cmpfloat_with_epsilon(res[0].masses[0], -0.3, 1e-6);
+    bm_mass_tensors_free(res, n);
+    bm_warnings_clear(&notes);
+}
+
+static void test_table_saddle_once(void)
+{
+    /* the only stationary point is a saddle inside the data: reported once,
+     * at the stationary point, not at two edge samples */
+    static double k[343 * 3], e[343];
+    const double c[3] = { 0, 0, 0 }, k0[3] = { 0.013, -0.007, 0.004 };
+    const double m[3] = { 0.3, 0.5, 0.8 }, mixed[3] = { 1, -1, 1 };
+    quadric_table(c, k0, m, mixed, k, e);
+    bm_ktable t = { .npoints = 343, .k = k, .nbands = 1, .energies = e };
+    bm_mass_tensor *res;
+    size_t n;
+    g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_ALL, NULL, NULL, &res, &n, NULL,
+                                           NULL), ==, BM_OK);
+    g_assert_cmpuint(n, ==, 1);
+    g_assert_cmpint(res[0].kind, ==, BM_EXTREMUM_SADDLE);
+    for (int a = 0; a < 3; a++)
+        g_assert_cmpfloat_with_epsilon(res[0].k[a], k0[a], 1e-9);
+    bm_mass_tensors_free(res, n);
+}
+
+static void test_table_minimum_beyond_data(void)
+{
+    /* the minimum lies 0.05 1/A beyond the cube: not an extremum of the table;
+     * its estimate is kept apart (outside_data, never converged) */
+    static double k[343 * 3], e[343];
+    const double c[3] = { 0, 0, 0 }, k0[3] = { 0.08, 0.0, 0.0 };
+    const double m[3] = { 0.3, 0.5, 0.8 }, up[3] = { 1, 1, 1 };
+    quadric_table(c, k0, m, up, k, e);
+    bm_ktable t = { .npoints = 343, .k = k, .nbands = 1, .energies = e };
+    bm_mass_tensor *res;
+    size_t n;
+    bm_warnings notes = { 0 };
+    bm_errbuf err = { 0 };
+    bm_status st = bm_ktable_mass_tensors(&t, 0, BM_SEARCH_MINIMUM, NULL, NULL, &res, &n,
+                                          &notes, &err);
+    if (st != BM_OK)
+        g_test_message("%s", err.message);
+    g_assert_cmpint(st, ==, BM_OK);
+    g_assert_cmpuint(n, ==, 1);
+    g_assert_true(res[0].outside_data);
+    g_assert_cmpint(res[0].converged, ==, 0);
+    g_assert_cmpfloat_with_epsilon(res[0].k[0], 0.08, 1e-6);
+    g_assert_true(bm_warnings_has(&notes, BM_WARN_NO_EXTREMUM));
+    bm_mass_tensors_free(res, n);
+    bm_warnings_clear(&notes);
+}
+
+static void test_table_given_point_not_stationary(void)
+{
+    /* a given k where the gradient does not vanish, on a saddle-shaped table:
+     * "not stationary", never a saddle */
+    static double k[343 * 3], e[343];
+    const double c[3] = { 0, 0, 0 }, k0[3] = { 0, 0, 0 };
+    const double m[3] = { 0.3, 0.5, 0.8 }, mixed[3] = { 1, -1, 1 };
+    quadric_table(c, k0, m, mixed, k, e);
+    bm_ktable t = { .npoints = 343, .k = k, .nbands = 1, .energies = e };
+    bm_mass_tensor *res;
+    size_t n;
+    const double at[3] = { 0.02, 0.01, 0.0 };
+    g_assert_cmpint(bm_ktable_mass_tensors(&t, 0, BM_SEARCH_MINIMUM, at, NULL, &res, &n, NULL,
+                                           NULL), ==, BM_OK);
+    g_assert_cmpuint(n, ==, 1);
+    g_assert_cmpint(res[0].kind, ==, BM_EXTREMUM_NOT_STATIONARY);
+    g_assert_true(bm_warnings_has(&res[0].warnings, BM_WARN_NOT_STATIONARY));
+    g_assert_false(bm_warnings_has(&res[0].warnings, BM_WARN_SADDLE_POINT));
+    bm_mass_tensors_free(res, n);
 }
 
 int main(int argc, char **argv)
@@ -711,5 +833,9 @@ int main(int argc, char **argv)
     g_test_add_func("/core/extrema/table-line", test_table_line);
     g_test_add_func("/core/extrema/table-plane-cone", test_table_plane_and_cone);
     g_test_add_func("/core/extrema/bad-input", test_bad_input);
+    g_test_add_func("/extrema/table-extremum-inside", test_table_extremum_inside);
+    g_test_add_func("/extrema/table-saddle-once", test_table_saddle_once);
+    g_test_add_func("/extrema/table-minimum-beyond-data", test_table_minimum_beyond_data);
+    g_test_add_func("/extrema/table-given-point-not-stationary", test_table_given_point_not_stationary);
     return g_test_run();
 }
