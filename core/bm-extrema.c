@@ -25,6 +25,11 @@
 /* E(2s) - E0 over E(s) - E0 is 4 for a parabola and 2 for a cone; a mean over
  * the sampled directions below this flags a conical point. */
 #define CONE_RATIO 2.5
+/* The domain of the inputs: band energies in eV and k in 1/Angstrom far
+ * beyond any crystal's (and far inside the range where the interpolant's
+ * sums stay finite). */
+#define BM_ENERGY_MAX_EV 1e6
+#define BM_K_MAX_INV_A 1e3
 #define NEWTON_MAX_ITER 50
 #define DEFAULT_CONVERGENCE_TOL 0.02
 /* A neighbouring band closer than this part of the band's own energy range
@@ -268,10 +273,14 @@ static int check_options(const bm_fit_options *opt, bm_search which, const doubl
         if (opt->convergence_tol > 0.0)
             *conv = opt->convergence_tol;
     }
-    if (k_at)
-        for (int c = 0; c < 3; c++)
-            if (!isfinite(k_at[c]))
-                return bm_fail(err, BM_EINVAL, "evaluation point k[%d] = %g is not finite", c, k_at[c]);
+    for (int c = 0; k_at && c < 3; c++) {
+        if (!isfinite(k_at[c]))
+            return bm_fail(err, BM_EINVAL, "evaluation point k[%d] = %g is not finite", c, k_at[c]);
+        if (fabs(k_at[c]) > BM_K_MAX_INV_A)
+            return bm_fail(err, BM_EINVAL, "evaluation point k[%d] = %g 1/Angstrom is outside "
+                           "the domain |k_i| <= 1e3 1/Angstrom (a few hundred reciprocal-lattice "
+                           "vectors at most)", c, k_at[c]);
+    }
     return BM_OK;
 }
 
@@ -338,12 +347,17 @@ static bm_status band_finite(const bm_grid *g, size_t band, bm_errbuf *err)
             acc[u] += e[p + u] - e[p + u];
     for (size_t p = p4; p < npt; p++)
         acc[0] += e[p] - e[p];
-    if (acc[0] + acc[1] + acc[2] + acc[3] == 0.0)
+    double big = 0.0;
+    for (size_t p = 0; p < npt; p++)
+        big = fmax(big, fabs(e[p]));
+    if (acc[0] + acc[1] + acc[2] + acc[3] == 0.0 && big <= BM_ENERGY_MAX_EV)
         return BM_OK;
     for (size_t p = 0; p < npt; p++)
-        if (!isfinite(e[p]))
+        if (!isfinite(e[p]) || fabs(e[p]) > BM_ENERGY_MAX_EV)
             return bm_fail(err, BM_EINVAL, "band %zu, mesh index (i, j, l) = (%zu, %zu, %zu): "
-                           "energy %g is not finite", band, p / (n2 * n3), (p / n3) % n2, p % n3, e[p]);
+                           "energy %g %s", band, p / (n2 * n3), (p / n3) % n2, p % n3, e[p],
+                           isfinite(e[p]) ? "eV is outside the domain |E| <= 1e6 eV (band "
+                           "energies are eV; a unit mistake?)" : "is not finite");
     return BM_OK;
 }
 
@@ -458,7 +472,8 @@ done:
     free(d);
 }
 
-/* Ratio (E(f+-2s) - E0) / (E(f+-s) - E0) along the sampled mesh axes. */
+/* Ratio (E(f+-2s) - E0) / (E(f+-s) - E0) along the sampled mesh axes
+ * (through the interpolant, so s need not be a mesh step). */
 static int grid_cone(grid_ctx *c, const double f[3], double e0, double *ratio, double *slope)
 {
     double rsum = 0.0, ssum = 0.0;
@@ -466,7 +481,10 @@ static int grid_cone(grid_ctx *c, const double f[3], double e0, double *ratio, d
     for (int a = 0; a < 3; a++) {
         if (c->g->mesh[a] == 1)
             continue;
-        double step = 1.0 / (double)c->g->mesh[a];
+        /* one mesh step, but never beyond an eighth of the cell: on a coarse
+         * mesh the doubled step would reach round the zone (a cosine band on
+         * a 4-point axis compared E at a quarter and a half of the period) */
+        double step = fmin(1.0 / (double)c->g->mesh[a], 0.125);
         double de[3] = { 0, 0, 0 };
         for (int s = 1; s <= 2; s++)
             for (int sg = -1; sg <= 1; sg += 2) {
@@ -1878,6 +1896,14 @@ bm_status bm_ktable_mass_tensors(const bm_ktable *t, size_t band, bm_search whic
         if (!isfinite(t->energies[band * np + m]))
             return bm_fail(err, BM_EINVAL, "k-table point %zu, band %zu: energy %g is not finite",
                            m, band, t->energies[band * np + m]);
+        if (fabs(t->energies[band * np + m]) > BM_ENERGY_MAX_EV)
+            return bm_fail(err, BM_EINVAL, "k-table point %zu, band %zu: energy %g eV is "
+                           "outside the domain |E| <= 1e6 eV (a unit mistake?)", m, band,
+                           t->energies[band * np + m]);
+        for (int i = 0; i < 3; i++)
+            if (fabs(t->k[3 * m + i]) > BM_K_MAX_INV_A)
+                return bm_fail(err, BM_EINVAL, "k-table point %zu: k[%d] = %g 1/Angstrom is "
+                               "outside the domain |k_i| <= 1e3 1/Angstrom", m, i, t->k[3 * m + i]);
     }
     /* principal directions of the sampled points: a line, a plane or a volume */
     double cen[3] = { 0, 0, 0 }, cov[3][3] = { { 0 } };

@@ -809,6 +809,68 @@ static void test_table_given_point_not_stationary(void)
     bm_mass_tensors_free(res, n);
 }
 
+
+/* ------------------------------------------------------- numerical edges */
+
+/* E = -sum cos(k_i a) eV on n^3 (or n x n x 1) meshes: a first harmonic, so
+ * the interpolant is exact from n = 3; d2E/dk2 = a^2 eV A^2 at Gamma, so
+ * m* = (hbar^2/m_e) / a^2 (mathematical identity).
+ * Coarse meshes were once called conical (the doubled step of the cone test
+ * reached round the zone). */
+static void test_cosine_coarse_meshes(void)
+{
+    const double a = 4.0, want = BM_HBAR2_OVER_ME_EV_A2 / (a * a);
+    const size_t meshes[3][3] = { { 4, 4, 4 }, { 3, 3, 3 }, { 4, 4, 1 } };
+    for (int q = 0; q < 3; q++) {
+        const size_t *m = meshes[q];
+        size_t np = m[0] * m[1] * m[2];
+        double *e = malloc(np * sizeof *e);
+        for (size_t i = 0; i < m[0]; i++)
+            for (size_t j = 0; j < m[1]; j++)
+                for (size_t l = 0; l < m[2]; l++)
+                    e[(i * m[1] + j) * m[2] + l] = -cos(2 * M_PI * (double)i / m[0])
+                        - cos(2 * M_PI * (double)j / m[1])
+                        - (m[2] > 1 ? cos(2 * M_PI * (double)l / m[2]) : 0.0);
+        bm_grid g = { .mesh = { m[0], m[1], m[2] }, .nbands = 1, .energies = e };
+        double recip[3][3];
+        cubic(a, recip);
+        memcpy(g.recip, recip, sizeof recip);
+        bm_mass_tensor *res;
+        size_t n;
+        g_assert_cmpint(bm_grid_mass_tensors(&g, 0, BM_SEARCH_MINIMUM, NULL, NULL, &res, &n, NULL),
+                        ==, BM_OK);
+        g_assert_cmpint(res[0].kind, ==, BM_EXTREMUM_MINIMUM);
+        g_assert_false(bm_warnings_has(&res[0].warnings, BM_WARN_CONICAL_POINT));
+        int dims = m[2] > 1 ? 3 : 2;
+        for (int d = 0; d < dims; d++)
+            g_assert_cmpfloat_with_epsilon(res[0].masses[d], want, 1e-9 * want);
+        bm_mass_tensors_free(res, n);
+        free(e);
+    }
+}
+
+/* The domain: |E| <= 1e6 eV and |k_i| <= 1e3 1/A, refused by name beyond. */
+static void test_input_domain(void)
+{
+    double e[8];
+    for (int p = 0; p < 8; p++)
+        e[p] = 1e300;
+    bm_grid g = { .mesh = { 2, 2, 2 }, .nbands = 1, .energies = e };
+    cubic(4.0, g.recip);
+    bm_mass_tensor *res = NULL;
+    size_t n = 0;
+    bm_errbuf err = { 0 };
+    g_assert_cmpint(bm_grid_mass_tensors(&g, 0, BM_SEARCH_MINIMUM, NULL, NULL, &res, &n, &err),
+                    ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "outside the domain"));
+    for (int p = 0; p < 8; p++)
+        e[p] = (double)p;
+    const double far[3] = { 1e17, 0, 0 };
+    g_assert_cmpint(bm_grid_mass_tensors(&g, 0, BM_SEARCH_MINIMUM, far, NULL, &res, &n, &err),
+                    ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "k[0] = 1e+17"));
+}
+
 int main(int argc, char **argv)
 {
     g_test_init(&argc, &argv, NULL);
@@ -833,6 +895,8 @@ int main(int argc, char **argv)
     g_test_add_func("/core/extrema/table-line", test_table_line);
     g_test_add_func("/core/extrema/table-plane-cone", test_table_plane_and_cone);
     g_test_add_func("/core/extrema/bad-input", test_bad_input);
+    g_test_add_func("/extrema/cosine-coarse-meshes", test_cosine_coarse_meshes);
+    g_test_add_func("/extrema/input-domain", test_input_domain);
     g_test_add_func("/extrema/table-extremum-inside", test_table_extremum_inside);
     g_test_add_func("/extrema/table-saddle-once", test_table_saddle_once);
     g_test_add_func("/extrema/table-minimum-beyond-data", test_table_minimum_beyond_data);
