@@ -78,37 +78,75 @@ double bm_crystal_nearest_neighbour(double lattice[3][3], const double (*positio
     return best;
 }
 
+/* 1 when R maps every reciprocal vector onto an integer combination of them. */
+static int maps_lattice(const double r[3][3], const double b[3][3], const double binv[3][3])
+{
+    for (int i = 0; i < 3; i++) {
+        double rb[3] = { 0, 0, 0 };
+        for (int a = 0; a < 3; a++)
+            for (int c = 0; c < 3; c++)
+                rb[a] += r[a][c] * b[i][c];
+        for (int j = 0; j < 3; j++) {
+            double f = rb[0] * binv[0][j] + rb[1] * binv[1][j] + rb[2] * binv[2][j];
+            if (fabs(f - nearbyint(f)) > 1e-6)
+                return 0;
+        }
+    }
+    return 1;
+}
+
 bm_status bm_lattice_rotations_cartesian(const double recip[3][3],
                                          double rot[BM_CRYSTAL_MAX_ROTATIONS][3][3],
                                          size_t *nrot, bm_errbuf *err)
 {
     *nrot = 0;
-    double b[3][3], a[3][3], at[3][3], ainvt[3][3];
+    double b[3][3], binv[3][3];
     memcpy(b, recip, sizeof b);
-    /* the direct lattice: A = 2 pi B^-T, the same map as B from A */
-    if (bm_reciprocal3(b, a) != 0)
+    if (bm_inv3(b, binv) != 0)
         return bm_fail(err, BM_EINVAL, "lattice symmetry: singular reciprocal vectors");
-    /* one atom at the origin: the space group of the lattice itself */
-    double origin[1][3] = { { 0, 0, 0 } };
-    int types[1] = { 1 }, w[BM_CRYSTAL_MAX_ROTATIONS][3][3];
-    double scale = fmax(bm_norm3(a[0]), fmax(bm_norm3(a[1]), bm_norm3(a[2])));
-    size_t n;
-    bm_status st = bm_crystal_rotations(a, (const double (*)[3])origin, types, 1,
-                                        1e-5 * scale, w, &n, err);
-    if (st != BM_OK)
-        return st;
-    /* x = A^T x_f, x_f' = W x_f: R = A^T W A^-T on Cartesian vectors */
-    bm_transpose3(a, at);
-    if (bm_inv3(at, ainvt) != 0)
-        return bm_fail(err, BM_EINVAL, "lattice symmetry: singular lattice");
-    for (size_t o = 0; o < n; o++) {
-        double wd[3][3], t1[3][3];
-        for (int i = 0; i < 3; i++)
-            for (int j = 0; j < 3; j++)
-                wd[i][j] = w[o][i][j];
-        bm_matmul3(at, wd, t1);
-        bm_matmul3(t1, ainvt, rot[o]);
+    /* candidates: the 48 signed permutations of the axes (cube, and every
+     * lattice with its axes along x, y, z) and the 24 operations of the
+     * hexagon with c along z (a along x or y); a search, not a list per
+     * system, so a lattice keeps exactly the ones that map it onto itself */
+    static const int perms[6][3] = { { 0, 1, 2 }, { 1, 2, 0 }, { 2, 0, 1 },
+                                     { 1, 0, 2 }, { 0, 2, 1 }, { 2, 1, 0 } };
+    double cand[48 + 48][3][3];
+    size_t nc = 0;
+    for (int p = 0; p < 6; p++)
+        for (int sg = 0; sg < 8; sg++) {
+            memset(cand[nc], 0, sizeof cand[nc]);
+            for (int a = 0; a < 3; a++)
+                cand[nc][a][perms[p][a]] = (sg >> a) & 1 ? -1.0 : 1.0;
+            nc++;
+        }
+    for (int n = 0; n < 6; n++)
+        for (int m = 0; m < 8; m++) {
+            /* R_z(60 n) times: identity, mirror x, mirror y, and each with z -> -z */
+            double c = cos(3.14159265358979323846 * n / 3.0), s = sin(3.14159265358979323846 * n / 3.0);
+            double rz[3][3] = { { c, -s, 0 }, { s, c, 0 }, { 0, 0, 1 } };
+            double mir[3][3] = { { 1, 0, 0 }, { 0, 1, 0 }, { 0, 0, 1 } };
+            if (m & 1)
+                mir[0][0] = -1.0;
+            if (m & 2)
+                mir[1][1] = -1.0;
+            if (m & 4)
+                mir[2][2] = -1.0;
+            bm_matmul3(rz, mir, cand[nc++]);
+        }
+    for (size_t q = 0; q < nc && *nrot < BM_CRYSTAL_MAX_ROTATIONS; q++) {
+        if (!maps_lattice((const double (*)[3])cand[q], (const double (*)[3])b,
+                          (const double (*)[3])binv))
+            continue;
+        int seen = 0;
+        for (size_t o = 0; o < *nrot && !seen; o++) {
+            double d = 0.0;
+            for (int i = 0; i < 3; i++)
+                for (int j = 0; j < 3; j++)
+                    d = fmax(d, fabs(rot[o][i][j] - cand[q][i][j]));
+            seen = d < 1e-9;
+        }
+        if (!seen)
+            memcpy(rot[(*nrot)++], cand[q], sizeof cand[q]);
     }
-    *nrot = n;
     return BM_OK;
 }

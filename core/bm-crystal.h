@@ -25,9 +25,13 @@ bm_status bm_crystal_rotations(double lattice[3][3], const double (*positions)[3
 double bm_crystal_nearest_neighbour(double lattice[3][3], const double (*positions)[3],
                                     size_t natoms);
 
-/* The point group of the lattice whose reciprocal vectors are the rows of
- * recip (its holohedry: every rotation of the Bravais lattice), as Cartesian
- * orthogonal matrices (k' = R k). */
+/* Rotations of the lattice whose reciprocal vectors are the rows of recip,
+ * as Cartesian orthogonal matrices (k' = R k): those among the signed axis
+ * permutations and the hexagon's operations about z that map the lattice
+ * onto itself. That is the whole holohedry of a lattice in its usual
+ * orientation (cubic, tetragonal, orthorhombic axes along x, y, z; hexagonal
+ * and trigonal with c along z); in another orientation fewer are found,
+ * which only ever means less snapping. Microseconds, no spglib. */
 bm_status bm_lattice_rotations_cartesian(const double recip[3][3],
                                          double rot[BM_CRYSTAL_MAX_ROTATIONS][3][3],
                                          size_t *nrot, bm_errbuf *err);

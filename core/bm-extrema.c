@@ -341,16 +341,18 @@ static bm_status band_finite(const bm_grid *g, size_t band, bm_errbuf *err)
     /* x - x is 0 for finite x and NaN otherwise: a branch-free pass that
      * vectorises; the slow search for the culprit runs only on failure. */
     double acc[4] = { 0.0, 0.0, 0.0, 0.0 };   /* independent chains pipeline */
+    long over[4] = { 0, 0, 0, 0 };            /* and the domain, by comparisons */
     size_t p4 = npt - npt % 4;
     for (size_t p = 0; p < p4; p += 4)
-        for (int u = 0; u < 4; u++)
+        for (int u = 0; u < 4; u++) {
             acc[u] += e[p + u] - e[p + u];
-    for (size_t p = p4; p < npt; p++)
+            over[u] += fabs(e[p + u]) > BM_ENERGY_MAX_EV;
+        }
+    for (size_t p = p4; p < npt; p++) {
         acc[0] += e[p] - e[p];
-    double big = 0.0;
-    for (size_t p = 0; p < npt; p++)
-        big = fmax(big, fabs(e[p]));
-    if (acc[0] + acc[1] + acc[2] + acc[3] == 0.0 && big <= BM_ENERGY_MAX_EV)
+        over[0] += fabs(e[p]) > BM_ENERGY_MAX_EV;
+    }
+    if (acc[0] + acc[1] + acc[2] + acc[3] == 0.0 && !(over[0] + over[1] + over[2] + over[3]))
         return BM_OK;
     for (size_t p = 0; p < npt; p++)
         if (!isfinite(e[p]) || fabs(e[p]) > BM_ENERGY_MAX_EV)
@@ -1134,6 +1136,9 @@ static void snap_to_symmetry(grid_ctx *c, const double rot[][3][3], size_t nrot,
         if (!(fabs(mm - t->masses[m]) <= allowed) || (mm > 0) != (t->masses[m] > 0))
             return;   /* the tensor breaks the site symmetry beyond its errors */
     }
+    for (int i = 0; i < 3; i++)
+        if (fabs(ks[i]) < 1e-12 * h)
+            ks[i] = 0.0;   /* rounding of the average, not a coordinate */
     double dk[3] = { ks[0] - t->k[0], ks[1] - t->k[1], ks[2] - t->k[2] };
     t->snap_shift = bm_norm3(dk);
     memcpy(t->k, ks, sizeof ks);
