@@ -8,6 +8,7 @@
 #include "registry.h"
 #include "bm-json.h"
 #include "render.h"
+#include "output.h"
 
 #define EXIT_USAGE 2
 
@@ -49,7 +50,7 @@ static void print_main_help(void)
            PACKAGE_VERSION);
 }
 
-/* Writes text to path atomically (temp file + rename), or to stdout. */
+/* Writes text to stdout, or to path by the rules of bm_cli_write_output. */
 static gboolean emit(const char *path, const char *text, GError **error)
 {
     if (!path) {
@@ -59,12 +60,7 @@ static gboolean emit(const char *path, const char *text, GError **error)
                     "output: %s", g_strerror(errno));
         return FALSE;
     }
-    g_autoptr(GError) io = NULL;
-    if (!g_file_set_contents(path, text, -1, &io)) {
-        g_set_error(error, BM_ERROR, BM_ERROR_IO, "cannot write %s: %s", path, io->message);
-        return FALSE;
-    }
-    return TRUE;
+    return bm_cli_write_output(path, text, strlen(text), error);
 }
 
 static char *read_all(const char *path, GError **error)
@@ -187,7 +183,7 @@ static void print_op_help(const BmOperation *op)
         printf("  %-30s %s\n", f->name, f->meaning);
     printf("\nOutput: a readable table; --json for the response object "
            "(as 'bandmass call %s'),\n--csv for its \"points\" as CSV, "
-           "--output FILE to write it atomically.\n", op->name);
+           "--output FILE to write it (a file atomically, a device or FIFO through).\n", op->name);
 }
 
 /* Markdown table cells: '|' escaped, no line breaks. */
