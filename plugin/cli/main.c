@@ -63,12 +63,33 @@ static gboolean emit(const char *path, const char *text, GError **error)
     return bm_cli_write_output(path, text, strlen(text), error);
 }
 
+static GString *read_stdin(GError **error);
+
+/* The request text; one holding a NUL byte is refused here, where its length
+ * is still known (past the NUL a C string would silently end). */
 static char *read_all(const char *path, GError **error)
 {
     char *text = NULL;
-    if (path) {
-        return bm_error_read_file(path, "request", &text, NULL, error) ? text : NULL;
+    gsize len = 0;
+    if (path && !bm_error_read_file(path, "request", &text, &len, error))
+        return NULL;
+    if (!path) {
+        GString *s = read_stdin(error);
+        if (!s)
+            return NULL;
+        len = s->len;
+        text = g_string_free(s, FALSE);
     }
+    if (memchr(text, '\0', len)) {
+        g_autofree char *what = g_strdup_printf("request %s", path ? path : "on standard input");
+        if (!bm_json_check_text(text, (gssize)len, what, error))
+            g_clear_pointer(&text, g_free);
+    }
+    return text;
+}
+
+static GString *read_stdin(GError **error)
+{
     GString *s = g_string_new(NULL);
     char buf[65536];
     size_t got;
@@ -81,7 +102,7 @@ static char *read_all(const char *path, GError **error)
             return NULL;
         }
     }
-    return g_string_free(s, FALSE);
+    return s;
 }
 
 static void print_markdown(void);
