@@ -365,32 +365,461 @@ void bm_json_write(GString *out, JsonNode *node, gboolean pretty)
     write_node(out, node, pretty, 0);
 }
 
-gboolean bm_json_check_depth(const char *text, gssize length, const char *what, GError **error)
+/* ---- quoting user text in messages ---- */
+
+char *bm_text_for_message(const char *text, gssize length)
 {
     gsize n = length < 0 ? strlen(text) : (gsize)length;
-    guint depth = 0;
-    gboolean in_string = FALSE;
-    for (gsize i = 0; i < n; i++) {
-        char ch = text[i];
-        if (in_string) {
-            if (ch == '\\')
+    GString *out = g_string_new("\"");
+    gsize shown = 0, i = 0;
+    while (i < n && shown < BM_MESSAGE_TEXT_CHARS) {
+        guchar c = (guchar)text[i];
+        if (c == '"' || c == '\\') {
+            g_string_append_c(out, '\\');
+            g_string_append_c(out, (char)c);
+            i++;
+        } else if (c >= 0x20 && c < 0x7f) {
+            g_string_append_c(out, (char)c);
+            i++;
+        } else if (c >= 0x80) {
+            gunichar u = g_utf8_get_char_validated(text + i, (gssize)(n - i));
+            if (u == (gunichar)-1 || u == (gunichar)-2) {
+                g_string_append_printf(out, "\\x%02X", c);   /* not UTF-8: shown as a byte */
                 i++;
-            else if (ch == '"')
-                in_string = FALSE;
-        } else if (ch == '"') {
-            in_string = TRUE;
-        } else if (ch == '[' || ch == '{') {
-            if (++depth > BM_JSON_MAX_DEPTH) {
-                g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: JSON nested deeper than "
-                            "%d levels (at byte %zu); no bandmass document needs that many",
-                            what, BM_JSON_MAX_DEPTH, (size_t)i);
-                return FALSE;
+            } else {
+                const char *next = g_utf8_next_char(text + i);
+                g_string_append_len(out, text + i, next - (text + i));
+                i = (gsize)(next - text);
             }
-        } else if ((ch == ']' || ch == '}') && depth > 0) {
-            depth--;
+        } else {
+            g_string_append_printf(out, "\\x%02X", c);   /* control characters */
+            i++;
+        }
+        shown++;
+    }
+    g_string_append(out, i < n ? "\"... (" : "\"");
+    if (i < n)
+        g_string_append_printf(out, "%zu bytes in all)", (size_t)n);
+    return g_string_free(out, FALSE);
+}
+
+/* ---- the strict JSON check (one pass, no recursion) ---- */
+
+typedef struct {
+    char kind;              /* '{' or '[' */
+    guint64 index;          /* element index of an array */
+    GString *key;           /* the current key of an object */
+    GHashTable *keys;       /* the keys seen in this object */
+} Frame;
+
+typedef struct {
+    const char *text;
+    gsize n;
+    const char *what;
+    Frame stack[BM_JSON_MAX_DEPTH];
+    guint depth;
+    GError **error;
+} Scan;
+
+/* "WHAT: line L, column C (byte B), at donors[0]."density_cm3": [not valid
+ * JSON: ]MESSAGE": grammar errors say "not valid JSON", refusals of valid
+ * JSON (depth, a repeated key, number ranges) do not. */
+static gboolean scan_vfail(Scan *s, gsize pos, gboolean grammar, const char *fmt, va_list ap)
+    G_GNUC_PRINTF(4, 0);
+static gboolean scan_vfail(Scan *s, gsize pos, gboolean grammar, const char *fmt, va_list ap)
+{
+    g_autofree char *msg = g_strdup_vprintf(fmt, ap);
+    gsize line = 1, col = 1;
+    for (gsize i = 0; i < pos && i < s->n; i++) {
+        if (s->text[i] == '\n') {
+            line++;
+            col = 1;
+        } else if (((guchar)s->text[i] & 0xC0) != 0x80) {
+            col++;
         }
     }
+    g_autoptr(GString) path = g_string_new(NULL);
+    for (guint d = 0; d < s->depth; d++) {
+        Frame *f = &s->stack[d];
+        if (f->kind == '[') {
+            g_string_append_printf(path, "[%" G_GUINT64_FORMAT "]", f->index);
+        } else if (f->key->len) {
+            g_autofree char *k = bm_text_for_message(f->key->str, (gssize)f->key->len);
+            g_string_append_printf(path, "%s%s", path->len ? "." : "", k);
+        }
+    }
+    g_set_error(s->error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                "%s: line %zu, column %zu (byte %zu)%s%s: %s%s", s->what, (size_t)line,
+                (size_t)col, (size_t)pos, path->len ? ", at " : "", path->str,
+                grammar ? "not valid JSON: " : "", msg);
+    return FALSE;
+}
+
+static gboolean scan_fail(Scan *s, gsize pos, const char *fmt, ...) G_GNUC_PRINTF(3, 4);
+static gboolean scan_fail(Scan *s, gsize pos, const char *fmt, ...)
+{
+    va_list ap;
+    va_start(ap, fmt);
+    scan_vfail(s, pos, TRUE, fmt, ap);
+    va_end(ap);
+    return FALSE;
+}
+
+static gboolean scan_refuse(Scan *s, gsize pos, const char *fmt, ...) G_GNUC_PRINTF(3, 4);
+static gboolean scan_refuse(Scan *s, gsize pos, const char *fmt, ...)
+{
+    va_list ap;
+    va_start(ap, fmt);
+    scan_vfail(s, pos, FALSE, fmt, ap);
+    va_end(ap);
+    return FALSE;
+}
+
+static int hex_digit(char c)
+{
+    return g_ascii_isxdigit(c) ? g_ascii_xdigit_value(c) : -1;
+}
+
+static gboolean scan_hex4(Scan *s, gsize at, gunichar *out)
+{
+    if (at + 4 > s->n)
+        return scan_fail(s, at, "a \\u escape needs four hexadecimal digits");
+    gunichar v = 0;
+    for (int k = 0; k < 4; k++) {
+        int d = hex_digit(s->text[at + (gsize)k]);
+        if (d < 0)
+            return scan_fail(s, at, "a \\u escape needs four hexadecimal digits");
+        v = v * 16 + (gunichar)d;
+    }
+    *out = v;
     return TRUE;
+}
+
+/* The string starting at *pos (the opening quote); *pos ends after the
+ * closing quote. Its value is appended to decoded when that is not NULL. */
+static gboolean scan_string(Scan *s, gsize *pos, GString *decoded)
+{
+    gsize i = *pos + 1, run = i;
+    for (;;) {
+        if (i >= s->n)
+            return scan_fail(s, *pos, "a string that is never closed");
+        guchar c = (guchar)s->text[i];
+        if (c == '"' || c == '\\' || c < 0x20) {
+            const char *bad = NULL;
+            if (!g_utf8_validate(s->text + run, (gssize)(i - run), &bad))
+                return scan_fail(s, (gsize)(bad - s->text), "byte \\x%02X in a string is "
+                                 "not UTF-8 text", (guchar)*bad);
+            if (decoded)
+                g_string_append_len(decoded, s->text + run, (gssize)(i - run));
+        }
+        if (c == '"') {
+            *pos = i + 1;
+            return TRUE;
+        }
+        if (c < 0x20)
+            return scan_fail(s, i, c == 0 ? "a NUL byte inside a string"
+                             : "control character \\x%02X inside a string (write it as an "
+                               "escape such as \\n)", c);
+        if (c != '\\') {
+            i++;
+            continue;
+        }
+        if (i + 1 >= s->n)
+            return scan_fail(s, *pos, "a string that is never closed");
+        char e = s->text[i + 1];
+        const char *simple = strchr("\"\\/bfnrt", e);
+        if (e && simple) {
+            static const char to[] = "\"\\/\b\f\n\r\t";
+            if (decoded)
+                g_string_append_c(decoded, to[simple - "\"\\/bfnrt"]);
+            i += 2;
+        } else if (e == 'u') {
+            gunichar u;
+            if (!scan_hex4(s, i + 2, &u))
+                return FALSE;
+            gsize len = 6;
+            if (u >= 0xD800 && u <= 0xDBFF) {
+                gunichar lo;
+                if (i + 12 > s->n || s->text[i + 6] != '\\' || s->text[i + 7] != 'u'
+                    || !scan_hex4(s, i + 8, &lo) || lo < 0xDC00 || lo > 0xDFFF) {
+                    g_clear_error(s->error);
+                    return scan_fail(s, i, "\\u%04X is half a surrogate pair without its "
+                                     "other half", u);
+                }
+                u = 0x10000 + ((u - 0xD800) << 10) + (lo - 0xDC00);
+                len = 12;
+            } else if (u >= 0xDC00 && u <= 0xDFFF) {
+                return scan_fail(s, i, "\\u%04X is half a surrogate pair without its other "
+                                 "half", u);
+            } else if (u == 0) {
+                return scan_fail(s, i, "\\u0000 (a NUL character) cannot be held in a string");
+            }
+            if (decoded)
+                g_string_append_unichar(decoded, u);
+            i += len;
+        } else {
+            return scan_fail(s, i, "\\%c is not a JSON escape", g_ascii_isprint(e) ? e : '?');
+        }
+        run = i;
+    }
+}
+
+/* A number by JSON's grammar; integers must fit in 64 bits (json-glib reads
+ * them as gint64 and would wrap), reals must not overflow a double. */
+static gboolean scan_number(Scan *s, gsize *pos)
+{
+    const char *t = s->text;
+    gsize i = *pos, start = i;
+    gboolean negative = t[i] == '-';
+    if (negative)
+        i++;
+    gsize digits = i;
+    if (i < s->n && t[i] == '0') {
+        i++;
+        if (i < s->n && g_ascii_isdigit(t[i]))
+            return scan_fail(s, start, "a number with a leading zero is not JSON");
+    } else if (i < s->n && g_ascii_isdigit(t[i])) {
+        while (i < s->n && g_ascii_isdigit(t[i]))
+            i++;
+    } else {
+        return scan_fail(s, start, "'-' must be followed by digits");
+    }
+    gsize int_end = i;
+    gboolean real = FALSE;
+    if (i < s->n && t[i] == '.') {
+        real = TRUE;
+        i++;
+        if (i >= s->n || !g_ascii_isdigit(t[i]))
+            return scan_fail(s, start, "a decimal point must be followed by digits");
+        while (i < s->n && g_ascii_isdigit(t[i]))
+            i++;
+    }
+    if (i < s->n && (t[i] == 'e' || t[i] == 'E')) {
+        real = TRUE;
+        i++;
+        if (i < s->n && (t[i] == '+' || t[i] == '-'))
+            i++;
+        if (i >= s->n || !g_ascii_isdigit(t[i]))
+            return scan_fail(s, start, "an exponent must have digits");
+        while (i < s->n && g_ascii_isdigit(t[i]))
+            i++;
+    }
+    *pos = i;
+    g_autofree char *shown = bm_text_for_message(t + start, (gssize)(i - start));
+    if (!real) {
+        static const char max[] = "9223372036854775807", min[] = "9223372036854775808";
+        gsize nd = int_end - digits;
+        const char *limit = negative ? min : max;
+        if (nd > 19 || (nd == 19 && memcmp(t + digits, limit, 19) > 0))
+            return scan_refuse(s, start, "the integer %s is beyond the 64-bit integers JSON is "
+                             "read with (-2^63 .. 2^63 - 1); write it with a decimal point or "
+                             "an exponent if a real number is meant", shown);
+        return TRUE;
+    }
+    g_autofree char *copy = g_strndup(t + start, i - start);
+    double v = g_ascii_strtod(copy, NULL);
+    if (!isfinite(v))
+        return scan_refuse(s, start, "the number %s is beyond the range of double-precision "
+                         "numbers (about 1.8e308)", shown);
+    return TRUE;
+}
+
+static gboolean scan_unexpected(Scan *s, gsize i, const char *expected)
+{
+    const char *t = s->text;
+    guchar c = (guchar)t[i];
+    if (c == '/' && i + 1 < s->n && (t[i + 1] == '*' || t[i + 1] == '/'))
+        return scan_fail(s, i, "comments are not JSON (%s)", t[i + 1] == '*' ? "/* */" : "//");
+    if (c == '\'')
+        return scan_fail(s, i, "single-quoted strings are not JSON: use double quotes");
+    if (c == 0)
+        return scan_fail(s, i, "a NUL byte; a JSON text holds no NUL");
+    if (i == 0 && s->n >= 3 && memcmp(t, "\xEF\xBB\xBF", 3) == 0)
+        return scan_fail(s, i, "a UTF-8 byte-order mark; save the file without it");
+    gsize w = i + (c == '-' || c == '+');
+    if (w + 3 <= s->n && (g_ascii_strncasecmp(t + w, "nan", 3) == 0
+                          || g_ascii_strncasecmp(t + w, "inf", 3) == 0))
+        return scan_fail(s, i, "JSON has no NaN or Infinity (numbers must be finite)");
+    if (c >= 0x21 && c < 0x7f)
+        return scan_fail(s, i, "unexpected character '%c', expected %s", c, expected);
+    return scan_fail(s, i, "unexpected byte \\x%02X, expected %s", c, expected);
+}
+
+static gboolean scan_literal(Scan *s, gsize *pos)
+{
+    static const char *const words[] = { "true", "false", "null" };
+    for (gsize w = 0; w < G_N_ELEMENTS(words); w++) {
+        gsize len = strlen(words[w]);
+        if (s->n - *pos >= len && memcmp(s->text + *pos, words[w], len) == 0) {
+            *pos += len;
+            return TRUE;
+        }
+    }
+    return scan_unexpected(s, *pos, "a value");
+}
+
+gboolean bm_json_check_text(const char *text, gssize length, const char *what, GError **error)
+{
+    Scan s = { .text = text ? text : "", .what = what ? what : "JSON text", .error = error };
+    s.n = length < 0 ? strlen(s.text) : (gsize)length;
+    enum { VALUE, VALUE_OR_CLOSE, KEY, KEY_OR_CLOSE, COLON, AFTER, DONE } state = VALUE;
+    gboolean ok = TRUE;
+    gsize i = 0;
+    while (ok) {
+        while (i < s.n && (s.text[i] == ' ' || s.text[i] == '\t' || s.text[i] == '\n'
+                           || s.text[i] == '\r'))
+            i++;
+        if (i >= s.n) {
+            if (s.depth == 0 && state == VALUE)
+                ok = scan_fail(&s, i, "no JSON value (the text is empty)");
+            else if (s.depth > 0)
+                ok = scan_fail(&s, i, "the text ends inside %s",
+                               s.stack[s.depth - 1].kind == '{' ? "an object" : "an array");
+            break;
+        }
+        char c = s.text[i];
+        Frame *top = s.depth ? &s.stack[s.depth - 1] : NULL;
+        switch (state) {
+        case DONE:
+            ok = scan_fail(&s, i, "more text after the end of the JSON value (a document "
+                           "holds one value: one request, one object)");
+            break;
+        case VALUE_OR_CLOSE:
+            if (c == ']') {
+                s.depth--;
+                i++;
+                state = AFTER;
+                break;
+            }
+            G_GNUC_FALLTHROUGH;
+        case VALUE:
+            if (c == '{' || c == '[') {
+                if (s.depth == BM_JSON_MAX_DEPTH) {
+                    ok = scan_refuse(&s, i, "JSON nested deeper than %d levels; no bandmass "
+                                   "document needs that many", BM_JSON_MAX_DEPTH);
+                    break;
+                }
+                Frame *f = &s.stack[s.depth++];
+                f->kind = c;
+                f->index = 0;
+                if (!f->key)
+                    f->key = g_string_new(NULL);
+                g_string_truncate(f->key, 0);
+                if (f->keys)
+                    g_hash_table_remove_all(f->keys);
+                i++;
+                state = c == '{' ? KEY_OR_CLOSE : VALUE_OR_CLOSE;
+            } else if (c == '"') {
+                ok = scan_string(&s, &i, NULL);
+                state = AFTER;
+            } else if ((c == '-' && (i + 1 >= s.n || g_ascii_isdigit(s.text[i + 1])))
+                       || g_ascii_isdigit(c)) {
+                ok = scan_number(&s, &i);
+                state = AFTER;
+            } else if (c == 't' || c == 'f' || (c == 'n' && (i + 1 >= s.n
+                                                             || s.text[i + 1] != 'a'))) {
+                ok = scan_literal(&s, &i);
+                state = AFTER;
+            } else {
+                ok = scan_unexpected(&s, i, "a value");
+            }
+            break;
+        case KEY_OR_CLOSE:
+            if (c == '}') {
+                s.depth--;
+                i++;
+                state = AFTER;
+                break;
+            }
+            G_GNUC_FALLTHROUGH;
+        case KEY: {
+            if (c != '"') {
+                ok = scan_unexpected(&s, i, "a key in double quotes");
+                break;
+            }
+            gsize at = i;
+            g_string_truncate(top->key, 0);
+            ok = scan_string(&s, &i, top->key);
+            if (!ok)
+                break;
+            if (!top->keys)
+                top->keys = g_hash_table_new_full(g_str_hash, g_str_equal, g_free, NULL);
+            if (memchr(top->key->str, '\0', top->key->len)) {
+                ok = scan_fail(&s, at, "a key holding a NUL");
+                break;
+            }
+            if (!g_hash_table_add(top->keys, g_strdup(top->key->str))) {
+                g_autofree char *dup = bm_text_for_message(top->key->str, (gssize)top->key->len);
+                g_string_truncate(top->key, 0);   /* the path names the enclosing object */
+                ok = scan_refuse(&s, at, "the key %s appears twice in one object (only one "
+                               "value can be meant)", dup);
+                break;
+            }
+            state = COLON;
+            break;
+        }
+        case COLON:
+            if (c != ':') {
+                ok = scan_unexpected(&s, i, "':' after the key");
+                break;
+            }
+            i++;
+            state = VALUE;
+            break;
+        case AFTER:
+            if (!top) {
+                state = DONE;
+                break;
+            }
+            if (c == ',') {
+                i++;
+                if (top->kind == '[') {
+                    top->index++;
+                    state = VALUE;
+                } else {
+                    state = KEY;
+                }
+            } else if ((c == '}' && top->kind == '{') || (c == ']' && top->kind == '[')) {
+                s.depth--;
+                i++;
+            } else {
+                ok = scan_unexpected(&s, i, top->kind == '{' ? "',' or '}'" : "',' or ']'");
+            }
+            break;
+        }
+    }
+    for (guint d = 0; d < BM_JSON_MAX_DEPTH; d++) {
+        if (s.stack[d].key)
+            g_string_free(s.stack[d].key, TRUE);
+        if (s.stack[d].keys)
+            g_hash_table_destroy(s.stack[d].keys);
+    }
+    return ok;
+}
+
+gboolean bm_json_check_depth(const char *text, gssize length, const char *what, GError **error)
+{
+    return bm_json_check_text(text, length, what, error);
+}
+
+JsonNode *bm_json_parse(const char *text, gssize length, const char *what, GError **error)
+{
+    if (!bm_json_check_text(text, length, what, error))
+        return NULL;
+    g_autoptr(JsonParser) parser = json_parser_new_immutable();
+    g_autoptr(GError) parse = NULL;
+    if (!json_parser_load_from_data(parser, text, length, &parse)) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: not valid JSON: %s",
+                    what ? what : "JSON text", parse->message);
+        return NULL;
+    }
+    JsonNode *root = json_parser_get_root(parser);
+    if (!root) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: no JSON value",
+                    what ? what : "JSON text");
+        return NULL;
+    }
+    return json_node_copy(root);
 }
 
 char *bm_json_to_string(JsonNode *node, gboolean pretty)

@@ -76,10 +76,33 @@ void bm_json_warn(JsonObject *o, bm_warn_code code, const char *fmt, ...) G_GNUC
  * inside the host. No document of the project needs more than a handful. */
 #define BM_JSON_MAX_DEPTH 64
 
-/* FALSE, with BM_ERROR_INVALID_INPUT naming `what` ("request for mass-tensor",
- * a file name), when text (length bytes, or up to its NUL when length < 0)
- * nests arrays and objects deeper than BM_JSON_MAX_DEPTH; strings are skipped. */
+/* The one check of JSON text, before json-glib sees it (json-glib is lenient
+ * and would hide mistakes). FALSE, with BM_ERROR_INVALID_INPUT naming `what`
+ * ("request for mass-tensor", a file name), the line, column, byte and the
+ * key path (donors[0]."density_cm3"), unless text (length bytes, or up to its
+ * NUL when length < 0) is exactly one JSON value by RFC 8259 with only
+ * whitespace around it, and also:
+ * - nested no deeper than BM_JSON_MAX_DEPTH;
+ * - no comments, single-quoted strings, NaN/Infinity, leading zeros,
+ *   trailing commas, NUL bytes (also not \u0000), lone surrogates, bytes that
+ *   are not UTF-8, or a byte-order mark;
+ * - no key twice in one object (json-glib would keep the last silently);
+ * - integers within gint64 (json-glib would wrap them: 2^64 read as 0), real
+ *   numbers within the range of doubles.
+ * Quoted user text in its messages is cut to BM_MESSAGE_TEXT_CHARS. */
+gboolean bm_json_check_text(const char *text, gssize length, const char *what, GError **error);
+/* The same check (its older name, kept for callers that use it). */
 gboolean bm_json_check_depth(const char *text, gssize length, const char *what, GError **error);
+
+/* Checks text as bm_json_check_text does, then parses it: the root node
+ * (free with json_node_unref), or NULL with the error set. */
+JsonNode *bm_json_parse(const char *text, gssize length, const char *what, GError **error);
+
+/* User text quoted for an error message: in double quotes, at most
+ * BM_MESSAGE_TEXT_CHARS characters then '..." (N bytes in all)', control
+ * characters and bytes that are not UTF-8 written as \xNN. Free it. */
+#define BM_MESSAGE_TEXT_CHARS 80
+char *bm_text_for_message(const char *text, gssize length);
 
 G_END_DECLS
 

@@ -8,6 +8,7 @@
 #include "registry.h"
 #include "bm-json.h"
 #include "render.h"
+#include "output.h"
 
 #define EXIT_USAGE 2
 
@@ -49,7 +50,7 @@ static void print_main_help(void)
            PACKAGE_VERSION);
 }
 
-/* Writes text to path atomically (temp file + rename), or to stdout. */
+/* Writes text to stdout, or to path by the rules of bm_cli_write_output. */
 static gboolean emit(const char *path, const char *text, GError **error)
 {
     if (!path) {
@@ -59,20 +60,36 @@ static gboolean emit(const char *path, const char *text, GError **error)
                     "output: %s", g_strerror(errno));
         return FALSE;
     }
-    g_autoptr(GError) io = NULL;
-    if (!g_file_set_contents(path, text, -1, &io)) {
-        g_set_error(error, BM_ERROR, BM_ERROR_IO, "cannot write %s: %s", path, io->message);
-        return FALSE;
-    }
-    return TRUE;
+    return bm_cli_write_output(path, text, strlen(text), error);
 }
 
+static GString *read_stdin(GError **error);
+
+/* The request text; one holding a NUL byte is refused here, where its length
+ * is still known (past the NUL a C string would silently end). */
 static char *read_all(const char *path, GError **error)
 {
     char *text = NULL;
-    if (path) {
-        return bm_error_read_file(path, "request", &text, NULL, error) ? text : NULL;
+    gsize len = 0;
+    if (path && !bm_error_read_file(path, "request", &text, &len, error))
+        return NULL;
+    if (!path) {
+        GString *s = read_stdin(error);
+        if (!s)
+            return NULL;
+        len = s->len;
+        text = g_string_free(s, FALSE);
     }
+    if (memchr(text, '\0', len)) {
+        g_autofree char *what = g_strdup_printf("request %s", path ? path : "on standard input");
+        if (!bm_json_check_text(text, (gssize)len, what, error))
+            g_clear_pointer(&text, g_free);
+    }
+    return text;
+}
+
+static GString *read_stdin(GError **error)
+{
     GString *s = g_string_new(NULL);
     char buf[65536];
     size_t got;
@@ -85,7 +102,7 @@ static char *read_all(const char *path, GError **error)
             return NULL;
         }
     }
-    return g_string_free(s, FALSE);
+    return s;
 }
 
 static void print_markdown(void);
@@ -187,7 +204,7 @@ static void print_op_help(const BmOperation *op)
         printf("  %-30s %s\n", f->name, f->meaning);
     printf("\nOutput: a readable table; --json for the response object "
            "(as 'bandmass call %s'),\n--csv for its \"points\" as CSV, "
-           "--output FILE to write it atomically.\n", op->name);
+           "--output FILE to write it (a file atomically, a device or FIFO through).\n", op->name);
 }
 
 /* Markdown table cells: '|' escaped, no line breaks. */

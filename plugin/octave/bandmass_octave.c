@@ -20,9 +20,11 @@
  *   below 2^53 in size goes as a JSON integer, any other double as that
  *   very double (1e17, 1e300, -0.0); int8 ... int64 and uint8 ... uint64
  *   go as JSON integers, exact beyond 2^53. Refused, with the field path:
- *   NaN and Inf, uint64 above 2^63 - 1, and every class or shape listed in
- *   refusal() (complex, sparse, more than 2 dimensions, char matrices,
- *   function handles, objects, ...).
+ *   NaN and Inf, uint64 above 2^63 - 1, text with a NUL or bytes that are
+ *   not UTF-8, and every class or shape listed in refusal() (complex,
+ *   sparse, more than 2 dimensions, char matrices, cell and struct arrays
+ *   that are not vectors, function handles, objects, ...). Every empty
+ *   numeric or logical array (0x0, 3x0, 0x3) goes as [].
  * JSON -> Octave (responses; as Octave's jsondecode):
  *   object -> struct; number -> double; boolean -> logical; string -> char;
  *   null -> [] (NaN inside numeric arrays);
@@ -62,6 +64,9 @@ static const char *refusal(const mxArray *a)
         return "arrays of more than 2 dimensions cannot be sent";
     if (mxIsChar(a))
         return mxGetM(a) > 1 ? "a char array must be one row" : NULL;
+    if ((mxIsStruct(a) || mxIsCell(a)) && mxGetM(a) > 1 && mxGetN(a) > 1)
+        return mxIsCell(a) ? "a cell array must be 1xN or Nx1 (its elements go as one list)"
+                           : "a struct array must be 1xN or Nx1 (its elements go as one list)";
     if (mxIsStruct(a) || mxIsCell(a) || mxIsLogical(a))
         return NULL;
     switch (mxGetClassID(a)) {
@@ -82,6 +87,20 @@ static gboolean refuse(const mxArray *a, const char *path, Failure *f)
     if (!why)
         return TRUE;
     return fail(f, "bandmass:invalidInput", "%s: a %s value: %s", path, mxGetClassName(a), why);
+}
+
+/* A char row goes as its text: refused when it holds a NUL (which would cut
+ * it short) or bytes that are not UTF-8 (Octave keeps text as UTF-8). */
+static gboolean refuse_text(const char *s, size_t count, const char *path, Failure *f)
+{
+    if (strlen(s) != count)
+        return fail(f, "bandmass:invalidInput", "%s: a char value: character %zu is NUL, "
+                    "which cannot be sent in a string", path, strlen(s) + 1);
+    const char *bad = NULL;
+    if (!g_utf8_validate(s, -1, &bad))
+        return fail(f, "bandmass:invalidInput", "%s: a char value: byte %zu (\\x%02X) is "
+                    "not UTF-8 text", path, (size_t)(bad - s) + 1, (unsigned)(guchar)*bad);
+    return TRUE;
 }
 
 static gboolean refuse_real(double v, const char *path, Failure *f)
@@ -171,6 +190,8 @@ static JsonNode *matrix_to_json(const mxArray *a, const char *path, Failure *f)
     size_t m = mxGetM(a), n = mxGetN(a);
     if (mxGetNumberOfElements(a) == 1)
         return scalar_at(a, 0, path, f);
+    if (m == 0 || n == 0)   /* 0x0, 3x0 and 0x3 alike */
+        return array_node(json_array_new());
     g_autoptr(JsonArray) out = json_array_sized_new((guint)(m == 1 || n == 1 ? m * n : m));
     if (m == 1 || n == 1) {   /* a vector, either way round, or empty */
         for (size_t i = 0; i < m * n; i++) {
@@ -219,6 +240,10 @@ static JsonNode *to_json(const mxArray *a, const char *path, Failure *f)
     size_t count = mxGetNumberOfElements(a);
     if (mxIsChar(a)) {
         char *s = mxArrayToString(a);
+        if (s && !refuse_text(s, count, path, f)) {
+            mxFree(s);
+            return NULL;
+        }
         JsonNode *n = json_node_new(JSON_NODE_VALUE);
         json_node_set_string(n, s ? s : "");
         mxFree(s);

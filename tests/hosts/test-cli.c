@@ -1,9 +1,14 @@
 /* test-cli.c: the command line as a host of the registry: exit codes,
  * error messages, and that a friendly subcommand answers as `call` does. */
+#define _DEFAULT_SOURCE 1   /* mknod, makedev */
 #include <glib.h>
 #include <glib/gstdio.h>
 #include <string.h>
 #include <sys/stat.h>
+#include <sys/resource.h>
+#include <sys/sysmacros.h>
+#include <unistd.h>
+#include <fcntl.h>
 #include <math.h>
 #include <gio/gio.h>
 #include <json-glib/json-glib.h>
@@ -112,6 +117,193 @@ static void test_output_is_atomic(void)
     g_assert_false(g_file_test(bad, G_FILE_TEST_EXISTS));
     g_remove(path);
     g_rmdir(dir);
+}
+
+static struct stat stat_of(const char *path)
+{
+    struct stat st;
+    g_assert_cmpint(lstat(path, &st), ==, 0);
+    return st;
+}
+
+static char *contents_of(const char *path)
+{
+    char *text = NULL;
+    g_assert_true(g_file_get_contents(path, &text, NULL, NULL));
+    return text;
+}
+
+static gpointer fifo_reader(gpointer path)
+{
+    char *text = NULL;
+    g_assert_true(g_file_get_contents(path, &text, NULL, NULL));   /* blocks for a writer */
+    return text;
+}
+
+/* --output by kind of file: a regular file is replaced keeping its mode (and
+ * owner), a FIFO and a character device are written through and stay what they
+ * are, links (symbolic, dangling, hard) are refused and left alone, a
+ * directory is refused. Regression tests. */
+static void test_output_kinds(void)
+{
+    g_autoptr(GError) error = NULL;
+    g_autofree char *dir = g_dir_make_tmp("bandmass-out-XXXXXX", &error);
+    g_assert_no_error(error);
+    g_autofree char *file = g_build_filename(dir, "result.json", NULL);
+
+    /* a 0600 file keeps its mode; as root, also another user's owner and group */
+    g_assert_true(g_file_set_contents(file, "old\n", -1, NULL));
+    g_assert_cmpint(chmod(file, 0600), ==, 0);
+    gboolean root = geteuid() == 0;
+    if (root)
+        g_assert_cmpint(chown(file, 65534, 65534), ==, 0);
+    g_auto(Run) a = { 0 };
+    run_cli(&a, "{}", "call", "constants", "--output", file, NULL);
+    g_assert_cmpint(a.status, ==, 0);
+    struct stat st = stat_of(file);
+    g_assert_true(S_ISREG(st.st_mode));
+    g_assert_cmpint(st.st_mode & 07777, ==, 0600);
+    if (root) {
+        g_assert_cmpint(st.st_uid, ==, 65534);
+        g_assert_cmpint(st.st_gid, ==, 65534);
+    }
+    g_autofree char *got = contents_of(file);
+    g_assert_true(g_str_has_prefix(got, "{"));
+
+    /* a symbolic link, and a dangling one: refused by name, nothing changed */
+    g_autofree char *sym = g_build_filename(dir, "link.json", NULL);
+    g_assert_cmpint(symlink(file, sym), ==, 0);
+    g_auto(Run) b = { 0 };
+    run_cli(&b, "{}", "call", "constants", "--compact", "--output", sym, NULL);
+    assert_bad_input(&b, "is a symbolic link");
+    g_assert_nonnull(strstr(b.err, sym));
+    g_assert_nonnull(strstr(b.err, "pass the resolved path"));
+    g_assert_true(S_ISLNK(stat_of(sym).st_mode));
+    g_autofree char *same = contents_of(file);
+    g_assert_cmpstr(same, ==, got);
+    g_autofree char *dangling = g_build_filename(dir, "dangling.json", NULL);
+    g_autofree char *nowhere = g_build_filename(dir, "nowhere.json", NULL);
+    g_assert_cmpint(symlink(nowhere, dangling), ==, 0);
+    g_auto(Run) c = { 0 };
+    run_cli(&c, "{}", "call", "constants", "--output", dangling, NULL);
+    assert_bad_input(&c, "is a symbolic link");
+    g_assert_nonnull(strstr(c.err, "does not exist"));
+    g_assert_true(S_ISLNK(stat_of(dangling).st_mode));
+    g_assert_false(g_file_test(nowhere, G_FILE_TEST_EXISTS));
+
+    /* a file with two hard links: refused, both names keep the old text */
+    g_autofree char *twin = g_build_filename(dir, "twin.json", NULL);
+    g_assert_cmpint(link(file, twin), ==, 0);
+    g_auto(Run) d = { 0 };
+    run_cli(&d, "{}", "call", "constants", "--compact", "--output", twin, NULL);
+    assert_bad_input(&d, "has 2 hard links");
+    g_assert_cmpint(stat_of(file).st_nlink, ==, 2);
+    g_autofree char *twin_text = contents_of(twin);
+    g_assert_cmpstr(twin_text, ==, got);
+
+    /* a directory: refused */
+    g_auto(Run) e = { 0 };
+    run_cli(&e, "{}", "call", "constants", "--output", dir, NULL);
+    assert_bad_input(&e, "is a directory");
+
+    /* a FIFO: a reader gets the response, the FIFO stays a FIFO */
+    g_autofree char *fifo = g_build_filename(dir, "pipe", NULL);
+    g_assert_cmpint(mkfifo(fifo, 0600), ==, 0);
+    GThread *reader = g_thread_new("fifo-reader", fifo_reader, fifo);
+    g_auto(Run) f = { 0 };
+    run_cli(&f, "{}", "call", "constants", "--output", fifo, NULL);
+    g_assert_cmpint(f.status, ==, 0);
+    g_autofree char *through = g_thread_join(reader);
+    g_assert_true(g_str_has_prefix(through, "{"));
+    g_assert_true(S_ISFIFO(stat_of(fifo).st_mode));
+
+    /* a character device: written through, still a device. As root, first a
+     * private null device, so that a fault cannot reach the system's one */
+    if (root) {
+        g_autofree char *null = g_build_filename(dir, "null", NULL);
+        g_assert_cmpint(mknod(null, S_IFCHR | 0666, makedev(1, 3)), ==, 0);
+        g_auto(Run) g = { 0 };
+        run_cli(&g, "{}", "call", "constants", "--output", null, NULL);
+        g_assert_cmpint(g.status, ==, 0);
+        g_assert_true(S_ISCHR(stat_of(null).st_mode));
+        g_unlink(null);
+    }
+    if (g_file_test("/dev/null", G_FILE_TEST_EXISTS) && S_ISCHR(stat_of("/dev/null").st_mode)) {
+        g_auto(Run) h = { 0 };
+        run_cli(&h, "{}", "call", "constants", "--output", "/dev/null", NULL);
+        g_assert_cmpint(h.status, ==, 0);
+        g_assert_true(S_ISCHR(stat_of("/dev/null").st_mode));
+    }
+
+    g_unlink(fifo);
+    g_unlink(twin);
+    g_unlink(dangling);
+    g_unlink(sym);
+    g_unlink(file);
+    g_assert_cmpint(g_rmdir(dir), ==, 0);   /* nothing else was left behind */
+}
+
+static void small_file_limit(gpointer data)
+{
+    (void)data;
+    struct rlimit lim = { 100, 100 };
+    setrlimit(RLIMIT_FSIZE, &lim);
+}
+
+/* A write cut short by the file-size limit (SIGXFSZ) removes its partial file
+ * and leaves the target as it was; partial files a killed run left for the same
+ * target are removed by the next run, those of live runs and of other targets
+ * are kept. Regression test. */
+static void test_output_partial_files(void)
+{
+    g_autoptr(GError) error = NULL;
+    g_autofree char *dir = g_dir_make_tmp("bandmass-out-XXXXXX", &error);
+    g_assert_no_error(error);
+    g_autofree char *file = g_build_filename(dir, "out.json", NULL);
+    g_assert_true(g_file_set_contents(file, "old\n", -1, NULL));
+
+    g_autoptr(GSubprocessLauncher) l = g_subprocess_launcher_new(
+        G_SUBPROCESS_FLAGS_STDIN_PIPE | G_SUBPROCESS_FLAGS_STDOUT_SILENCE
+        | G_SUBPROCESS_FLAGS_STDERR_PIPE);
+    g_subprocess_launcher_set_child_setup(l, small_file_limit, NULL, NULL);
+    const char *argv[] = { g_getenv("BANDMASS_CLI"), "call", "constants", "--output", file, NULL };
+    g_autoptr(GSubprocess) p = g_subprocess_launcher_spawnv(l, argv, &error);
+    g_assert_no_error(error);
+    g_autofree char *err = NULL;
+    g_subprocess_communicate_utf8(p, "{}", NULL, NULL, &err, &error);
+    g_assert_no_error(error);
+    g_assert_true(g_subprocess_get_if_exited(p));   /* not killed by SIGXFSZ */
+    g_assert_cmpint(g_subprocess_get_exit_status(p), ==, 2);
+    g_assert_nonnull(strstr(err, "File too large"));
+    g_autofree char *kept = contents_of(file);
+    g_assert_cmpstr(kept, ==, "old\n");
+    g_autoptr(GDir) d1 = g_dir_open(dir, 0, NULL);
+    g_assert_cmpstr(g_dir_read_name(d1), ==, "out.json");
+    g_assert_null(g_dir_read_name(d1));
+
+    /* the PID of a process that has exited */
+    g_autoptr(GSubprocess) gone = g_subprocess_new(G_SUBPROCESS_FLAGS_NONE, &error, "true", NULL);
+    g_assert_no_error(error);
+    g_autofree char *dead_pid = g_strdup(g_subprocess_get_identifier(gone));
+    g_assert_true(g_subprocess_wait(gone, NULL, NULL));
+    g_autofree char *dead = g_strdup_printf("%s/.out.json.bandmass-partial-%s-Ab3dEf", dir,
+                                            dead_pid);
+    g_autofree char *live = g_strdup_printf("%s/.out.json.bandmass-partial-%ld-Ab3dEf", dir,
+                                            (long)getpid());
+    g_autofree char *other = g_strdup_printf("%s/.other.json.bandmass-partial-%s-Ab3dEf", dir,
+                                             dead_pid);
+    for (const char *const *f = (const char *const[]){ dead, live, other, NULL }; *f; f++)
+        g_assert_true(g_file_set_contents(*f, "partial", -1, NULL));
+    g_auto(Run) r = { 0 };
+    run_cli(&r, "{}", "call", "constants", "--output", file, NULL);
+    g_assert_cmpint(r.status, ==, 0);
+    g_assert_false(g_file_test(dead, G_FILE_TEST_EXISTS));
+    g_assert_true(g_file_test(live, G_FILE_TEST_EXISTS));
+    g_assert_true(g_file_test(other, G_FILE_TEST_EXISTS));
+    g_unlink(live);
+    g_unlink(other);
+    g_unlink(file);
+    g_assert_cmpint(g_rmdir(dir), ==, 0);
 }
 
 /* A list of temperatures becomes CSV: a header of the point keys (per-species
@@ -368,6 +560,8 @@ int main(int argc, char **argv)
     g_test_add_func("/cli/bad-usage-exits-2", test_bad_usage);
     g_test_add_func("/cli/friendly-equals-call", test_friendly_equals_call);
     g_test_add_func("/cli/output-is-atomic", test_output_is_atomic);
+    g_test_add_func("/cli/output-kinds", test_output_kinds);
+    g_test_add_func("/cli/output-partial-files", test_output_partial_files);
     g_test_add_func("/cli/carrier-csv", test_carrier_csv);
     g_test_add_func("/cli/carrier-bad-input", test_carrier_bad_input);
     g_test_add_func("/cli/mass-tensor-bad-files", test_mass_tensor_bad_files);

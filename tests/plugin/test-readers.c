@@ -416,7 +416,8 @@ static void test_grid_bad(void)
                       "found null", NULL);
     expect_grid_error(HEAD RECIP "\"mesh\": [2, 2, 1], \"energies_ev\": "
                       "[[[[1],[2]],[[3],[1e999]]]]}", BM_ERROR_INVALID_INPUT,
-                      "'energies_ev'[0][1][1][0]: the number is not finite", NULL);
+                      "at \"energies_ev\"[0][1][1][0]: the number \"1e999\" is beyond the range "
+                      "of double-precision numbers", NULL);
     expect_grid_error(HEAD RECIP "\"mesh\": [2, 2, 1], \"energies_ev\": "
                       "[[[[1],[2]],[[3],[NaN]]]]}", BM_ERROR_INVALID_INPUT,
                       "not valid JSON", "JSON has no NaN or Infinity");
