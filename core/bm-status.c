@@ -48,6 +48,9 @@ static const char *const warn_code_names[BM_WARN_COUNT] = {
     [BM_WARN_DEGENERATE_EXTREMUM] = "degenerate-extremum",
     [BM_WARN_UNIT_SUSPECT] = "unit-suspect",
     [BM_WARN_ABOVE_MOTT_DENSITY] = "above-mott-density",
+    [BM_WARN_FIT_POORLY_CONSTRAINED] = "fit-poorly-constrained",
+    [BM_WARN_FIT_INCONSISTENT] = "fit-inconsistent",
+    [BM_WARN_ORBIT_IRREGULAR] = "orbit-irregular",
 };
 
 const char *bm_warn_code_name(bm_warn_code code)
