@@ -343,10 +343,18 @@ bm_status bm_lk_fit_compute(const double *t_k, const double *a, const double *sa
     out->amplitude = gsl_vector_get(x, 0);
     out->mass = gsl_vector_get(x, 1);
     out->iterations = gsl_multifit_nlinear_niter(ws);
-    if (!(out->mass > 1e-9) || !isfinite(out->mass)) {
-        result = bm_fail(err, BM_ENOCONV, "temperature-damping fit: the mass runs to %g: the "
-                         "amplitudes do not fall with temperature as X / sinh X does",
-                         out->mass);
+    /* X / sinh X is even in m: the sign of the fitted mass means nothing */
+    out->mass = fabs(out->mass);
+    double tmax = t_k[0], tmin = t_k[0];
+    for (size_t i = 1; i < n; i++) {
+        tmin = fmin(tmin, t_k[i]);
+        tmax = fmax(tmax, t_k[i]);
+    }
+    if (!isfinite(out->mass) || d.k * out->mass * tmax < 1e-2) {
+        result = bm_fail(err, BM_ENOCONV, "temperature-damping fit: the best mass is %g m_e "
+                         "(X = %.2g at the highest temperature): the amplitudes do not fall "
+                         "with temperature as X / sinh X does, so they give no mass",
+                         out->mass, d.k * out->mass * tmax);
         goto done;
     }
     if (gs == GSL_EMAXITER)
@@ -373,11 +381,6 @@ bm_status bm_lk_fit_compute(const double *t_k, const double *a, const double *sa
     out->mass_stderr = sqrt(s2 * gsl_matrix_get(cov, 1, 1));
     out->correlation = gsl_matrix_get(cov, 0, 1)
                      / sqrt(gsl_matrix_get(cov, 0, 0) * gsl_matrix_get(cov, 1, 1));
-    double tmin = t_k[0], tmax = t_k[0];
-    for (size_t i = 1; i < n; i++) {
-        tmin = fmin(tmin, t_k[i]);
-        tmax = fmax(tmax, t_k[i]);
-    }
     out->x_min = d.k * out->mass * tmin;
     out->x_max = d.k * out->mass * tmax;
     for (size_t i = 0; residuals && i < n; i++)
@@ -499,7 +502,7 @@ bm_status bm_dingle_fit_compute(const double *b_t, const double *a, const double
 /* ---- specific heat ------------------------------------------------------ */
 
 #define AVOGADRO GSL_CONST_NUM_AVOGADRO
-#define GAS_R (GSL_CONST_MKSA_MOLAR_GAS)
+#define GAS_R (AVOGADRO * BM_KB)   /* R = N_A k_B, consistent with k_B below */
 
 bm_status bm_free_electron_fermi_energy(double n_cm3, double *ef_ev, bm_errbuf *err)
 {
