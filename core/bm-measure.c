@@ -351,7 +351,7 @@ bm_status bm_lk_fit_compute(const double *t_k, const double *a, const double *sa
         tmax = fmax(tmax, t_k[i]);
     }
     if (!isfinite(out->mass) || d.k * out->mass * tmax < 1e-2) {
-        result = bm_fail(err, BM_ENOCONV, "temperature-damping fit: the best mass is %g m_e "
+        result = bm_fail(err, BM_EINVAL, "temperature-damping fit: the best mass is %g m_e "
                          "(X = %.2g at the highest temperature): the amplitudes do not fall "
                          "with temperature as X / sinh X does, so they give no mass",
                          out->mass, d.k * out->mass * tmax);

@@ -68,8 +68,8 @@ typedef struct {
  * of a, or NULL). residuals (n, may be NULL) get a - fit. Warnings: X_max
  * below 1 (the damping is too weak to fix the mass), a relative mass error
  * above 20 %, chi2 beyond its 99.9 % point with given errors.
- * BM_EINVAL for bad input; BM_ENOCONV when the fit fails or runs to m <= 0
- * (amplitudes that do not fall with temperature). */
+ * BM_EINVAL for bad input, and for amplitudes that do not fall with
+ * temperature (the best mass gives X < 0.01); BM_ENOCONV when the fit fails. */
 bm_status bm_lk_fit_compute(const double *t_k, const double *a, const double *sa, size_t n,
                             double field_t, int harmonic, double *residuals, bm_lk_fit *out,
                             bm_errbuf *err);

@@ -16,6 +16,11 @@ extern const BmOperation bm_op_carrier_statistics;
 extern const BmOperation bm_op_sheet_density;
 extern const BmOperation bm_op_drude;
 extern const BmOperation bm_op_materials;
+extern const BmOperation bm_op_cyclotron_ellipsoid;
+extern const BmOperation bm_op_cyclotron_holes;
+extern const BmOperation bm_op_resonance;
+extern const BmOperation bm_op_oscillation_damping;
+extern const BmOperation bm_op_specific_heat_mass;
 
 #define BM_OPERATIONS_TABLE \
     &bm_op_constants, \
@@ -27,6 +32,11 @@ extern const BmOperation bm_op_materials;
     &bm_op_carrier_statistics, \
     &bm_op_sheet_density, \
     &bm_op_drude, \
-    &bm_op_materials,
+    &bm_op_materials, \
+    &bm_op_cyclotron_ellipsoid, \
+    &bm_op_cyclotron_holes, \
+    &bm_op_resonance, \
+    &bm_op_oscillation_damping, \
+    &bm_op_specific_heat_mass,
 
 #endif
