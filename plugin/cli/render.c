@@ -187,7 +187,8 @@ static void render_band_gap(G_GNUC_UNUSED const BmOperation *op,
 
 static void carrier_row(GString *out, JsonObject *o)
 {
-    g_string_append_printf(out, "%8g %8.4f %10.3e %10.3e %10.3e %9.4f %10.3e %10.3e  %s\n",
+    g_string_append_printf(out, "%8g %8.4f %10.3e %10.3e %10.3e %9.4f %10.3e %10.3e %10.3e "
+                           "%10.3e  %s\n",
                            json_object_get_double_member(o, "temperature_k"),
                            json_object_get_double_member(o, "band_gap_ev"),
                            json_object_get_double_member(o, "nc_cm3"),
@@ -196,6 +197,8 @@ static void carrier_row(GString *out, JsonObject *o)
                            json_object_get_double_member(o, "fermi_level_ev"),
                            json_object_get_double_member(o, "n_cm3"),
                            json_object_get_double_member(o, "p_cm3"),
+                           json_object_get_double_member(o, "ionized_donors_cm3"),
+                           json_object_get_double_member(o, "ionized_acceptors_cm3"),
                            json_object_get_string_member(o, "regime"));
 }
 
@@ -212,8 +215,9 @@ static void render_carrier_statistics(G_GNUC_UNUSED const BmOperation *op,
                            json_object_get_string_member(src, "band_gap_ev"),
                            json_object_get_string_member(src, "electron_dos_mass_me"),
                            json_object_get_string_member(src, "statistics_hole_dos_mass_me"));
-    g_string_append_printf(out, "%8s %8s %10s %10s %10s %9s %10s %10s  %s\n", "T_K", "Eg_eV",
-                           "Nc_cm3", "Nv_cm3", "ni_cm3", "EF_eV", "n_cm3", "p_cm3", "regime");
+    g_string_append_printf(out, "%8s %8s %10s %10s %10s %9s %10s %10s %10s %10s  %s\n", "T_K",
+                           "Eg_eV", "Nc_cm3", "Nv_cm3", "ni_cm3", "EF_eV", "n_cm3", "p_cm3",
+                           "N_D+_cm3", "N_A-_cm3", "regime");
     render_rows(out, response, carrier_row);
 }
 
