@@ -185,8 +185,13 @@ static void render_band_gap(G_GNUC_UNUSED const BmOperation *op,
 
 /* ---- carrier-statistics ---- */
 
-static void carrier_row(GString *out, JsonObject *o)
+/* A doping sweep's rows start with the point's donor and acceptor densities. */
+static void carrier_cells(GString *out, JsonObject *o, gboolean doping)
 {
+    if (doping)
+        g_string_append_printf(out, "%10.3e %10.3e ",
+                               json_object_get_double_member(o, "donor_density_cm3"),
+                               json_object_get_double_member(o, "acceptor_density_cm3"));
     g_string_append_printf(out, "%8g %8.4f %10.3e %10.3e %10.3e %9.4f %10.3e %10.3e %10.3e "
                            "%10.3e  %s\n",
                            json_object_get_double_member(o, "temperature_k"),
@@ -202,6 +207,16 @@ static void carrier_row(GString *out, JsonObject *o)
                            json_object_get_string_member(o, "regime"));
 }
 
+static void carrier_row(GString *out, JsonObject *o)
+{
+    carrier_cells(out, o, FALSE);
+}
+
+static void carrier_row_doping(GString *out, JsonObject *o)
+{
+    carrier_cells(out, o, TRUE);
+}
+
 static void render_carrier_statistics(G_GNUC_UNUSED const BmOperation *op,
                                       JsonObject *response, GString *out)
 {
@@ -215,10 +230,17 @@ static void render_carrier_statistics(G_GNUC_UNUSED const BmOperation *op,
                            json_object_get_string_member(src, "band_gap_ev"),
                            json_object_get_string_member(src, "electron_dos_mass_me"),
                            json_object_get_string_member(src, "statistics_hole_dos_mass_me"));
+    /* a doping sweep: each point carries its own dopant lists */
+    JsonArray *pts = json_object_has_member(response, "points")
+        ? json_object_get_array_member(response, "points") : NULL;
+    gboolean doping = pts && json_array_get_length(pts) > 0
+        && json_object_has_member(json_array_get_object_element(pts, 0), "donors");
+    if (doping)
+        g_string_append_printf(out, "%10s %10s ", "N_D_cm3", "N_A_cm3");
     g_string_append_printf(out, "%8s %8s %10s %10s %10s %9s %10s %10s %10s %10s  %s\n", "T_K",
                            "Eg_eV", "Nc_cm3", "Nv_cm3", "ni_cm3", "EF_eV", "n_cm3", "p_cm3",
                            "N_D+_cm3", "N_A-_cm3", "regime");
-    render_rows(out, response, carrier_row);
+    render_rows(out, response, doping ? carrier_row_doping : carrier_row);
 }
 
 /* ---- drude ---- */
