@@ -47,7 +47,9 @@ static void print_main_help(void)
            "  bandmass OP --help                 the keys, units and defaults of OP\n"
            "  bandmass --version\n\n"
            "Option names are request keys with '-' for '_' (--temperature-k 300).\n"
-           "Arrays and objects are given as JSON ('[1,0,0]') or as comma lists (100,200).\n"
+           "Arrays and objects are given as JSON ('[1,0,0]') or as comma lists (100,200);\n"
+           "list items may be ranges: 100:500:50 (linear), 1e14:1e20:x10 (geometric).\n"
+           "Numbers are plain decimals without units; true/false options may stand alone.\n"
            "Exit status: 0 success, 2 bad input or usage, 1 internal failure.\n",
            PACKAGE_VERSION);
 }
@@ -190,7 +192,9 @@ static void print_op_help(const BmOperation *op)
 {
     printf("bandmass %s: %s\n\nOptions (request keys):\n", op->name, op->summary);
     for (const BmParam *p = op->params; p && p->name; p++) {
-        g_autofree char *opt = g_strdelimit(g_strdup(p->name), "_", '-');
+        g_autofree char *dashed = g_strdelimit(g_strdup(p->name), "_", '-');
+        g_autofree char *opt = p->kinds == BM_VALUE_BOOLEAN
+            ? g_strdup_printf("%s [true|false]", dashed) : g_strdup(dashed);
         g_autofree char *attr = param_attributes(p);
         printf("  --%-28s %s%s\n", opt, p->summary, attr);
         g_autofree const BmChoice **choices = bm_param_choices(p);
@@ -204,9 +208,12 @@ static void print_op_help(const BmOperation *op)
     }
     for (const BmField *f = bm_common_fields; f->name; f++)
         printf("  %-30s %s\n", f->name, f->meaning);
+    printf("\nValues: numbers are plain decimals in the key's unit, without the unit (300, "
+           "1.5e16);\nlists take items and ranges: 100,200,300, START:STOP:STEP (100:500:50), "
+           "\nSTART:STOP:xFACTOR (1e14:1e20:x10). A [true|false] option alone means true.\n");
     printf("\nOutput: a readable table; --json for the response object "
-           "(as 'bandmass call %s'),\n--csv for its \"points\" as CSV, "
-           "--output FILE to write it (a file atomically, a device or FIFO through).\n", op->name);
+           "(as 'bandmass call %s'),\n--csv for its table as CSV (one row for a single point), "
+           "--output FILE to write it\n(a file atomically, a device or FIFO through).\n", op->name);
 }
 
 /* Markdown table cells: '|' escaped, no line breaks. */

@@ -308,8 +308,14 @@ JsonNode *bm_cli_option_value(const BmParam *p, const char *option, const char *
     }
     if (p->kinds & BM_VALUE_ARRAY) {
         gboolean list = strchr(text, ',') || strchr(text, ':');
-        if (numeric_kinds && !list)
-            return single_number(p, option, text, error);
+        if (numeric_kinds && !list) {
+            g_autoptr(GError) e = NULL;
+            JsonNode *node = single_number(p, option, text, &e);
+            if (!node)
+                g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s; the option takes %s",
+                            e->message, RANGE_FORMS);
+            return node;
+        }
         if (numeric_kinds || looks_numeric)
             return number_list(p, option, text, error);
         invalid(error, "option %s: \"%s\" is not a JSON array: write it as JSON ('[...]'; "

@@ -71,6 +71,9 @@ static const Case cases[] = {
     { "carrier-statistics", NULL, "{\"material\": \"Si\", \"temperatures_k\": [300, 600], "
       "\"donors\": [{\"species\": \"As\", \"density_cm3\": 1e20}], "
       "\"ionization_model\": \"single-level\", \"band_gap_narrowing\": \"none\"}" },
+    { "carrier-statistics", NULL, "{\"material\": \"Si\", \"temperature_k\": 300, "
+      "\"donors\": [{\"species\": \"P\"}], \"donor_densities_cm3\": [1e15, 1e17], "
+      "\"acceptors\": [{\"species\": \"B\"}], \"acceptor_densities_cm3\": 1e14}" },
 };
 
 static gboolean declared(const BmOperation *op, const char *key)
