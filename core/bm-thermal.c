@@ -81,7 +81,7 @@ static double refine_needed(const bm_thermal_setup *s, double e, const double g[
     if (d > 20.0 * s->kt_max_ev)
         return 1.0;   /* weight below exp(-20) at every temperature: not worth refining */
     double kt = fmax(s->kt_min_ev, d / 15.0);
-    double need = 1.0, q = kt / 16.0;
+    double need = 1.0, q = kt / 32.0;
     for (int a = 0; a < 3; a++) {
         if (s->grid->mesh[a] == 1)
             continue;
@@ -241,8 +241,10 @@ void bm_thermal_polish_edge(const bm_thermal_setup *s, bm_thermal_spectrum *sp)
             dims[nd++] = a;
     for (int it = 0; it < 30; it++) {
         bm_bandinterp_eval(s->interp, sp->edge_band, f, &e, g, h);
-        if (s->carrier == BM_CARRIER_ELECTRONS ? e < sp->edge_ev : e > sp->edge_ev)
+        if (s->carrier == BM_CARRIER_ELECTRONS ? e <= sp->edge_ev : e >= sp->edge_ev) {
             sp->edge_ev = e;
+            memcpy(sp->edge_f, f, sizeof f);
+        }
         double hh[3][3] = {{0}}, inv[3][3];
         for (int i = 0; i < 3; i++)
             hh[i][i] = 1.0;
@@ -250,7 +252,7 @@ void bm_thermal_polish_edge(const bm_thermal_setup *s, bm_thermal_spectrum *sp)
             for (int j = 0; j < nd; j++)
                 hh[i][j] = h[dims[i]][dims[j]];
         if (bm_inv3(hh, inv) != 0)
-            return;
+            break;
         double step[3] = {0}, big = 0.0;
         for (int i = 0; i < nd; i++) {
             for (int j = 0; j < nd; j++)
@@ -258,16 +260,22 @@ void bm_thermal_polish_edge(const bm_thermal_setup *s, bm_thermal_spectrum *sp)
             big = fmax(big, fabs(step[i]) * (double)s->grid->mesh[dims[i]]);
         }
         if (big > 1.0)   /* Newton left the cell: the sample stays the edge */
-            return;
+            break;
         for (int i = 0; i < nd; i++)
             f[dims[i]] += step[i];
         if (big < 1e-10)
             break;
     }
     bm_bandinterp_eval(s->interp, sp->edge_band, f, &e, NULL, NULL);
-    if (s->carrier == BM_CARRIER_ELECTRONS ? e < sp->edge_ev : e > sp->edge_ev) {
+    if (s->carrier == BM_CARRIER_ELECTRONS ? e <= sp->edge_ev : e >= sp->edge_ev) {
         sp->edge_ev = e;
         memcpy(sp->edge_f, f, sizeof f);
+    }
+    /* reported as its image with coordinates in [-1/2, 1/2) */
+    for (int a = 0; a < 3; a++) {
+        sp->edge_f[a] -= floor(sp->edge_f[a] + 0.5);
+        if (fabs(sp->edge_f[a]) < 1e-12)
+            sp->edge_f[a] = 0.0;
     }
 }
 

@@ -175,6 +175,46 @@ class CosineBand(unittest.TestCase):
             self.assertIn(word, p.stderr)
 
 
+class BesselClosedForms(unittest.TestCase):
+    """Non-degenerate averages of E = -2t sum cos(k_i a) factorise into 1D
+    integrals of exp(x cos theta), x = 2t/kT, i.e. modified Bessel functions
+    (DLMF 10.32.1: I_n(x) = (1/pi) int_0^pi exp(x cos th) cos(n th) dth):
+      N_c = (2 / a^3) e^(-3x) I0(x)^3, so m_dos = 2 pi hbar^2 e^(-2x) I0(x)^2 / (a^2 kT);
+      <v_x^2>: int sin^2 th e^(x cos th) = pi I1(x) / x, so m_c = hbar^2 I0(x) / (2 t a^2 I1(x));
+      <cos th sin^2 th>/<sin^2 th> = I0/I1 - 2/x, so with eta = (mu - E_c)/kT
+      S = -(k/e) [x (3 - I0/I1 + 2/x - 2 I1/I0) - eta]   (-> 5/2 - eta as x -> inf).
+    Derived here; checked with SciPy's scaled Bessel functions. Target 0.1 %."""
+
+    def test_closed_forms(self):
+        from scipy.special import i0e, i1e
+        for t, a in ((0.5, 3.0), (1.0, 4.0), (0.75, 3.5)):
+            with tempfile.TemporaryDirectory() as tmp:
+                f = np.arange(40) / 40
+                c = np.cos(2 * np.pi * np.stack(np.meshgrid(f, f, f, indexing='ij'), 0)).sum(0)
+                np.save(os.path.join(tmp, 'g.npy'), (-2 * t * c)[None])
+                grid = os.path.join(tmp, 'g.json')
+                json.dump({'format': 'bandmass-grid-1', 'mesh': [40, 40, 40],
+                           'reciprocal_vectors_inv_angstrom': (2 * np.pi / a * np.eye(3)).tolist(),
+                           'energies_ev': 'g.npy'}, open(grid, 'w'))
+                temps = [77.0, 300.0, 600.0]
+                r = thermal(grid, bands=[0], temperatures_k=temps, density_cm3=1e12)
+            self.assertEqual(r.get('warning_codes', []), [])
+            self.assertEqual(r['edge_k_fractional'], [0.0, 0.0, 0.0])
+            for T, p in zip(temps, r['points']):
+                x = 2 * t / (KB * T)
+                q = i0e(x) / i1e(x)
+                md = 2 * np.pi * HBAR2_ME * i0e(x) ** 2 / (a * a * KB * T)
+                mc = HBAR2_ME * q / (2 * t * a * a)
+                eta = (p['fermi_level_ev'] - r['edge_ev']) / (KB * T)
+                s = -KB * 1e6 * (x * (3 - q + 2 / x - 2 / q) - eta)
+                with self.subTest(t=t, a=a, T=T):
+                    self.assertLess(abs(p['dos_mass_me'] / md - 1), 1e-3)
+                    for m in p['conductivity_principal_masses_me']:
+                        self.assertLess(abs(m / mc - 1), 1e-3)
+                    for v in p['seebeck_uv_per_k']:
+                        self.assertLess(abs(v / s - 1), 1e-3)
+
+
 DATA = os.path.join(os.path.dirname(os.path.abspath(__file__)), '..', 'data', 'first-principles')
 
 
