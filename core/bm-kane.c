@@ -73,6 +73,34 @@ static int solve_ls(gsl_matrix *j, gsl_vector *r, gsl_vector *p, gsl_matrix *cov
     return st;
 }
 
+/* Residuals e - model at parameters par (c_1..c_d, offset, shifts, alpha)
+ * into r and the Jacobian into j; returns the residual sum of squares. */
+static double residuals(const double (*q)[3], const double *e, size_t n, int dims, int kane,
+                        const double *par, gsl_matrix *j, gsl_vector *r)
+{
+    int ia = 2 * dims + 1;
+    double alpha = kane ? par[ia] : 0.0, rss = 0.0;
+    for (size_t i = 0; i < n; i++) {
+        double gamma = 0.0, em, dg, da, x[3];
+        for (int d = 0; d < dims; d++) {
+            x[d] = q[i][d] - par[dims + 1 + d];
+            gamma += par[d] * x[d] * x[d];
+        }
+        kane_energy(gamma, alpha, &em, &dg, &da);
+        double res = e[i] - (em + par[dims]);
+        rss += res * res;
+        gsl_vector_set(r, i, res);
+        for (int d = 0; d < dims; d++) {
+            gsl_matrix_set(j, i, (size_t)d, dg * x[d] * x[d]);
+            gsl_matrix_set(j, i, (size_t)(dims + 1 + d), -2.0 * dg * par[d] * x[d]);
+        }
+        gsl_matrix_set(j, i, (size_t)dims, 1.0);
+        if (kane)
+            gsl_matrix_set(j, i, (size_t)ia, da);
+    }
+    return rss;
+}
+
 bm_status bm_kane_fit_points(const double (*q)[3], const double *e, size_t n, int dims, int kane,
                              bm_kane_fit *out, bm_errbuf *err)
 {
@@ -120,26 +148,7 @@ bm_status bm_kane_fit_points(const double (*q)[3], const double *e, size_t n, in
     /* Gauss-Newton on E_model(q) + offset - e */
     double rss = 0.0;
     for (int it = 0; it < 50; it++) {
-        double alpha = kane ? par[ia] : 0.0;
-        rss = 0.0;
-        for (size_t i = 0; i < n; i++) {
-            double gamma = 0.0, em, dg, da, x[3];
-            for (int d = 0; d < dims; d++) {
-                x[d] = q[i][d] - par[dims + 1 + d];
-                gamma += par[d] * x[d] * x[d];
-            }
-            kane_energy(gamma, alpha, &em, &dg, &da);
-            double res = e[i] - (em + par[dims]);
-            rss += res * res;
-            gsl_vector_set(r, i, res);
-            for (int d = 0; d < dims; d++) {
-                gsl_matrix_set(j, i, (size_t)d, dg * x[d] * x[d]);
-                gsl_matrix_set(j, i, (size_t)(dims + 1 + d), -2.0 * dg * par[d] * x[d]);
-            }
-            gsl_matrix_set(j, i, (size_t)dims, 1.0);
-            if (kane)
-                gsl_matrix_set(j, i, (size_t)ia, da);
-        }
+        rss = residuals(q, e, n, dims, kane, par, j, r);
         if (solve_ls(j, r, p, cov) != 0) {
             st = bm_fail(err, BM_EINVAL, "kane fit: the points do not determine the fit");
             goto done;
@@ -155,26 +164,7 @@ bm_status bm_kane_fit_points(const double (*q)[3], const double *e, size_t n, in
     }
     /* final residuals and covariance at the solution */
     {
-        double alpha = kane ? par[ia] : 0.0;
-        rss = 0.0;
-        for (size_t i = 0; i < n; i++) {
-            double gamma = 0.0, em, dg, da, x[3];
-            for (int d = 0; d < dims; d++) {
-                x[d] = q[i][d] - par[dims + 1 + d];
-                gamma += par[d] * x[d] * x[d];
-            }
-            kane_energy(gamma, alpha, &em, &dg, &da);
-            double res = e[i] - (em + par[dims]);
-            rss += res * res;
-            gsl_vector_set(r, i, res);
-            for (int d = 0; d < dims; d++) {
-                gsl_matrix_set(j, i, (size_t)d, dg * x[d] * x[d]);
-                gsl_matrix_set(j, i, (size_t)(dims + 1 + d), -2.0 * dg * par[d] * x[d]);
-            }
-            gsl_matrix_set(j, i, (size_t)dims, 1.0);
-            if (kane)
-                gsl_matrix_set(j, i, (size_t)ia, da);
-        }
+        rss = residuals(q, e, n, dims, kane, par, j, r);
         gsl_vector_set_zero(r);
         if (solve_ls(j, r, p, cov) != 0) {
             st = bm_fail(err, BM_EINVAL, "kane fit: the points do not determine the fit");
