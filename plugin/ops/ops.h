@@ -17,6 +17,7 @@ extern const BmOperation bm_op_sheet_density;
 extern const BmOperation bm_op_drude;
 extern const BmOperation bm_op_materials;
 extern const BmOperation bm_op_thermal_mass;
+extern const BmOperation bm_op_kane_fit;
 
 #define BM_OPERATIONS_TABLE \
     &bm_op_constants, \
@@ -29,6 +30,7 @@ extern const BmOperation bm_op_thermal_mass;
     &bm_op_sheet_density, \
     &bm_op_drude, \
     &bm_op_materials, \
-    &bm_op_thermal_mass,
+    &bm_op_thermal_mass, \
+    &bm_op_kane_fit,
 
 #endif

@@ -23,6 +23,7 @@ EXAMPLES = {
                            "donors": [{"density_cm3": 1e16, "ionization_ev": 0.045}],
                            "acceptors": [{"species": "B", "density_cm3": 1e15}]},
     "band-gap": {"material": "GaAs", "temperature_k": 300},
+    "kane-fit": {"grid": GRID, "band": 0, "temperatures_k": [300]},
     "thermal-mass": {"grid": GRID, "bands": [0], "temperatures_k": [100, 300],
                      "density_cm3": 1e20},
     "fermi-integral": {"order": 0.5, "eta": [-3, 0, 3]},
