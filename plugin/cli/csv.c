@@ -273,6 +273,8 @@ static const struct {
     const char *key, *key2;
 } tables[] = {
     { "band-gap", ROWS_MEMBER, "points", NULL },
+    { "thermal-mass", ROWS_MEMBER, "points", NULL },
+    { "kane-fit", ROWS_MEMBER, "points", NULL },
     { "carrier-statistics", ROWS_MEMBER, "points", NULL },
     { "materials", ROWS_MEMBER, "points", NULL },
     { "mass-tensor", ROWS_MEMBER, "extrema", NULL },

@@ -300,6 +300,46 @@ static void render_fermi_integral(G_GNUC_UNUSED const BmOperation *op,
         g_string_append_printf(out, "%22.15g  %22.15g\n", element(eta, i), element(val, i));
 }
 
+/* ---- thermal-mass ---- */
+
+static double element_or_nan(JsonObject *o, const char *key, guint i)
+{
+    JsonArray *a = json_object_get_array_member(o, key);
+    JsonNode *n = a && i < json_array_get_length(a) ? json_array_get_element(a, i) : NULL;
+    return n && JSON_NODE_HOLDS_VALUE(n) ? json_node_get_double(n) : NAN;
+}
+
+static void thermal_row(GString *out, JsonObject *o)
+{
+    g_string_append_printf(out, "%8g %9.4f %10.3e %8.4f  %7.4f %7.4f %7.4f  %8.1f %8.1f %8.1f  %6.4f\n",
+                           member(o, "temperature_k"), member(o, "fermi_level_ev"),
+                           member(o, "density_cm3"), member(o, "dos_mass_me"),
+                           element_or_nan(o, "conductivity_principal_masses_me", 0),
+                           element_or_nan(o, "conductivity_principal_masses_me", 1),
+                           element_or_nan(o, "conductivity_principal_masses_me", 2),
+                           element_or_nan(o, "seebeck_uv_per_k", 0),
+                           element_or_nan(o, "seebeck_uv_per_k", 1),
+                           element_or_nan(o, "seebeck_uv_per_k", 2),
+                           element_or_nan(o, "hall_factor", 2));
+}
+
+static void render_thermal_mass(G_GNUC_UNUSED const BmOperation *op, JsonObject *response,
+                                GString *out)
+{
+    g_string_append_printf(out, "carriers   %s, band edge %.4f eV\nsource     %s\n",
+                           json_object_get_string_member(response, "carriers"),
+                           member(response, "edge_ev"),
+                           json_object_get_string_member(response, "source"));
+    JsonNode *chk = json_object_get_member(response, "edge_check");
+    if (chk && JSON_NODE_HOLDS_OBJECT(chk))
+        g_string_append_printf(out, "edge check %.1f %% against mass-tensor's fits\n",
+                               100.0 * member(json_node_get_object(chk), "relative_difference"));
+    g_string_append_printf(out, "%8s %9s %10s %8s  %-23s  %-26s  %6s\n", "T_K", "mu_eV", "n_cm3",
+                           "m_dos", "m_c principal (m_e)", "Seebeck principal (uV/K)",
+                           "r_H(z)");
+    render_rows(out, response, thermal_row);
+}
+
 /* ---- hole-mass ---- */
 
 /* A mass column; "-" where there is none (an open surface: see the warnings). */
@@ -611,6 +651,7 @@ static const struct {
     { "mass-tensor", render_mass_tensor },
     { "sheet-density", render_sheet_density },
     { "valley-average", render_valley_average },
+    { "thermal-mass", render_thermal_mass },
 };
 
 void bm_cli_render(const BmOperation *op, JsonObject *response, GString *out)
