@@ -50,6 +50,10 @@ static const Case cases[] = {
     { "fermi-integral", NULL, "{\"order\": 0.5, \"eta\": [-1, 0, 2]}" },
     { "fermi-integral", NULL, "{\"order\": 0.5, \"inverse\": true, \"values\": 1}" },
     { "band-gap", NULL, "{\"material\": \"GaAs\", \"temperature_k\": 300}" },
+    { "kane-fit", DATA, "{\"grid\": \"first-principles/si-12.json\", \"band\": \"c1\", "
+      "\"temperatures_k\": [300]}" },
+    { "thermal-mass", DATA, "{\"grid\": \"first-principles/si-12.json\", \"bands\": \"valence\", "
+      "\"temperatures_k\": [300], \"density_cm3\": 1e17}" },
     { "band-gap", NULL, "{\"material\": \"Si\", \"temperatures_k\": [0, 300]}" },
     { "carrier-statistics", EXAMPLES, "si-carriers.json" },
     { "carrier-statistics", EXAMPLES, "orte-carriers.json" },
@@ -71,6 +75,9 @@ static const Case cases[] = {
     { "carrier-statistics", NULL, "{\"material\": \"Si\", \"temperatures_k\": [300, 600], "
       "\"donors\": [{\"species\": \"As\", \"density_cm3\": 1e20}], "
       "\"ionization_model\": \"single-level\", \"band_gap_narrowing\": \"none\"}" },
+    { "carrier-statistics", NULL, "{\"material\": \"Si\", \"temperature_k\": 300, "
+      "\"donors\": [{\"species\": \"P\"}], \"donor_densities_cm3\": [1e15, 1e17], "
+      "\"acceptors\": [{\"species\": \"B\"}], \"acceptor_densities_cm3\": 1e14}" },
     { "cyclotron-ellipsoid", NULL, "{\"material\": \"Si\", \"field_direction\": [1, 0, 0]}" },
     { "cyclotron-ellipsoid", NULL, "{\"valley\": " SI_VALLEY ", \"point_group\": \"Oh\", "
       "\"position\": \"interior\", \"field_directions\": {\"from\": [0,0,1], \"to\": [1,1,0], "
