@@ -18,6 +18,7 @@ extern const BmOperation bm_op_drude;
 extern const BmOperation bm_op_materials;
 extern const BmOperation bm_op_thermal_mass;
 extern const BmOperation bm_op_kane_fit;
+extern const BmOperation bm_op_cyclotron_orbit;
 extern const BmOperation bm_op_cyclotron_ellipsoid;
 extern const BmOperation bm_op_cyclotron_holes;
 extern const BmOperation bm_op_resonance;
@@ -37,6 +38,7 @@ extern const BmOperation bm_op_specific_heat_mass;
     &bm_op_materials, \
     &bm_op_thermal_mass, \
     &bm_op_kane_fit, \
+    &bm_op_cyclotron_orbit, \
     &bm_op_cyclotron_ellipsoid, \
     &bm_op_cyclotron_holes, \
     &bm_op_resonance, \

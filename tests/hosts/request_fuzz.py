@@ -23,6 +23,7 @@ EXAMPLES = {
                            "donors": [{"density_cm3": 1e16, "ionization_ev": 0.045}],
                            "acceptors": [{"species": "B", "density_cm3": 1e15}]},
     "band-gap": {"material": "GaAs", "temperature_k": 300},
+    "cyclotron-orbit": {"grid": GRID, "band": 0, "energy_ev": 1.0, "field_direction": [0, 0, 1]},
     "kane-fit": {"grid": GRID, "band": 0, "temperatures_k": [300]},
     "thermal-mass": {"grid": GRID, "bands": [0], "temperatures_k": [100, 300],
                      "density_cm3": 1e20},

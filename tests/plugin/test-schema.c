@@ -50,6 +50,10 @@ static const Case cases[] = {
     { "fermi-integral", NULL, "{\"order\": 0.5, \"eta\": [-1, 0, 2]}" },
     { "fermi-integral", NULL, "{\"order\": 0.5, \"inverse\": true, \"values\": 1}" },
     { "band-gap", NULL, "{\"material\": \"GaAs\", \"temperature_k\": 300}" },
+    { "cyclotron-orbit", DATA, "{\"grid\": \"first-principles/si-12.json\", \"band\": \"c1\", "
+      "\"energy_ev\": 0.55, \"field_direction\": [1, 0, 0], \"contour\": true}" },
+    { "cyclotron-orbit", DATA, "{\"grid\": \"first-principles/si-12.json\", \"band\": \"c1\", "
+      "\"energy_ev\": 0.55, \"field_directions\": [[1, 0, 0], [0, 0, 1]]}" },
     { "kane-fit", DATA, "{\"grid\": \"first-principles/si-12.json\", \"band\": \"c1\", "
       "\"temperatures_k\": [300]}" },
     { "thermal-mass", DATA, "{\"grid\": \"first-principles/si-12.json\", \"bands\": \"valence\", "
