@@ -91,8 +91,11 @@ void bm_warnings_clear(bm_warnings *w);
 /* 1 when w holds a warning with that code. */
 int bm_warnings_has(const bm_warnings *w, bm_warn_code code);
 
-/* Switches GSL's abort-on-error handler off. Hosts call it once before use
- * (the plugin does so on load); core functions check every GSL status. */
+/* Switches GSL's default abort-on-error handler off, leaving a handler the
+ * host installed in place. Called once before use (the registry does so on
+ * first use). It is a second line of defence: core functions validate the
+ * arguments of every GSL call so that no GSL error is reported on any input,
+ * and check every GSL status. */
 void bm_core_init(void);
 
 #endif
