@@ -528,6 +528,54 @@ static void test_ktable_tsv(void)
     g_assert_cmpfloat(t->table.energies[1], ==, 1.53);
 }
 
+#define KHEAD "kx_inv_angstrom,ky_inv_angstrom,kz_inv_angstrom"
+
+/* A spreadsheet's byte-order mark is skipped; CRLF line ends are read; a
+ * k-point repeated with the same energies is read once (the bands stay in
+ * step). */
+static void test_ktable_forgiven(void)
+{
+    static const char text[] = "\xEF\xBB\xBF" KHEAD ",vb_ev,cb_ev\r\n"
+                               "0,0,0,-1,1\r\n0.1,0,0,-1.1,1.2\r\n-0.0,0,0,-1,1\r\n"
+                               "0,0.1,0,-1.3,1.4\r\n";
+    GError *e = NULL;
+    g_autoptr(BmKTable) t = bm_ktable_load_from_data(text, sizeof text - 1, "ok.csv", &e);
+    g_assert_no_error(e);
+    g_assert_cmpuint(t->table.npoints, ==, 3);
+    g_assert_cmpstr(t->band_names[0], ==, "vb");
+    g_assert_cmpfloat(t->table.k[7], ==, 0.1);
+    static const double want[6] = { -1, -1.1, -1.3, 1, 1.2, 1.4 };
+    for (int i = 0; i < 6; i++)
+        g_assert_cmpfloat(t->table.energies[i], ==, want[i]);
+}
+
+/* 100,000 columns: the header is read in linear time (it was quadratic, 43 s);
+ * a generous bound on a shared machine. */
+static void test_ktable_wide(void)
+{
+    GString *s = g_string_new(KHEAD ",cb_ev");
+    for (int c = 0; c < 100000; c++)
+        g_string_append_printf(s, ",x%d", c);
+    g_string_append_c(s, '\n');
+    for (int r = 0; r < 5; r++) {
+        g_string_append_printf(s, "0.%d,0,0,%d", r, r);
+        for (int c = 0; c < 100000; c++)
+            g_string_append(s, ",7");
+        g_string_append_c(s, '\n');
+    }
+    gint64 t0 = g_get_monotonic_time();
+    GError *e = NULL;
+    BmKTable *t = bm_ktable_load_from_data(s->str, s->len, "wide.csv", &e);
+    double seconds = (double)(g_get_monotonic_time() - t0) * 1e-6;
+    g_assert_no_error(e);
+    g_assert_cmpuint(t->table.npoints, ==, 5);
+    g_assert_cmpfloat(t->table.energies[4], ==, 4.0);
+    g_test_message("100,000 columns x 5 rows read in %.3f s", seconds);
+    g_assert_cmpfloat(seconds, <, 5.0);
+    bm_ktable_free(t);
+    g_string_free(s, TRUE);
+}
+
 static void expect_table_error(const char *text, const char *what, const char *what2)
 {
     GError *e = NULL;
@@ -537,7 +585,6 @@ static void expect_table_error(const char *text, const char *what, const char *w
     g_error_free(e);
 }
 
-#define KHEAD "kx_inv_angstrom,ky_inv_angstrom,kz_inv_angstrom"
 
 static void test_ktable_bad(void)
 {
@@ -572,6 +619,32 @@ static void test_ktable_bad(void)
                        "line 2, column 2 ('ky_inv_angstrom'): '-inf' is not a finite number",
                        NULL);
     expect_table_error(KHEAD ",cb_ev\n0,0,0,1e999\n", "'1e999' is not a finite number", NULL);
+    /* line ends: a CR alone is named, never read as one long line */
+    expect_table_error(KHEAD ",cb_ev\r0,0,0,1\r0.1,0,0,2\r",
+                       "line 1 ends in a carriage return without a line feed", "LF or CRLF");
+    expect_table_error(KHEAD ",cb_ev\r\n0,0,0,1\r\n0.1,0,0,2\r0.2,0,0,3\n",
+                       "line 3 ends in a carriage return", NULL);
+    /* band names: each band its own, never empty */
+    expect_table_error(KHEAD ",_ev\n0,0,0,1\n", "column 4 is headed '_ev', a band column "
+                       "without a name", NULL);
+    expect_table_error(KHEAD ",cb_ev,cb_EV\n0,0,0,1,2\n", "the band of column 5 ('cb_EV') would "
+                       "be named 'cb', as the band of column 4 is", NULL);
+    expect_table_error(KHEAD ",cb_ev,cb_ev_ev\n0,0,0,1,2\n", "the band of column 5 "
+                       "('cb_ev_ev') would be named 'cb_ev'", NULL);
+    /* one k-point, two energies */
+    expect_table_error(KHEAD ",cb_ev\n0,0,0,1\n0.1,0,0,2\n0,-0,0.0,1.5\n",
+                       "lines 2 and 4 give the same k-point (0, 0, 0) with different energies",
+                       "band 'cb': 1 and 1.5 eV");
+    /* user text in messages is cut short */
+    g_autoptr(GString) huge = g_string_new(KHEAD ",cb_ev\n0,0,0,");
+    for (int i = 0; i < 100000; i++)
+        g_string_append_c(huge, 'x');
+    g_string_append_c(huge, '\n');
+    GError *he = NULL;
+    g_assert_null(bm_ktable_load_from_data(huge->str, huge->len, "bad.csv", &he));
+    assert_error(he, BM_ERROR_INVALID_INPUT, "line 2, column 4", "(100000 bytes in all)", NULL);
+    g_assert_cmpuint(strlen(he->message), <, 300);
+    g_error_free(he);
     static const char nul[] = KHEAD ",cb_ev\n0,0,0\0,1\n";
     GError *e = NULL;
     g_assert_null(bm_ktable_load_from_data(nul, sizeof nul - 1, "bad.csv", &e));
@@ -641,6 +714,8 @@ int main(int argc, char **argv)
     g_test_add_func("/readers/ktable/csv", test_ktable_csv);
     g_test_add_func("/readers/ktable/tsv", test_ktable_tsv);
     g_test_add_func("/readers/ktable/bad", test_ktable_bad);
+    g_test_add_func("/readers/ktable/forgiven", test_ktable_forgiven);
+    g_test_add_func("/readers/ktable/wide", test_ktable_wide);
     g_test_add_func("/readers/band-select", test_band_select);
     return g_test_run();
 }
