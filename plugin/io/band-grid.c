@@ -49,6 +49,21 @@ void bm_band_grid_free(BmBandGrid *grid)
     g_free(grid);
 }
 
+gboolean bm_band_grid_unchanged(const BmBandGrid *grid, GError **error)
+{
+    return !grid || bm_npy_array_unchanged(grid->array, error);
+}
+
+gboolean bm_band_grid_detach(BmBandGrid *grid, GError **error)
+{
+    if (!grid || !grid->array)
+        return TRUE;
+    if (!bm_npy_array_detach(grid->array, error))
+        return FALSE;
+    grid->grid.energies = grid->array->data;
+    return TRUE;
+}
+
 static const char *node_kind(JsonNode *node)
 {
     switch (JSON_NODE_TYPE(node)) {

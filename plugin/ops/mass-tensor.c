@@ -331,6 +331,9 @@ BmMassTensorSearch *bm_mass_tensor_search(JsonObject *request, const BmCallInput
         bm_error_from_core(error, &err, s->source);
         return NULL;
     }
+    /* a mapped .npy rewritten during the search: no answer from mixed data */
+    if (!bm_band_grid_unchanged(grid, error))
+        return NULL;
     for (size_t i = 0; grid && i < grid->warnings.count; i++)
         bm_warn(&s->warnings, grid->warnings.items[i].code, "%s: %s", s->source,
                 grid->warnings.items[i].text);

@@ -1,7 +1,9 @@
 /* test-readers.c: the band grid, .npy and k-table readers and band
  * selection: good files of each kind and every bad-input case. */
+#include <fcntl.h>
 #include <math.h>
 #include <string.h>
+#include <unistd.h>
 #include <glib.h>
 #include <glib/gstdio.h>
 
@@ -94,6 +96,85 @@ static void check_fixture_array(const BmNpyArray *a)
             for (size_t j = 0; j < 3; j++)
                 for (size_t l = 0; l < 2; l++)
                     g_assert_cmpfloat(a->data[n++], ==, fixture_value(b, i, j, l));
+}
+
+/* A copy of grid-le.npy in the temporary folder; its path. */
+static char *copy_fixture(tmpdir *t, const char *name)
+{
+    g_autofree char *src = data_path("grid-le.npy");
+    g_autofree char *bytes = NULL;
+    gsize len = 0;
+    g_assert_true(g_file_get_contents(src, &bytes, &len, NULL));
+    return write_file(t, name, bytes, (gssize)len);
+}
+
+/* A mapped array for one call: a file rewritten in place (same size) or cut
+ * shorter is told before an answer is given; the check reads nothing
+ * through the mapping, so a shortened file raises no SIGBUS. A file
+ * replaced by rename leaves the mapping with the old values. */
+static void test_npy_file_changes(tmpdir *t, gconstpointer data)
+{
+    (void)data;
+    GError *e = NULL;
+    g_autofree char *p = copy_fixture(t, "live.npy");
+    g_autoptr(BmNpyArray) a = bm_npy_read_f64(p, &e);
+    g_assert_no_error(e);
+    g_assert_nonnull(a->map);
+    g_assert_true(bm_npy_array_unchanged(a, &e));
+    g_usleep(20000);   /* past the file system's time stamp granularity */
+    int fd = open(p, O_WRONLY);
+    g_assert_cmpint(fd, >=, 0);
+    double v = -1.0;
+    g_assert_cmpint(pwrite(fd, &v, sizeof v, 128), ==, (ssize_t)sizeof v);
+    close(fd);
+    g_assert_false(bm_npy_array_unchanged(a, &e));
+    assert_error(e, BM_ERROR_IO, "live.npy", "was rewritten while it was being read", NULL);
+    g_clear_error(&e);
+    g_assert_false(bm_npy_array_detach(a, &e));   /* the copy would be mixed as well */
+    assert_error(e, BM_ERROR_IO, "rewritten", NULL);
+    g_clear_error(&e);
+
+    g_autofree char *q = copy_fixture(t, "short.npy");
+    g_autoptr(BmNpyArray) b = bm_npy_read_f64(q, &e);
+    g_assert_no_error(e);
+    g_assert_cmpint(truncate(q, 130), ==, 0);
+    g_assert_false(bm_npy_array_unchanged(b, &e));
+    assert_error(e, BM_ERROR_IO, "short.npy", "cut shorter", NULL);
+    g_clear_error(&e);
+    g_assert_false(bm_npy_array_detach(b, &e));   /* read(), not the mapping: no SIGBUS */
+    assert_error(e, BM_ERROR_IO, "cut shorter", NULL);
+    g_clear_error(&e);
+
+    g_autofree char *r = copy_fixture(t, "renamed.npy");
+    g_autoptr(BmNpyArray) c = bm_npy_read_f64(r, &e);
+    g_assert_no_error(e);
+    g_autofree char *other = write_file(t, "other.npy", "\x93NUMPY", 6);
+    g_assert_cmpint(g_rename(other, r), ==, 0);
+    g_assert_true(bm_npy_array_unchanged(c, &e));
+    check_fixture_array(c);
+}
+
+/* A detached array owns its values: the file rewritten or emptied later
+ * changes nothing, and reading every value raises no SIGBUS. */
+static void test_npy_detached(tmpdir *t, gconstpointer data)
+{
+    (void)data;
+    GError *e = NULL;
+    g_autofree char *p = copy_fixture(t, "kept.npy");
+    g_autoptr(BmNpyArray) a = bm_npy_read_f64(p, &e);
+    g_assert_no_error(e);
+    g_assert_true(bm_npy_array_detach(a, &e));
+    g_assert_no_error(e);
+    g_assert_null(a->map);
+    int fd = open(p, O_WRONLY);
+    double v[48];
+    for (int i = 0; i < 48; i++)
+        v[i] = -7.0;
+    g_assert_cmpint(pwrite(fd, v, sizeof v, 128), ==, (ssize_t)sizeof v);
+    close(fd);
+    g_assert_cmpint(truncate(p, 0), ==, 0);
+    g_assert_true(bm_npy_array_unchanged(a, &e));
+    check_fixture_array(a);
 }
 
 static void test_npy_good(void)
@@ -704,6 +785,10 @@ int main(int argc, char **argv)
     g_test_init(&argc, &argv, NULL);
     g_test_add_func("/readers/npy/good", test_npy_good);
     g_test_add("/readers/npy/bad", tmpdir, NULL, tmp_setup, test_npy_bad, tmp_teardown);
+    g_test_add("/readers/npy/file-changes", tmpdir, NULL, tmp_setup, test_npy_file_changes,
+               tmp_teardown);
+    g_test_add("/readers/npy/detached", tmpdir, NULL, tmp_setup, test_npy_detached,
+               tmp_teardown);
     g_test_add_func("/readers/grid/inline", test_grid_inline);
     g_test_add_func("/readers/grid/npy", test_grid_npy);
     g_test_add_func("/readers/grid/lattice-vectors", test_grid_lattice);
