@@ -16,50 +16,83 @@ struct bm_bandinterp {
     unsigned char *paired;  /* [band]: 1 when b and b + 1 may pair (same spin channel) */
 };
 
-/* Periodic cubic B-spline prefilter of n samples with stride s, in place: the
+/* Periodic cubic B-spline prefilter along the first index of v[n][m], for
+ * all m columns at once (contiguous rows: cache-friendly for every axis): the
  * recursive filter pair with pole z = sqrt(3) - 2, its periodic start values
- * summed in closed form over the period. */
-static void prefilter(double *v, size_t n, size_t s)
+ * summed in closed form over the period.  acc: m doubles of scratch. */
+static void prefilter_rows(double *v, size_t n, size_t m, double *acc)
 {
     if (n < 2)
         return;   /* one point: the spline of a constant is the constant */
     const double z = sqrt(3.0) - 2.0;
-    double zn = pow(z, (double)n), acc = 0.0, zj = 1.0;
-    for (size_t j = 0; j < n; j++) {
-        acc += zj * v[((n - j) % n) * s];
-        zj *= z;
+    double zn = pow(z, (double)n), zj = 1.0;
+    /* causal start: sum_j z^j v[-j mod n] / (1 - z^n) */
+    memset(acc, 0, m * sizeof *acc);
+    for (size_t j = 0; j < n; j++, zj *= z) {
+        const double *row = v + ((n - j) % n) * m;
+        for (size_t c = 0; c < m; c++)
+            acc[c] += zj * row[c];
     }
-    v[0] = acc / (1.0 - zn);
-    for (size_t i = 1; i < n; i++)
-        v[i * s] += z * v[(i - 1) * s];
-    acc = 0.0;
+    for (size_t c = 0; c < m; c++)
+        v[c] = acc[c] / (1.0 - zn);
+    for (size_t i = 1; i < n; i++) {
+        double *row = v + i * m;
+        const double *prev = row - m;
+        for (size_t c = 0; c < m; c++)
+            row[c] += z * prev[c];
+    }
+    /* anticausal start: -z / (1 - z^n) sum_j z^j c+[(n - 1 + j) mod n] */
+    memset(acc, 0, m * sizeof *acc);
     zj = 1.0;
-    for (size_t j = 0; j < n; j++) {
-        acc += zj * v[((n - 1 + j) % n) * s];
-        zj *= z;
+    for (size_t j = 0; j < n; j++, zj *= z) {
+        const double *row = v + ((n - 1 + j) % n) * m;
+        for (size_t c = 0; c < m; c++)
+            acc[c] += zj * row[c];
     }
-    double last = -z * acc / (1.0 - zn);
-    double next = last;
-    v[(n - 1) * s] = last;
+    double *last = v + (n - 1) * m;
+    for (size_t c = 0; c < m; c++)
+        last[c] = -z * acc[c] / (1.0 - zn);
     for (size_t i = n - 1; i-- > 0;) {
-        next = z * (next - v[i * s]);
-        v[i * s] = next;
+        double *row = v + i * m;
+        const double *next = row + m;
+        for (size_t c = 0; c < m; c++)
+            row[c] = z * (next[c] - row[c]);
     }
-    for (size_t i = 0; i < n; i++)
-        v[i * s] *= 6.0;
+    for (size_t i = 0; i < n * m; i++)
+        v[i] *= 6.0;
 }
 
-static void spline_of(double *c, const size_t n[3])
+/* The three passes; the last axis is filtered as rows of a transposed copy
+ * would be, line by line (its lines are contiguous and short). */
+static int spline_of(double *c, const size_t n[3])
 {
+    size_t m = n[1] * n[2];
+    double *acc = malloc((m > n[2] ? m : n[2]) * sizeof *acc);
+    if (!acc)
+        return -1;
+    prefilter_rows(c, n[0], m, acc);
     for (size_t i = 0; i < n[0]; i++)
-        for (size_t j = 0; j < n[1]; j++)
-            prefilter(c + (i * n[1] + j) * n[2], n[2], 1);
-    for (size_t i = 0; i < n[0]; i++)
-        for (size_t l = 0; l < n[2]; l++)
-            prefilter(c + i * n[1] * n[2] + l, n[1], n[2]);
-    for (size_t j = 0; j < n[1]; j++)
-        for (size_t l = 0; l < n[2]; l++)
-            prefilter(c + j * n[2] + l, n[0], n[1] * n[2]);
+        prefilter_rows(c + i * m, n[1], n[2], acc);
+    if (n[2] > 1) {
+        double *t = malloc(n[2] * n[1] * sizeof *t);
+        if (!t) {
+            free(acc);
+            return -1;
+        }
+        for (size_t i = 0; i < n[0]; i++) {
+            double *plane = c + i * m;   /* [n1][n2] -> t[n2][n1], filter, back */
+            for (size_t j = 0; j < n[1]; j++)
+                for (size_t l = 0; l < n[2]; l++)
+                    t[l * n[1] + j] = plane[j * n[2] + l];
+            prefilter_rows(t, n[2], n[1], acc);
+            for (size_t j = 0; j < n[1]; j++)
+                for (size_t l = 0; l < n[2]; l++)
+                    plane[j * n[2] + l] = t[l * n[1] + j];
+        }
+        free(t);
+    }
+    free(acc);
+    return 0;
 }
 
 bm_bandinterp *bm_bandinterp_new(const bm_grid *g, double pair_gap_ev)
@@ -84,8 +117,9 @@ bm_bandinterp *bm_bandinterp_new(const bm_grid *g, double pair_gap_ev)
         return NULL;
     }
     memcpy(bi->single, g->energies, g->nbands * npt * sizeof *bi->single);
+    int failed = 0;
     for (size_t b = 0; b < g->nbands; b++)
-        spline_of(bi->single + b * npt, bi->mesh);
+        failed |= spline_of(bi->single + b * npt, bi->mesh);
     for (size_t b = 0; b < np; b++) {
         if (!bm_grid_same_channel(g, b, b + 1))
             continue;
@@ -96,8 +130,12 @@ bm_bandinterp *bm_bandinterp_new(const bm_grid *g, double pair_gap_ev)
             s[m] = lo[m] + hi[m];
             d[m] = (hi[m] - lo[m]) * (hi[m] - lo[m]);
         }
-        spline_of(s, bi->mesh);
-        spline_of(d, bi->mesh);
+        failed |= spline_of(s, bi->mesh);
+        failed |= spline_of(d, bi->mesh);
+    }
+    if (failed) {
+        bm_bandinterp_free(bi);
+        return NULL;
     }
     return bi;
 }
@@ -315,4 +353,28 @@ void bm_bandinterp_eval(const bm_bandinterp *bi, size_t band, const double f[3],
         memcpy(grad, out.g, sizeof out.g);
     if (hess)
         memcpy(hess, out.h, sizeof out.h);
+}
+
+void bm_bandinterp_cell_bounds(const bm_bandinterp *bi, size_t band, const size_t cell[3],
+                               double *lo, double *hi)
+{
+    const double *c = bi->single + band * bi->npt;
+    size_t idx[3][4], cnt[3];
+    for (int a = 0; a < 3; a++) {
+        size_t n = bi->mesh[a];
+        cnt[a] = n == 1 ? 1 : 4;
+        for (size_t m = 0; m < cnt[a]; m++)
+            idx[a][m] = n == 1 ? 0 : (cell[a] + n - 1 + m) % n;
+    }
+    double l = INFINITY, h = -INFINITY;
+    for (size_t p = 0; p < cnt[0]; p++)
+        for (size_t q = 0; q < cnt[1]; q++)
+            for (size_t r = 0; r < cnt[2]; r++) {
+                double v = c[(idx[0][p] * bi->mesh[1] + idx[1][q]) * bi->mesh[2] + idx[2][r]];
+                l = v < l ? v : l;   /* not fmin: no NaN here, and no call */
+                h = v > h ? v : h;
+            }
+    double reach = 3.0 * bi->pair_gap;
+    *lo = l - reach;
+    *hi = h + reach;
 }

@@ -37,4 +37,11 @@ void bm_bandinterp_free(bm_bandinterp *bi);
 void bm_bandinterp_eval(const bm_bandinterp *bi, size_t band, const double f[3], double *e,
                         double grad[3], double hess[3][3]);
 
+/* Bounds of band over mesh cell (i, j, l) (the box from mesh point (i, j, l)
+ * to (i+1, j+1, l+1)): a B-spline lies in the range of the 64 coefficients
+ * that carry it (the convex-hull property), widened by the pair blend's
+ * reach where pairs are on.  For skipping cells outside an energy window. */
+void bm_bandinterp_cell_bounds(const bm_bandinterp *bi, size_t band, const size_t cell[3],
+                               double *lo, double *hi);
+
 #endif

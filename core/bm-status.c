@@ -48,6 +48,9 @@ static const char *const warn_code_names[BM_WARN_COUNT] = {
     [BM_WARN_DEGENERATE_EXTREMUM] = "degenerate-extremum",
     [BM_WARN_UNIT_SUSPECT] = "unit-suspect",
     [BM_WARN_ABOVE_MOTT_DENSITY] = "above-mott-density",
+    [BM_WARN_WINDOW_UNRESOLVED] = "thermal-window-unresolved",
+    [BM_WARN_CROSSING_IN_WINDOW] = "band-crossing-in-window",
+    [BM_WARN_FERMI_OUTSIDE_BANDS] = "fermi-level-outside-bands",
 };
 
 const char *bm_warn_code_name(bm_warn_code code)

@@ -58,6 +58,9 @@ typedef enum {
     BM_WARN_DEGENERATE_EXTREMUM,     /* bands touch at the extremum: no single-band tensor */
     BM_WARN_UNIT_SUSPECT,            /* input numbers look like another unit than their key says */
     BM_WARN_ABOVE_MOTT_DENSITY,      /* single-level dopants above the Mott density */
+    BM_WARN_WINDOW_UNRESOLVED,       /* the mesh does not resolve the thermal window */
+    BM_WARN_CROSSING_IN_WINDOW,      /* a band outside the selection crosses inside the window */
+    BM_WARN_FERMI_OUTSIDE_BANDS,     /* the chemical potential leaves the bands given */
     BM_WARN_COUNT                    /* not a code: the number of codes */
 } bm_warn_code;
 

@@ -16,6 +16,7 @@ extern const BmOperation bm_op_carrier_statistics;
 extern const BmOperation bm_op_sheet_density;
 extern const BmOperation bm_op_drude;
 extern const BmOperation bm_op_materials;
+extern const BmOperation bm_op_thermal_mass;
 
 #define BM_OPERATIONS_TABLE \
     &bm_op_constants, \
@@ -27,6 +28,7 @@ extern const BmOperation bm_op_materials;
     &bm_op_carrier_statistics, \
     &bm_op_sheet_density, \
     &bm_op_drude, \
-    &bm_op_materials,
+    &bm_op_materials, \
+    &bm_op_thermal_mass,
 
 #endif

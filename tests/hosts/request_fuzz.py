@@ -22,6 +22,8 @@ def examples(grid):
                                "donors": [{"density_cm3": 1e16, "ionization_ev": 0.045}],
                                "acceptors": [{"species": "B", "density_cm3": 1e15}]},
         "band-gap": {"material": "GaAs", "temperature_k": 300},
+        "thermal-mass": {"grid": grid, "bands": [0], "temperatures_k": [100, 300],
+                         "density_cm3": 1e20},
         "fermi-integral": {"order": 0.5, "eta": [-3, 0, 3]},
         "sheet-density": {"subbands": [{"energy_ev": 0.0, "mass_me": 0.067}], "temperature_k": 4,
                           "fermi_level_ev": 0.01},

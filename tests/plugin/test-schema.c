@@ -50,6 +50,8 @@ static const Case cases[] = {
     { "fermi-integral", NULL, "{\"order\": 0.5, \"eta\": [-1, 0, 2]}" },
     { "fermi-integral", NULL, "{\"order\": 0.5, \"inverse\": true, \"values\": 1}" },
     { "band-gap", NULL, "{\"material\": \"GaAs\", \"temperature_k\": 300}" },
+    { "thermal-mass", DATA, "{\"grid\": \"first-principles/si-12.json\", \"bands\": \"valence\", "
+      "\"temperatures_k\": [300], \"density_cm3\": 1e17}" },
     { "band-gap", NULL, "{\"material\": \"Si\", \"temperatures_k\": [0, 300]}" },
     { "carrier-statistics", EXAMPLES, "si-carriers.json" },
     { "carrier-statistics", EXAMPLES, "orte-carriers.json" },

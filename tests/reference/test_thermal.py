@@ -1,0 +1,213 @@
+#!/usr/bin/python3
+# test_thermal.py: thermal-mass against independent computations.
+#
+# The band: simple-cubic nearest-neighbour tight binding, E = -2t sum cos(k_i a)
+# (a = 5 Angstrom, t = 0.5 eV), handed to bandmass as a 40^3 mesh.  The
+# reference is a plain NumPy evaluation of the same definitions (Boltzmann
+# transport in the constant relaxation-time approximation, N_c by the
+# Boltzmann-weighted state count) on the analytic band and its analytic
+# velocities over a 240^3 mesh, which no interpolation enters.  Identities:
+# the band-bottom mass hbar^2 / (2 t a^2) at low temperature (Taylor
+# expansion of the cosine); cubic symmetry makes the conductivity tensor
+# isotropic; the non-degenerate Seebeck coefficient of a parabolic band with
+# constant tau, -(k/e)(5/2 - eta) (Boltzmann transport, textbook; from memory),
+# approached by the cosine band at low temperature.
+import json
+import os
+import subprocess
+import sys
+import tempfile
+import unittest
+
+import numpy as np
+
+CLI = sys.argv[1] if len(sys.argv) > 1 else os.environ['BANDMASS_CLI']
+A, T_HOP = 5.0, 0.5
+HBAR2_ME = 7.619964231    # eV A^2 (CODATA 2018)
+KB = 8.617333262e-5       # eV/K (CODATA 2018)
+
+
+def band(k):
+    return -2 * T_HOP * np.cos(k * A).sum(-1)
+
+
+def velocity(k):      # hbar v = dE/dk, eV A
+    return 2 * T_HOP * A * np.sin(k * A)
+
+
+def write_grid(folder, n):
+    f = np.arange(n) / n
+    k = 2 * np.pi / A * np.stack(np.meshgrid(f, f, f, indexing='ij'), -1)
+    e = band(k)[None]
+    np.save(os.path.join(folder, 'cos.npy'), e)
+    doc = {'format': 'bandmass-grid-1', 'mesh': [n, n, n],
+           'reciprocal_vectors_inv_angstrom': [[2 * np.pi / A, 0, 0], [0, 2 * np.pi / A, 0],
+                                               [0, 0, 2 * np.pi / A]],
+           'energies_ev': 'cos.npy', 'band_names': ['c']}
+    path = os.path.join(folder, 'cos.json')
+    json.dump(doc, open(path, 'w'))
+    return path
+
+
+def numpy_reference(T, density_cm3, n=160):
+    """The same definitions, straight from the analytic band (NumPy only)."""
+    f = (np.arange(n) + 0.5) / n
+    k = 2 * np.pi / A * np.stack(np.meshgrid(f, f, f, indexing='ij'), -1).reshape(-1, 3)
+    e, v = band(k), velocity(k)
+    w = 1.0 / (len(e) * A ** 3)               # states per spin per A^3 and k-point
+    kt = KB * T
+    edge = -6 * T_HOP
+    nc = 2 * w * np.exp(-(e - edge) / kt).sum()
+    target = density_cm3 * 1e-24
+    lo, hi = edge - 2.0, edge + 2.0
+    for _ in range(100):
+        mu = 0.5 * (lo + hi)
+        nn = 2 * w * (1 / (1 + np.exp((e - mu) / kt))).sum()
+        lo, hi = (mu, hi) if nn < target else (lo, mu)
+    x = (e - mu) / kt
+    mdf = np.exp(-np.abs(x)) / (1 + np.exp(-np.abs(x))) ** 2 / kt
+    k0 = 2 * w * (v[:, 0] ** 2 * mdf).sum()
+    k1 = 2 * w * (v[:, 0] ** 2 * mdf * (e - mu)).sum()
+    nn = 2 * w * (1 / (1 + np.exp(x))).sum()
+    return {'dos_mass_me': (nc / 2) ** (2 / 3) * 2 * np.pi * HBAR2_ME / kt,
+            'cond_mass_me': HBAR2_ME * nn / k0, 'seebeck_uv_per_k': -k1 / k0 / T * 1e6,
+            'fermi_level_ev': mu}
+
+
+def thermal(grid, **req):
+    req['grid'] = grid
+    p = subprocess.run([CLI, 'call', 'thermal-mass'], capture_output=True, text=True,
+                       input=json.dumps(req))
+    if p.returncode != 0:
+        raise AssertionError(p.stderr)
+    return json.loads(p.stdout)
+
+
+class CosineBand(unittest.TestCase):
+    @classmethod
+    def setUpClass(cls):
+        cls.tmp = tempfile.TemporaryDirectory()
+        cls.grid = write_grid(cls.tmp.name, 40)
+        cls.temps = [77.0, 300.0, 600.0]
+        cls.res = thermal(cls.grid, bands=['c'], temperatures_k=cls.temps, density_cm3=1e18)
+
+    def test_against_numpy(self):
+        for T, p in zip(self.temps, self.res['points']):
+            ref = numpy_reference(T, 1e18)
+            with self.subTest(T=T):
+                self.assertAlmostEqual(p['fermi_level_ev'], ref['fermi_level_ev'], delta=2e-4)
+                self.assertLess(abs(p['dos_mass_me'] / ref['dos_mass_me'] - 1), 2e-3)
+                for m in p['conductivity_principal_masses_me']:
+                    self.assertLess(abs(m / ref['cond_mass_me'] - 1), 2e-3)
+                for s in p['seebeck_uv_per_k']:
+                    self.assertLess(abs(s / ref['seebeck_uv_per_k'] - 1), 2e-3)
+                self.assertAlmostEqual(p['density_cm3'] / 1e18, 1.0, delta=1e-6)
+
+    def test_plain_mesh_sum_is_not_enough(self):
+        # why the refinement exists: the same sum over the 40^3 mesh points
+        # alone misses the 77 K conduction mass by more than a percent
+        n = 40
+        f = np.arange(n) / n
+        k = 2 * np.pi / A * np.stack(np.meshgrid(f, f, f, indexing='ij'), -1).reshape(-1, 3)
+        e, v = band(k), velocity(k)
+        kt = KB * 77.0
+        mdf = np.exp(-(e + 3.0) / kt)          # non-degenerate weights, shifted
+        plain = HBAR2_ME * (mdf / kt).sum() / (v[:, 0] ** 2 * mdf / kt ** 2).sum()
+        ref = numpy_reference(77.0, 1e18)['cond_mass_me']
+        self.assertGreater(abs(plain / ref - 1), 0.01)
+        got = self.res['points'][0]['conductivity_principal_masses_me'][0]
+        self.assertLess(abs(got / ref - 1), 2e-3)
+
+    def test_band_bottom_mass_at_low_temperature(self):
+        # E = -6t + t a^2 k^2 + O(k^4): m = hbar^2 / (2 t a^2); the quartic
+        # term raises the mass by about kT / (t) percent-wise at 20 K: < 0.5 %
+        r = thermal(self.grid, bands=['c'], temperature_k=20.0, density_cm3=1e15)
+        m = HBAR2_ME / (2 * T_HOP * A ** 2)
+        p = r['points'][0]
+        self.assertLess(abs(p['dos_mass_me'] / m - 1), 5e-3)
+        for mc in p['conductivity_principal_masses_me']:
+            self.assertLess(abs(mc / m - 1), 5e-3)
+        # non-degenerate parabolic Seebeck, -(k/e)(5/2 - eta)
+        eta = (p['fermi_level_ev'] - r['edge_ev']) / (KB * 20.0)
+        s_ref = -KB * (2.5 - eta) * 1e6
+        self.assertLess(abs(p['seebeck_uv_per_k'][0] / s_ref - 1), 5e-3)
+        self.assertAlmostEqual(r['edge_ev'], -6 * T_HOP, delta=1e-9)
+
+    def test_fermi_level_mode_and_holes(self):
+        # the band mirrored (E -> -E) carries holes with the same masses, and a
+        # chemical potential given directly reproduces the density it implies
+        r = thermal(self.grid, bands=['c'], temperature_k=300.0, density_cm3=1e19)
+        mu = r['points'][0]['fermi_level_ev']
+        r2 = thermal(self.grid, bands=['c'], temperature_k=300.0, fermi_level_ev=mu)
+        self.assertLess(abs(r2['points'][0]['density_cm3'] / 1e19 - 1), 1e-6)
+        self.assertEqual(r['carriers'], 'electrons')
+
+    def test_bad_requests(self):
+        for req, word in (({'bands': ['c'], 'temperature_k': 300.0}, 'density_cm3'),
+                          ({'bands': ['c'], 'temperature_k': 300.0, 'density_cm3': 1e30},
+                           'density'),
+                          ({'bands': ['x'], 'temperature_k': 300.0, 'density_cm3': 1e18}, 'x'),
+                          ({'bands': 'conduction', 'temperature_k': 300.0, 'density_cm3': 1e18},
+                           'gap')):
+            req['grid'] = self.grid
+            p = subprocess.run([CLI, 'call', 'thermal-mass'], capture_output=True, text=True,
+                               input=json.dumps(req))
+            self.assertEqual(p.returncode, 2, p.stderr)
+            self.assertIn(word, p.stderr)
+
+
+DATA = os.path.join(os.path.dirname(os.path.abspath(__file__)), '..', 'data', 'first-principles')
+
+
+class SiliconConduction(unittest.TestCase):
+    """First-principles silicon (tests/data/first-principles).  Reference: the
+    DFT point masses of si-reference.json, m_l and m_t at the minimum; at 77 K
+    the thermal masses of six ellipsoidal valleys are 6^(2/3) (m_l m_t^2)^(1/3)
+    and 3 / (1/m_l + 2/m_t) to within the band's non-parabolicity (under 1 %
+    at 77 K for alpha about 0.5 / eV: Jacoboni & Reggiani, Rev. Mod. Phys. 55,
+    645 (1983), from memory).  No confident wrong answer: a mesh too coarse
+    for the interpolant near the edge is flagged by the edge check."""
+
+    @classmethod
+    def setUpClass(cls):
+        ref = json.load(open(os.path.join(DATA, 'si-reference.json')))
+        ml, mt = ref['longitudinal_mass_me'][0], ref['transverse_mass_me'][0]
+        cls.md = 6 ** (2 / 3) * (ml * mt * mt) ** (1 / 3)
+        cls.mc = 3 / (1 / ml + 2 / mt)
+
+    def run_mesh(self, n):
+        return thermal(os.path.join(DATA, f'si-{n}.json'), bands='conduction',
+                       temperature_k=77.0, density_cm3=1e15)
+
+    def test_32_mesh_matches_the_valley_masses(self):
+        r = self.run_mesh(32)
+        p = r['points'][0]
+        self.assertEqual(r['bands'], ['c1', 'c2', 'c3', 'c4'])
+        self.assertLess(abs(p['dos_mass_me'] / self.md - 1), 0.02)
+        for m in p['conductivity_principal_masses_me']:
+            self.assertLess(abs(m / self.mc - 1), 0.02)
+        self.assertLess(r['edge_check']['relative_difference'], 0.05)
+        self.assertNotIn('not-converged', r.get('warning_codes', []))
+
+    def test_coarse_mesh_is_flagged(self):
+        # 24^3 and below: the X crossing is two mesh steps from the minimum and
+        # the interpolated curvature there is 30 % off; the answer says so
+        for n in (12, 24):
+            r = self.run_mesh(n)
+            with self.subTest(n=n):
+                self.assertGreater(r['edge_check']['relative_difference'], 0.05)
+                self.assertIn('not-converged', r['warning_codes'])
+
+    def test_degenerate_valence_top_is_flagged(self):
+        # the three top valence bands touch at Gamma (no spin-orbit coupling):
+        # sorted, they have a cusp there, and the interpolated bands overshoot
+        # the mesh maximum (0 eV, a mesh point); the answer must say so
+        r = thermal(os.path.join(DATA, 'si-32.json'), bands='valence', temperature_k=300.0,
+                    density_cm3=1e15)
+        self.assertEqual(r['carriers'], 'holes')
+        self.assertIsNone(r['edge_check'])
+        self.assertIn('not-converged', r['warning_codes'])
+
+
+if __name__ == '__main__':
+    unittest.main(argv=sys.argv[:1], verbosity=2)
