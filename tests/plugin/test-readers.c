@@ -98,6 +98,32 @@ static void check_fixture_array(const BmNpyArray *a)
                     g_assert_cmpfloat(a->data[n++], ==, fixture_value(b, i, j, l));
 }
 
+/* Sizes that come from the mesh are checked, and allocated with a try:
+ * an irreducible wedge of one point on a 65536^3 mesh (2^51 bytes of
+ * energies, beyond any address space) or a 2^24-cube mesh (whose point
+ * count overflows 64 bits) is an error, never an abort in GLib. */
+static void test_grid_huge_mesh(void)
+{
+    static const char *docs[2] = {
+        "{\"format\": \"bandmass-grid-1\", \"lattice_vectors_angstrom\": "
+        "[[3,0,0],[0,3,0],[0,0,3]], \"mesh\": [65536, 65536, 65536], "
+        "\"k_points_fractional\": [[0,0,0]], \"energies_ev\": [[1.0]], "
+        "\"positions_fractional\": [[0,0,0]], \"species\": [\"X\"]}",
+        "{\"format\": \"bandmass-grid-1\", \"lattice_vectors_angstrom\": "
+        "[[3,0,0],[0,3,0],[0,0,3]], \"mesh\": [16777216, 16777216, 16777216], "
+        "\"k_points_fractional\": [[0,0,0]], \"energies_ev\": [[1.0]], "
+        "\"positions_fractional\": [[0,0,0]], \"species\": [\"X\"]}",
+    };
+    static const char *want[2] = { "cannot allocate the 65536 x 65536 x 65536 mesh",
+                                   "is too large" };
+    for (int i = 0; i < 2; i++) {
+        GError *e = NULL;
+        g_assert_null(bm_band_grid_load_from_data(docs[i], -1, "huge.json", NULL, &e));
+        assert_error(e, BM_ERROR_INVALID_INPUT, "huge.json", want[i], NULL);
+        g_error_free(e);
+    }
+}
+
 /* A copy of grid-le.npy in the temporary folder; its path. */
 static char *copy_fixture(tmpdir *t, const char *name)
 {
@@ -787,6 +813,7 @@ int main(int argc, char **argv)
     g_test_add("/readers/npy/bad", tmpdir, NULL, tmp_setup, test_npy_bad, tmp_teardown);
     g_test_add("/readers/npy/file-changes", tmpdir, NULL, tmp_setup, test_npy_file_changes,
                tmp_teardown);
+    g_test_add_func("/readers/grid/huge-mesh", test_grid_huge_mesh);
     g_test_add("/readers/npy/detached", tmpdir, NULL, tmp_setup, test_npy_detached,
                tmp_teardown);
     g_test_add_func("/readers/grid/inline", test_grid_inline);
