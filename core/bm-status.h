@@ -61,6 +61,7 @@ typedef enum {
     BM_WARN_WINDOW_UNRESOLVED,       /* the mesh does not resolve the thermal window */
     BM_WARN_CROSSING_IN_WINDOW,      /* a band outside the selection crosses inside the window */
     BM_WARN_FERMI_OUTSIDE_BANDS,     /* the chemical potential leaves the bands given */
+    BM_WARN_EXTREMA_CAPPED,          /* more extrema than are reported: the nearest in energy kept */
     BM_WARN_COUNT                    /* not a code: the number of codes */
 } bm_warn_code;
 
