@@ -19,9 +19,10 @@ bm_status bm_thermal_spectrum_init(bm_thermal_spectrum *sp, const bm_thermal_set
     sp->nbins = (size_t)ceil((s->e_hi - s->e_lo) / s->bin_ev) + 2;
     sp->dos = calloc(sp->nbins, sizeof *sp->dos);
     sp->trans = calloc(sp->nbins * 6, sizeof *sp->trans);
+    sp->hall = calloc(sp->nbins * 3, sizeof *sp->hall);
     sp->edge_ev = s->carrier == BM_CARRIER_ELECTRONS ? INFINITY : -INFINITY;
     sp->min_gap_outside = INFINITY;
-    if (!sp->dos || !sp->trans) {
+    if (!sp->dos || !sp->trans || !sp->hall) {
         bm_thermal_spectrum_clear(sp);
         return bm_fail(err, BM_ENOMEM, "out of memory for an energy axis of %zu bins", sp->nbins);
     }
@@ -32,17 +33,19 @@ void bm_thermal_spectrum_clear(bm_thermal_spectrum *sp)
 {
     free(sp->dos);
     free(sp->trans);
-    sp->dos = sp->trans = NULL;
+    free(sp->hall);
+    sp->dos = sp->trans = sp->hall = NULL;
 }
 
 void bm_thermal_spectrum_reset(bm_thermal_spectrum *sp, const bm_thermal_setup *s)
 {
-    double *dos = sp->dos, *trans = sp->trans;
+    double *dos = sp->dos, *trans = sp->trans, *hall = sp->hall;
     size_t nb = sp->nbins;
     memset(dos, 0, nb * sizeof *dos);
     memset(trans, 0, 6 * nb * sizeof *trans);
+    memset(hall, 0, 3 * nb * sizeof *hall);
     memset(sp, 0, sizeof *sp);
-    sp->dos = dos, sp->trans = trans, sp->nbins = nb;
+    sp->dos = dos, sp->trans = trans, sp->hall = hall, sp->nbins = nb;
     sp->e0 = s->e_lo;
     sp->de = s->bin_ev;
     sp->edge_ev = s->carrier == BM_CARRIER_ELECTRONS ? INFINITY : -INFINITY;
@@ -78,7 +81,7 @@ static double refine_needed(const bm_thermal_setup *s, double e, const double g[
     if (d > 20.0 * s->kt_max_ev)
         return 1.0;   /* weight below exp(-20) at every temperature: not worth refining */
     double kt = fmax(s->kt_min_ev, d / 15.0);
-    double need = 1.0, q = kt / 16.0;
+    double need = 1.0, q = kt / 32.0;
     for (int a = 0; a < 3; a++) {
         if (s->grid->mesh[a] == 1)
             continue;
@@ -91,7 +94,7 @@ static double refine_needed(const bm_thermal_setup *s, double e, const double g[
     return need;
 }
 
-static void bin(bm_thermal_spectrum *sp, double e, double w, const double v[3])
+static void bin(bm_thermal_spectrum *sp, double e, double w, const double v[3], double h[3][3])
 {
     double x = (e - sp->e0) / sp->de;
     if (!(x >= 0.0) || x >= (double)(sp->nbins - 1))
@@ -104,6 +107,11 @@ static void bin(bm_thermal_spectrum *sp, double e, double w, const double v[3])
         double *tr = sp->trans + (i + m) * 6;
         for (int c = 0; c < 6; c++)
             tr[c] += wt[m] * vv[c];
+        double *hl = sp->hall + (i + m) * 3;
+        for (int g = 0; g < 3; g++) {
+            int a = (g + 1) % 3, b = (g + 2) % 3;   /* (a, b, g) cyclic */
+            hl[g] += wt[m] * (v[a] * v[b] * h[b][a] - v[a] * v[a] * h[b][b]);
+        }
     }
 }
 
@@ -150,16 +158,25 @@ void bm_thermal_accumulate(const bm_thermal_setup *s, size_t u, bm_thermal_spect
                     for (int q = 0; q < fa[1]; q++)
                         for (int r = 0; r < fa[2]; r++) {
                             int idx[3] = {p, q, r};
-                            double f[3], ef, gf[3], v[3];
+                            double f[3], ef, gf[3], v[3], hf[3][3], hb[3][3], hk[3][3];
                             for (int a = 0; a < 3; a++)
                                 f[a] = ((double)cell[a] + ((double)idx[a] + 0.5) / fa[a]
                                         + g->offset[a]) / (double)n[a];
-                            bm_bandinterp_eval(s->interp, b, f, &ef, gf, NULL);
-                            /* hbar v = dE/dk = B^-1 dE/df (f = k B^-1) */
+                            bm_bandinterp_eval(s->interp, b, f, &ef, gf, hf);
+                            /* hbar v = dE/dk = B^-1 dE/df (f = k B^-1); the
+                             * Hessian likewise, B^-1 H_f B^-T */
                             for (int c = 0; c < 3; c++)
                                 v[c] = binv[c][0] * gf[0] + binv[c][1] * gf[1]
                                        + binv[c][2] * gf[2];
-                            bin(sp, ef, w, v);
+                            for (int c = 0; c < 3; c++)
+                                for (int d = 0; d < 3; d++)
+                                    hb[c][d] = binv[c][0] * hf[0][d] + binv[c][1] * hf[1][d]
+                                               + binv[c][2] * hf[2][d];
+                            for (int c = 0; c < 3; c++)
+                                for (int d = 0; d < 3; d++)
+                                    hk[c][d] = hb[c][0] * binv[d][0] + hb[c][1] * binv[d][1]
+                                               + hb[c][2] * binv[d][2];
+                            bin(sp, ef, w, v, hk);
                             sp->points++;
                             if (electrons ? ef < sp->edge_ev : ef > sp->edge_ev) {
                                 sp->edge_ev = ef;
@@ -192,6 +209,8 @@ void bm_thermal_merge(const bm_thermal_setup *s, bm_thermal_spectrum *into,
         into->dos[i] += part->dos[i];
     for (size_t i = 0; i < 6 * into->nbins; i++)
         into->trans[i] += part->trans[i];
+    for (size_t i = 0; i < 3 * into->nbins; i++)
+        into->hall[i] += part->hall[i];
     /* electrons keep the lowest sample, holes the highest */
     int better = s->carrier == BM_CARRIER_ELECTRONS ? part->edge_ev < into->edge_ev
                                                     : part->edge_ev > into->edge_ev;
@@ -222,8 +241,10 @@ void bm_thermal_polish_edge(const bm_thermal_setup *s, bm_thermal_spectrum *sp)
             dims[nd++] = a;
     for (int it = 0; it < 30; it++) {
         bm_bandinterp_eval(s->interp, sp->edge_band, f, &e, g, h);
-        if (s->carrier == BM_CARRIER_ELECTRONS ? e < sp->edge_ev : e > sp->edge_ev)
+        if (s->carrier == BM_CARRIER_ELECTRONS ? e <= sp->edge_ev : e >= sp->edge_ev) {
             sp->edge_ev = e;
+            memcpy(sp->edge_f, f, sizeof f);
+        }
         double hh[3][3] = {{0}}, inv[3][3];
         for (int i = 0; i < 3; i++)
             hh[i][i] = 1.0;
@@ -231,7 +252,7 @@ void bm_thermal_polish_edge(const bm_thermal_setup *s, bm_thermal_spectrum *sp)
             for (int j = 0; j < nd; j++)
                 hh[i][j] = h[dims[i]][dims[j]];
         if (bm_inv3(hh, inv) != 0)
-            return;
+            break;
         double step[3] = {0}, big = 0.0;
         for (int i = 0; i < nd; i++) {
             for (int j = 0; j < nd; j++)
@@ -239,16 +260,22 @@ void bm_thermal_polish_edge(const bm_thermal_setup *s, bm_thermal_spectrum *sp)
             big = fmax(big, fabs(step[i]) * (double)s->grid->mesh[dims[i]]);
         }
         if (big > 1.0)   /* Newton left the cell: the sample stays the edge */
-            return;
+            break;
         for (int i = 0; i < nd; i++)
             f[dims[i]] += step[i];
         if (big < 1e-10)
             break;
     }
     bm_bandinterp_eval(s->interp, sp->edge_band, f, &e, NULL, NULL);
-    if (s->carrier == BM_CARRIER_ELECTRONS ? e < sp->edge_ev : e > sp->edge_ev) {
+    if (s->carrier == BM_CARRIER_ELECTRONS ? e <= sp->edge_ev : e >= sp->edge_ev) {
         sp->edge_ev = e;
         memcpy(sp->edge_f, f, sizeof f);
+    }
+    /* reported as its image with coordinates in [-1/2, 1/2) */
+    for (int a = 0; a < 3; a++) {
+        sp->edge_f[a] -= floor(sp->edge_f[a] + 0.5);
+        if (fabs(sp->edge_f[a]) < 1e-12)
+            sp->edge_f[a] = 0.0;
     }
 }
 
@@ -321,7 +348,7 @@ bm_status bm_thermal_at(const bm_thermal_spectrum *sp, bm_carrier carrier, doubl
 
     /* N_c (N_v): states weighted by exp(-|E - edge| / kT); m from
      * N = g_s (2 pi m kT / h^2)^(3/2) */
-    double nc = 0.0, k0[6] = {0}, k1[6] = {0};
+    double nc = 0.0, k0[6] = {0}, k1[6] = {0}, kh[3] = {0};
     for (size_t i = 0; i < sp->nbins; i++) {
         if (sp->dos[i] == 0.0)
             continue;
@@ -332,6 +359,8 @@ bm_status bm_thermal_at(const bm_thermal_spectrum *sp, bm_carrier carrier, doubl
             k0[c] += sp->trans[i * 6 + c] * w;
             k1[c] += sp->trans[i * 6 + c] * w * (e - mu);
         }
+        for (int c = 0; c < 3; c++)
+            kh[c] += sp->hall[i * 3 + c] * w;
     }
     nc *= gs;
     out->edge_density_cm3 = nc * 1e24;
@@ -372,6 +401,15 @@ bm_status bm_thermal_at(const bm_thermal_spectrum *sp, bm_carrier carrier, doubl
             for (int m = 0; m < 3; m++)
                 s[i][j] -= inv[i][m] * m1[m][j] / temperature_k * 1e6;
     memcpy(out->seebeck_tensor_uv_k, s, sizeof s);
+    /* Hall factor, weak field along g: R_H = sigma_abg / (sigma_aa sigma_bb)
+     * = K_H / (e K0_aa K0_bb) (the g_s and tau cancel), r_H = -/+ R_H n e */
+    double sign = carrier == BM_CARRIER_ELECTRONS ? -1.0 : 1.0;
+    for (int g = 0; g < 3; g++) {
+        int a = (g + 1) % 3, b = (g + 2) % 3;
+        double den = k0[a] * k0[b];
+        out->hall_factor[g] = den > 1e-300 && !(dims == 2 && g != 2)
+                                  ? sign * n * kh[g] / (gs * den) : NAN;   /* sums per spin */
+    }
     double ss[3][3];
     for (int i = 0; i < 3; i++)
         for (int j = 0; j < 3; j++)

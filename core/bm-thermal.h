@@ -45,6 +45,9 @@ typedef struct {
     double e0, de;
     double *dos;              /* [nbins] states */
     double *trans;            /* [nbins][6] sum of (hbar v)(hbar v)^T: xx yy zz xy xz yz, eV^2 A^2 */
+    double *hall;             /* [nbins][3] the Hall sums for a field along x, y, z:
+                                 sum of e_gmn (hbar v_a)(hbar v_n) d2E/dk_b dk_m, (a, b, g)
+                                 cyclic, eV^3 A^4 */
     double edge_ev;           /* lowest (electrons) or highest (holes) energy sampled */
     double edge_f[3];         /* where, fractional */
     size_t edge_band;
@@ -106,6 +109,8 @@ typedef struct {
     double cond_axes[3][3];       /* rows: unit axes of the principal values */
     double seebeck_principal_uv_k[3];
     double seebeck_tensor_uv_k[3][3];
+    double hall_factor[3];        /* r_H = R_H n e (holes) or -R_H n e (electrons), for a
+                                     weak field along x, y, z; NAN where undefined */
 } bm_thermal_point;
 
 /* One temperature.  mode_density: match density_cm3 (> 0) by the chemical

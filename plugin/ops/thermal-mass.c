@@ -35,6 +35,9 @@ static const BmParam params[] = {
     { "carriers", BM_VALUE_STRING, FALSE, NULL,
       "electrons or holes, for a list of bands (default: electrons when the listed bands "
       "lie above the grid's other bands on average, holes when below)", .unit = NULL },
+    { "threads", BM_VALUE_INTEGER, FALSE, "0",
+      "threads that sample the zone (0: one per core); the answer is the same for any count",
+      .unit = NULL, .lower = BM_GE(0), .upper = BM_LE(256) },
     { "spin_degeneracy", BM_VALUE_INTEGER, FALSE, "2",
       "states per k-point and band: 2, or 1 for one channel of a spin-polarised grid",
       .unit = NULL, .lower = BM_GE(1), .upper = BM_LE(2) },
@@ -51,7 +54,8 @@ static const BmField response[] = {
       "one per temperature: temperature_k, fermi_level_ev, density_cm3, edge_density_cm3, "
       "dos_mass_me, conductivity_mass_tensor_me, conductivity_principal_masses_me, "
       "conductivity_principal_axes, seebeck_uv_per_k (principal values), "
-      "seebeck_tensor_uv_per_k" },
+      "seebeck_tensor_uv_per_k, hall_factor (r_H = n e |R_H|, the carrier density over "
+      "the Hall density 1 / (e |R_H|), for a weak field along x, y, z)" },
     { "sampling", NULL, TRUE,
       "how the zone was sampled: cells (coarse cells in the window), points (fine points), "
       "largest_refinement, window_ev [low, high], bin_ev" },
@@ -118,7 +122,8 @@ static void run_unit(gpointer slot, gpointer data)
  * averages by a few per cent on a converged mesh (silicon, 32^3: 3 %). */
 #define EDGE_TOLERANCE 0.05
 
-static gboolean sample(const bm_thermal_setup *s, bm_thermal_spectrum *out, GError **error)
+static gboolean sample(const bm_thermal_setup *s, guint want_threads, bm_thermal_spectrum *out,
+                       GError **error)
 {
     bm_errbuf err = { BM_OK, "" };
     if (bm_thermal_spectrum_init(out, s, &err) != BM_OK) {
@@ -132,7 +137,8 @@ static gboolean sample(const bm_thermal_setup *s, bm_thermal_spectrum *out, GErr
     for (size_t u = 0; ok && u < UNITS_PER_BATCH; u++)
         ok = bm_thermal_spectrum_init(&parts[u], s, &err) == BM_OK;
     pool_job job = { s, parts, 0 };
-    guint threads = MAX(1, MIN(g_get_num_processors(), UNITS_PER_BATCH));
+    guint threads = want_threads ? want_threads : g_get_num_processors();
+    threads = MAX(1, MIN(threads, UNITS_PER_BATCH));
     for (size_t first = 0; ok && first < nu; first += UNITS_PER_BATCH) {
         size_t count = MIN(UNITS_PER_BATCH, nu - first);
         job.first = first;
@@ -199,6 +205,8 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     if (by_density ? !bm_json_number(request, "density_cm3", NULL, &density, error)
                    : !bm_json_number(request, "fermi_level_ev", NULL, &mu, error))
         return NULL;
+    guint threads = json_object_has_member(request, "threads")
+        ? (guint)json_object_get_int_member(request, "threads") : 0;
     if (json_object_has_member(request, "spin_degeneracy"))
         gs = (double)json_object_get_int_member(request, "spin_degeneracy");
 
@@ -321,7 +329,7 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
         /* kT/40 at the lowest temperature, on an axis of at most BM_THERMAL_MAX_BINS */
         s.bin_ev = fmax(fmin(kt_min / 40.0, (s.e_hi - s.e_lo) / 64.0),
                         (s.e_hi - s.e_lo) / BM_THERMAL_MAX_BINS);
-        if (!sample(&s, &sp, error)) {
+        if (!sample(&s, threads, &sp, error)) {
             g_free(pts);
             goto out;
         }
@@ -396,6 +404,14 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
         bm_json_set_mat3(o, "conductivity_principal_axes", (const double (*)[3])p->cond_axes);
         json_object_set_array_member(o, "seebeck_uv_per_k", sa);
         bm_json_set_mat3(o, "seebeck_tensor_uv_per_k", (const double (*)[3])p->seebeck_tensor_uv_k);
+        JsonArray *ha = json_array_new();
+        for (int m = 0; m < 3; m++) {
+            if (isfinite(p->hall_factor[m]))
+                json_array_add_double_element(ha, p->hall_factor[m]);
+            else
+                json_array_add_null_element(ha);
+        }
+        json_object_set_array_member(o, "hall_factor", ha);
         json_array_add_object_element(pa, o);
         double kt = BM_KB_EV * p->temperature_k;
         if (carrier == BM_CARRIER_ELECTRONS ? p->fermi_level_ev > hi_band - 10.0 * kt

@@ -69,7 +69,10 @@ def numpy_reference(T, density_cm3, n=160):
     k0 = 2 * w * (v[:, 0] ** 2 * mdf).sum()
     k1 = 2 * w * (v[:, 0] ** 2 * mdf * (e - mu)).sum()
     nn = 2 * w * (1 / (1 + np.exp(x))).sum()
-    return {'dos_mass_me': (nc / 2) ** (2 / 3) * 2 * np.pi * HBAR2_ME / kt,
+    # Hall sum, field along z: v_x v_y d2E/dk_y dk_x - v_x^2 d2E/dk_y^2 (the
+    # mixed derivative is zero for this band)
+    kh = 2 * w * (-v[:, 0] ** 2 * 2 * T_HOP * A * A * np.cos(k[:, 1] * A) * mdf).sum()
+    return {'hall_factor': -nn * kh / k0 ** 2,'dos_mass_me': (nc / 2) ** (2 / 3) * 2 * np.pi * HBAR2_ME / kt,
             'cond_mass_me': HBAR2_ME * nn / k0, 'seebeck_uv_per_k': -k1 / k0 / T * 1e6,
             'fermi_level_ev': mu}
 
@@ -102,6 +105,8 @@ class CosineBand(unittest.TestCase):
                 for s in p['seebeck_uv_per_k']:
                     self.assertLess(abs(s / ref['seebeck_uv_per_k'] - 1), 2e-3)
                 self.assertAlmostEqual(p['density_cm3'] / 1e18, 1.0, delta=1e-6)
+                for r_h in p['hall_factor']:
+                    self.assertLess(abs(r_h / ref['hall_factor'] - 1), 2e-3)
 
     def test_plain_mesh_sum_is_not_enough(self):
         # why the refinement exists: the same sum over the 40^3 mesh points
@@ -132,6 +137,10 @@ class CosineBand(unittest.TestCase):
         s_ref = -KB * (2.5 - eta) * 1e6
         self.assertLess(abs(p['seebeck_uv_per_k'][0] / s_ref - 1), 5e-3)
         self.assertAlmostEqual(r['edge_ev'], -6 * T_HOP, delta=1e-9)
+        # an isotropic parabolic band with constant tau has Hall factor 1
+        # (Boltzmann transport, textbook identity)
+        for r_h in p['hall_factor']:
+            self.assertLess(abs(r_h - 1), 5e-3)
 
     def test_fermi_level_mode_and_holes(self):
         # the band mirrored (E -> -E) carries holes with the same masses, and a
@@ -141,6 +150,16 @@ class CosineBand(unittest.TestCase):
         r2 = thermal(self.grid, bands=['c'], temperature_k=300.0, fermi_level_ev=mu)
         self.assertLess(abs(r2['points'][0]['density_cm3'] / 1e19 - 1), 1e-6)
         self.assertEqual(r['carriers'], 'electrons')
+
+    def test_same_bits_for_any_thread_count(self):
+        outs = [subprocess.run([CLI, 'call', 'thermal-mass'], capture_output=True, text=True,
+                               check=True,
+                               input=json.dumps({'grid': self.grid, 'bands': ['c'],
+                                                 'temperatures_k': [77, 300],
+                                                 'density_cm3': 1e18, 'threads': t})).stdout
+                for t in (1, 2, 5)]
+        self.assertEqual(outs[0], outs[1])
+        self.assertEqual(outs[0], outs[2])
 
     def test_bad_requests(self):
         for req, word in (({'bands': ['c'], 'temperature_k': 300.0}, 'density_cm3'),
@@ -154,6 +173,46 @@ class CosineBand(unittest.TestCase):
                                input=json.dumps(req))
             self.assertEqual(p.returncode, 2, p.stderr)
             self.assertIn(word, p.stderr)
+
+
+class BesselClosedForms(unittest.TestCase):
+    """Non-degenerate averages of E = -2t sum cos(k_i a) factorise into 1D
+    integrals of exp(x cos theta), x = 2t/kT, i.e. modified Bessel functions
+    (DLMF 10.32.1: I_n(x) = (1/pi) int_0^pi exp(x cos th) cos(n th) dth):
+      N_c = (2 / a^3) e^(-3x) I0(x)^3, so m_dos = 2 pi hbar^2 e^(-2x) I0(x)^2 / (a^2 kT);
+      <v_x^2>: int sin^2 th e^(x cos th) = pi I1(x) / x, so m_c = hbar^2 I0(x) / (2 t a^2 I1(x));
+      <cos th sin^2 th>/<sin^2 th> = I0/I1 - 2/x, so with eta = (mu - E_c)/kT
+      S = -(k/e) [x (3 - I0/I1 + 2/x - 2 I1/I0) - eta]   (-> 5/2 - eta as x -> inf).
+    Derived here; checked with SciPy's scaled Bessel functions. Target 0.1 %."""
+
+    def test_closed_forms(self):
+        from scipy.special import i0e, i1e
+        for t, a in ((0.5, 3.0), (1.0, 4.0), (0.75, 3.5)):
+            with tempfile.TemporaryDirectory() as tmp:
+                f = np.arange(40) / 40
+                c = np.cos(2 * np.pi * np.stack(np.meshgrid(f, f, f, indexing='ij'), 0)).sum(0)
+                np.save(os.path.join(tmp, 'g.npy'), (-2 * t * c)[None])
+                grid = os.path.join(tmp, 'g.json')
+                json.dump({'format': 'bandmass-grid-1', 'mesh': [40, 40, 40],
+                           'reciprocal_vectors_inv_angstrom': (2 * np.pi / a * np.eye(3)).tolist(),
+                           'energies_ev': 'g.npy'}, open(grid, 'w'))
+                temps = [77.0, 300.0, 600.0]
+                r = thermal(grid, bands=[0], temperatures_k=temps, density_cm3=1e12)
+            self.assertEqual(r.get('warning_codes', []), [])
+            self.assertEqual(r['edge_k_fractional'], [0.0, 0.0, 0.0])
+            for T, p in zip(temps, r['points']):
+                x = 2 * t / (KB * T)
+                q = i0e(x) / i1e(x)
+                md = 2 * np.pi * HBAR2_ME * i0e(x) ** 2 / (a * a * KB * T)
+                mc = HBAR2_ME * q / (2 * t * a * a)
+                eta = (p['fermi_level_ev'] - r['edge_ev']) / (KB * T)
+                s = -KB * 1e6 * (x * (3 - q + 2 / x - 2 / q) - eta)
+                with self.subTest(t=t, a=a, T=T):
+                    self.assertLess(abs(p['dos_mass_me'] / md - 1), 1e-3)
+                    for m in p['conductivity_principal_masses_me']:
+                        self.assertLess(abs(m / mc - 1), 1e-3)
+                    for v in p['seebeck_uv_per_k']:
+                        self.assertLess(abs(v / s - 1), 1e-3)
 
 
 DATA = os.path.join(os.path.dirname(os.path.abspath(__file__)), '..', 'data', 'first-principles')
@@ -172,6 +231,7 @@ class SiliconConduction(unittest.TestCase):
     def setUpClass(cls):
         ref = json.load(open(os.path.join(DATA, 'si-reference.json')))
         ml, mt = ref['longitudinal_mass_me'][0], ref['transverse_mass_me'][0]
+        cls.ml, cls.mt = ml, mt
         cls.md = 6 ** (2 / 3) * (ml * mt * mt) ** (1 / 3)
         cls.mc = 3 / (1 / ml + 2 / mt)
 
@@ -187,6 +247,13 @@ class SiliconConduction(unittest.TestCase):
         for m in p['conductivity_principal_masses_me']:
             self.assertLess(abs(m / self.mc - 1), 0.02)
         self.assertLess(r['edge_check']['relative_difference'], 0.05)
+        # non-degenerate many-valley Hall factor with constant tau,
+        # 3 K (K + 2) / (2 K + 1)^2, K = m_l / m_t (Herring, Bell Syst. Tech. J.
+        # 34, 237 (1955); from memory)
+        K = self.ml / self.mt
+        r_ref = 3 * K * (K + 2) / (2 * K + 1) ** 2
+        for r_h in p['hall_factor']:
+            self.assertLess(abs(r_h / r_ref - 1), 0.02)
         self.assertNotIn('not-converged', r.get('warning_codes', []))
 
     def test_coarse_mesh_is_flagged(self):
