@@ -51,6 +51,9 @@ static const char *const warn_code_names[BM_WARN_COUNT] = {
     [BM_WARN_WINDOW_UNRESOLVED] = "thermal-window-unresolved",
     [BM_WARN_CROSSING_IN_WINDOW] = "band-crossing-in-window",
     [BM_WARN_FERMI_OUTSIDE_BANDS] = "fermi-level-outside-bands",
+    [BM_WARN_FIT_POORLY_CONSTRAINED] = "fit-poorly-constrained",
+    [BM_WARN_FIT_INCONSISTENT] = "fit-inconsistent",
+    [BM_WARN_ORBIT_IRREGULAR] = "orbit-irregular",
     [BM_WARN_EXTREMA_CAPPED] = "extrema-capped",
 };
 

@@ -61,6 +61,9 @@ typedef enum {
     BM_WARN_WINDOW_UNRESOLVED,       /* the mesh does not resolve the thermal window */
     BM_WARN_CROSSING_IN_WINDOW,      /* a band outside the selection crosses inside the window */
     BM_WARN_FERMI_OUTSIDE_BANDS,     /* the chemical potential leaves the bands given */
+    BM_WARN_FIT_POORLY_CONSTRAINED,  /* a fitted parameter's standard error is large */
+    BM_WARN_FIT_INCONSISTENT,        /* residuals far beyond the stated uncertainties */
+    BM_WARN_ORBIT_IRREGULAR,         /* a cross-section not star-shaped about its centre */
     BM_WARN_EXTREMA_CAPPED,          /* more extrema than are reported: the nearest in energy kept */
     BM_WARN_COUNT                    /* not a code: the number of codes */
 } bm_warn_code;

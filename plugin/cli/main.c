@@ -9,6 +9,8 @@
 #include "bm-json.h"
 #include "render.h"
 #include "output.h"
+#include "options.h"
+#include "csv.h"
 
 #define EXIT_USAGE 2
 
@@ -45,7 +47,9 @@ static void print_main_help(void)
            "  bandmass OP --help                 the keys, units and defaults of OP\n"
            "  bandmass --version\n\n"
            "Option names are request keys with '-' for '_' (--temperature-k 300).\n"
-           "Arrays and objects are given as JSON ('[1,0,0]') or as comma lists (100,200).\n"
+           "Arrays and objects are given as JSON ('[1,0,0]') or as comma lists (100,200);\n"
+           "list items may be ranges: 100:500:50 (linear), 1e14:1e20:x10 (geometric).\n"
+           "Numbers are plain decimals without units; true/false options may stand alone.\n"
            "Exit status: 0 success, 2 bad input or usage, 1 internal failure.\n",
            PACKAGE_VERSION);
 }
@@ -188,7 +192,9 @@ static void print_op_help(const BmOperation *op)
 {
     printf("bandmass %s: %s\n\nOptions (request keys):\n", op->name, op->summary);
     for (const BmParam *p = op->params; p && p->name; p++) {
-        g_autofree char *opt = g_strdelimit(g_strdup(p->name), "_", '-');
+        g_autofree char *dashed = g_strdelimit(g_strdup(p->name), "_", '-');
+        g_autofree char *opt = p->kinds == BM_VALUE_BOOLEAN
+            ? g_strdup_printf("%s [true|false]", dashed) : g_strdup(dashed);
         g_autofree char *attr = param_attributes(p);
         printf("  --%-28s %s%s\n", opt, p->summary, attr);
         g_autofree const BmChoice **choices = bm_param_choices(p);
@@ -202,9 +208,12 @@ static void print_op_help(const BmOperation *op)
     }
     for (const BmField *f = bm_common_fields; f->name; f++)
         printf("  %-30s %s\n", f->name, f->meaning);
+    printf("\nValues: numbers are plain decimals in the key's unit, without the unit (300, "
+           "1.5e16);\nlists take items and ranges: 100,200,300, START:STOP:STEP (100:500:50), "
+           "\nSTART:STOP:xFACTOR (1e14:1e20:x10). A [true|false] option alone means true.\n");
     printf("\nOutput: a readable table; --json for the response object "
-           "(as 'bandmass call %s'),\n--csv for its \"points\" as CSV, "
-           "--output FILE to write it (a file atomically, a device or FIFO through).\n", op->name);
+           "(as 'bandmass call %s'),\n--csv for its table as CSV (one row for a single point), "
+           "--output FILE to write it\n(a file atomically, a device or FIFO through).\n", op->name);
 }
 
 /* Markdown table cells: '|' escaped, no line breaks. */
@@ -287,140 +296,6 @@ static void print_markdown(void)
     fputs(out->str, stdout);
 }
 
-/* Converts an option's text to a JSON node of a kind the parameter accepts. */
-static JsonNode *option_value(const BmParam *p, const char *text, GError **error)
-{
-    if ((p->kinds & (BM_VALUE_ARRAY | BM_VALUE_OBJECT)) && (text[0] == '[' || text[0] == '{')) {
-        g_autoptr(GError) parse = NULL;
-        g_autofree char *what = g_strdup_printf("option --%s", p->name);
-        if (!bm_json_check_depth(text, -1, what, error))
-            return NULL;
-        JsonNode *n = json_from_string(text, &parse);
-        if (!n) {
-            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                        "option --%s: not valid JSON: %s", p->name, parse->message);
-            return NULL;
-        }
-        return n;
-    }
-    if (p->kinds & (BM_VALUE_NUMBER | BM_VALUE_INTEGER | BM_VALUE_ARRAY)) {
-        g_auto(GStrv) parts = g_strsplit(text, ",", -1);
-        guint n = g_strv_length(parts);
-        JsonArray *values = json_array_new();
-        gboolean numeric = n > 0;
-        for (guint i = 0; numeric && i < n; i++) {
-            char *end = NULL;
-            errno = 0;
-            double v = g_ascii_strtod(parts[i], &end);
-            numeric = end != parts[i] && *end == '\0' && errno == 0;
-            if (numeric)
-                json_array_add_double_element(values, v);
-        }
-        if (numeric && n == 1 && (p->kinds & (BM_VALUE_NUMBER | BM_VALUE_INTEGER))) {
-            JsonNode *node = json_node_new(JSON_NODE_VALUE);
-            double v = json_array_get_double_element(values, 0);
-            if (!strpbrk(text, ".eE") && (p->kinds & BM_VALUE_INTEGER || p->kinds & BM_VALUE_NUMBER))
-                json_node_set_int(node, (gint64)v);
-            else
-                json_node_set_double(node, v);
-            json_array_unref(values);
-            return node;
-        }
-        if (numeric && (p->kinds & BM_VALUE_ARRAY)) {
-            JsonNode *node = json_node_new(JSON_NODE_ARRAY);
-            json_node_take_array(node, values);
-            return node;
-        }
-        json_array_unref(values);
-    }
-    if ((p->kinds & BM_VALUE_BOOLEAN) && (!strcmp(text, "true") || !strcmp(text, "false"))) {
-        JsonNode *node = json_node_new(JSON_NODE_VALUE);
-        json_node_set_boolean(node, strcmp(text, "true") == 0);
-        return node;
-    }
-    if (p->kinds & BM_VALUE_STRING) {
-        JsonNode *node = json_node_new(JSON_NODE_VALUE);
-        json_node_set_string(node, text);
-        return node;
-    }
-    g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                "option --%s: cannot use \"%s\" here", p->name, text);
-    return NULL;
-}
-
-static char *csv_field(JsonNode *n)
-{
-    if (JSON_NODE_HOLDS_NULL(n))
-        return g_strdup("");
-    if (JSON_NODE_HOLDS_VALUE(n) && json_node_get_value_type(n) == G_TYPE_STRING) {
-        const char *s = json_node_get_string(n);
-        if (!strpbrk(s, ",\"\n"))
-            return g_strdup(s);
-        g_auto(GStrv) parts = g_strsplit(s, "\"", -1);
-        g_autofree char *doubled = g_strjoinv("\"\"", parts);
-        return g_strdup_printf("\"%s\"", doubled);
-    }
-    if (JSON_NODE_HOLDS_VALUE(n) && json_node_get_value_type(n) == G_TYPE_DOUBLE) {
-        char buf[G_ASCII_DTOSTR_BUF_SIZE];
-        return g_strdup(g_ascii_formatd(buf, sizeof buf, "%.10g", json_node_get_double(n)));
-    }
-    return bm_json_to_string(n, FALSE);
-}
-
-/* The response's "points" (one object per row) as CSV; arrays become
- * numbered columns key_1, key_2, ... */
-static gboolean render_csv(JsonObject *response, GString *out, GError **error)
-{
-    JsonNode *pts = json_object_get_member(response, "points");
-    if (!pts || !JSON_NODE_HOLDS_ARRAY(pts) || json_array_get_length(json_node_get_array(pts)) == 0
-        || !JSON_NODE_HOLDS_OBJECT(json_array_get_element(json_node_get_array(pts), 0))) {
-        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "--csv needs a response with \"points\" (for example a list of temperatures)");
-        return FALSE;
-    }
-    JsonArray *rows = json_node_get_array(pts);
-    JsonObject *first = json_array_get_object_element(rows, 0);
-    g_autoptr(GList) keys = json_object_get_members(first);
-    gboolean sep = FALSE;
-    for (GList *l = keys; l; l = l->next) {
-        JsonNode *n = json_object_get_member(first, l->data);
-        if (JSON_NODE_HOLDS_ARRAY(n)) {
-            for (guint j = 0; j < json_array_get_length(json_node_get_array(n)); j++) {
-                g_string_append_printf(out, "%s%s_%u", sep ? "," : "", (char *)l->data, j + 1);
-                sep = TRUE;
-            }
-        } else if (!JSON_NODE_HOLDS_OBJECT(n)) {
-            g_string_append_printf(out, "%s%s", sep ? "," : "", (char *)l->data);
-            sep = TRUE;
-        }
-    }
-    g_string_append_c(out, '\n');
-    for (guint r = 0; r < json_array_get_length(rows); r++) {
-        JsonObject *row = json_array_get_object_element(rows, r);
-        sep = FALSE;
-        for (GList *l = keys; l; l = l->next) {
-            JsonNode *n = json_object_get_member(first, l->data);
-            JsonNode *v = row ? json_object_get_member(row, l->data) : NULL;
-            if (JSON_NODE_HOLDS_ARRAY(n)) {
-                guint len = json_array_get_length(json_node_get_array(n));
-                JsonArray *va = v && JSON_NODE_HOLDS_ARRAY(v) ? json_node_get_array(v) : NULL;
-                for (guint j = 0; j < len; j++) {
-                    g_autofree char *f = va && j < json_array_get_length(va)
-                        ? csv_field(json_array_get_element(va, j)) : g_strdup("");
-                    g_string_append_printf(out, "%s%s", sep ? "," : "", f);
-                    sep = TRUE;
-                }
-            } else if (!JSON_NODE_HOLDS_OBJECT(n)) {
-                g_autofree char *f = v ? csv_field(v) : g_strdup("");
-                g_string_append_printf(out, "%s%s", sep ? "," : "", f);
-                sep = TRUE;
-            }
-        }
-        g_string_append_c(out, '\n');
-    }
-    return TRUE;
-}
-
 static int cmd_operation(const BmOperation *op, int argc, char **argv)
 {
     enum { TABLE, JSON, CSV } view = TABLE;
@@ -445,32 +320,40 @@ static int cmd_operation(const BmOperation *op, int argc, char **argv)
         if (strncmp(arg, "--", 2) != 0)
             return usage_error("%s: unexpected argument \"%s\" (options are --KEY VALUE)",
                                op->name, arg);
-        g_autofree char *name = g_strdup(arg + 2);
-        char *eq = strchr(name, '=');
+        g_autofree char *typed = g_strdup(arg);    /* the option as typed, for messages */
+        char *eq = strchr(typed, '=');
         const char *text = NULL;
         if (eq) {
             *eq = '\0';
-            text = eq + 1;
+            text = arg + (eq - typed) + 1;
         }
-        g_strdelimit(name, "-", '_');
+        g_autofree char *name = g_strdelimit(g_strdup(typed + 2), "-", '_');
         const BmParam *p = NULL;
         for (const BmParam *q = op->params; q && q->name; q++)
             if (!strcmp(q->name, name))
                 p = q;
         if (!p)
             return usage_error("%s: unknown option %s (bandmass %s --help lists them)",
-                               op->name, arg, op->name);
+                               op->name, typed, op->name);
         if (!text) {
-            if (p->kinds == BM_VALUE_BOOLEAN)
-                text = "true";
+            if (p->kinds == BM_VALUE_BOOLEAN)   /* a flag alone, or with true/false */
+                text = i + 1 < argc && strncmp(argv[i + 1], "--", 2) ? argv[++i] : "true";
             else if (i + 1 < argc)
                 text = argv[++i];
             else
-                return usage_error("%s: option --%s needs a value", op->name, arg + 2);
+                return usage_error("%s: option %s needs a value", op->name, typed);
         }
-        JsonNode *value = option_value(p, text, &error);
+        if (json_object_has_member(request, p->name))
+            return usage_error("%s: option %s is given twice", op->name, typed);
+        JsonNode *value = bm_cli_option_value(p, typed, text, &error);
         if (!value)
             return fail(error);
+        /* the registry's check, here so that the message names the option */
+        if (!bm_param_check(p, op->name, value, &error)) {
+            json_node_unref(value);
+            g_prefix_error(&error, "option %s: ", typed);
+            return fail(error);
+        }
         json_object_set_member(request, p->name, value);
     }
 
@@ -485,7 +368,7 @@ static int cmd_operation(const BmOperation *op, int argc, char **argv)
         g_autofree char *text = bm_json_to_string(node, TRUE);
         g_string_append_printf(out, "%s\n", text);
     } else if (view == CSV) {
-        if (!render_csv(response, out, &error))
+        if (!bm_cli_csv(op, response, out, &error))
             return fail(error);
     } else {
         bm_cli_render(op, response, out);

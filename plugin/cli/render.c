@@ -185,9 +185,15 @@ static void render_band_gap(G_GNUC_UNUSED const BmOperation *op,
 
 /* ---- carrier-statistics ---- */
 
-static void carrier_row(GString *out, JsonObject *o)
+/* A doping sweep's rows start with the point's donor and acceptor densities. */
+static void carrier_cells(GString *out, JsonObject *o, gboolean doping)
 {
-    g_string_append_printf(out, "%8g %8.4f %10.3e %10.3e %10.3e %9.4f %10.3e %10.3e  %s\n",
+    if (doping)
+        g_string_append_printf(out, "%10.3e %10.3e ",
+                               json_object_get_double_member(o, "donor_density_cm3"),
+                               json_object_get_double_member(o, "acceptor_density_cm3"));
+    g_string_append_printf(out, "%8g %8.4f %10.3e %10.3e %10.3e %9.4f %10.3e %10.3e %10.3e "
+                           "%10.3e  %s\n",
                            json_object_get_double_member(o, "temperature_k"),
                            json_object_get_double_member(o, "band_gap_ev"),
                            json_object_get_double_member(o, "nc_cm3"),
@@ -196,7 +202,19 @@ static void carrier_row(GString *out, JsonObject *o)
                            json_object_get_double_member(o, "fermi_level_ev"),
                            json_object_get_double_member(o, "n_cm3"),
                            json_object_get_double_member(o, "p_cm3"),
+                           json_object_get_double_member(o, "ionized_donors_cm3"),
+                           json_object_get_double_member(o, "ionized_acceptors_cm3"),
                            json_object_get_string_member(o, "regime"));
+}
+
+static void carrier_row(GString *out, JsonObject *o)
+{
+    carrier_cells(out, o, FALSE);
+}
+
+static void carrier_row_doping(GString *out, JsonObject *o)
+{
+    carrier_cells(out, o, TRUE);
 }
 
 static void render_carrier_statistics(G_GNUC_UNUSED const BmOperation *op,
@@ -212,9 +230,17 @@ static void render_carrier_statistics(G_GNUC_UNUSED const BmOperation *op,
                            json_object_get_string_member(src, "band_gap_ev"),
                            json_object_get_string_member(src, "electron_dos_mass_me"),
                            json_object_get_string_member(src, "statistics_hole_dos_mass_me"));
-    g_string_append_printf(out, "%8s %8s %10s %10s %10s %9s %10s %10s  %s\n", "T_K", "Eg_eV",
-                           "Nc_cm3", "Nv_cm3", "ni_cm3", "EF_eV", "n_cm3", "p_cm3", "regime");
-    render_rows(out, response, carrier_row);
+    /* a doping sweep: each point carries its own dopant lists */
+    JsonArray *pts = json_object_has_member(response, "points")
+        ? json_object_get_array_member(response, "points") : NULL;
+    gboolean doping = pts && json_array_get_length(pts) > 0
+        && json_object_has_member(json_array_get_object_element(pts, 0), "donors");
+    if (doping)
+        g_string_append_printf(out, "%10s %10s ", "N_D_cm3", "N_A_cm3");
+    g_string_append_printf(out, "%8s %8s %10s %10s %10s %9s %10s %10s %10s %10s  %s\n", "T_K",
+                           "Eg_eV", "Nc_cm3", "Nv_cm3", "ni_cm3", "EF_eV", "n_cm3", "p_cm3",
+                           "N_D+_cm3", "N_A-_cm3", "regime");
+    render_rows(out, response, doping ? carrier_row_doping : carrier_row);
 }
 
 /* ---- drude ---- */
@@ -272,6 +298,46 @@ static void render_fermi_integral(G_GNUC_UNUSED const BmOperation *op,
     g_string_append_printf(out, "%22s  %22s\n", "eta", "F_j(eta)");
     for (guint i = 0; i < n; i++)
         g_string_append_printf(out, "%22.15g  %22.15g\n", element(eta, i), element(val, i));
+}
+
+/* ---- thermal-mass ---- */
+
+static double element_or_nan(JsonObject *o, const char *key, guint i)
+{
+    JsonArray *a = json_object_get_array_member(o, key);
+    JsonNode *n = a && i < json_array_get_length(a) ? json_array_get_element(a, i) : NULL;
+    return n && JSON_NODE_HOLDS_VALUE(n) ? json_node_get_double(n) : NAN;
+}
+
+static void thermal_row(GString *out, JsonObject *o)
+{
+    g_string_append_printf(out, "%8g %9.4f %10.3e %8.4f  %7.4f %7.4f %7.4f  %8.1f %8.1f %8.1f  %6.4f\n",
+                           member(o, "temperature_k"), member(o, "fermi_level_ev"),
+                           member(o, "density_cm3"), member(o, "dos_mass_me"),
+                           element_or_nan(o, "conductivity_principal_masses_me", 0),
+                           element_or_nan(o, "conductivity_principal_masses_me", 1),
+                           element_or_nan(o, "conductivity_principal_masses_me", 2),
+                           element_or_nan(o, "seebeck_uv_per_k", 0),
+                           element_or_nan(o, "seebeck_uv_per_k", 1),
+                           element_or_nan(o, "seebeck_uv_per_k", 2),
+                           element_or_nan(o, "hall_factor", 2));
+}
+
+static void render_thermal_mass(G_GNUC_UNUSED const BmOperation *op, JsonObject *response,
+                                GString *out)
+{
+    g_string_append_printf(out, "carriers   %s, band edge %.4f eV\nsource     %s\n",
+                           json_object_get_string_member(response, "carriers"),
+                           member(response, "edge_ev"),
+                           json_object_get_string_member(response, "source"));
+    JsonNode *chk = json_object_get_member(response, "edge_check");
+    if (chk && JSON_NODE_HOLDS_OBJECT(chk))
+        g_string_append_printf(out, "edge check %.1f %% against mass-tensor's fits\n",
+                               100.0 * member(json_node_get_object(chk), "relative_difference"));
+    g_string_append_printf(out, "%8s %9s %10s %8s  %-23s  %-26s  %6s\n", "T_K", "mu_eV", "n_cm3",
+                           "m_dos", "m_c principal (m_e)", "Seebeck principal (uV/K)",
+                           "r_H(z)");
+    render_rows(out, response, thermal_row);
 }
 
 /* ---- hole-mass ---- */
@@ -585,6 +651,7 @@ static const struct {
     { "mass-tensor", render_mass_tensor },
     { "sheet-density", render_sheet_density },
     { "valley-average", render_valley_average },
+    { "thermal-mass", render_thermal_mass },
 };
 
 void bm_cli_render(const BmOperation *op, JsonObject *response, GString *out)

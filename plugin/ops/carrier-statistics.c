@@ -25,6 +25,13 @@ static const BmParam params[] = {
     { "acceptors", BM_VALUE_ARRAY, FALSE, "[]",
       "acceptor species: {density_cm3, ionization_ev (E_A - Ev, eV), degeneracy (default 4)} "
       "or {species, density_cm3}", .unit = NULL },
+    { "donor_densities_cm3", BM_VALUE_NUMBER | BM_VALUE_ARRAY, FALSE, NULL,
+      "doping sweep: densities of the one donor species in donors (given there without "
+      "density_cm3): one point each, every combination with temperatures and "
+      "acceptor_densities_cm3", .unit = "cm^-3", .lower = BM_GE(0) },
+    { "acceptor_densities_cm3", BM_VALUE_NUMBER | BM_VALUE_ARRAY, FALSE, NULL,
+      "doping sweep: densities of the one acceptor species in acceptors, as "
+      "donor_densities_cm3", .unit = "cm^-3", .lower = BM_GE(0) },
     { "statistics", BM_VALUE_STRING, FALSE, BM_STATISTICS_DEFAULT_JSON, "band occupation",
       .choices = &bm_enum_statistics },
     { "ionization_model", BM_VALUE_STRING, FALSE, "\"auto\"",
@@ -61,6 +68,9 @@ static const BmField response[] = {
       "doping (null without net doping)" },
     { "n_cm3", "cm^-3", TRUE, "electron density" },
     { "p_cm3", "cm^-3", TRUE, "hole density" },
+    { "donor_density_cm3", "cm^-3", TRUE, "donor density, all species (the point's in a "
+      "doping sweep)" },
+    { "acceptor_density_cm3", "cm^-3", TRUE, "acceptor density, all species" },
     { "ionized_donors_cm3", "cm^-3", TRUE, "ionised donors, all species" },
     { "ionized_acceptors_cm3", "cm^-3", TRUE, "ionised acceptors, all species" },
     { "ionized_donors_per_species_cm3", "cm^-3", TRUE, "per donor species (when there are some)" },
@@ -71,7 +81,9 @@ static const BmField response[] = {
     { "statistics", NULL, FALSE, "the statistics of the numbers: fermi-dirac or boltzmann" },
     { "boltzmann_deviation", NULL, TRUE,
       "largest relative change of n or p had the other statistics been used" },
-    { "points", NULL, TRUE, "one object per temperature with the keys above (a list)" },
+    { "points", NULL, TRUE, "one object per temperature (and doping) with the keys above, "
+      "in a doping sweep also its donors and acceptors as resolved (a list: donor density "
+      "outermost, then acceptor density, then temperature)" },
     { "material", NULL, FALSE, "the material's name" },
     { "fermi_level_reference", NULL, FALSE, "the zero of fermi_level_ev" },
     { "band_gap_model", NULL, FALSE, "varshni, bose-einstein or fixed" },
@@ -86,9 +98,11 @@ static const BmField response[] = {
     { "heavy_doping", NULL, FALSE, "the heavy-doping models in detail: donors, acceptors "
       "{model, alpha_ev_cm, mott_density_cm3, hydrogenic_binding_ev, bohr_radius_angstrom, "
       "hydrogenic_mass_me, mass_source, source}, band_gap_narrowing {model, parameters, "
-      "total_density_cm3, apparent_narrowing_ev, fermi_dirac_corrected, edge_split, source}" },
+      "total_density_cm3, apparent_narrowing_ev, fermi_dirac_corrected, edge_split, source}; "
+      "at the first point of a doping sweep" },
     { "donors", NULL, FALSE, "the donors as resolved: density_cm3, ionization_ev, "
-      "effective_ionization_ev, fully_ionized, degeneracy, source (species when named)" },
+      "effective_ionization_ev, fully_ionized, degeneracy, source (species when named); at "
+      "the first point of a doping sweep (each point has its own)" },
     { "acceptors", NULL, FALSE, "the acceptors as resolved, as donors" },
     BM_FIELD_END
 };
@@ -100,8 +114,10 @@ typedef struct {
     size_t n;
 } Dopants;
 
+/* sweep: the key's densities come from sweep_key, one species without density_cm3 */
 static gboolean read_dopants(JsonObject *request, const char *key, bm_dopant_kind kind,
-                             const BmMaterialInput *mat, Dopants *out, GError **error)
+                             const char *sweep_key, const BmMaterialInput *mat, Dopants *out,
+                             GError **error)
 {
     static const char *const keys[] = { "species", "density_cm3", "ionization_ev",
                                         "degeneracy", NULL };
@@ -111,6 +127,12 @@ static gboolean read_dopants(JsonObject *request, const char *key, bm_dopant_kin
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
                     "request: key \"%s\" holds %u species (at most %d)", key, len,
                     BM_MAX_DOPANTS);
+        return FALSE;
+    }
+    if (sweep_key && len != 1) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request: key \"%s\" sweeps the density of one species: give exactly one "
+                    "in \"%s\" (it holds %u)", sweep_key, key, len);
         return FALSE;
     }
     out->n = len;
@@ -123,7 +145,13 @@ static gboolean read_dopants(JsonObject *request, const char *key, bm_dopant_kin
         memset(d, 0, sizeof *d);
         out->species[i] = NULL;
         out->source[i] = "given in the request";
-        if (!bm_json_number(o, "density_cm3", where, &d->density_cm3, error))
+        if (sweep_key && json_object_has_member(o, "density_cm3")) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                        "%s: key \"density_cm3\" is not used with \"%s\", which gives the "
+                        "densities: leave it out", where, sweep_key);
+            return FALSE;
+        }
+        if (!sweep_key && !bm_json_number(o, "density_cm3", where, &d->density_cm3, error))
             return FALSE;
         if (d->density_cm3 < 0) {
             g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
@@ -243,6 +271,8 @@ static void set_state(JsonObject *o, const bm_carrier_state *st, const Dopants *
     bm_json_set_number(o, "ionized_fraction", st->ionised_fraction);
     bm_json_set_number(o, "n_cm3", st->n_cm3);
     bm_json_set_number(o, "p_cm3", st->p_cm3);
+    bm_json_set_number(o, "donor_density_cm3", s_total(don));
+    bm_json_set_number(o, "acceptor_density_cm3", s_total(acc));
     bm_json_set_number(o, "ionized_donors_cm3", st->donors_ionised_cm3);
     bm_json_set_number(o, "ionized_acceptors_cm3", st->acceptors_ionised_cm3);
     if (don->n)
@@ -338,6 +368,24 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     t = bm_json_numbers(request, tkey, NULL, &nt, error);
     if (!t)
         return NULL;
+    /* doping sweeps: every combination of donor density, acceptor density, temperature */
+    const char *dkey = json_object_has_member(request, "donor_densities_cm3")
+                       ? "donor_densities_cm3" : NULL;
+    const char *akey = json_object_has_member(request, "acceptor_densities_cm3")
+                       ? "acceptor_densities_cm3" : NULL;
+    g_autofree double *nd = NULL, *na = NULL;
+    gsize nnd = 1, nna = 1;
+    if ((dkey && !(nd = bm_json_numbers(request, dkey, NULL, &nnd, error)))
+        || (akey && !(na = bm_json_numbers(request, akey, NULL, &nna, error))))
+        return NULL;
+    const char *empty = nt == 0 ? tkey : nnd == 0 ? dkey : nna == 0 ? akey : NULL;
+    if (empty) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "request: key \"%s\" is empty",
+                    empty);
+        return NULL;
+    }
+    gboolean doping_sweep = dkey || akey;
+    list = list || doping_sweep;
 
     have_mat = bm_material_input_read(request, "material", &mat, error);
     if (!have_mat)
@@ -356,8 +404,8 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
                     mat.mat.gap.kind == BM_GAP_NONE ? "" : " (or give \"dos_mass_points\")");
         goto done;
     }
-    if (!read_dopants(request, "donors", BM_DOPANT_DONOR, &mat, &don, error)
-        || !read_dopants(request, "acceptors", BM_DOPANT_ACCEPTOR, &mat, &acc, error))
+    if (!read_dopants(request, "donors", BM_DOPANT_DONOR, dkey, &mat, &don, error)
+        || !read_dopants(request, "acceptors", BM_DOPANT_ACCEPTOR, akey, &mat, &acc, error))
         goto done;
 
     /* the core evaluates the gap and both DOS masses at each temperature */
@@ -386,10 +434,20 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
 
     resp = json_object_new();
     pts = list ? json_array_new() : NULL;
-    for (gsize i = 0; i < nt; i++) {
-        g_autofree char *where = list
-            ? g_strdup_printf("request: element %zu of \"temperatures_k\"", (size_t)i)
-            : g_strdup("request: key \"temperature_k\"");
+    for (gsize npt = 0; npt < nnd * nna * nt; npt++) {
+        gsize i = npt % nt, b = npt / nt % nna, a = npt / nt / nna;
+        if (dkey)
+            don.d[0].density_cm3 = nd[a];
+        if (akey)
+            acc.d[0].density_cm3 = na[b];
+        g_autoptr(GString) at = g_string_new(NULL);   /* the point, for messages */
+        g_string_append_printf(at, "%g K", t[i]);
+        if (dkey)
+            g_string_append_printf(at, ", donors %g cm^-3", nd[a]);
+        if (akey)
+            g_string_append_printf(at, ", acceptors %g cm^-3", na[b]);
+        g_autofree char *where = !list ? g_strdup("request: key \"temperature_k\"")
+            : g_strdup_printf("request: the point at %s", at->str);
         bm_errbuf err = {0};
         bm_carrier_state st;
         if (bm_carriers_solve(&s, t[i], &st, &err) != BM_OK) {
@@ -398,18 +456,30 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
         }
         JsonObject *row = list ? json_object_new() : resp;
         set_state(row, &st, &don, &acc);
-        if (i == 0) {
+        if (doping_sweep) {
+            json_object_set_array_member(row, "donors", dopant_list(&don, st.donor_ionisation_ev,
+                                                                    st.donor_fully_ionised));
+            json_object_set_array_member(row, "acceptors",
+                                         dopant_list(&acc, st.acceptor_ionisation_ev,
+                                                     st.acceptor_fully_ionised));
+        }
+        if (npt == 0) {
             first = st;
             first.warnings = (bm_warnings){0};
         }
         if (list)
             json_array_add_object_element(pts, row);
-        g_autofree char *prefix = list ? g_strdup_printf("%g K: ", t[i]) : g_strdup("");
+        g_autofree char *prefix = list ? g_strdup_printf("%s: ", at->str) : g_strdup("");
         for (size_t k = 0; k < st.warnings.count; k++)
             bm_json_warn(resp, st.warnings.items[k].code, "%s%s", prefix,
                          st.warnings.items[k].text);
         bm_warnings_clear(&st.warnings);
     }
+    /* the response's own dopant lists and heavy-doping summary: the first point */
+    if (dkey)
+        don.d[0].density_cm3 = nd[0];
+    if (akey)
+        acc.d[0].density_cm3 = na[0];
     json_object_set_string_member(resp, "material", mat.mat.name);
     json_object_set_string_member(resp, "fermi_level_reference", "valence-band maximum");
     json_object_set_string_member(resp, "band_gap_model", bm_gap_kind_name(mat.mat.gap.kind));

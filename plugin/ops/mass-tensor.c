@@ -38,8 +38,9 @@ static const BmParam params[] = {
     { "table", BM_VALUE_STRING, FALSE, NULL,
       "k-table (CSV or TSV: kx/ky/kz_inv_angstrom and NAME_ev columns); give this or grid",
       .unit = NULL },
-    { "band", BM_VALUE_INTEGER | BM_VALUE_STRING, TRUE, NULL,
-      "band: 0-based index or name", .unit = NULL },
+    { "band", BM_VALUE_INTEGER | BM_VALUE_STRING, FALSE, NULL,
+      "band: 0-based index or name (may be left out when the data hold one band)",
+      .unit = NULL },
     { "extremum", BM_VALUE_STRING, FALSE, "\"all\"", "which extrema to report",
       .choices = &bm_enum_extremum_search },
     { "k_inv_angstrom", BM_VALUE_ARRAY, FALSE, NULL,
@@ -311,8 +312,16 @@ BmMassTensorSearch *bm_mass_tensor_search(JsonObject *request, const BmCallInput
         nbands = s->table->table.nbands;
     }
 
-    if (!bm_band_select_node(json_object_get_member(request, "band"), names, alt_names,
-                             nbands, s->source, &s->band, error))
+    if (!json_object_has_member(request, "band")) {
+        if (nbands != 1) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                        "request: missing key \"band\": %s holds %zu bands (give a 0-based "
+                        "index or a name)", s->source, nbands);
+            return NULL;
+        }
+        s->band = 0;
+    } else if (!bm_band_select_node(json_object_get_member(request, "band"), names, alt_names,
+                                    nbands, s->source, &s->band, error))
         return NULL;
     s->band_name = names ? names[s->band] : NULL;
     s->fractional = grid != NULL;

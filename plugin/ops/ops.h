@@ -17,6 +17,12 @@ extern const BmOperation bm_op_sheet_density;
 extern const BmOperation bm_op_drude;
 extern const BmOperation bm_op_materials;
 extern const BmOperation bm_op_thermal_mass;
+extern const BmOperation bm_op_kane_fit;
+extern const BmOperation bm_op_cyclotron_ellipsoid;
+extern const BmOperation bm_op_cyclotron_holes;
+extern const BmOperation bm_op_resonance;
+extern const BmOperation bm_op_oscillation_damping;
+extern const BmOperation bm_op_specific_heat_mass;
 
 #define BM_OPERATIONS_TABLE \
     &bm_op_constants, \
@@ -29,6 +35,12 @@ extern const BmOperation bm_op_thermal_mass;
     &bm_op_sheet_density, \
     &bm_op_drude, \
     &bm_op_materials, \
-    &bm_op_thermal_mass,
+    &bm_op_thermal_mass, \
+    &bm_op_kane_fit, \
+    &bm_op_cyclotron_ellipsoid, \
+    &bm_op_cyclotron_holes, \
+    &bm_op_resonance, \
+    &bm_op_oscillation_damping, \
+    &bm_op_specific_heat_mass,
 
 #endif

@@ -308,6 +308,20 @@ static void test_output_partial_files(void)
 
 /* A list of temperatures becomes CSV: a header of the point keys (per-species
  * arrays numbered) and one row per temperature. */
+/* The cells of a CSV line, with quoted cells (which may hold commas) counted once. */
+static guint csv_cells(const char *line)
+{
+    guint n = 1;
+    gboolean quoted = FALSE;
+    for (const char *c = line; *c; c++) {
+        if (*c == '"')
+            quoted = !quoted;
+        else if (*c == ',' && !quoted)
+            n++;
+    }
+    return n;
+}
+
 static void test_carrier_csv(void)
 {
     g_auto(Run) a = { 0 };
@@ -318,14 +332,13 @@ static void test_carrier_csv(void)
     g_assert_cmpuint(g_strv_length(lines), ==, 5);   /* header, 3 rows, empty tail */
     g_assert_true(g_str_has_prefix(lines[0], "temperature_k,band_gap_ev,"));
     g_assert_nonnull(strstr(lines[0], ",fermi_level_ev,"));
-    g_assert_nonnull(strstr(lines[0], ",ionized_donors_per_species_cm3_1,"));
+    g_assert_nonnull(strstr(lines[0], ",ionized_donors_P_cm3,"));
     g_assert_true(g_str_has_prefix(lines[1], "200,"));
     g_assert_true(g_str_has_prefix(lines[3], "400,"));
     g_auto(GStrv) head = g_strsplit(lines[0], ",", -1);
     guint cols = g_strv_length(head);
     for (int i = 1; i <= 3; i++) {
-        g_auto(GStrv) f = g_strsplit(lines[i], ",", -1);
-        g_assert_cmpuint(g_strv_length(f), ==, cols);
+        g_assert_cmpuint(csv_cells(lines[i]), ==, cols);
     }
     g_assert_cmpstr(lines[4], ==, "");
 }

@@ -50,6 +50,8 @@ static const Case cases[] = {
     { "fermi-integral", NULL, "{\"order\": 0.5, \"eta\": [-1, 0, 2]}" },
     { "fermi-integral", NULL, "{\"order\": 0.5, \"inverse\": true, \"values\": 1}" },
     { "band-gap", NULL, "{\"material\": \"GaAs\", \"temperature_k\": 300}" },
+    { "kane-fit", DATA, "{\"grid\": \"first-principles/si-12.json\", \"band\": \"c1\", "
+      "\"temperatures_k\": [300]}" },
     { "thermal-mass", DATA, "{\"grid\": \"first-principles/si-12.json\", \"bands\": \"valence\", "
       "\"temperatures_k\": [300], \"density_cm3\": 1e17}" },
     { "band-gap", NULL, "{\"material\": \"Si\", \"temperatures_k\": [0, 300]}" },
@@ -73,6 +75,32 @@ static const Case cases[] = {
     { "carrier-statistics", NULL, "{\"material\": \"Si\", \"temperatures_k\": [300, 600], "
       "\"donors\": [{\"species\": \"As\", \"density_cm3\": 1e20}], "
       "\"ionization_model\": \"single-level\", \"band_gap_narrowing\": \"none\"}" },
+    { "carrier-statistics", NULL, "{\"material\": \"Si\", \"temperature_k\": 300, "
+      "\"donors\": [{\"species\": \"P\"}], \"donor_densities_cm3\": [1e15, 1e17], "
+      "\"acceptors\": [{\"species\": \"B\"}], \"acceptor_densities_cm3\": 1e14}" },
+    { "cyclotron-ellipsoid", NULL, "{\"material\": \"Si\", \"field_direction\": [1, 0, 0]}" },
+    { "cyclotron-ellipsoid", NULL, "{\"valley\": " SI_VALLEY ", \"point_group\": \"Oh\", "
+      "\"position\": \"interior\", \"field_directions\": {\"from\": [0,0,1], \"to\": [1,1,0], "
+      "\"steps\": 3}}" },
+    { "cyclotron-holes", NULL, "{\"material\": \"GaAs\", \"field_direction\": [0, 0, 1], "
+      "\"hole_energy_ev\": 0.01}" },
+    { "cyclotron-holes", NULL, "{\"luttinger_parameters\": [6.98, 2.06, 2.93], "
+      "\"field_directions\": [[1, 0, 0], [1, 1, 1]]}" },
+    { "resonance", NULL, "{\"frequency_ghz\": 35, \"field_t\": 0.0837, "
+      "\"frequency_stderr_ghz\": 0.1}" },
+    { "resonance", NULL, "{\"frequency_ghz\": [14, 28, 43], \"field_t\": [0.5, 1, 1.5]}" },
+    { "resonance", NULL, "{\"cyclotron_mass_me\": 0.067, \"frequency_ghz\": 94}" },
+    { "resonance", NULL, "{\"cyclotron_mass_me\": 0.067, \"field_t\": 1}" },
+    { "oscillation-damping", NULL, "{\"field_t\": 6, \"temperatures_k\": [1, 2, 3, 4], "
+      "\"amplitudes\": [1, 0.8, 0.55, 0.35], \"dingle\": {\"fields_t\": [3, 4, 6], "
+      "\"amplitudes\": [0.2, 0.5, 1], \"temperature_k\": 1, \"field_power\": 0.5}}" },
+    { "specific-heat-mass", NULL, "{\"temperatures_k\": [1, 2, 3, 4], "
+      "\"heat_capacity_mj_per_mol_k\": [0.7431, 1.7748, 3.3837, 5.8584], "
+      "\"electron_density_cm3\": 8.47e22, \"molar_volume_cm3\": 7.09, "
+      "\"atoms_per_formula_unit\": 1}" },
+    { "specific-heat-mass", NULL, "{\"gamma_mj_per_mol_k2\": 0.695, "
+      "\"gamma_stderr_mj_per_mol_k2\": 0.01, \"fermi_energy_ev\": 7, "
+      "\"electrons_per_atom\": 1}" },
 };
 
 static gboolean declared(const BmOperation *op, const char *key)
