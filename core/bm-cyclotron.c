@@ -195,6 +195,13 @@ static double ray_radius(Warped *w, double kappa, const double u[3])
     for (int i = 0; i < 5; i++)
         c[i] -= w->c2 * s[i];
     double z[8];
+    /* parameters so large that the coefficients overflow: refused before GSL
+     * is asked (its error handler is the host's) */
+    for (int i = 0; i < 5; i++)
+        if (!isfinite(c[i])) {
+            w->status = BM_EINVAL;
+            return NAN;
+        }
     if (c[4] == 0.0 || gsl_poly_complex_solve(c, 5, w->ws, z) != GSL_SUCCESS) {
         w->status = BM_EINTERNAL;
         return NAN;
@@ -411,6 +418,10 @@ bm_status bm_hole_cyclotron_compute(const bm_luttinger *L, const double b[3],
         if (w.status != BM_OK) {
             gsl_poly_complex_workspace_free(w.ws);
             bm_warnings_clear(&out->warnings);
+            if (w.status == BM_EINVAL)
+                return bm_fail(err, BM_EINVAL, "hole cyclotron masses: the Luttinger "
+                               "parameters are too large (the section's quartic overflows "
+                               "a double)");
             return bm_fail(err, BM_EINTERNAL, "hole cyclotron masses: the quartic of a "
                            "section could not be solved");
         }

@@ -1242,6 +1242,56 @@ static void snap_and_merge(grid_ctx *c, bm_mass_tensor *res, size_t *nres)
     check_stars(c, (const double (*)[3][3])rot, nrot, res, keep);
 }
 
+/* A rough band can have a local extremum at every few mesh points, and each
+ * candidate costs its fits: beyond BM_GRID_MAX_EXTREMA candidates only those
+ * closest in energy to the band's lowest minimum (for minima) or highest
+ * maximum (for maxima) are kept, ties in mesh order, so the cost of an "all"
+ * search is bounded. */
+typedef struct {
+    double key;
+    size_t q;
+} edge_key;
+
+static int by_edge_key(const void *pa, const void *pb)
+{
+    const edge_key *a = pa, *b = pb;
+    if (a->key != b->key)
+        return (a->key > b->key) - (a->key < b->key);
+    return (a->q > b->q) - (a->q < b->q);
+}
+
+/* Returns 0, or -1 when out of memory. */
+static int cap_candidates(const double *e, candidate *cl, size_t *ncand)
+{
+    size_t n = *ncand;
+    if (n <= BM_GRID_MAX_EXTREMA)
+        return 0;
+    double lo = INFINITY, hi = -INFINITY;
+    for (size_t q = 0; q < n; q++) {
+        lo = fmin(lo, e[cl[q].p]);
+        hi = fmax(hi, e[cl[q].p]);
+    }
+    edge_key *k = malloc(n * sizeof *k);
+    candidate *kept = malloc(BM_GRID_MAX_EXTREMA * sizeof *kept);
+    if (!k || !kept) {
+        free(k);
+        free(kept);
+        return -1;
+    }
+    for (size_t q = 0; q < n; q++) {
+        k[q].key = cl[q].is_min ? e[cl[q].p] - lo : hi - e[cl[q].p];
+        k[q].q = q;
+    }
+    qsort(k, n, sizeof *k, by_edge_key);
+    for (size_t i = 0; i < BM_GRID_MAX_EXTREMA; i++)
+        kept[i] = cl[k[i].q];
+    memcpy(cl, kept, BM_GRID_MAX_EXTREMA * sizeof *cl);
+    *ncand = BM_GRID_MAX_EXTREMA;
+    free(k);
+    free(kept);
+    return 0;
+}
+
 bm_status bm_grid_mass_tensors(const bm_grid *g, size_t band, bm_search which,
                                const double *k_at, const bm_fit_options *opt,
                                bm_mass_tensor **out, size_t *n_out, bm_errbuf *err)
@@ -1312,9 +1362,13 @@ bm_status bm_grid_mass_tensors(const bm_grid *g, size_t band, bm_search which,
     } else {
         candidate *cl = NULL;
         size_t ncand = 0;
+        size_t nfound = 0;
         if (which == BM_SEARCH_ALL) {
             if (grid_scan(g, e, &cl, &ncand) != 0)
                 s = bm_fail(err, BM_ENOMEM, "out of memory in the extremum scan");
+            nfound = ncand;
+            if (s == BM_OK && cap_candidates(e, cl, &ncand) != 0)
+                s = bm_fail(err, BM_ENOMEM, "out of memory choosing among %zu extrema", nfound);
         } else {
             cl = malloc(sizeof *cl);
             if (!cl) {
@@ -1362,6 +1416,11 @@ bm_status bm_grid_mass_tensors(const bm_grid *g, size_t band, bm_search which,
             snap_and_merge(&c, res, &nres);
         if (s == BM_OK && nres > 1)
             qsort(res, nres, sizeof *res, by_energy);
+        if (s == BM_OK && nres && nfound > ncand)
+            bm_warn(&res[0].warnings, BM_WARN_EXTREMA_CAPPED, "the band has %zu local "
+                    "extrema on the mesh (a rough or noisy band): only the %d closest in "
+                    "energy to its lowest minimum or highest maximum are fitted and "
+                    "reported", nfound, BM_GRID_MAX_EXTREMA);
     }
     bm_interp_free(c.ip);
     bm_interp_free(c.ip_reduced);

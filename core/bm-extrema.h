@@ -84,6 +84,12 @@ typedef struct {
 /* Checks energies (finite), mesh and reciprocal vectors (non-singular). */
 bm_status bm_grid_validate(const bm_grid *g, bm_errbuf *err);
 
+/* The most extrema an "all" search of a grid fits and reports: beyond it
+ * (a rough or noisy band) those closest in energy to the band's lowest
+ * minimum or highest maximum are kept, and the lowest reported extremum
+ * carries BM_WARN_EXTREMA_CAPPED with the count found. */
+#define BM_GRID_MAX_EXTREMA 1000
+
 /* Extrema of one band of a grid. k_at (NULL unless wanted) evaluates the
  * tensor at that Cartesian point instead of searching. *out is malloc'd;
  * the caller frees it (and the warnings of every tensor) with

@@ -2,6 +2,7 @@
  * series for the F_1/2, F_-1/2 pair) and the inverse of F_1/2. */
 #include "bm-fermi.h"
 
+#include <float.h>
 #include <math.h>
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_math.h>
@@ -60,6 +61,16 @@ static const double series_coef[40][2] = {
  * the second term is at most e^eta / sqrt(2) < 1e-16 relative. */
 #define BOLTZMANN_ETA_MAX (-37.0)
 
+/* F_j(eta) ~ eta^(j+1) / Gamma(j+2) for large eta (DLMF 25.12.14, the
+ * Sommerfeld expansion), and GSL reports an overflow as soon as eta^(j+1)
+ * exceeds the largest double. The core never lets GSL report (the error
+ * handler is process-wide and may abort the host), so such an eta is
+ * refused before the call: within a factor e of the largest double. */
+static int overflows(double j, double eta)
+{
+    return j > -0.5 && eta > 1.0 && (j + 1.0) * log(eta) >= log(DBL_MAX) - 1.0;
+}
+
 static void half_pair_series(double eta, double *fh, double *fm)
 {
     double z = exp(eta);
@@ -90,8 +101,18 @@ void bm_fermi_dirac_half_pair(double eta, double *f_half, double *f_mhalf)
         return;
     }
     gsl_sf_result r;
-    /* eta >= -1 here: neither routine can underflow; overflow needs eta > 1e200. */
-    *f_half = (gsl_sf_fermi_dirac_half_e(eta, &r) == GSL_SUCCESS) ? r.val : HUGE_VAL;
+    /* eta >= -1 here: neither routine can underflow. F_1/2 overflows where
+     * eta^(3/2) does (eta near 4e205): never called there, so that GSL
+     * reports no error (its handler is the host's). F_-1/2 ~ 2 sqrt(eta/pi)
+     * never overflows. */
+    if (!(eta < HUGE_VAL)) {        /* +Inf or NaN: GSL would report a domain error */
+        *f_half = *f_mhalf = eta;
+        return;
+    }
+    if (overflows(0.5, eta))
+        *f_half = HUGE_VAL;
+    else
+        *f_half = (gsl_sf_fermi_dirac_half_e(eta, &r) == GSL_SUCCESS) ? r.val : HUGE_VAL;
     *f_mhalf = (gsl_sf_fermi_dirac_mhalf_e(eta, &r) == GSL_SUCCESS) ? r.val : HUGE_VAL;
 }
 
@@ -140,6 +161,10 @@ bm_status bm_fermi_dirac(double j, double eta, double *value, bm_errbuf *err)
         *value = twice_j == 1 ? fh : fm;
         return BM_OK;
     }
+    if (overflows(j, eta))
+        return bm_fail(err, BM_EINVAL,
+                       "fermi-dirac: F_%g(eta = %g) ~ eta^%g / Gamma(%g) overflows a double",
+                       j, eta, j + 1.0, j + 2.0);
     gsl_sf_result r;
     int s;
     switch (twice_j) {
@@ -182,7 +207,16 @@ bm_status bm_fermi_dirac_half_inverse(double value, double *eta, bm_errbuf *err)
      * v = (3 sqrt(pi) u / 4)^(2/3), u = value (normalised F_1/2);
      * the first term is replaced by its limit ln u near u = 1. */
     double u = value;
-    double v = pow(3.0 * sqrt(M_PI) * u / 4.0, 2.0 / 3.0);
+    /* v as a product: 3 sqrt(pi) u / 4 overflows for u near the largest double */
+    double cv = cbrt(3.0 * sqrt(M_PI) / 4.0) * cbrt(u), v = cv * cv;
+    /* Sommerfeld: F_1/2(eta) = eta^(3/2) / Gamma(5/2) (1 + pi^2 / (8 eta^2) + ...)
+     * (DLMF 25.12.14 expanded for large eta), so eta = v (1 - pi^2 / (12 v^2)
+     * + ...) with v = (Gamma(5/2) u)^(2/3) = (3 sqrt(pi) u / 4)^(2/3): beyond
+     * v = 1e8 the correction is below the double precision of v. */
+    if (v > 1e8) {
+        *eta = v;
+        return BM_OK;
+    }
     double first = fabs(1.0 - u * u) > 1e-6 ? lv / (1.0 - u * u) : -0.5;
     double x = first + v / (1.0 + 1.0 / ((0.24 + 1.08 * v) * (0.24 + 1.08 * v)));
     for (int it = 0; it < 60; it++) {

@@ -54,6 +54,7 @@ static const char *const warn_code_names[BM_WARN_COUNT] = {
     [BM_WARN_FIT_POORLY_CONSTRAINED] = "fit-poorly-constrained",
     [BM_WARN_FIT_INCONSISTENT] = "fit-inconsistent",
     [BM_WARN_ORBIT_IRREGULAR] = "orbit-irregular",
+    [BM_WARN_EXTREMA_CAPPED] = "extrema-capped",
 };
 
 const char *bm_warn_code_name(bm_warn_code code)
@@ -119,5 +120,11 @@ int bm_warnings_has(const bm_warnings *w, bm_warn_code code)
 
 void bm_core_init(void)
 {
-    gsl_set_error_handler_off();
+    /* Second line of defence only: the core validates the arguments of every
+     * GSL call so that no error is ever reported. GSL's default handler
+     * aborts the process, so it is switched off; a handler the host
+     * installed is its own business and is put back. */
+    gsl_error_handler_t *host = gsl_set_error_handler_off();
+    if (host)
+        gsl_set_error_handler(host);
 }

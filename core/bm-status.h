@@ -64,6 +64,7 @@ typedef enum {
     BM_WARN_FIT_POORLY_CONSTRAINED,  /* a fitted parameter's standard error is large */
     BM_WARN_FIT_INCONSISTENT,        /* residuals far beyond the stated uncertainties */
     BM_WARN_ORBIT_IRREGULAR,         /* a cross-section not star-shaped about its centre */
+    BM_WARN_EXTREMA_CAPPED,          /* more extrema than are reported: the nearest in energy kept */
     BM_WARN_COUNT                    /* not a code: the number of codes */
 } bm_warn_code;
 
@@ -97,8 +98,11 @@ void bm_warnings_clear(bm_warnings *w);
 /* 1 when w holds a warning with that code. */
 int bm_warnings_has(const bm_warnings *w, bm_warn_code code);
 
-/* Switches GSL's abort-on-error handler off. Hosts call it once before use
- * (the plugin does so on load); core functions check every GSL status. */
+/* Switches GSL's default abort-on-error handler off, leaving a handler the
+ * host installed in place. Called once before use (the registry does so on
+ * first use). It is a second line of defence: core functions validate the
+ * arguments of every GSL call so that no GSL error is reported on any input,
+ * and check every GSL status. */
 void bm_core_init(void);
 
 #endif

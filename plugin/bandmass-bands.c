@@ -258,8 +258,9 @@ BmBands *bm_bands_new_from_bytes_lattice(GBytes *energies, guint nbands, const g
  * @error: return location for a #GError
  *
  * Loads a band grid document, as the `grid` key of a `mass-tensor` request
- * does; band names come from the document. A .npy energies file is mapped,
- * not copied.
+ * does; band names come from the document. The energies of a .npy file are
+ * read into memory the object owns (one read), so rewriting or shortening
+ * the file afterwards changes nothing here.
  *
  * Returns: (transfer full): the band grid, or %NULL with @error set
  *   (%BM_ERROR_IO or %BM_ERROR_INVALID_INPUT, naming the file and key)
@@ -270,6 +271,12 @@ BmBands *bm_bands_new_from_file(const char *path, GError **error)
     BmBandGrid *loaded = bm_band_grid_load(path, error);
     if (!loaded)
         return NULL;
+    /* the object may live as long as the host: its energies must not be a
+     * mapping of a file that can be rewritten or cut under it */
+    if (!bm_band_grid_detach(loaded, error)) {
+        bm_band_grid_free(loaded);
+        return NULL;
+    }
     BmBands *self = g_object_new(BM_TYPE_BANDS, NULL);
     self->grid = loaded;
     for (int d = 0; d < 3; d++)

@@ -180,6 +180,14 @@ gboolean bm_param_check(const BmParam *p, const char *op_name, JsonNode *node,
                     "request key \"%s\" of %s must be %s", p->name, op_name, want);
         return FALSE;
     }
+    if (JSON_NODE_HOLDS_ARRAY(node)
+        && json_array_get_length(json_node_get_array(node)) > BM_MAX_LIST_LENGTH) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
+                    "request key \"%s\" of %s holds %u elements; at most %d are taken in "
+                    "one request (split the list over several requests)", p->name, op_name,
+                    json_array_get_length(json_node_get_array(node)), BM_MAX_LIST_LENGTH);
+        return FALSE;
+    }
     double v;
     if (p->lower.kind != BM_BOUND_NONE || p->upper.kind != BM_BOUND_NONE) {
         if (node_number(node, &v) && !in_range(p, v)) {

@@ -49,6 +49,21 @@ void bm_band_grid_free(BmBandGrid *grid)
     g_free(grid);
 }
 
+gboolean bm_band_grid_unchanged(const BmBandGrid *grid, GError **error)
+{
+    return !grid || bm_npy_array_unchanged(grid->array, error);
+}
+
+gboolean bm_band_grid_detach(BmBandGrid *grid, GError **error)
+{
+    if (!grid || !grid->array)
+        return TRUE;
+    if (!bm_npy_array_detach(grid->array, error))
+        return FALSE;
+    grid->grid.energies = grid->array->data;
+    return TRUE;
+}
+
 static const char *node_kind(JsonNode *node)
 {
     switch (JSON_NODE_TYPE(node)) {
@@ -399,7 +414,9 @@ static gboolean place_points(JsonArray *kl, JsonNode *en, const char *name, cons
                              BmBandGrid *g, GError **error)
 {
     const size_t *n = g->grid.mesh;
-    size_t npt = n[0] * n[1] * n[2], nk = json_array_get_length(kl);
+    size_t npt = 0, nk = json_array_get_length(kl);
+    if (!checked_count(name, 1, n, &npt, error))
+        return FALSE;
     if (nrot == 0 && nk != npt)
         return bm_error_invalid(error, name, "'k_points_fractional' lists %zu points; the "
                                 "%zu x %zu x %zu mesh has %zu (give 'positions_fractional' and "
@@ -437,7 +454,10 @@ static gboolean place_points(JsonArray *kl, JsonNode *en, const char *name, cons
         nb = json_array_get_length(ba);
         if (nb == 0)
             return bm_error_invalid(error, name, "'%s' is empty; expected [band][point]", key);
-        inl = g_new(double, nb * nk);
+        inl = nb <= G_MAXSIZE / sizeof(double) / (nk ? nk : 1)
+            ? g_try_new(double, nb * nk) : NULL;
+        if (!inl)
+            return bm_error_invalid(error, name, "cannot allocate %zu x %zu energies", nb, nk);
         for (size_t b = 0; b < nb; b++) {
             JsonNode *row = json_array_get_element(ba, (guint)b);
             if (JSON_NODE_TYPE(row) != JSON_NODE_ARRAY
@@ -459,9 +479,14 @@ static gboolean place_points(JsonArray *kl, JsonNode *en, const char *name, cons
     size_t count = 0;
     if (!checked_count(name, nb, n, &count, error))
         return FALSE;
-    g->inline_energies = g_new(double, count);
-    g_autofree gint64 *from = g_new(gint64, npt);
-    g_autofree char *listed = g_new0(char, npt);
+    /* sizes from the mesh, not from the data given: tried, never assumed */
+    g->inline_energies = g_try_new(double, count);
+    g_autofree gint64 *from = g_try_new(gint64, npt);
+    g_autofree char *listed = g_try_new0(char, npt);
+    if (!g->inline_energies || !from || !listed)
+        return bm_error_invalid(error, name, "cannot allocate the %zu x %zu x %zu mesh of %zu "
+                                "bands (%zu bytes of energies)", n[0], n[1], n[2], nb,
+                                count * sizeof(double));
     for (size_t p = 0; p < npt; p++)
         from[p] = -1;
     for (size_t q = 0; q < nk; q++) {

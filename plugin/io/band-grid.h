@@ -41,6 +41,14 @@ BmBandGrid *bm_band_grid_load_from_data(const char *data, gssize length,
 
 void bm_band_grid_free(BmBandGrid *grid);
 
+/* Energies from a .npy file are mapped (npy.h): fine for one call, checked
+ * with bm_band_grid_unchanged() before its answer is given (FALSE with
+ * BM_ERROR_IO when the file was rewritten or cut meanwhile). A grid that
+ * outlives the call (a host's BmBands) is detached: its energies are read
+ * into memory of its own, and later changes to the file cannot reach it. */
+gboolean bm_band_grid_unchanged(const BmBandGrid *grid, GError **error);
+gboolean bm_band_grid_detach(BmBandGrid *grid, GError **error);
+
 G_DEFINE_AUTOPTR_CLEANUP_FUNC(BmBandGrid, bm_band_grid_free)
 
 G_END_DECLS

@@ -15,6 +15,8 @@
  *   - any other column is ignored (indices, labels).
  *   - every data row has exactly as many fields as the header; the k and
  *     band fields are finite decimal numbers.
+ *   - every band has its own non-empty name; a k-point listed twice is read
+ *     once when its energies agree and refused when they differ.
  * Example:
  *   # GaAs-like model, conduction band near Gamma
  *   kx_inv_angstrom,ky_inv_angstrom,kz_inv_angstrom,cb_ev
@@ -22,6 +24,7 @@
  *   0.01,0.00,0.00,1.527 */
 #include "ktable.h"
 #include "bm-error-private.h"
+#include "bm-json.h"
 
 #include <errno.h>
 #include <math.h>
@@ -84,6 +87,40 @@ static gboolean parse_field(const char *s, double *out)
     return TRUE;
 }
 
+/* User text for a message: 'text' when short and plain, else cut and
+ * escaped (bm_text_for_message). Free it. */
+static char *quote(const char *text)
+{
+    gboolean plain = strlen(text) <= BM_MESSAGE_TEXT_CHARS && g_utf8_validate(text, -1, NULL);
+    for (const char *c = text; plain && *c; c++)
+        plain = (guchar)*c >= 0x20 && *c != 0x7f && *c != '\'';
+    return plain ? g_strdup_printf("'%s'", text) : bm_text_for_message(text, -1);
+}
+
+/* A k-point as a hash key: its three doubles, -0 read as 0. */
+typedef struct {
+    double k[3];
+} kkey;
+
+static guint kkey_hash(gconstpointer p)
+{
+    const kkey *a = p;
+    guint h = 17;
+    for (int d = 0; d < 3; d++) {
+        guint64 bits;
+        double v = a->k[d] == 0.0 ? 0.0 : a->k[d];
+        memcpy(&bits, &v, sizeof bits);
+        h = h * 31u + (guint)(bits ^ (bits >> 32));
+    }
+    return h;
+}
+
+static gboolean kkey_equal(gconstpointer pa, gconstpointer pb)
+{
+    const kkey *a = pa, *b = pb;
+    return a->k[0] == b->k[0] && a->k[1] == b->k[1] && a->k[2] == b->k[2];
+}
+
 BmKTable *bm_ktable_load_from_data(const char *data, gsize length, const char *name,
                                    GError **error)
 {
@@ -93,6 +130,24 @@ BmKTable *bm_ktable_load_from_data(const char *data, gsize length, const char *n
         name = "<k-table>";
     if (memchr(data, '\0', length)) {
         bm_error_invalid(error, name, "the table contains a NUL byte; expected CSV or TSV text");
+        return NULL;
+    }
+    /* a UTF-8 byte-order mark, as spreadsheet programs write, is skipped */
+    if (length >= 3 && memcmp(data, "\xEF\xBB\xBF", 3) == 0) {
+        data += 3;
+        length -= 3;
+    }
+    /* line ends are LF or CRLF; a CR alone would make the whole file one line */
+    for (const char *c = memchr(data, '\r', length); c;
+         c = memchr(c + 1, '\r', length - (gsize)(c + 1 - data))) {
+        if ((gsize)(c + 1 - data) < length && c[1] == '\n')
+            continue;
+        size_t line = 1;
+        for (const char *q = data; q < c; q++)
+            line += *q == '\n';
+        bm_error_invalid(error, name, "line %zu ends in a carriage return without a line feed "
+                         "(CR-only line ends, as some older programs write): save the table "
+                         "with LF or CRLF line ends", line);
         return NULL;
     }
     g_autofree char *text = g_strndup(data, length);
@@ -137,32 +192,71 @@ BmKTable *bm_ktable_load_from_data(const char *data, gsize length, const char *n
         return NULL;
     }
 
+    /* role of each column: 0..2 a k component, 3 + b band b, -1 ignored;
+     * headers and band names are looked up in hash tables (a header of
+     * 100,000 columns is read in linear time) */
     int kcol[3] = { -1, -1, -1 };
+    g_autofree int *role = g_new(int, ncol);
     g_autoptr(GArray) band_cols = g_array_new(FALSE, FALSE, sizeof(int));
+    g_autoptr(GHashTable) seen = g_hash_table_new(g_str_hash, g_str_equal);
+    g_autoptr(GHashTable) names = g_hash_table_new_full(g_str_hash, g_str_equal, g_free, NULL);
     for (size_t c = 0; c < ncol; c++) {
         const char *h = header->pdata[c];
-        for (size_t d = 0; d < c; d++)
-            if (*h && strcmp(h, header->pdata[d]) == 0) {
-                bm_error_invalid(error, name, "line %zu: column %zu repeats the header '%s' of column %zu",
-                        hline + 1, c + 1, h, d + 1);
-                return NULL;
-            }
-        gboolean is_k = FALSE;
+        role[c] = -1;
+        gpointer first;
+        if (*h && g_hash_table_lookup_extended(seen, h, NULL, &first)) {
+            g_autofree char *q = quote(h);
+            bm_error_invalid(error, name, "line %zu: column %zu repeats the header %s of column %zu",
+                    hline + 1, c + 1, q, GPOINTER_TO_SIZE(first) + 1);
+            return NULL;
+        }
+        g_hash_table_insert(seen, (gpointer)h, GSIZE_TO_POINTER(c));
         for (int d = 0; d < 3; d++)
             if (strcmp(h, k_columns[d]) == 0) {
                 kcol[d] = (int)c;
-                is_k = TRUE;
+                role[c] = d;
             }
-        if (!is_k && has_ev_suffix(h)) {
+        size_t n = strlen(h);
+        if (role[c] < 0 && n >= 3 && g_ascii_strcasecmp(h + n - 3, "_ev") == 0) {
+            if (!has_ev_suffix(h)) {
+                bm_error_invalid(error, name, "line %zu: column %zu is headed '%s', a band "
+                        "column without a name (band columns are NAME_ev)", hline + 1, c + 1, h);
+                return NULL;
+            }
+            role[c] = 3 + (int)band_cols->len;
             int ci = (int)c;
             g_array_append_val(band_cols, ci);
         }
     }
+    /* every band has one name: "cb_ev" and "cb_EV" would both be "cb", and
+     * a band named after another's header ("cb_ev_ev") would make a lookup
+     * ambiguous */
+    for (guint b = 0; b < band_cols->len; b++) {
+        int c = g_array_index(band_cols, int, b);
+        const char *h = header->pdata[c];
+        char *bname = g_strndup(h, strlen(h) - 3);
+        gpointer other;
+        if (g_hash_table_lookup_extended(names, bname, NULL, &other)
+            || (g_hash_table_lookup_extended(seen, bname, NULL, &other)
+                && GPOINTER_TO_SIZE(other) != (gsize)c && role[GPOINTER_TO_SIZE(other)] >= 3)) {
+            g_autofree char *q = quote(bname), *qh = quote(h);
+            bm_error_invalid(error, name, "line %zu: the band of column %zu (%s) would be named "
+                    "%s, as the band of column %zu is: give each band its own name", hline + 1,
+                    (size_t)c + 1, qh, q, GPOINTER_TO_SIZE(other) + 1);
+            g_free(bname);
+            return NULL;
+        }
+        g_hash_table_insert(names, bname, GSIZE_TO_POINTER((gsize)c));
+    }
     for (int d = 0; d < 3; d++)
         if (kcol[d] < 0) {
             GString *list = g_string_new(NULL);
-            for (size_t c = 0; c < ncol; c++)
-                g_string_append_printf(list, c ? ", '%s'" : "'%s'", (char *)header->pdata[c]);
+            for (size_t c = 0; c < ncol && c < 20; c++) {
+                g_autofree char *q = quote(header->pdata[c]);
+                g_string_append_printf(list, c ? ", %s" : "%s", q);
+            }
+            if (ncol > 20)
+                g_string_append_printf(list, " and %zu more", ncol - 20);
             bm_error_invalid(error, name, "line %zu: the header lacks the column '%s' (found %s; "
                     "expected kx_inv_angstrom, ky_inv_angstrom, kz_inv_angstrom and band "
                     "columns ending in _ev, separated by %ss)", hline + 1, k_columns[d],
@@ -191,10 +285,19 @@ BmKTable *bm_ktable_load_from_data(const char *data, gsize length, const char *n
         return NULL;
     }
 
+    /* a k-point listed twice is read once when its energies agree, refused
+     * when they do not */
+    g_autoptr(GHashTable) points = g_hash_table_new_full(kkey_hash, kkey_equal, g_free, NULL);
+    g_autofree size_t *line_of = g_try_new(size_t, npoints);
+    g_autofree double *row = g_new(double, 3 + nbands);
     BmKTable *t = g_new0(BmKTable, 1);
     t->source = g_strdup(name);
-    t->k = g_new(double, npoints * 3);
-    t->energies = g_new(double, npoints * nbands);
+    t->k = g_try_new(double, npoints * 3);
+    t->energies = g_try_new(double, npoints * nbands);
+    if (!t->k || !t->energies || !line_of) {
+        bm_error_invalid(error, name, "cannot allocate %zu k-points of %zu bands", npoints, nbands);
+        goto fail;
+    }
     t->band_names = g_new0(char *, nbands + 1);
     t->band_headers = g_new0(char *, nbands + 1);
     for (size_t b = 0; b < nbands; b++) {
@@ -214,35 +317,45 @@ BmKTable *bm_ktable_load_from_data(const char *data, gsize length, const char *n
             goto fail;
         }
         for (size_t c = 0; c < ncol; c++) {
-            int role = -1;   /* 0..2: k component; 3+b: band b */
-            for (int d = 0; d < 3; d++)
-                if (kcol[d] == (int)c)
-                    role = d;
-            for (size_t b = 0; role < 0 && b < nbands; b++)
-                if (g_array_index(band_cols, int, b) == (int)c)
-                    role = 3 + (int)b;
-            if (role < 0)
+            if (role[c] < 0)
                 continue;
             const char *s = f->pdata[c];
             double v;
-            if (!parse_field(s, &v)) {
-                bm_error_invalid(error, name, "line %zu, column %zu ('%s'): '%s' is not a number",
-                        i + 1, c + 1, (char *)header->pdata[c], s);
+            if (!parse_field(s, &v) || !isfinite(v)) {
+                g_autofree char *qh = quote(header->pdata[c]), *qs = quote(s);
+                bm_error_invalid(error, name, "line %zu, column %zu (%s): %s is not a%s number",
+                        i + 1, c + 1, qh, qs, parse_field(s, &v) ? " finite" : "");
                 goto fail;
             }
-            if (!isfinite(v)) {
-                bm_error_invalid(error, name, "line %zu, column %zu ('%s'): '%s' is not a finite number",
-                        i + 1, c + 1, (char *)header->pdata[c], s);
-                goto fail;
-            }
-            if (role < 3)
-                t->k[3 * p + (size_t)role] = v;
-            else
-                t->energies[(size_t)(role - 3) * npoints + p] = v;
+            row[role[c]] = v;
         }
+        kkey key = { { row[0], row[1], row[2] } };
+        gpointer at;
+        if (g_hash_table_lookup_extended(points, &key, NULL, &at)) {
+            size_t q = GPOINTER_TO_SIZE(at);
+            for (size_t b = 0; b < nbands; b++)
+                if (t->energies[b * npoints + q] != row[3 + b]) {
+                    bm_error_invalid(error, name, "lines %zu and %zu give the same k-point "
+                            "(%g, %g, %g) with different energies (band '%s': %.17g and "
+                            "%.17g eV): a k-point has one energy per band", line_of[q], i + 1,
+                            t->k[3 * q], t->k[3 * q + 1], t->k[3 * q + 2], t->band_names[b],
+                            t->energies[b * npoints + q], row[3 + b]);
+                    goto fail;
+                }
+            continue;
+        }
+        memcpy(t->k + 3 * p, row, 3 * sizeof(double));
+        for (size_t b = 0; b < nbands; b++)
+            t->energies[b * npoints + p] = row[3 + b];
+        line_of[p] = i + 1;
+        g_hash_table_insert(points, g_memdup2(&key, sizeof key), GSIZE_TO_POINTER(p));
         p++;
     }
-    t->table.npoints = npoints;
+    if (p < npoints) {   /* repeats dropped: close the gaps between the bands */
+        for (size_t b = 1; b < nbands; b++)
+            memmove(t->energies + b * p, t->energies + b * npoints, p * sizeof(double));
+    }
+    t->table.npoints = p;
     t->table.k = t->k;
     t->table.nbands = nbands;
     t->table.energies = t->energies;

@@ -19,7 +19,9 @@
  * and read-only, pre-faulted (MAP_POPULATE where available), so the page
  * cache is the final buffer and the values are never copied. Otherwise one
  * read() fills one allocated buffer, which is then swapped in place.
- * A mapped file must not be truncated while the array is alive. */
+ * The mapping is for one call (see npy.h): bm_npy_array_unchanged() tells a
+ * file rewritten under it, bm_npy_array_detach() copies the values out with
+ * read() for arrays that outlive the call. */
 #define _DEFAULT_SOURCE 1   /* MAP_POPULATE */
 #include "npy.h"
 #include "bm-error-private.h"
@@ -41,8 +43,85 @@ void bm_npy_array_free(BmNpyArray *array)
         return;
     if (array->map)
         munmap(array->map, array->map_len);
+    if (array->fd >= 0)
+        close(array->fd);
     g_free(array->buffer);
+    g_free(array->path);
     g_free(array);
+}
+
+static gint64 ns_of(const struct timespec *t)
+{
+    return (gint64)t->tv_sec * 1000000000 + t->tv_nsec;
+}
+
+gboolean bm_npy_array_unchanged(const BmNpyArray *a, GError **error)
+{
+    if (!a || !a->map || a->fd < 0)
+        return TRUE;
+    struct stat st;
+    if (fstat(a->fd, &st) != 0) {
+        g_set_error(error, BM_ERROR, BM_ERROR_IO, "%s: cannot check the file: %s", a->path,
+                    g_strerror(errno));
+        return FALSE;
+    }
+    /* a write or a truncation sets the modification time; the change time
+     * is not compared, since the rename of another file over this one
+     * (which leaves the mapped data alone) sets it too */
+    if ((guint64)st.st_size != a->file_size || ns_of(&st.st_mtim) != a->file_mtime_ns) {
+        g_set_error(error, BM_ERROR, BM_ERROR_IO, "%s: the file was %s while it was being "
+                    "read (%" G_GUINT64_FORMAT " bytes when opened, %" G_GUINT64_FORMAT " now): "
+                    "no answer is given from data that may mix old and new values; run again "
+                    "once the file is complete (writing it elsewhere and renaming it over "
+                    "the old one is always safe)", a->path,
+                    (guint64)st.st_size < a->file_size ? "cut shorter" : "rewritten",
+                    a->file_size, (guint64)st.st_size);
+        return FALSE;
+    }
+    return TRUE;
+}
+
+gboolean bm_npy_array_detach(BmNpyArray *a, GError **error)
+{
+    if (!a || !a->map)
+        return TRUE;
+    size_t nbytes = a->count * sizeof(double);
+    double *copy = g_try_malloc(nbytes ? nbytes : 1);
+    if (!copy) {
+        g_set_error(error, BM_ERROR, BM_ERROR_IO, "%s: cannot allocate %zu bytes for the array",
+                    a->path, nbytes);
+        return FALSE;
+    }
+    size_t done = 0;
+    while (done < nbytes) {
+        ssize_t r = pread(a->fd, (char *)copy + done, nbytes - done,
+                          (off_t)(a->data_offset + done));
+        if (r < 0 && errno == EINTR)
+            continue;
+        if (r <= 0) {
+            if (r < 0)
+                g_set_error(error, BM_ERROR, BM_ERROR_IO, "%s: cannot read: %s", a->path,
+                            g_strerror(errno));
+            else
+                g_set_error(error, BM_ERROR, BM_ERROR_IO, "%s: the file was cut shorter while "
+                            "it was being read (%zu of %zu bytes of values)", a->path,
+                            done, nbytes);
+            g_free(copy);
+            return FALSE;
+        }
+        done += (size_t)r;
+    }
+    if (!bm_npy_array_unchanged(a, error)) {
+        g_free(copy);
+        return FALSE;
+    }
+    munmap(a->map, a->map_len);
+    a->map = NULL;
+    close(a->fd);
+    a->fd = -1;
+    a->buffer = copy;
+    a->data = copy;
+    return TRUE;
 }
 
 char *bm_npy_shape_string(const size_t *shape, size_t ndim)
@@ -403,6 +482,8 @@ BmNpyArray *bm_npy_read_f64(const char *path, GError **error)
     }
 
     result = g_new0(BmNpyArray, 1);
+    result->fd = -1;
+    result->path = g_strdup(path);
     result->count = count;
     result->ndim = hd.ndim;
     memcpy(result->shape, hd.shape, sizeof hd.shape);
@@ -418,6 +499,11 @@ BmNpyArray *bm_npy_read_f64(const char *path, GError **error)
             result->map = map;
             result->map_len = len;
             result->data = (const double *)(const void *)((const char *)map + data_offset);
+            result->data_offset = data_offset;
+            result->file_size = (guint64)st.st_size;
+            result->file_mtime_ns = ns_of(&st.st_mtim);
+            result->fd = fd;    /* kept open to check the file later */
+            fd = -1;
             goto out;
         }
         /* a file system without mmap: fall through to read() */
@@ -455,6 +541,7 @@ BmNpyArray *bm_npy_read_f64(const char *path, GError **error)
 
 out:
     g_free(hd.descr);
-    close(fd);
+    if (fd >= 0)
+        close(fd);
     return result;
 }

@@ -340,9 +340,17 @@ BmMassTensorSearch *bm_mass_tensor_search(JsonObject *request, const BmCallInput
         bm_error_from_core(error, &err, s->source);
         return NULL;
     }
+    /* a mapped .npy rewritten during the search: no answer from mixed data */
+    if (!bm_band_grid_unchanged(grid, error))
+        return NULL;
     for (size_t i = 0; grid && i < grid->warnings.count; i++)
         bm_warn(&s->warnings, grid->warnings.items[i].code, "%s: %s", s->source,
                 grid->warnings.items[i].text);
+    /* a capped "all" search says so at the top, not only on its first extremum */
+    for (size_t i = 0; s->n_tensors && i < s->tensors[0].warnings.count; i++)
+        if (s->tensors[0].warnings.items[i].code == BM_WARN_EXTREMA_CAPPED)
+            bm_warn(&s->warnings, BM_WARN_EXTREMA_CAPPED, "%s",
+                    s->tensors[0].warnings.items[i].text);
     /* the core lists a table's estimates beyond the data last */
     while (s->n_tensors > 0 && s->tensors[s->n_tensors - 1].outside_data) {
         s->n_tensors--;

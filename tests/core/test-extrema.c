@@ -2,6 +2,7 @@
  * synthetic round trips, textbook bands, warnings and bad input. */
 #include <glib.h>
 #include <math.h>
+#include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -871,6 +872,49 @@ static void test_input_domain(void)
     g_assert_nonnull(strstr(err.message, "k[0] = 1e+17"));
 }
 
+/* A rough band (deterministic noise on a 32^3 mesh: some 2,400 local
+ * extrema) costs at most BM_GRID_MAX_EXTREMA fits: the search keeps those
+ * closest in energy to the lowest minimum and highest maximum, so both of
+ * those are reported, and says how many it found. The counts are a property
+ * of the noise, not physics: only the cap and the kept ends are checked. */
+static void test_rough_band_capped(void)
+{
+    enum { n = 32 };
+    static double e[n * n * n];
+    guint32 x = 12345u;
+    double lo = INFINITY, hi = -INFINITY;
+    for (size_t p = 0; p < G_N_ELEMENTS(e); p++) {
+        x = x * 1664525u + 1013904223u;   /* Numerical Recipes LCG */
+        e[p] = (double)(x >> 8) / 16777216.0;
+        lo = fmin(lo, e[p]);
+        hi = fmax(hi, e[p]);
+    }
+    double recip[3][3] = { { 1.5, 0, 0 }, { 0, 1.5, 0 }, { 0, 0, 1.5 } };
+    bm_grid g = { .mesh = { n, n, n }, .nbands = 1, .energies = e };
+    memcpy(g.recip, recip, sizeof recip);
+    bm_mass_tensor *res;
+    size_t nr;
+    g_assert_cmpint(bm_grid_mass_tensors(&g, 0, BM_SEARCH_ALL, NULL, NULL, &res, &nr, NULL),
+                    ==, BM_OK);
+    g_assert_cmpuint(nr, <=, BM_GRID_MAX_EXTREMA);
+    g_assert_cmpuint(nr, >, BM_GRID_MAX_EXTREMA / 2);
+    g_assert_true(bm_warnings_has(&res[0].warnings, BM_WARN_EXTREMA_CAPPED));
+    size_t found = 0;
+    for (size_t i = 0; i < res[0].warnings.count; i++)
+        if (res[0].warnings.items[i].code == BM_WARN_EXTREMA_CAPPED)
+            g_assert_cmpint(sscanf(res[0].warnings.items[i].text, "the band has %zu", &found),
+                            ==, 1);
+    g_assert_cmpuint(found, >, BM_GRID_MAX_EXTREMA);
+    double emin = INFINITY, emax = -INFINITY;
+    for (size_t i = 0; i < nr; i++) {
+        emin = fmin(emin, res[i].energy_ev);
+        emax = fmax(emax, res[i].energy_ev);
+    }
+    g_assert_cmpfloat(emin, <=, lo + 0.05);
+    g_assert_cmpfloat(emax, >=, hi - 0.05);
+    bm_mass_tensors_free(res, nr);
+}
+
 int main(int argc, char **argv)
 {
     g_test_init(&argc, &argv, NULL);
@@ -901,5 +945,6 @@ int main(int argc, char **argv)
     g_test_add_func("/extrema/table-saddle-once", test_table_saddle_once);
     g_test_add_func("/extrema/table-minimum-beyond-data", test_table_minimum_beyond_data);
     g_test_add_func("/extrema/table-given-point-not-stationary", test_table_given_point_not_stationary);
+    g_test_add_func("/extrema/rough-band-capped", test_rough_band_capped);
     return g_test_run();
 }

@@ -1,7 +1,9 @@
 /* test-fermi.c: Fermi-Dirac integrals against identities, asymptotes and the
  * inverse round trip; bad orders and arguments. */
+#include <float.h>
 #include <glib.h>
 #include <math.h>
+#include <gsl/gsl_errno.h>
 #include <string.h>
 #include <gsl/gsl_sf_fermi_dirac.h>
 
@@ -125,6 +127,78 @@ static void test_inverse_round_trip(void)
     g_assert_cmpfloat(fabs(e - log(1e-310)), <, 1e-12);
 }
 
+/* GSL reports through one process-wide handler (a host's own, or its
+ * aborting default): no argument may make the core's calls report. */
+static int gsl_reports;
+static void count_report(const char *reason, const char *file, int line, int gsl_errno)
+{
+    (void)reason, (void)file, (void)line, (void)gsl_errno;
+    gsl_reports++;
+}
+
+static void test_no_gsl_error_anywhere(void)
+{
+    gsl_error_handler_t *old = gsl_set_error_handler(count_report);
+    bm_errbuf err;
+    static const double orders[] = { -0.5, 0.0, 0.5, 1.0, 1.5, 2.0 };
+    for (size_t o = 0; o < G_N_ELEMENTS(orders); o++)
+        for (double a = 1e-3; a < 1.7e308; a *= 1.7)
+            for (int sign = -1; sign <= 1; sign += 2) {
+                double v, back;
+                bm_status s = bm_fermi_dirac(orders[o], sign * a, &v, &err);
+                g_assert_true(s == BM_OK || (s == BM_EINVAL && strstr(err.message, "overflows")));
+                if (s == BM_OK)
+                    g_assert_true(isfinite(v) && v >= 0.0);
+                if (orders[o] == 0.5 && s == BM_OK && v > 0.0)
+                    g_assert_cmpint(bm_fermi_dirac_half_inverse(v, &back, &err), ==, BM_OK);
+                double fh, fm;
+                bm_fermi_dirac_half_pair(sign * a, &fh, &fm);
+            }
+    double fh, fm;
+    bm_fermi_dirac_half_pair(INFINITY, &fh, &fm);
+    bm_fermi_dirac_half_pair(NAN, &fh, &fm);
+    double e;
+    g_assert_cmpint(bm_fermi_dirac_half_inverse(DBL_MAX, &e, &err), ==, BM_OK);
+    gsl_set_error_handler(old);
+    g_assert_cmpint(gsl_reports, ==, 0);
+}
+
+/* Near overflow: F_j(eta) ~ eta^(j+1) / Gamma(j+2) (Sommerfeld expansion of
+ * DLMF 25.12.14) passes the largest double at eta = 5.6e102 for j = 2 and
+ * 3.9e205 for j = 1/2: refused by name there, never an infinite value. */
+static void test_overflow_refused(void)
+{
+    bm_errbuf err;
+    double v;
+    g_assert_cmpint(bm_fermi_dirac(2.0, 1e102, &v, &err), ==, BM_OK);
+    g_assert_cmpfloat(fabs(v / (1e306 / 6.0) - 1.0), <, 1e-12);   /* eta^3 / 3! */
+    g_assert_cmpint(bm_fermi_dirac(2.0, 1e103, &v, &err), ==, BM_EINVAL);
+    g_assert_nonnull(strstr(err.message, "overflows a double"));
+    g_assert_cmpint(bm_fermi_dirac(0.5, 1e206, &v, &err), ==, BM_EINVAL);
+    g_assert_cmpint(bm_fermi_dirac(1.0, 1e155, &v, &err), ==, BM_EINVAL);
+    g_assert_cmpint(bm_fermi_dirac(1.5, 1e124, &v, &err), ==, BM_EINVAL);
+    /* F_-1/2 ~ 2 sqrt(eta / pi) (same expansion) never overflows */
+    g_assert_cmpint(bm_fermi_dirac(-0.5, 1e308, &v, &err), ==, BM_OK);
+    g_assert_cmpfloat(fabs(v / (2.0 * sqrt(1e308 / G_PI)) - 1.0), <, 1e-12);
+}
+
+/* The inverse of F_1/2 far above zero: eta = v (1 - pi^2 / (12 v^2) + ...),
+ * v = (Gamma(5/2) u)^(2/3) (Sommerfeld); check values from mpmath at 40
+ * digits of that expansion: u = 1e24 -> 12089939655123522.305,
+ * 1e300 -> 1.2089939655123522305e200, 1.7e308 -> 3.7101381459136026298e205. */
+static void test_inverse_far_above(void)
+{
+    bm_errbuf err;
+    double e;
+    static const double u[3] = { 1e24, 1e300, 1.7e308 };
+    static const double want[3] = { 12089939655123522.305, 1.2089939655123522305e200,
+                                    3.7101381459136026298e205 };
+    for (int i = 0; i < 3; i++) {
+        g_assert_cmpint(bm_fermi_dirac_half_inverse(u[i], &e, &err), ==, BM_OK);
+        g_assert_cmpfloat(fabs(e / want[i] - 1.0), <, 1e-15);
+    }
+}
+
 static void test_bad_input(void)
 {
     double v;
@@ -152,5 +226,8 @@ int main(int argc, char **argv)
     g_test_add_func("/fermi/derivative", test_derivative);
     g_test_add_func("/fermi/inverse-round-trip", test_inverse_round_trip);
     g_test_add_func("/fermi/bad-input", test_bad_input);
+    g_test_add_func("/fermi/overflow-refused", test_overflow_refused);
+    g_test_add_func("/fermi/inverse-far-above", test_inverse_far_above);
+    g_test_add_func("/fermi/no-gsl-error-anywhere", test_no_gsl_error_anywhere);
     return g_test_run();
 }

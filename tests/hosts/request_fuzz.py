@@ -8,46 +8,47 @@ import random
 import subprocess
 import sys
 
-CLI = sys.argv[1]
-GRID = sys.argv[2]          # a small valid band grid document
-ROUNDS = int(sys.argv[3]) if len(sys.argv) > 3 else 12
 
-EXAMPLES = {
-    "constants": {},
-    "mass-tensor": {"grid": GRID, "band": 0, "extremum": "all"},
-    "valley-average": {"valley": {"longitudinal_mass_me": 0.98, "transverse_mass_me": 0.19,
-                                  "axis": [1, 0, 0]}, "point_group": "Oh", "position": "interior"},
-    "hole-mass": {"heavy_hole_mass_me": 0.49, "light_hole_mass_me": 0.16,
-                  "luttinger_parameters": [6.98, 2.06, 2.93]},
-    "carrier-statistics": {"material": "Si", "temperatures_k": [100, 300],
-                           "donors": [{"density_cm3": 1e16, "ionization_ev": 0.045}],
-                           "acceptors": [{"species": "B", "density_cm3": 1e15}]},
-    "band-gap": {"material": "GaAs", "temperature_k": 300},
-    "cyclotron-orbit": {"grid": GRID, "band": 0, "energy_ev": 1.0, "field_direction": [0, 0, 1]},
-    "kane-fit": {"grid": GRID, "band": 0, "temperatures_k": [300]},
-    "thermal-mass": {"grid": GRID, "bands": [0], "temperatures_k": [100, 300],
-                     "density_cm3": 1e20},
-    "fermi-integral": {"order": 0.5, "eta": [-3, 0, 3]},
-    "cyclotron-ellipsoid": {"valley": {"longitudinal_mass_me": 0.98, "transverse_mass_me": 0.19,
-                                       "axis": [1, 0, 0]}, "point_group": "Oh",
-                            "field_directions": {"from": [0, 0, 1], "to": [1, 1, 0], "steps": 3}},
-    "cyclotron-holes": {"luttinger_parameters": [6.98, 2.06, 2.93], "field_direction": [1, 0, 0],
-                        "hole_energy_ev": 0.01},
-    "resonance": {"frequency_ghz": [14, 28, 43], "field_t": [0.5, 1, 1.5],
-                  "frequency_stderr_ghz": 0.2},
-    "oscillation-damping": {"field_t": 6, "temperatures_k": [1, 2, 3, 4],
-                            "amplitudes": [1, 0.8, 0.55, 0.35],
-                            "dingle": {"fields_t": [3, 4, 6], "amplitudes": [0.2, 0.5, 1],
-                                       "temperature_k": 1, "field_power": 0.5}},
-    "specific-heat-mass": {"temperatures_k": [1, 2, 3, 4],
-                           "heat_capacity_mj_per_mol_k": [0.7431, 1.7748, 3.3837, 5.8584],
-                           "fermi_energy_ev": 7, "electrons_per_atom": 1},
-    "sheet-density": {"subbands": [{"energy_ev": 0.0, "mass_me": 0.067}], "temperature_k": 4,
-                      "fermi_level_ev": 0.01},
-    "drude": {"mass_me": 0.26, "scattering_time_s": 1e-13, "density_cm3": 1e16,
-              "temperature_k": 300},
-    "materials": {"name": "Si"},
-}
+def examples(grid):
+    """A valid request for every operation; grid: a small band grid document."""
+    return {
+        "constants": {},
+        "mass-tensor": {"grid": grid, "band": 0, "extremum": "all"},
+        "valley-average": {"valley": {"longitudinal_mass_me": 0.98, "transverse_mass_me": 0.19,
+                                      "axis": [1, 0, 0]}, "point_group": "Oh", "position": "interior"},
+        "hole-mass": {"heavy_hole_mass_me": 0.49, "light_hole_mass_me": 0.16,
+                      "luttinger_parameters": [6.98, 2.06, 2.93]},
+        "carrier-statistics": {"material": "Si", "temperatures_k": [100, 300],
+                               "donors": [{"density_cm3": 1e16, "ionization_ev": 0.045}],
+                               "acceptors": [{"species": "B", "density_cm3": 1e15}]},
+        "band-gap": {"material": "GaAs", "temperature_k": 300},
+        "cyclotron-orbit": {"grid": grid, "band": 0, "energy_ev": 1.0,
+                            "field_direction": [0, 0, 1]},
+        "kane-fit": {"grid": grid, "band": 0, "temperatures_k": [300]},
+        "thermal-mass": {"grid": grid, "bands": [0], "temperatures_k": [100, 300],
+                         "density_cm3": 1e20},
+        "fermi-integral": {"order": 0.5, "eta": [-3, 0, 3]},
+        "cyclotron-ellipsoid": {"valley": {"longitudinal_mass_me": 0.98, "transverse_mass_me": 0.19,
+                                           "axis": [1, 0, 0]}, "point_group": "Oh",
+                                "field_directions": {"from": [0, 0, 1], "to": [1, 1, 0], "steps": 3}},
+        "cyclotron-holes": {"luttinger_parameters": [6.98, 2.06, 2.93], "field_direction": [1, 0, 0],
+                            "hole_energy_ev": 0.01},
+        "resonance": {"frequency_ghz": [14, 28, 43], "field_t": [0.5, 1, 1.5],
+                      "frequency_stderr_ghz": 0.2},
+        "oscillation-damping": {"field_t": 6, "temperatures_k": [1, 2, 3, 4],
+                                "amplitudes": [1, 0.8, 0.55, 0.35],
+                                "dingle": {"fields_t": [3, 4, 6], "amplitudes": [0.2, 0.5, 1],
+                                           "temperature_k": 1, "field_power": 0.5}},
+        "specific-heat-mass": {"temperatures_k": [1, 2, 3, 4],
+                               "heat_capacity_mj_per_mol_k": [0.7431, 1.7748, 3.3837, 5.8584],
+                               "fermi_energy_ev": 7, "electrons_per_atom": 1},
+        "sheet-density": {"subbands": [{"energy_ev": 0.0, "mass_me": 0.067}], "temperature_k": 4,
+                          "fermi_level_ev": 0.01},
+        "drude": {"mass_me": 0.26, "scattering_time_s": 1e-13, "density_cm3": 1e16,
+                  "temperature_k": 300},
+        "materials": {"name": "Si"},
+    }
+
 
 HOSTILE = [None, True, -1, 0, 1e308, -1e308, 1e-320, "", "x" * 5000, "../../etc/passwd",
            [], [[]], [None], [1e308] * 3, {}, {"a": {"b": {"c": []}}}, [0] * 2000,
@@ -73,8 +74,11 @@ def mutate(req, rng):
 
 
 def main():
+    cli, grid = sys.argv[1], sys.argv[2]
+    rounds = int(sys.argv[3]) if len(sys.argv) > 3 else 12
+    EXAMPLES = examples(grid)
     rng = random.Random(int(sys.argv[4]) if len(sys.argv) > 4 else 20261202)
-    ops = json.loads(subprocess.run([CLI, "ops", "--json"], capture_output=True,
+    ops = json.loads(subprocess.run([cli, "ops", "--json"], capture_output=True,
                                     check=True).stdout)
     names = sorted(o["name"] for o in ops)
     missing = [n for n in names if n not in EXAMPLES]
@@ -84,10 +88,10 @@ def main():
     failures = 0
     total = 0
     for name in names:
-        for _ in range(ROUNDS):
+        for _ in range(rounds):
             req = mutate(EXAMPLES[name], rng)
             text = json.dumps(req)
-            p = subprocess.run([CLI, "call", name, "--compact"], input=text.encode(),
+            p = subprocess.run([cli, "call", name, "--compact"], input=text.encode(),
                                capture_output=True, timeout=60)
             total += 1
             err = p.stderr.decode(errors="replace")

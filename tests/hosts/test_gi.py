@@ -344,6 +344,30 @@ class MassTensorFromNumpy(unittest.TestCase):
                 x.get_inverse_mass_tensor(),
                 np.array(by_cli['extrema'][0]['inverse_mass_tensor_per_me']).ravel())
 
+    def test_file_rewritten_under_a_live_bands(self):
+        # A Bands from a file holds its own energies: the .npy rewritten in
+        # place with other values (numpy.save truncates and writes the same
+        # file), or cut to a few bytes, changes none of its answers and
+        # raises no SIGBUS in this process.
+        request = '{"band": "cb", "extremum": "minimum"}'
+        with tempfile.TemporaryDirectory() as tmp:
+            path = os.path.join(tmp, 'grid.json')
+            npy = os.path.join(tmp, 'grid.npy')
+            write_band_grid_document(path, self.e, self.recip, ['cb'])
+            bands = Bandmass.Bands.new_from_file(path)
+            before = [json.loads(x.get_json()) for x in bands.find_extrema(request)]
+            self.assertEqual(len(before), 1)
+            np.save(npy, self.e + 0.5)                     # same size, other values
+            same_size = [json.loads(x.get_json()) for x in bands.find_extrema(request)]
+            os.truncate(npy, 16)                           # shorter than the data
+            shrunk = [json.loads(x.get_json()) for x in bands.find_extrema(request)]
+            self.assertEqual(same_size, before)
+            self.assertEqual(shrunk, before)
+            # a new load sees the cut file and names it
+            with self.assertRaises(GLib.Error) as caught:
+                Bandmass.Bands.new_from_file(path)
+            self.assertIn('grid.npy', caught.exception.message)
+
     def test_find_extrema_equals_the_operation(self):
         # every extremum of the band, with the search's own warnings first
         request = '{"band": 0, "extremum": "all"}'

@@ -1,7 +1,9 @@
 /* test-readers.c: the band grid, .npy and k-table readers and band
  * selection: good files of each kind and every bad-input case. */
+#include <fcntl.h>
 #include <math.h>
 #include <string.h>
+#include <unistd.h>
 #include <glib.h>
 #include <glib/gstdio.h>
 
@@ -94,6 +96,111 @@ static void check_fixture_array(const BmNpyArray *a)
             for (size_t j = 0; j < 3; j++)
                 for (size_t l = 0; l < 2; l++)
                     g_assert_cmpfloat(a->data[n++], ==, fixture_value(b, i, j, l));
+}
+
+/* Sizes that come from the mesh are checked, and allocated with a try:
+ * an irreducible wedge of one point on a 65536^3 mesh (2^51 bytes of
+ * energies, beyond any address space) or a 2^24-cube mesh (whose point
+ * count overflows 64 bits) is an error, never an abort in GLib. */
+static void test_grid_huge_mesh(void)
+{
+    static const char *docs[2] = {
+        "{\"format\": \"bandmass-grid-1\", \"lattice_vectors_angstrom\": "
+        "[[3,0,0],[0,3,0],[0,0,3]], \"mesh\": [65536, 65536, 65536], "
+        "\"k_points_fractional\": [[0,0,0]], \"energies_ev\": [[1.0]], "
+        "\"positions_fractional\": [[0,0,0]], \"species\": [\"X\"]}",
+        "{\"format\": \"bandmass-grid-1\", \"lattice_vectors_angstrom\": "
+        "[[3,0,0],[0,3,0],[0,0,3]], \"mesh\": [16777216, 16777216, 16777216], "
+        "\"k_points_fractional\": [[0,0,0]], \"energies_ev\": [[1.0]], "
+        "\"positions_fractional\": [[0,0,0]], \"species\": [\"X\"]}",
+    };
+    static const char *want[2] = { "cannot allocate the 65536 x 65536 x 65536 mesh",
+                                   "is too large" };
+    for (int i = 0; i < 2; i++) {
+        GError *e = NULL;
+        g_assert_null(bm_band_grid_load_from_data(docs[i], -1, "huge.json", NULL, &e));
+        assert_error(e, BM_ERROR_INVALID_INPUT, "huge.json", want[i], NULL);
+        g_error_free(e);
+    }
+}
+
+/* A copy of grid-le.npy in the temporary folder; its path. */
+static char *copy_fixture(tmpdir *t, const char *name)
+{
+    g_autofree char *src = data_path("grid-le.npy");
+    g_autofree char *bytes = NULL;
+    gsize len = 0;
+    g_assert_true(g_file_get_contents(src, &bytes, &len, NULL));
+    return write_file(t, name, bytes, (gssize)len);
+}
+
+/* A mapped array for one call: a file rewritten in place (same size) or cut
+ * shorter is told before an answer is given; the check reads nothing
+ * through the mapping, so a shortened file raises no SIGBUS. A file
+ * replaced by rename leaves the mapping with the old values. */
+static void test_npy_file_changes(tmpdir *t, gconstpointer data)
+{
+    (void)data;
+    GError *e = NULL;
+    g_autofree char *p = copy_fixture(t, "live.npy");
+    g_autoptr(BmNpyArray) a = bm_npy_read_f64(p, &e);
+    g_assert_no_error(e);
+    g_assert_nonnull(a->map);
+    g_assert_true(bm_npy_array_unchanged(a, &e));
+    g_usleep(20000);   /* past the file system's time stamp granularity */
+    int fd = open(p, O_WRONLY);
+    g_assert_cmpint(fd, >=, 0);
+    double v = -1.0;
+    g_assert_cmpint(pwrite(fd, &v, sizeof v, 128), ==, (ssize_t)sizeof v);
+    close(fd);
+    g_assert_false(bm_npy_array_unchanged(a, &e));
+    assert_error(e, BM_ERROR_IO, "live.npy", "was rewritten while it was being read", NULL);
+    g_clear_error(&e);
+    g_assert_false(bm_npy_array_detach(a, &e));   /* the copy would be mixed as well */
+    assert_error(e, BM_ERROR_IO, "rewritten", NULL);
+    g_clear_error(&e);
+
+    g_autofree char *q = copy_fixture(t, "short.npy");
+    g_autoptr(BmNpyArray) b = bm_npy_read_f64(q, &e);
+    g_assert_no_error(e);
+    g_assert_cmpint(truncate(q, 130), ==, 0);
+    g_assert_false(bm_npy_array_unchanged(b, &e));
+    assert_error(e, BM_ERROR_IO, "short.npy", "cut shorter", NULL);
+    g_clear_error(&e);
+    g_assert_false(bm_npy_array_detach(b, &e));   /* read(), not the mapping: no SIGBUS */
+    assert_error(e, BM_ERROR_IO, "cut shorter", NULL);
+    g_clear_error(&e);
+
+    g_autofree char *r = copy_fixture(t, "renamed.npy");
+    g_autoptr(BmNpyArray) c = bm_npy_read_f64(r, &e);
+    g_assert_no_error(e);
+    g_autofree char *other = write_file(t, "other.npy", "\x93NUMPY", 6);
+    g_assert_cmpint(g_rename(other, r), ==, 0);
+    g_assert_true(bm_npy_array_unchanged(c, &e));
+    check_fixture_array(c);
+}
+
+/* A detached array owns its values: the file rewritten or emptied later
+ * changes nothing, and reading every value raises no SIGBUS. */
+static void test_npy_detached(tmpdir *t, gconstpointer data)
+{
+    (void)data;
+    GError *e = NULL;
+    g_autofree char *p = copy_fixture(t, "kept.npy");
+    g_autoptr(BmNpyArray) a = bm_npy_read_f64(p, &e);
+    g_assert_no_error(e);
+    g_assert_true(bm_npy_array_detach(a, &e));
+    g_assert_no_error(e);
+    g_assert_null(a->map);
+    int fd = open(p, O_WRONLY);
+    double v[48];
+    for (int i = 0; i < 48; i++)
+        v[i] = -7.0;
+    g_assert_cmpint(pwrite(fd, v, sizeof v, 128), ==, (ssize_t)sizeof v);
+    close(fd);
+    g_assert_cmpint(truncate(p, 0), ==, 0);
+    g_assert_true(bm_npy_array_unchanged(a, &e));
+    check_fixture_array(a);
 }
 
 static void test_npy_good(void)
@@ -528,6 +635,54 @@ static void test_ktable_tsv(void)
     g_assert_cmpfloat(t->table.energies[1], ==, 1.53);
 }
 
+#define KHEAD "kx_inv_angstrom,ky_inv_angstrom,kz_inv_angstrom"
+
+/* A spreadsheet's byte-order mark is skipped; CRLF line ends are read; a
+ * k-point repeated with the same energies is read once (the bands stay in
+ * step). */
+static void test_ktable_forgiven(void)
+{
+    static const char text[] = "\xEF\xBB\xBF" KHEAD ",vb_ev,cb_ev\r\n"
+                               "0,0,0,-1,1\r\n0.1,0,0,-1.1,1.2\r\n-0.0,0,0,-1,1\r\n"
+                               "0,0.1,0,-1.3,1.4\r\n";
+    GError *e = NULL;
+    g_autoptr(BmKTable) t = bm_ktable_load_from_data(text, sizeof text - 1, "ok.csv", &e);
+    g_assert_no_error(e);
+    g_assert_cmpuint(t->table.npoints, ==, 3);
+    g_assert_cmpstr(t->band_names[0], ==, "vb");
+    g_assert_cmpfloat(t->table.k[7], ==, 0.1);
+    static const double want[6] = { -1, -1.1, -1.3, 1, 1.2, 1.4 };
+    for (int i = 0; i < 6; i++)
+        g_assert_cmpfloat(t->table.energies[i], ==, want[i]);
+}
+
+/* 100,000 columns: the header is read in linear time (it was quadratic, 43 s);
+ * a generous bound on a shared machine. */
+static void test_ktable_wide(void)
+{
+    GString *s = g_string_new(KHEAD ",cb_ev");
+    for (int c = 0; c < 100000; c++)
+        g_string_append_printf(s, ",x%d", c);
+    g_string_append_c(s, '\n');
+    for (int r = 0; r < 5; r++) {
+        g_string_append_printf(s, "0.%d,0,0,%d", r, r);
+        for (int c = 0; c < 100000; c++)
+            g_string_append(s, ",7");
+        g_string_append_c(s, '\n');
+    }
+    gint64 t0 = g_get_monotonic_time();
+    GError *e = NULL;
+    BmKTable *t = bm_ktable_load_from_data(s->str, s->len, "wide.csv", &e);
+    double seconds = (double)(g_get_monotonic_time() - t0) * 1e-6;
+    g_assert_no_error(e);
+    g_assert_cmpuint(t->table.npoints, ==, 5);
+    g_assert_cmpfloat(t->table.energies[4], ==, 4.0);
+    g_test_message("100,000 columns x 5 rows read in %.3f s", seconds);
+    g_assert_cmpfloat(seconds, <, 5.0);
+    bm_ktable_free(t);
+    g_string_free(s, TRUE);
+}
+
 static void expect_table_error(const char *text, const char *what, const char *what2)
 {
     GError *e = NULL;
@@ -537,7 +692,6 @@ static void expect_table_error(const char *text, const char *what, const char *w
     g_error_free(e);
 }
 
-#define KHEAD "kx_inv_angstrom,ky_inv_angstrom,kz_inv_angstrom"
 
 static void test_ktable_bad(void)
 {
@@ -572,6 +726,32 @@ static void test_ktable_bad(void)
                        "line 2, column 2 ('ky_inv_angstrom'): '-inf' is not a finite number",
                        NULL);
     expect_table_error(KHEAD ",cb_ev\n0,0,0,1e999\n", "'1e999' is not a finite number", NULL);
+    /* line ends: a CR alone is named, never read as one long line */
+    expect_table_error(KHEAD ",cb_ev\r0,0,0,1\r0.1,0,0,2\r",
+                       "line 1 ends in a carriage return without a line feed", "LF or CRLF");
+    expect_table_error(KHEAD ",cb_ev\r\n0,0,0,1\r\n0.1,0,0,2\r0.2,0,0,3\n",
+                       "line 3 ends in a carriage return", NULL);
+    /* band names: each band its own, never empty */
+    expect_table_error(KHEAD ",_ev\n0,0,0,1\n", "column 4 is headed '_ev', a band column "
+                       "without a name", NULL);
+    expect_table_error(KHEAD ",cb_ev,cb_EV\n0,0,0,1,2\n", "the band of column 5 ('cb_EV') would "
+                       "be named 'cb', as the band of column 4 is", NULL);
+    expect_table_error(KHEAD ",cb_ev,cb_ev_ev\n0,0,0,1,2\n", "the band of column 5 "
+                       "('cb_ev_ev') would be named 'cb_ev'", NULL);
+    /* one k-point, two energies */
+    expect_table_error(KHEAD ",cb_ev\n0,0,0,1\n0.1,0,0,2\n0,-0,0.0,1.5\n",
+                       "lines 2 and 4 give the same k-point (0, 0, 0) with different energies",
+                       "band 'cb': 1 and 1.5 eV");
+    /* user text in messages is cut short */
+    g_autoptr(GString) huge = g_string_new(KHEAD ",cb_ev\n0,0,0,");
+    for (int i = 0; i < 100000; i++)
+        g_string_append_c(huge, 'x');
+    g_string_append_c(huge, '\n');
+    GError *he = NULL;
+    g_assert_null(bm_ktable_load_from_data(huge->str, huge->len, "bad.csv", &he));
+    assert_error(he, BM_ERROR_INVALID_INPUT, "line 2, column 4", "(100000 bytes in all)", NULL);
+    g_assert_cmpuint(strlen(he->message), <, 300);
+    g_error_free(he);
     static const char nul[] = KHEAD ",cb_ev\n0,0,0\0,1\n";
     GError *e = NULL;
     g_assert_null(bm_ktable_load_from_data(nul, sizeof nul - 1, "bad.csv", &e));
@@ -631,6 +811,11 @@ int main(int argc, char **argv)
     g_test_init(&argc, &argv, NULL);
     g_test_add_func("/readers/npy/good", test_npy_good);
     g_test_add("/readers/npy/bad", tmpdir, NULL, tmp_setup, test_npy_bad, tmp_teardown);
+    g_test_add("/readers/npy/file-changes", tmpdir, NULL, tmp_setup, test_npy_file_changes,
+               tmp_teardown);
+    g_test_add_func("/readers/grid/huge-mesh", test_grid_huge_mesh);
+    g_test_add("/readers/npy/detached", tmpdir, NULL, tmp_setup, test_npy_detached,
+               tmp_teardown);
     g_test_add_func("/readers/grid/inline", test_grid_inline);
     g_test_add_func("/readers/grid/npy", test_grid_npy);
     g_test_add_func("/readers/grid/lattice-vectors", test_grid_lattice);
@@ -641,6 +826,8 @@ int main(int argc, char **argv)
     g_test_add_func("/readers/ktable/csv", test_ktable_csv);
     g_test_add_func("/readers/ktable/tsv", test_ktable_tsv);
     g_test_add_func("/readers/ktable/bad", test_ktable_bad);
+    g_test_add_func("/readers/ktable/forgiven", test_ktable_forgiven);
+    g_test_add_func("/readers/ktable/wide", test_ktable_wide);
     g_test_add_func("/readers/band-select", test_band_select);
     return g_test_run();
 }

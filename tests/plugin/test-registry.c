@@ -158,6 +158,31 @@ static void test_string_path(void)
     g_assert_nonnull(strstr(error->message, "must be a JSON object"));
 }
 
+/* A list longer than BM_MAX_LIST_LENGTH is refused by name before any work;
+ * one of exactly that length is taken. */
+static void test_list_length_limit(void)
+{
+    for (int extra = 1; extra >= 0; extra--) {
+        GString *req = g_string_new("{\"order\": 0.5, \"eta\": [0");
+        for (int i = 1; i < BM_MAX_LIST_LENGTH + extra; i++)
+            g_string_append(req, ",0");
+        g_string_append(req, "]}");
+        g_autoptr(GError) error = NULL;
+        g_autofree char *out = bm_registry_call_json("fermi-integral", req->str, NULL, FALSE,
+                                                     &error);
+        if (extra) {
+            g_assert_null(out);
+            g_assert_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT);
+            g_assert_nonnull(strstr(error->message, "request key \"eta\" of fermi-integral "
+                                    "holds 100001 elements; at most 100000"));
+        } else {
+            g_assert_no_error(error);
+            g_assert_nonnull(out);
+        }
+        g_string_free(req, TRUE);
+    }
+}
+
 static void test_describe(void)
 {
     guint n;
@@ -265,6 +290,7 @@ int main(int argc, char **argv)
     g_test_add_func("/registry/validation-names-the-key", test_validation);
     g_test_add_func("/registry/string-path-errors", test_string_path);
     g_test_add_func("/registry/describe", test_describe);
+    g_test_add_func("/registry/list-length-limit", test_list_length_limit);
     g_test_add_func("/registry/in-memory-inputs", test_in_memory_inputs);
     g_test_add_func("/registry/constants-against-codata", test_constants);
     return g_test_run();

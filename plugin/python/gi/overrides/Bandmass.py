@@ -48,18 +48,31 @@ def _mapped_bytes(view):
     if create is None or view.nbytes == 0:
         return None
     try:
-        fd = create('bandmass-energies', os.MFD_CLOEXEC)
+        fd = create('bandmass-energies', os.MFD_CLOEXEC | getattr(os, 'MFD_ALLOW_SEALING', 0))
     except OSError:
         return None
     try:
         data, done = view.cast('B'), 0
         while done < len(data):
             done += os.write(fd, data[done:])
+        _seal(fd)
         return GLib.MappedFile.new_from_fd(fd, False).get_bytes()
     except (OSError, GLib.Error):
         return None
     finally:
         os.close(fd)
+
+
+def _seal(fd):
+    """Seals the memory file against any later write, shrinking or growth
+    (nothing can change the mapped energies or cut them short), where the
+    kernel allows it; the file is private to this process either way."""
+    try:
+        import fcntl
+        fcntl.fcntl(fd, fcntl.F_ADD_SEALS, fcntl.F_SEAL_SHRINK | fcntl.F_SEAL_GROW
+                    | fcntl.F_SEAL_WRITE | fcntl.F_SEAL_SEAL)
+    except (ImportError, AttributeError, OSError):
+        pass
 
 
 def _flat(vectors):
