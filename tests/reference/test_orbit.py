@@ -150,5 +150,46 @@ class SiliconOrbits(unittest.TestCase):
                 self.assertLess(abs(p['orbits'][0]['cyclotron_mass_me'] / mc - 1), tol)
 
 
+class WarpedHeavyHoles(unittest.TestCase):
+    """Two routes to one answer: the warped heavy-hole band of GaAs's Luttinger
+    parameters (6.98, 2.06, 2.93) put on a 64^3 grid (a 0.5 1/A cube about
+    Gamma, the hole energy turned into an electron energy) through
+    cyclotron-orbit, against cyclotron-holes' own orbit integration of the
+    same dispersion."""
+
+    def test_against_cyclotron_holes(self):
+        g1, g2, g3 = 6.98, 2.06, 2.93
+        n, G = 64, 0.5
+        f = (np.arange(n) / n + 0.5) % 1 - 0.5
+        k = G * np.stack(np.meshgrid(f, f, f, indexing='ij'), -1)
+        kx, ky, kz = k[..., 0], k[..., 1], k[..., 2]
+        k2 = (k ** 2).sum(-1)
+        eh = HB / 2 * (g1 * k2 - np.sqrt((2 * g2) ** 2 * k2 ** 2 + 12 * (g3 ** 2 - g2 ** 2)
+                                         * (kx * kx * ky * ky + ky * ky * kz * kz
+                                            + kz * kz * kx * kx)))
+        # f wraps: index 0 is k = 0, as the grid format wants
+        with tempfile.TemporaryDirectory() as tmp:
+            np.save(os.path.join(tmp, 'hh.npy'), (-eh)[None])
+            grid = os.path.join(tmp, 'hh.json')
+            json.dump({'format': 'bandmass-grid-1', 'mesh': [n] * 3,
+                       'reciprocal_vectors_inv_angstrom': (G * np.eye(3)).tolist(),
+                       'energies_ev': 'hh.npy'}, open(grid, 'w'))
+            for b in ([0, 0, 1], [1, 1, 1], [1, 1, 0]):
+                r = call('cyclotron-orbit', {'grid': grid, 'band': 0, 'energy_ev': -0.01,
+                                             'k_centre_inv_angstrom': [0, 0, 0],
+                                             'field_direction': b})
+                h = call('cyclotron-holes', {'luttinger_parameters': [g1, g2, g3],
+                                             'field_direction': b, 'hole_energy_ev': 0.01})
+                ours = {round(o['k_parallel_inv_angstrom'], 3): o for o in r['orbits']}
+                for o in h['heavy']['orbits']:
+                    with self.subTest(b=b, k=o['k_parallel_inv_angstrom']):
+                        mine = [v for kk, v in ours.items()
+                                if abs(abs(kk) - o['k_parallel_inv_angstrom']) < 2e-3]
+                        self.assertTrue(mine)
+                        tol = 1e-3 if o['central'] else 1e-2
+                        self.assertLess(abs(-mine[0]['cyclotron_mass_me']
+                                            / o['cyclotron_mass_me'] - 1), tol)
+
+
 if __name__ == '__main__':
     unittest.main(argv=sys.argv[:1], verbosity=2)
