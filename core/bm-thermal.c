@@ -313,7 +313,7 @@ static void sym_from6(const double t[6], double m[3][3])
 
 bm_status bm_thermal_at(const bm_thermal_spectrum *sp, bm_carrier carrier, double temperature_k,
                         int mode_density, double density_cm3, double fermi_level_ev,
-                        double gs, bm_thermal_point *out, bm_errbuf *err)
+                        double gs, double spins, bm_thermal_point *out, bm_errbuf *err)
 {
     memset(out, 0, sizeof *out);
     out->temperature_k = temperature_k;
@@ -364,8 +364,8 @@ bm_status bm_thermal_at(const bm_thermal_spectrum *sp, bm_carrier carrier, doubl
     }
     nc *= gs;
     out->edge_density_cm3 = nc * 1e24;
-    /* (N / g_s)^(2/3) = 2 pi m kT / h^2 = m kT / (2 pi hbar^2) */
-    out->dos_mass_me = pow(nc / gs, 2.0 / 3.0) * 2.0 * M_PI * BM_HBAR2_OVER_ME_EV_A2 / kt;
+    /* (N / spins)^(2/3) = 2 pi m kT / h^2 = m kT / (2 pi hbar^2) */
+    out->dos_mass_me = pow(nc / spins, 2.0 / 3.0) * 2.0 * M_PI * BM_HBAR2_OVER_ME_EV_A2 / kt;
 
     /* sigma / tau = g_s e^2 / hbar^2 K0;  m_c = e^2 n tau sigma^-1 = hbar^2 n (g_s K0)^-1 */
     double m0[3][3], m1[3][3], inv[3][3];

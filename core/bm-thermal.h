@@ -114,9 +114,13 @@ typedef struct {
 } bm_thermal_point;
 
 /* One temperature.  mode_density: match density_cm3 (> 0) by the chemical
- * potential; otherwise use fermi_level_ev.  spin_degeneracy 1 or 2. */
+ * potential; otherwise use fermi_level_ev.  spin_degeneracy 1 or 2: states per
+ * band and k-point.  spins: the spin states the bands cover in all, which the
+ * DOS mass is defined for (N = spins (2 pi m kT / h^2)^(3/2)): 2 for
+ * non-polarised bands, 1 for one channel of a spin-polarised grid, 2 for both. */
 bm_status bm_thermal_at(const bm_thermal_spectrum *sp, bm_carrier carrier, double temperature_k,
                         int mode_density, double density_cm3, double fermi_level_ev,
-                        double spin_degeneracy, bm_thermal_point *out, bm_errbuf *err);
+                        double spin_degeneracy, double spins, bm_thermal_point *out,
+                        bm_errbuf *err);
 
 #endif

@@ -39,7 +39,8 @@ static const BmParam params[] = {
       "threads that sample the zone (0: one per core); the answer is the same for any count",
       .unit = NULL, .lower = BM_GE(0), .upper = BM_LE(256) },
     { "spin_degeneracy", BM_VALUE_INTEGER, FALSE, "2",
-      "states per k-point and band: 2, or 1 for one channel of a spin-polarised grid",
+      "states per k-point and band: 2, or 1 for the bands of a spin-polarised grid (the DOS "
+      "mass is then defined for the spin states the bands given cover: one channel or both)",
       .unit = NULL, .lower = BM_GE(1), .upper = BM_LE(2) },
     BM_PARAM_END
 };
@@ -250,10 +251,14 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
             bm_warn(&w, BM_WARN_FERMI_OUTSIDE_BANDS, "%s", note);
         size_t chan = g->channel_bands ? g->channel_bands : g->nbands;
         carrier = cond ? BM_CARRIER_ELECTRONS : BM_CARRIER_HOLES;
-        nb = cond ? chan - first : first;
+        /* the same side of the gap in every spin channel (the gap is found in
+         * the first; a spin-polarised grid lists its channels one after the other) */
+        size_t per = cond ? chan - first : first, channels = g->nbands / chan;
+        nb = per * channels;
         bands = g_new(size_t, nb);
-        for (size_t i = 0; i < nb; i++)
-            bands[i] = cond ? first + i : i;
+        for (size_t c = 0; c < channels; c++)
+            for (size_t i = 0; i < per; i++)
+                bands[c * per + i] = c * chan + (cond ? first + i : i);
     } else {
         JsonArray *arr = json_node_get_array(bn);
         nb = json_array_get_length(arr);
@@ -297,6 +302,14 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
             carrier = strcmp(cs, "holes") ? BM_CARRIER_ELECTRONS : BM_CARRIER_HOLES;
     }
 
+    /* the spin states the selection covers: the DOS mass is defined for them */
+    double spins = gs;
+    if (g->channel_bands) {
+        int seen[2] = {0, 0};
+        for (size_t i = 0; i < nb; i++)
+            seen[bands[i] / g->channel_bands ? 1 : 0] = 1;
+        spins = gs * (seen[0] + seen[1]);
+    }
     interp = bm_bandinterp_new(g, BM_BANDINTERP_PAIR_GAP_EV);
     if (!interp) {
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "thermal-mass: out of memory");
@@ -336,7 +349,7 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
         gboolean wider = FALSE;
         for (gsize i = 0; i < nt; i++) {
             bm_errbuf err = { BM_OK, "" };
-            if (bm_thermal_at(&sp, carrier, temps[i], by_density, density, mu, gs, &pts[i], &err)
+            if (bm_thermal_at(&sp, carrier, temps[i], by_density, density, mu, gs, spins, &pts[i], &err)
                 != BM_OK) {
                 g_autofree char *where = list_t
                     ? g_strdup_printf("request: element %zu of \"temperatures_k\"", (size_t)i)

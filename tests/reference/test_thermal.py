@@ -161,6 +161,25 @@ class CosineBand(unittest.TestCase):
         self.assertEqual(outs[0], outs[1])
         self.assertEqual(outs[0], outs[2])
 
+    def test_spin_channels(self):
+        # two identical channels at spin degeneracy 1 are the non-polarised band
+        # (a fact of the definitions); one channel alone has the same DOS mass
+        e = np.load(os.path.join(self.tmp.name, 'cos.npy'))
+        np.save(os.path.join(self.tmp.name, 'spin.npy'), np.concatenate([e, e]))
+        doc = json.load(open(self.grid))
+        doc.update({'energies_ev': 'spin.npy', 'spin_channels': 2, 'band_names': ['c_up', 'c_down']})
+        spin = os.path.join(self.tmp.name, 'spin.json')
+        json.dump(doc, open(spin, 'w'))
+        plain = thermal(self.grid, bands=['c'], temperature_k=300.0, density_cm3=1e18)
+        both = thermal(spin, bands=[0, 1], temperature_k=300.0, density_cm3=1e18,
+                       spin_degeneracy=1)
+        one = thermal(spin, bands=[0], temperature_k=300.0, density_cm3=5e17, spin_degeneracy=1)
+        for r in (both, one):
+            self.assertAlmostEqual(r['points'][0]['dos_mass_me'] / plain['points'][0]['dos_mass_me'],
+                                   1.0, delta=1e-9)
+            self.assertAlmostEqual(r['points'][0]['fermi_level_ev'],
+                                   plain['points'][0]['fermi_level_ev'], delta=1e-9)
+
     def test_bad_requests(self):
         for req, word in (({'bands': ['c'], 'temperature_k': 300.0}, 'density_cm3'),
                           ({'bands': ['c'], 'temperature_k': 300.0, 'density_cm3': 1e30},
