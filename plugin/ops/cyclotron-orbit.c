@@ -9,7 +9,7 @@
 #include "bm-json.h"
 #include "bm-enums.h"
 #include "bm-error-private.h"
-#include "band-grid.h"
+#include "grid-input.h"
 #include "band-select.h"
 #include "bm-bandinterp.h"
 #include "bm-extrema.h"
@@ -119,18 +119,6 @@ static void run_direction(gpointer slot, gpointer data)
 
 static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
 {
-    GError *lookup_error = NULL;
-    const BmBandGrid *given = bm_call_inputs_lookup(inputs, "grid", BM_INPUT_BAND_GRID,
-                                                    &lookup_error);
-    if (lookup_error) {
-        g_propagate_error(error, lookup_error);
-        return NULL;
-    }
-    if (!given && !json_object_has_member(request, "grid")) {
-        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "request: missing band data: give \"grid\" (a band grid document)");
-        return NULL;
-    }
     double e;
     if (!bm_json_number(request, "energy_ev", NULL, &e, error))
         return NULL;
@@ -147,19 +135,16 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     if (!bm_field_directions_read(request, &fd, error))
         return NULL;
     BmBandGrid *owned = NULL;
-    const BmBandGrid *grid = given;
+    const BmBandGrid *grid = NULL;
     JsonObject *resp = NULL;
     bm_bandinterp *bi = NULL;
     bm_warnings w = {0};
     bm_orbit_set *sets = NULL;
     bm_status *status = NULL;
     bm_errbuf *errs = NULL;
-    if (!grid) {
-        owned = bm_band_grid_load(json_object_get_string_member(request, "grid"), error);
-        if (!owned)
-            goto out;
-        grid = owned;
-    }
+    grid = bm_grid_input(request, inputs, &owned, error);
+    if (!grid)
+        goto out;
     size_t band;
     if (!bm_band_select_node(json_object_get_member(request, "band"),
                              (const char *const *)grid->band_names, NULL, grid->grid.nbands,

@@ -10,7 +10,7 @@
 #include "ops.h"
 #include "bm-json.h"
 #include "bm-error-private.h"
-#include "band-grid.h"
+#include "grid-input.h"
 #include "band-select.h"
 #include "bm-thermal.h"
 #include "bm-units.h"
@@ -172,18 +172,6 @@ static gboolean sample(const bm_thermal_setup *s, guint want_threads, bm_thermal
 
 static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
 {
-    GError *lookup_error = NULL;
-    const BmBandGrid *given = bm_call_inputs_lookup(inputs, "grid", BM_INPUT_BAND_GRID,
-                                                    &lookup_error);
-    if (lookup_error) {
-        g_propagate_error(error, lookup_error);
-        return NULL;
-    }
-    if (!given && !json_object_has_member(request, "grid")) {
-        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "request: missing band data: give \"grid\" (a band grid document)");
-        return NULL;
-    }
     gboolean one_t = json_object_has_member(request, "temperature_k");
     gboolean list_t = json_object_has_member(request, "temperatures_k");
     if (one_t == list_t) {
@@ -212,13 +200,9 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
         gs = (double)json_object_get_int_member(request, "spin_degeneracy");
 
     BmBandGrid *owned = NULL;
-    const BmBandGrid *grid = given;
-    if (!grid) {
-        owned = bm_band_grid_load(json_object_get_string_member(request, "grid"), error);
-        if (!owned)
-            return NULL;
-        grid = owned;
-    }
+    const BmBandGrid *grid = bm_grid_input(request, inputs, &owned, error);
+    if (!grid)
+        return NULL;
     const bm_grid *g = &grid->grid;
     const char *const *names = (const char *const *)grid->band_names;
     JsonObject *resp = NULL;
