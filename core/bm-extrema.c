@@ -5,6 +5,7 @@
 #include <math.h>
 #include <stdint.h>
 #include <stdlib.h>
+#include <stdio.h>
 #include <string.h>
 
 #include "bm-bandfit.h"
@@ -205,17 +206,27 @@ static void mark_degenerate(bm_mass_tensor *t, bm_extremum_kind hint, int touchi
             kind_name(hint), touching, touching == 1 ? "" : "s", touching == 1 ? "es" : "");
 }
 
-/* The k.p fit of the bands that touch at a degenerate extremum: points k
- * ([n][3], relative to it) and energies [nb][n] of the touching bands in
- * ascending order. On success the degeneracy warning points to the fit and
- * an unconverged fit says what would converge it. */
-static void degenerate_kp(bm_mass_tensor *t, const double *k, const double *e, size_t n,
-                          double radius, const size_t *group, size_t nb, double tol,
-                          const char *frame_note)
+/* The k.p fit of the bands that touch at a degenerate extremum: on lines of
+ * mesh points through it where it is a mesh point (lines, or NULL), else on
+ * the points k ([n][3], relative to it) with energies [nb][n] of the
+ * touching bands in ascending order. On success the degeneracy warning
+ * points to the fit and an unconverged fit says what would converge it. */
+static void degenerate_kp(bm_mass_tensor *t, const bm_kp_lines *lines, const double *k,
+                          const double *e, size_t n, double radius, const size_t *group,
+                          size_t nb, double tol, const char *frame_note)
 {
     bm_kp_data d = { .npoints = n, .k = k, .nbands = nb, .energies = e, .radius = radius };
     bm_errbuf err;
-    if (bm_kp_fit_bands(&d, &t->kp, &err) != BM_OK) {
+    bm_status s = BM_EINVAL;
+    if (lines) {
+        s = bm_kp_fit_lines(lines, &t->kp, &err);
+        if (s != BM_OK)
+            bm_warnings_clear(&t->kp.warnings);
+    }
+    int on_lines = s == BM_OK;
+    if (s == BM_EINVAL && n)
+        s = bm_kp_fit_bands(&d, &t->kp, &err);
+    if (s != BM_OK) {
         bm_warnings_clear(&t->kp.warnings);
         memset(&t->kp, 0, sizeof t->kp);
         bm_warn(&t->warnings, BM_WARN_FIT_UNDETERMINED, "no k.p fit of the %zu touching "
@@ -232,13 +243,21 @@ static void degenerate_kp(bm_mass_tensor *t, const double *k, const double *e, s
             "the %s k.p fit of the %zu touching bands (degenerate_kp_fit)%s",
             kind_name(t->kind), nb, t->kp.model == BM_KP_THREEFOLD
             ? "threefold (no spin-orbit coupling)" : "fourfold (Luttinger)", nb, frame_note);
-    if (!(t->kp.rel_error <= tol))
-        bm_warn(&t->warnings, BM_WARN_NOT_CONVERGED, "the k.p fit of the degenerate bands "
-                "is not converged: its directional masses are uncertain by up to %.3g %% "
-                "(tolerance %.3g %%; the fit over %zu points within %.3g 1/Angstrom against an "
-                "independent fit); the directional refinement stencil (stencil: true) "
-                "computed with the band code and fitted as a k-table converges them",
-                100.0 * t->kp.rel_error, 100.0 * tol, t->kp.npoints, t->kp.radius);
+    if (t->kp.rel_error <= tol)
+        return;
+    char how[160];
+    if (on_lines)
+        snprintf(how, sizeof how, "curvatures of %zu lines of mesh points, out to %.3g "
+                 "1/Angstrom, extrapolated to the point, against one order lower",
+                 lines->nlines, t->kp.radius);
+    else
+        snprintf(how, sizeof how, "the fit over %zu points within %.3g 1/Angstrom against an "
+                 "independent fit", t->kp.npoints, t->kp.radius);
+    bm_warn(&t->warnings, BM_WARN_NOT_CONVERGED, "the k.p fit of the degenerate bands "
+            "is not converged: its directional masses are uncertain by up to %.3g %% "
+            "(tolerance %.3g %%; %s); a finer mesh, or the directional refinement stencil "
+            "(stencil: true) computed with the band code and fitted as a k-table, "
+            "converges them", 100.0 * t->kp.rel_error, 100.0 * tol, how);
 }
 
 static void nonparabolic_check(bm_mass_tensor *t, const bm_quadric *q, double span, double radius)
@@ -661,6 +680,110 @@ static void set_position(grid_ctx *c, const double f[3], bm_mass_tensor *t)
             }
 }
 
+/* The k.p line fit's data at mesh point base: the lines of mesh points
+ * through it along the shortest mesh directions (up to 1.8 times the
+ * shortest: [100], [110] and [111] on the cubic lattices), KP_LINE_POINTS
+ * points each way, the two senses averaged. Returns the number of lines
+ * (0: none fit on this mesh); the caller frees dir, step and en. */
+#define KP_LINE_POINTS 3
+#define KP_LINES_MAX 32
+static size_t mesh_lines(const bm_grid *g, const long base[3], const size_t *group, size_t nb,
+                         double **dir_out, double **step_out, double **en_out)
+{
+    const int P = KP_LINE_POINTS, R = 4;
+    long cand[KP_LINES_MAX][3];
+    double len[KP_LINES_MAX], shortest = INFINITY;
+    size_t nc = 0;
+    for (long i = -R; i <= R; i++)
+        for (long j = -R; j <= R; j++)
+            for (long l = -R; l <= R; l++) {
+                long p[3] = { i, j, l };
+                long first = i ? i : j ? j : l;
+                long gcd = 0;
+                for (int a = 0; a < 3; a++) {
+                    long x = labs(p[a]), y = gcd;
+                    while (y) {
+                        long r = x % y;
+                        x = y;
+                        y = r;
+                    }
+                    gcd = x;
+                }
+                if (first <= 0 || gcd != 1)
+                    continue;   /* one sense of each primitive direction */
+                int distinct = 1;
+                for (int a = 0; a < 3; a++)
+                    distinct &= 2 * P * labs(p[a]) < (long)g->mesh[a];
+                if (!distinct)
+                    continue;   /* the line would wrap onto itself */
+                double v[3] = { 0, 0, 0 };
+                for (int a = 0; a < 3; a++)
+                    for (int b = 0; b < 3; b++)
+                        v[b] += (double)p[a] * g->recip[a][b] / (double)g->mesh[a];
+                double n = bm_norm3(v);
+                shortest = fmin(shortest, n);
+                /* keep the shortest KP_LINES_MAX (replace the longest kept) */
+                size_t at = nc;
+                if (nc == KP_LINES_MAX) {
+                    at = 0;
+                    for (size_t q = 1; q < nc; q++)
+                        if (len[q] > len[at])
+                            at = q;
+                    if (len[at] <= n)
+                        continue;
+                } else {
+                    nc++;
+                }
+                memcpy(cand[at], p, sizeof p);
+                len[at] = n;
+            }
+    size_t nl = 0;
+    for (size_t q = 0; q < nc; q++)
+        nl += len[q] <= 1.8 * shortest;
+    double *dir = malloc(nl * 3 * sizeof *dir), *step = malloc(nl * sizeof *step);
+    double *en = malloc(nb * nl * (size_t)(P + 1) * sizeof *en);
+    if (!nl || !dir || !step || !en) {
+        free(dir);
+        free(step);
+        free(en);
+        return 0;
+    }
+    size_t line = 0;
+    for (size_t q = 0; q < nc; q++) {
+        if (len[q] > 1.8 * shortest)
+            continue;
+        for (int b = 0; b < 3; b++) {
+            double v = 0.0;
+            for (int a = 0; a < 3; a++)
+                v += (double)cand[q][a] * g->recip[a][b] / (double)g->mesh[a];
+            dir[3 * line + b] = v / len[q];
+        }
+        step[line] = len[q];
+        for (int j = 0; j <= P; j++) {
+            size_t lin[2];
+            for (int sense = 0; sense < 2; sense++) {
+                size_t w[3];
+                for (int a = 0; a < 3; a++) {
+                    long m = (long)g->mesh[a];
+                    long x = base[a] + (sense ? -1 : 1) * j * cand[q][a];
+                    w[a] = (size_t)(((x % m) + m) % m);
+                }
+                lin[sense] = (w[0] * g->mesh[1] + w[1]) * g->mesh[2] + w[2];
+            }
+            size_t npt = g->mesh[0] * g->mesh[1] * g->mesh[2];
+            for (size_t b = 0; b < nb; b++)
+                en[(b * nl + line) * (size_t)(P + 1) + (size_t)j]
+                    = 0.5 * (g->energies[group[b] * npt + lin[0]]
+                             + g->energies[group[b] * npt + lin[1]]);
+        }
+        line++;
+    }
+    *dir_out = dir;
+    *step_out = step;
+    *en_out = en;
+    return nl;
+}
+
 /* The k.p fit at a degenerate point f (fractional) of a grid: the mesh
  * energies themselves (no interpolant: it is not smooth where bands touch)
  * of the touching bands within 2.6 of the longest mesh steps. */
@@ -734,7 +857,19 @@ static void grid_kp(grid_ctx *c, const double f[3], double e0, bm_mass_tensor *t
     /* compact the band rows to n points */
     for (size_t q = 1; q < nb; q++)
         memmove(en + q * n, en + q * cap, n * sizeof *en);
-    degenerate_kp(t, k, en, n, rfit, group, nb, c->conv, "");
+    /* on a mesh point (most degenerate extrema are: Gamma), lines of mesh
+     * points through it extrapolate the curvatures to the point itself */
+    int on_mesh = 1;
+    for (int a = 0; a < 3; a++)
+        on_mesh &= fabs(f[a] * (double)g->mesh[a] - g->offset[a] - (double)base[a]) < 1e-6;
+    double *ldir = NULL, *lstep = NULL, *len = NULL;
+    size_t nl = on_mesh ? mesh_lines(g, base, group, nb, &ldir, &lstep, &len) : 0;
+    bm_kp_lines lines = { .nlines = nl, .dir = ldir, .step = lstep,
+                          .npoints = KP_LINE_POINTS, .nbands = nb, .energies = len };
+    degenerate_kp(t, nl ? &lines : NULL, k, en, n, rfit, group, nb, c->conv, "");
+    free(ldir);
+    free(lstep);
+    free(len);
 done:
     free(k);
     free(en);
@@ -1672,7 +1807,7 @@ static void table_kp(table_ctx *c, size_t i0, bm_mass_tensor *t)
             for (size_t q = 0; q < nb; q++)
                 en[q * np + i] = e[group[q] * np + i];
         }
-        degenerate_kp(t, k, en, np, 0.0, group, nb, c->conv, "; a table has no lattice: its Cartesian "
+        degenerate_kp(t, NULL, k, en, np, 0.0, group, nb, c->conv, "; a table has no lattice: its Cartesian "
                       "axes are taken as the cubic axes");
     }
     free(k);

@@ -146,7 +146,12 @@ typedef struct {
     size_t rank, neq;
 } fit_stats;
 
-/* Residual sum of squares of the points with |k| <= rmax; NAN on failure. */
+static double weight(const bm_kp_data *d, size_t band, size_t point)
+{
+    return d->weights ? d->weights[band * d->npoints + point] : 1.0;
+}
+
+/* (Weighted) residual sum of squares of the points with |k| <= rmax; NAN on failure. */
 static double model_rss(const bm_kp_data *d, double rmax, const kp_params *m)
 {
     double rss = 0.0;
@@ -160,6 +165,7 @@ static double model_rss(const bm_kp_data *d, double rmax, const kp_params *m)
         for (size_t b = 0; b < d->nbands; b++) {
             double res = d->energies[b * d->npoints + i]
                        - (m->x[0] + C_KIN * lam[distinct_of(m->model, b)]);
+            res *= weight(d, b, i);
             rss += res * res;
         }
     }
@@ -196,11 +202,12 @@ static int gauss_newton(const bm_kp_data *d, double rmax, kp_params *m, fit_stat
                 goto done;
             for (size_t b = 0; b < d->nbands; b++, row++) {
                 int n = distinct_of(m->model, b);
-                double res = d->energies[b * d->npoints + i] - (m->x[0] + C_KIN * lam[n]);
+                double wt = weight(d, b, i);
+                double res = wt * (d->energies[b * d->npoints + i] - (m->x[0] + C_KIN * lam[n]));
                 gsl_vector_set(r, row, res);
-                gsl_matrix_set(J, row, 0, 1.0);
+                gsl_matrix_set(J, row, 0, wt);
                 for (size_t p = 1; p < np; p++)
-                    gsl_matrix_set(J, row, p, C_KIN * der[n][p]);
+                    gsl_matrix_set(J, row, p, wt * C_KIN * der[n][p]);
                 rss += res * res;
             }
         }
@@ -454,77 +461,29 @@ static int propagate(const kp_params *m, const fit_stats *fs, int ndist, derived
     return 0;
 }
 
-bm_status bm_kp_fit_bands(const bm_kp_data *d, bm_kp_fit *out, bm_errbuf *err)
+/* The output of a fit: the values the main model m1 gives, each with its
+ * total error (the statistical part from f1's covariance and the largest
+ * change against the independent fits m2 and m3, either may be NULL, in
+ * quadrature). */
+static bm_status report(const kp_params *m1, const fit_stats *f1, const kp_params *m2,
+                        const kp_params *m3, int quartic, double rfit, size_t npoints,
+                        double rms, bm_kp_fit *out, bm_errbuf *err)
 {
-    if (!out)
-        return bm_fail(err, BM_EINVAL, "k.p fit: no output given");
-    memset(out, 0, sizeof *out);
-    if (!d || (d->nbands != 3 && d->nbands != 4))
-        return bm_fail(err, BM_EINVAL, "k.p fit: %zu touching bands; the cubic models take "
-                       "3 (no spin-orbit coupling) or 4 (two Kramers pairs)", d ? d->nbands : 0);
-    double rmax = 0.0;
-    for (size_t i = 0; i < d->npoints; i++) {
-        for (int a = 0; a < 3; a++)
-            if (!isfinite(d->k[3 * i + a]))
-                return bm_fail(err, BM_EINVAL, "k.p fit: point %zu has a non-finite k", i);
-        for (size_t b = 0; b < d->nbands; b++)
-            if (!isfinite(d->energies[b * d->npoints + i]))
-                return bm_fail(err, BM_EINVAL, "k.p fit: band %zu has a non-finite energy at "
-                               "point %zu", b, i);
-        rmax = fmax(rmax, bm_norm3(d->k + 3 * i));
-    }
-    double rfit = d->radius > 0.0 && d->radius < rmax ? d->radius : rmax;
-    bm_kp_model model = d->nbands == 3 ? BM_KP_THREEFOLD : BM_KP_FOURFOLD;
+    bm_kp_model model = m1->model;
     int ndist = model == BM_KP_THREEFOLD ? 3 : 2;
-    /* the main fit: every point, with the quartic invariants if they fit */
-    kp_params m1, m2;
-    fit_stats f1, f2;
-    int quartic = model == BM_KP_THREEFOLD;
-    int rc = fit_model(d, model, quartic, rfit, &m1, &f1);
-    /* the quartic model wants some redundancy (six equations beyond its
-     * parameters) and points that determine every invariant */
-    if (rc == 0 && quartic && (f1.neq < (size_t)NPAR_MAX + 6 || f1.rank < (size_t)NPAR_MAX))
-        rc = -1;
-    if (rc == -1 && quartic) {
-        quartic = 0;
-        rc = fit_model(d, model, 0, rfit, &m1, &f1);
-    }
-    if (rc == -2)
-        return bm_fail(err, BM_ENOMEM, "k.p fit: out of memory");
-    if (rc != 0)
-        return bm_fail(err, BM_EINVAL, "k.p fit: the %zu points do not determine the "
-                       "parameters (sample at least two of [100], [110], [111] from the "
-                       "degenerate point)", d->npoints);
-    /* the independent checks: the quadratic model on the inner points (or on
-     * every point when the main fit is quadratic already), and the main model
-     * on every point given when the main radius leaves some out */
-    kp_params m3;
-    fit_stats f3;
-    int rc2 = refit_from(d, &m1, 0, quartic ? 0.7 * rfit : rfit, &m2, &f2);
-    if (rc2 != 0 && quartic)
-        rc2 = refit_from(d, &m1, 0, rfit, &m2, &f2);
-    if (rc2 == 0 && !quartic && rfit == rmax) {
-        /* a quadratic main fit: the inner points are the check */
-        rc2 = refit_from(d, &m1, 0, 0.7 * rfit, &m2, &f2);
-    }
-    int rc3 = rfit < rmax ? refit_from(d, &m1, quartic, rmax, &m3, &f3) : -1;
-    if (rc2 == -2 || rc3 == -2)
-        return bm_fail(err, BM_ENOMEM, "k.p fit: out of memory");
-
     derived v1, v2, v3, s1;
     double qchange = 0.0, qc2;
-    if (derive(&m1, ndist, &v1, &qchange) != 0 || propagate(&m1, &f1, ndist, &s1) != 0)
+    if (derive(m1, ndist, &v1, &qchange) != 0 || propagate(m1, f1, ndist, &s1) != 0)
         return bm_fail(err, BM_EINTERNAL, "k.p fit: eigenvalues of the fitted model failed");
-    int have2 = rc2 == 0 && derive(&m2, ndist, &v2, &qc2) == 0;
-    int have3 = rc3 == 0 && derive(&m3, ndist, &v3, &qc2) == 0;
+    int have2 = m2 && derive(m2, ndist, &v2, &qc2) == 0;
+    int have3 = m3 && derive(m3, ndist, &v3, &qc2) == 0;
 
     out->model = model;
     out->quartic = quartic;
     out->radius = rfit;
-    out->e0_ev = m1.x[0];
-    out->rms_ev = sqrt(f1.rss / (double)f1.neq);
-    for (size_t i = 0; i < d->npoints; i++)
-        out->npoints += bm_norm3(d->k + 3 * i) <= rfit;
+    out->e0_ev = m1->x[0];
+    out->rms_ev = rms;
+    out->npoints = npoints;
     out->ndistinct = (size_t)ndist;
     /* total error: statistical and the independent fit's change, in quadrature */
     const double *a1 = (const double *)&v1, *a2 = (const double *)&v2;
@@ -570,6 +529,190 @@ bm_status bm_kp_fit_bands(const bm_kp_data *d, bm_kp_fit *out, bm_errbuf *err)
         bm_warn(&out->warnings, BM_WARN_NO_ERROR_ESTIMATE, "k.p fit: too few points for an "
                 "independent check of the fit; its masses carry the statistical error only");
     return BM_OK;
+}
+
+bm_status bm_kp_fit_bands(const bm_kp_data *d, bm_kp_fit *out, bm_errbuf *err)
+{
+    if (!out)
+        return bm_fail(err, BM_EINVAL, "k.p fit: no output given");
+    memset(out, 0, sizeof *out);
+    if (!d || (d->nbands != 3 && d->nbands != 4))
+        return bm_fail(err, BM_EINVAL, "k.p fit: %zu touching bands; the cubic models take "
+                       "3 (no spin-orbit coupling) or 4 (two Kramers pairs)", d ? d->nbands : 0);
+    double rmax = 0.0;
+    for (size_t i = 0; i < d->npoints; i++) {
+        for (int a = 0; a < 3; a++)
+            if (!isfinite(d->k[3 * i + a]))
+                return bm_fail(err, BM_EINVAL, "k.p fit: point %zu has a non-finite k", i);
+        for (size_t b = 0; b < d->nbands; b++)
+            if (!isfinite(d->energies[b * d->npoints + i]))
+                return bm_fail(err, BM_EINVAL, "k.p fit: band %zu has a non-finite energy at "
+                               "point %zu", b, i);
+        rmax = fmax(rmax, bm_norm3(d->k + 3 * i));
+    }
+    double rfit = d->radius > 0.0 && d->radius < rmax ? d->radius : rmax;
+    bm_kp_model model = d->nbands == 3 ? BM_KP_THREEFOLD : BM_KP_FOURFOLD;
+    /* the main fit: every point, with the quartic invariants if they fit */
+    kp_params m1, m2;
+    fit_stats f1, f2;
+    int quartic = model == BM_KP_THREEFOLD;
+    int rc = fit_model(d, model, quartic, rfit, &m1, &f1);
+    /* the quartic model wants some redundancy (six equations beyond its
+     * parameters) and points that determine every invariant */
+    if (rc == 0 && quartic && (f1.neq < (size_t)NPAR_MAX + 6 || f1.rank < (size_t)NPAR_MAX))
+        rc = -1;
+    if (rc == -1 && quartic) {
+        quartic = 0;
+        rc = fit_model(d, model, 0, rfit, &m1, &f1);
+    }
+    if (rc == -2)
+        return bm_fail(err, BM_ENOMEM, "k.p fit: out of memory");
+    if (rc != 0)
+        return bm_fail(err, BM_EINVAL, "k.p fit: the %zu points do not determine the "
+                       "parameters (sample at least two of [100], [110], [111] from the "
+                       "degenerate point)", d->npoints);
+    /* the independent checks: the quadratic model on the inner points (or on
+     * every point when the main fit is quadratic already), and the main model
+     * on every point given when the main radius leaves some out */
+    kp_params m3;
+    fit_stats f3;
+    int rc2 = refit_from(d, &m1, 0, quartic ? 0.7 * rfit : rfit, &m2, &f2);
+    if (rc2 != 0 && quartic)
+        rc2 = refit_from(d, &m1, 0, rfit, &m2, &f2);
+    if (rc2 == 0 && !quartic && rfit == rmax) {
+        /* a quadratic main fit: the inner points are the check */
+        rc2 = refit_from(d, &m1, 0, 0.7 * rfit, &m2, &f2);
+    }
+    int rc3 = rfit < rmax ? refit_from(d, &m1, quartic, rmax, &m3, &f3) : -1;
+    if (rc2 == -2 || rc3 == -2)
+        return bm_fail(err, BM_ENOMEM, "k.p fit: out of memory");
+
+    size_t used = 0;
+    for (size_t i = 0; i < d->npoints; i++)
+        used += bm_norm3(d->k + 3 * i) <= rfit;
+    return report(&m1, &f1, rc2 == 0 ? &m2 : NULL, rc3 == 0 ? &m3 : NULL, quartic, rfit,
+                  used, sqrt(f1.rss / (double)f1.neq), out, err);
+}
+
+/* ------------------------------------------------------------ lines */
+
+/* d/dt at t = 0 of the polynomial through (t[j], e[j]), j = 0 .. n-1, with
+ * t[0] = 0: in Newton's form a_0 + a_1 t + a_2 t (t - t_1) + ..., term k
+ * contributes a_k times the product of -t_m over m = 1 .. k-1. */
+static double slope_at_zero(const double *t, const double *e, int n)
+{
+    double a[8];
+    for (int j = 0; j < n; j++)
+        a[j] = e[j];
+    for (int k = 1; k < n; k++)
+        for (int j = n - 1; j >= k; j--)
+            a[j] = (a[j] - a[j - 1]) / (t[j] - t[j - k]);
+    double slope = 0.0, prod = 1.0;
+    for (int k = 1; k < n; k++) {
+        slope += a[k] * prod;
+        prod *= -t[k];
+    }
+    return slope;
+}
+
+bm_status bm_kp_fit_lines(const bm_kp_lines *l, bm_kp_fit *out, bm_errbuf *err)
+{
+    if (!out)
+        return bm_fail(err, BM_EINVAL, "k.p fit: no output given");
+    memset(out, 0, sizeof *out);
+    if (!l || (l->nbands != 3 && l->nbands != 4))
+        return bm_fail(err, BM_EINVAL, "k.p fit: %zu touching bands; the cubic models take "
+                       "3 (no spin-orbit coupling) or 4 (two Kramers pairs)", l ? l->nbands : 0);
+    if (l->npoints < 3 || l->npoints > 6 || l->nlines < 2)
+        return bm_fail(err, BM_EINVAL, "k.p fit: %zu lines of %zu points; the line fit takes "
+                       "at least two lines of 3 to 6 points", l->nlines, l->npoints);
+    const size_t nl = l->nlines, nb = l->nbands, np1 = l->npoints + 1;
+    double kappa = INFINITY, reach = 0.0, centre = 0.0;
+    for (size_t i = 0; i < nl; i++) {
+        if (!(l->step[i] > 0.0) || !isfinite(l->step[i]))
+            return bm_fail(err, BM_EINVAL, "k.p fit: line %zu has a step of %g", i, l->step[i]);
+        kappa = fmin(kappa, l->step[i]);
+        reach = fmax(reach, l->step[i] * (double)l->npoints);
+    }
+    for (size_t v = 0; v < nb * nl * np1; v++)
+        if (!isfinite(l->energies[v]))
+            return bm_fail(err, BM_EINVAL, "k.p fit: a non-finite energy on line %zu",
+                           (v / np1) % nl);
+    for (size_t b = 0; b < nb; b++)
+        centre += l->energies[b * nl * np1] / (double)nb;
+    /* pseudo-points: the centre, and kappa along each line with the energy the
+     * extrapolated curvature gives there (eV, from the centre) */
+    const size_t npts = 1 + nl;
+    double *k = calloc(3 * npts, sizeof *k);
+    double *e1 = calloc(nb * npts, sizeof *e1), *e2 = calloc(nb * npts, sizeof *e2);
+    double *w = calloc(nb * npts, sizeof *w);
+    bm_status st = BM_OK;
+    if (!k || !e1 || !e2 || !w) {
+        st = bm_fail(err, BM_ENOMEM, "k.p fit: out of memory");
+        goto done;
+    }
+    double wsum = 0.0;
+    for (size_t i = 0; i < nl; i++) {
+        for (int a = 0; a < 3; a++)
+            k[3 * (i + 1) + a] = kappa * l->dir[3 * i + a];
+        double t[8];
+        for (size_t j = 0; j < np1; j++)
+            t[j] = (double)(j * j) * l->step[i] * l->step[i];
+        for (size_t b = 0; b < nb; b++) {
+            const double *e = l->energies + (b * nl + i) * np1;
+            int n = (int)np1;
+            double c0 = slope_at_zero(t, e, n), c1 = slope_at_zero(t, e, n - 1);
+            double c2 = slope_at_zero(t, e, n - 2);
+            /* each order's change is the error of the one before: the last
+             * change, with a share of the one before against a lucky match */
+            double sig = hypot(c0 - c1, 0.2 * (c1 - c2));
+            sig = fmax(sig, 1e-4 * fabs(c0) + 1e-9);
+            e1[b * npts + i + 1] = c0 * kappa * kappa;
+            e2[b * npts + i + 1] = c1 * kappa * kappa;
+            w[b * npts + i + 1] = 1.0 / (sig * kappa * kappa);
+            wsum += w[b * npts + i + 1];
+        }
+    }
+    for (size_t b = 0; b < nb; b++)
+        w[b * npts] = wsum / (double)(nb * nl);
+    bm_kp_model model = nb == 3 ? BM_KP_THREEFOLD : BM_KP_FOURFOLD;
+    bm_kp_data d1 = { .npoints = npts, .k = k, .nbands = nb, .energies = e1, .weights = w };
+    bm_kp_data d2 = d1;
+    d2.energies = e2;
+    kp_params m1, m2;
+    fit_stats f1, f2;
+    int rc = fit_model(&d1, model, 0, 2.0 * kappa, &m1, &f1);
+    int rc2 = rc == 0 ? refit_from(&d2, &m1, 0, 2.0 * kappa, &m2, &f2) : -1;
+    if (rc == -2 || rc2 == -2) {
+        st = bm_fail(err, BM_ENOMEM, "k.p fit: out of memory");
+        goto done;
+    }
+    if (rc != 0) {
+        st = bm_fail(err, BM_EINVAL, "k.p fit: the %zu lines do not determine the parameters "
+                     "(lines of one family only)", nl);
+        goto done;
+    }
+    /* the weights are the curvatures' errors, so the covariance is the
+     * unscaled one, widened where the lines scatter more than they say */
+    double dof = (double)f1.neq - (double)f1.rank;
+    double chi2 = dof > 0.0 ? f1.rss / dof : 0.0;
+    double widen = chi2 > 0.0 ? fmax(1.0, chi2) / chi2 : 1.0;
+    for (int p = 0; p < NPAR_MAX; p++)
+        for (int q = 0; q < NPAR_MAX; q++)
+            f1.cov[p][q] *= widen;
+    d1.weights = NULL;
+    double rms = sqrt(model_rss(&d1, 2.0 * kappa, &m1) / (double)(nb * npts));
+    m1.x[0] += centre;
+    if (rc2 == 0)
+        m2.x[0] += centre;
+    st = report(&m1, &f1, rc2 == 0 ? &m2 : NULL, NULL, 0, reach, 1 + 2 * nl * l->npoints,
+                rms, out, err);
+done:
+    free(k);
+    free(e1);
+    free(e2);
+    free(w);
+    return st;
 }
 
 /* ------------------------------------------------------------ cubic frame */

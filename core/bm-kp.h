@@ -36,7 +36,21 @@ typedef struct {
     const double *energies;   /* [band][point], eV, bands ascending at every point */
     double radius;            /* the main fit takes the points within it, 1/Angstrom;
                                  those beyond serve the error estimate (0: every point) */
+    const double *weights;    /* [band][point], 1/eV, or NULL (every point counts alike) */
 } bm_kp_data;
+
+/* Energies of the touching bands on straight lines of mesh points through the
+ * degenerate point (itself a mesh point): each line is k = j * step * dir,
+ * j = 0 .. npoints, the energy at j the mean over +j and -j (which cancels
+ * odd powers of k). */
+typedef struct {
+    size_t nlines;
+    const double *dir;        /* [line][3], unit, Cartesian cubic axes */
+    const double *step;       /* [line], 1/Angstrom */
+    size_t npoints;           /* points on each line beyond the centre: 3 or 4 */
+    size_t nbands;            /* 3: threefold; 4: fourfold */
+    const double *energies;   /* [band][line][j], eV, bands ascending at every point */
+} bm_kp_lines;
 
 typedef struct {
     bm_kp_model model;
@@ -73,6 +87,17 @@ typedef struct {
  * BM_EINVAL for a band count other than 3 or 4, too few points, non-finite
  * data; BM_ENOMEM. *out is zeroed first; free its warnings. */
 bm_status bm_kp_fit_bands(const bm_kp_data *d, bm_kp_fit *out, bm_errbuf *err);
+
+/* The same models fitted to the curvatures of the bands at the degenerate
+ * point along each line, each extrapolated to k = 0 by the polynomial in k^2
+ * through the centre and the points on the line (Richardson's idea: a coarse
+ * mesh resolves the band only several hundred meV away from the point, where
+ * the quartic and higher terms the model lacks are large). The curvatures
+ * from one point fewer weigh each line (their change is its error) and give
+ * the independent check. Only the quadratic model is fitted (rms_ev is the
+ * residual at the first line point). BM_EINVAL when the lines do not
+ * determine the parameters (lines of one family only): fit the points then. */
+bm_status bm_kp_fit_lines(const bm_kp_lines *l, bm_kp_fit *out, bm_errbuf *err);
 
 /* 1 when the lattice with reciprocal vectors in the rows of recip is mapped
  * onto itself by the 48 operations of the cube in the Cartesian frame (so its

@@ -179,6 +179,83 @@ static void test_fourfold(void)
     free(e);
 }
 
+/* The line fit: bands of the threefold model plus alpha k^4 + beta k^6 (any
+ * band that is a polynomial of degree three in k^2 along each line) on the
+ * 13 lines of an fcc mesh through Gamma ([100] x 3, [110] x 6, [111] x 4, the
+ * steps of a 24^3 silicon mesh): three points a line determine the cubic in
+ * k^2 exactly, so L, M, N come back to rounding (an identity of polynomial
+ * interpolation), however large the higher terms are at the line points. */
+static void test_lines(void)
+{
+    const double lmn[3] = { -6.17, -3.80, -9.24 };
+    const double alpha = 30.0, beta = -200.0;   /* eV A^4, eV A^6 */
+    static const double fam[3][3] = { { 1, 0, 0 }, { 1, 1, 0 }, { 1, 1, 1 } };
+    static const double famstep[3] = { 0.0964, 0.1363, 0.0835 };
+    double dir[13][3], step[13];
+    size_t nl = 0;
+    for (int f = 0; f < 3; f++)
+        for (int p = 0; p < 6; p++)
+            for (int s = 0; s < 4; s++) {
+                static const int perm[6][3] = { { 0, 1, 2 }, { 1, 2, 0 }, { 2, 0, 1 },
+                                                { 1, 0, 2 }, { 0, 2, 1 }, { 2, 1, 0 } };
+                double v[3];
+                for (int a = 0; a < 3; a++)
+                    v[a] = fam[f][perm[p][a]] * (a > 0 && ((s >> (a - 1)) & 1) ? -1.0 : 1.0);
+                double len = bm_norm3(v);
+                for (int a = 0; a < 3; a++)
+                    v[a] /= len;
+                int seen = 0;
+                for (size_t q = 0; q < nl; q++)
+                    seen |= fabs(fabs(bm_dot3(v, dir[q])) - 1.0) < 1e-12;
+                if (seen)
+                    continue;
+                g_assert_cmpuint(nl, <, 13);
+                memcpy(dir[nl], v, sizeof v);
+                step[nl++] = famstep[f];
+            }
+    g_assert_cmpuint(nl, ==, 13);
+    enum { P = 3 };
+    double en[3 * 13 * (P + 1)];
+    for (size_t l = 0; l < nl; l++)
+        for (int j = 0; j <= P; j++) {
+            double k[3], ev[3], kk = j * step[l];
+            for (int a = 0; a < 3; a++)
+                k[a] = kk * dir[l][a];
+            threefold_energies(lmn, 0.0, k, ev);
+            for (int b = 0; b < 3; b++)
+                en[(b * nl + l) * (P + 1) + j] = -0.1 + ev[b] + alpha * pow(kk, 4)
+                                                 + beta * pow(kk, 6);
+        }
+    bm_kp_lines lines = { .nlines = nl, .dir = &dir[0][0], .step = step, .npoints = P,
+                          .nbands = 3, .energies = en };
+    bm_kp_fit f;
+    bm_errbuf err = { 0 };
+    g_assert_cmpint(bm_kp_fit_lines(&lines, &f, &err), ==, BM_OK);
+    g_assert_cmpint(f.model, ==, BM_KP_THREEFOLD);
+    g_assert_cmpfloat_with_epsilon(f.e0_ev, -0.1, 1e-9);
+    for (int p = 0; p < 3; p++)
+        g_assert_cmpfloat(fabs(f.lmn[p] / lmn[p] - 1.0), <, 1e-7);
+    /* [100]: the light band is 1/L, the two others 1/M (closed form) */
+    g_assert_cmpfloat(fabs(f.directional[0][0] * lmn[0] - 1.0), <, 1e-7);
+    g_assert_cmpfloat(fabs(f.directional[0][1] * lmn[1] - 1.0), <, 1e-7);
+    /* the error is the change against one point fewer a line: large here
+     * (the higher terms are), never zero */
+    g_assert_cmpfloat(f.rel_error, >, 0.0);
+    g_assert_true(isfinite(f.rel_error));
+    bm_warnings_clear(&f.warnings);
+
+    /* lines of the [100] family alone do not fix N */
+    lines.nlines = 3;
+    double en3[3 * 3 * (P + 1)];
+    for (int b = 0; b < 3; b++)
+        for (int l = 0; l < 3; l++)
+            memcpy(en3 + (b * 3 + l) * (P + 1), en + (b * nl + (size_t)l) * (P + 1),
+                   sizeof(double) * (P + 1));
+    lines.energies = en3;
+    g_assert_cmpint(bm_kp_fit_lines(&lines, &f, &err), ==, BM_EINVAL);
+    bm_warnings_clear(&f.warnings);
+}
+
 static void test_refusals(void)
 {
     double k[2][3] = { { 0, 0, 0 }, { 0.01, 0, 0 } }, e[6] = { 0 };
@@ -214,6 +291,7 @@ int main(int argc, char **argv)
     g_test_add_func("/kp/threefold", test_threefold);
     g_test_add_func("/kp/threefold-isotropic-dos", test_threefold_isotropic_dos);
     g_test_add_func("/kp/fourfold", test_fourfold);
+    g_test_add_func("/kp/lines", test_lines);
     g_test_add_func("/kp/refusals", test_refusals);
     g_test_add_func("/kp/cubic-frame", test_cubic_frame);
     return g_test_run();
