@@ -150,3 +150,75 @@ bm_status bm_lattice_rotations_cartesian(const double recip[3][3],
     }
     return BM_OK;
 }
+
+/* The mesh-index map of Cartesian rotation r, i' = i M + t (mod n), or 0
+ * when r does not carry the mesh (with its offset) onto itself. */
+static int mesh_map(const bm_grid *g, const double r[3][3], double binv[3][3],
+                    long m[3][3], long t[3])
+{
+    /* fractional f (k = f B, rows of B) goes to f' = f B R^T B^-1 */
+    double brt[3][3], fm[3][3];
+    for (int i = 0; i < 3; i++)
+        for (int j = 0; j < 3; j++) {
+            brt[i][j] = 0.0;
+            for (int a = 0; a < 3; a++)
+                brt[i][j] += g->recip[i][a] * r[j][a];
+        }
+    bm_matmul3(brt, binv, fm);
+    /* index i_b' = f_b' n_b - o_b with f_a = (i_a + o_a) / n_a */
+    for (int b = 0; b < 3; b++) {
+        double tb = -g->offset[b];
+        for (int a = 0; a < 3; a++) {
+            double x = fm[a][b] * (double)g->mesh[b] / (double)g->mesh[a];
+            if (fabs(x - nearbyint(x)) > 1e-6)
+                return 0;
+            m[a][b] = lround(x);
+            tb += fm[a][b] * g->offset[a] * (double)g->mesh[b] / (double)g->mesh[a];
+        }
+        if (fabs(tb - nearbyint(tb)) > 1e-6)
+            return 0;
+        t[b] = lround(tb);
+    }
+    return 1;
+}
+
+bm_status bm_grid_rotations(const bm_grid *g, const size_t *bands, size_t nbands,
+                            double tol_ev, double rot[BM_CRYSTAL_MAX_ROTATIONS][3][3],
+                            size_t *nrot, bm_errbuf *err)
+{
+    double lat[BM_CRYSTAL_MAX_ROTATIONS][3][3], b[3][3], binv[3][3];
+    size_t nlat = 0;
+    *nrot = 0;
+    bm_status s = bm_lattice_rotations_cartesian(g->recip, lat, &nlat, err);
+    if (s != BM_OK)
+        return s;
+    memcpy(b, g->recip, sizeof b);
+    bm_inv3(b, binv);
+    const size_t n0 = g->mesh[0], n1 = g->mesh[1], n2 = g->mesh[2], npt = n0 * n1 * n2;
+    size_t stride = npt / 200000 + 1;
+    if (stride > 1 && stride % 2 == 0)
+        stride++;   /* odd: the sample does not fall on a sublattice of the mesh */
+    for (size_t q = 0; q < nlat; q++) {
+        long m[3][3], t[3];
+        if (!mesh_map(g, (const double (*)[3])lat[q], binv, m, t))
+            continue;
+        int same = 1;
+        for (size_t p = 0; p < npt && same; p += stride) {
+            long i[3] = { (long)(p / (n1 * n2)), (long)((p / n2) % n1), (long)(p % n2) };
+            size_t w[3];
+            for (int c = 0; c < 3; c++) {
+                long x = t[c] + i[0] * m[0][c] + i[1] * m[1][c] + i[2] * m[2][c];
+                long nn = (long)g->mesh[c];
+                w[c] = (size_t)(((x % nn) + nn) % nn);
+            }
+            size_t p2 = (w[0] * n1 + w[1]) * n2 + w[2];
+            for (size_t k = 0; k < nbands && same; k++) {
+                const double *e = g->energies + bands[k] * npt;
+                same = fabs(e[p] - e[p2]) <= tol_ev;
+            }
+        }
+        if (same)
+            memcpy(rot[(*nrot)++], lat[q], sizeof lat[q]);
+    }
+    return BM_OK;
+}

@@ -5,6 +5,7 @@
 
 #include <stddef.h>
 
+#include "bm-bands.h"
 #include "bm-status.h"
 
 #define BM_CRYSTAL_MAX_ROTATIONS 48
@@ -35,5 +36,16 @@ double bm_crystal_nearest_neighbour(double lattice[3][3], const double (*positio
 bm_status bm_lattice_rotations_cartesian(const double recip[3][3],
                                          double rot[BM_CRYSTAL_MAX_ROTATIONS][3][3],
                                          size_t *nrot, bm_errbuf *err);
+
+/* The rotations of the lattice (as bm_lattice_rotations_cartesian finds
+ * them) that map g's mesh onto itself and leave the mesh energies of the
+ * given bands unchanged to within tol_ev: the symmetry the data have, which
+ * is the crystal's (or less, where the crystal has less than its lattice,
+ * or a spin-polarised channel lacks inversion). The identity is always
+ * among them; a strided sample of at most about 2e5 mesh points per
+ * rotation is compared (a broken symmetry shows everywhere). */
+bm_status bm_grid_rotations(const bm_grid *g, const size_t *bands, size_t nbands,
+                            double tol_ev, double rot[BM_CRYSTAL_MAX_ROTATIONS][3][3],
+                            size_t *nrot, bm_errbuf *err);
 
 #endif

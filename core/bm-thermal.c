@@ -229,6 +229,62 @@ void bm_thermal_merge(const bm_thermal_setup *s, bm_thermal_spectrum *into,
     }
 }
 
+static void sym_from6(const double t[6], double m[3][3])
+{
+    m[0][0] = t[0], m[1][1] = t[1], m[2][2] = t[2];
+    m[0][1] = m[1][0] = t[3];
+    m[0][2] = m[2][0] = t[4];
+    m[1][2] = m[2][1] = t[5];
+}
+
+int bm_thermal_symmetrize(bm_thermal_spectrum *sp, const double (*rot)[3][3], size_t nrot)
+{
+    sp->symmetry_ops = nrot ? nrot : 1;
+    sp->hall_symmetrized = 1;
+    if (nrot < 2)
+        return 1;
+    /* the Hall sums for a field along g mix only when some mean of
+     * R_ga R_gb (a != b) survives */
+    double w[3][3] = { { 0 } };   /* w[g][a]: mean of R_ga^2 */
+    int hall_ok = 1;
+    for (int g = 0; g < 3; g++)
+        for (int a = 0; a < 3; a++) {
+            for (int b = a + 1; b < 3; b++) {
+                double cross = 0.0;
+                for (size_t r = 0; r < nrot; r++)
+                    cross += rot[r][g][a] * rot[r][g][b];
+                hall_ok &= fabs(cross) < 1e-9 * (double)nrot;
+            }
+            for (size_t r = 0; r < nrot; r++)
+                w[g][a] += rot[r][g][a] * rot[r][g][a] / (double)nrot;
+        }
+    for (size_t i = 0; i < sp->nbins; i++) {
+        double *tr = sp->trans + i * 6, t[3][3], avg[3][3] = { { 0 } };
+        if (sp->dos[i] == 0.0)
+            continue;
+        sym_from6(tr, t);
+        for (size_t r = 0; r < nrot; r++)
+            for (int a = 0; a < 3; a++)
+                for (int b = a; b < 3; b++) {
+                    double v = 0.0;
+                    for (int c = 0; c < 3; c++)
+                        for (int d = 0; d < 3; d++)
+                            v += rot[r][a][c] * t[c][d] * rot[r][b][d];
+                    avg[a][b] += v / (double)nrot;
+                }
+        tr[0] = avg[0][0], tr[1] = avg[1][1], tr[2] = avg[2][2];
+        tr[3] = avg[0][1], tr[4] = avg[0][2], tr[5] = avg[1][2];
+        if (hall_ok) {
+            double *hl = sp->hall + i * 3, h[3];
+            for (int g = 0; g < 3; g++)
+                h[g] = w[g][0] * hl[0] + w[g][1] * hl[1] + w[g][2] * hl[2];
+            memcpy(hl, h, sizeof h);
+        }
+    }
+    sp->hall_symmetrized = hall_ok;
+    return hall_ok;
+}
+
 void bm_thermal_polish_edge(const bm_thermal_setup *s, bm_thermal_spectrum *sp)
 {
     if (!isfinite(sp->edge_ev))
@@ -301,14 +357,6 @@ static double carriers(const bm_thermal_spectrum *sp, bm_carrier c, double mu, d
         if (sp->dos[i] != 0.0)
             n += sp->dos[i] * occupation(c, sp->e0 + (double)i * sp->de, mu, kt);
     return gs * n;
-}
-
-static void sym_from6(const double t[6], double m[3][3])
-{
-    m[0][0] = t[0], m[1][1] = t[1], m[2][2] = t[2];
-    m[0][1] = m[1][0] = t[3];
-    m[0][2] = m[2][0] = t[4];
-    m[1][2] = m[2][1] = t[5];
 }
 
 bm_status bm_thermal_at(const bm_thermal_spectrum *sp, bm_carrier carrier, double temperature_k,

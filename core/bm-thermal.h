@@ -55,6 +55,8 @@ typedef struct {
     double refine_needed;     /* largest refinement a cell asked for */
     double min_gap_outside;   /* smallest gap (eV) to a band not selected, inside the window */
     size_t gap_band;          /* which band that was */
+    size_t symmetry_ops;      /* rotations the tensors were averaged over (1: none) */
+    int hall_symmetrized;     /* the Hall sums too */
 } bm_thermal_spectrum;
 
 /* Allocates the axis of s (zeroed) for setup; 0 or BM_ENOMEM. */
@@ -76,6 +78,17 @@ void bm_thermal_accumulate(const bm_thermal_setup *s, size_t u, bm_thermal_spect
 /* into += part (same axis). */
 void bm_thermal_merge(const bm_thermal_setup *s, bm_thermal_spectrum *into,
                       const bm_thermal_spectrum *part);
+
+/* Averages the tensors of sp over the group of Cartesian rotations rot
+ * (k' = R k; the data's symmetry, bm_grid_rotations): T -> mean of R T R^T.
+ * The band interpolant is exact on the mesh but not symmetric between mesh
+ * points on a non-orthogonal cell; the average is the projection onto what
+ * the crystal allows, which removes that part of the interpolation error.
+ * The Hall sums are kept per field axis, so they are averaged only where the
+ * group makes that exact (no mean of R_ga R_gb with a != b: every cubic,
+ * tetragonal, orthorhombic and hexagonal group in its usual frame); returns
+ * 1 when they were, 0 when they were left alone. */
+int bm_thermal_symmetrize(bm_thermal_spectrum *sp, const double (*rot)[3][3], size_t nrot);
 
 /* Polishes sp->edge_ev to the spline's own extremum (Newton from the best
  * sample). */

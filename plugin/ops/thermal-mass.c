@@ -12,6 +12,7 @@
 #include "bm-error-private.h"
 #include "grid-input.h"
 #include "band-select.h"
+#include "bm-crystal.h"
 #include "bm-thermal.h"
 #include "bm-units.h"
 
@@ -59,7 +60,10 @@ static const BmField response[] = {
       "the Hall density 1 / (e |R_H|), for a weak field along x, y, z)" },
     { "sampling", NULL, TRUE,
       "how the zone was sampled: cells (coarse cells in the window), points (fine points), "
-      "largest_refinement, window_ev [low, high], bin_ev" },
+      "largest_refinement, window_ev [low, high], bin_ev, symmetry_operations (the "
+      "rotations of the lattice the mesh energies of these bands are invariant under, to "
+      "0.1 meV: the tensors are averaged over them; 1: none), hall_factor_symmetrized "
+      "(the Hall factors too: false where the group mixes the field axes)" },
     { "edge_check", NULL, TRUE,
       "the independent check near the edge: interpolant_masses_me (the interpolated band's "
       "principal masses at the edge, ascending |m|), mass_tensor_masses_me and "
@@ -123,6 +127,10 @@ static void run_unit(gpointer slot, gpointer data)
  * averages by a few per cent on a converged mesh (silicon, 32^3: 3 %). */
 #define EDGE_TOLERANCE 0.05
 
+/* Mesh energies that a rotation maps onto each other to within this count
+ * as symmetric (DFT codes symmetrise far better; a real splitting is larger) */
+#define SYMMETRY_TOL_EV 1e-4
+
 static gboolean sample(const bm_thermal_setup *s, guint want_threads, bm_thermal_spectrum *out,
                        GError **error)
 {
@@ -167,6 +175,14 @@ static gboolean sample(const bm_thermal_setup *s, guint want_threads, bm_thermal
         return FALSE;
     }
     bm_thermal_polish_edge(s, out);
+    /* the data's own symmetry restores what the interpolant loses of it
+     * between mesh points */
+    double rot[BM_CRYSTAL_MAX_ROTATIONS][3][3];
+    size_t nrot = 0;
+    if (bm_grid_rotations(s->grid, s->bands, s->nbands, SYMMETRY_TOL_EV, rot, &nrot, &err)
+        != BM_OK)
+        nrot = 0;
+    bm_thermal_symmetrize(out, (const double (*)[3][3])rot, nrot);
     return TRUE;
 }
 
@@ -426,6 +442,8 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     double win[2] = { s.e_lo, s.e_hi };
     bm_json_set_numbers(so, "window_ev", win, 2);
     bm_json_set_number(so, "bin_ev", s.bin_ev);
+    bm_json_set_number(so, "symmetry_operations", (double)sp.symmetry_ops);
+    json_object_set_boolean_member(so, "hall_factor_symmetrized", sp.hall_symmetrized);
     json_object_set_object_member(resp, "sampling", so);
     json_object_set_string_member(resp, "source", grid->source);
     {
