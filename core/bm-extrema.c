@@ -1338,6 +1338,279 @@ static void check_stars(grid_ctx *c, const double rot[][3][3], size_t nrot,
     }
 }
 
+/* ------------------------------------------------------------ line fits */
+
+/* Coefficients c[0..n-1] of the polynomial through (x[i], y[i]), i < n <= 8,
+ * by Gaussian elimination with partial pivoting on the Vandermonde system
+ * (x within a few units of 0: well conditioned). Returns 0, or -1. */
+static int poly_through(const double *x, const double *y, int n, double *c)
+{
+    double a[8][9];
+    for (int i = 0; i < n; i++) {
+        double v = 1.0;
+        for (int j = 0; j < n; j++, v *= x[i])
+            a[i][j] = v;
+        a[i][n] = y[i];
+    }
+    for (int col = 0; col < n; col++) {
+        int piv = col;
+        for (int r = col + 1; r < n; r++)
+            if (fabs(a[r][col]) > fabs(a[piv][col]))
+                piv = r;
+        if (!(fabs(a[piv][col]) > 1e-300))
+            return -1;
+        for (int j = 0; j <= n; j++) {
+            double tmp = a[col][j];
+            a[col][j] = a[piv][j];
+            a[piv][j] = tmp;
+        }
+        for (int r = col + 1; r < n; r++) {
+            double f = a[r][col] / a[col][col];
+            for (int j = col; j <= n; j++)
+                a[r][j] -= f * a[col][j];
+        }
+    }
+    for (int i = n - 1; i >= 0; i--) {
+        double v = a[i][n];
+        for (int j = i + 1; j < n; j++)
+            v -= a[i][j] * c[j];
+        c[i] = v / a[i][i];
+    }
+    return 0;
+}
+
+/* Value and first two derivatives of the polynomial c (n terms) at x. */
+static void poly_eval(const double *c, int n, double x, double v[3])
+{
+    v[0] = v[1] = v[2] = 0.0;
+    for (int i = n - 1; i >= 0; i--) {
+        v[2] = v[2] * x + 2.0 * v[1];
+        v[1] = v[1] * x + v[0];
+        v[0] = v[0] * x + c[i];
+    }
+}
+
+/* The band along the line from the polynomials of the sum S and the squared
+ * difference D of the band and its partner (root -1: the lower, +1: the
+ * upper), or of the band alone (d NULL): value and two derivatives. */
+static void line_band(const double *cs, const double *cd, int n, int root, double x,
+                      double e[3])
+{
+    double sv[3];
+    poly_eval(cs, n, x, sv);
+    if (!cd) {
+        memcpy(e, sv, sizeof sv);
+        return;
+    }
+    double dv[3];
+    poly_eval(cd, n, x, dv);
+    double q = sqrt(fmax(dv[0], 1e-30));
+    e[0] = 0.5 * (sv[0] + root * q);
+    e[1] = 0.5 * (sv[1] + root * dv[1] / (2.0 * q));
+    e[2] = 0.5 * (sv[2] + root * (dv[2] / (2.0 * q) - dv[1] * dv[1] / (4.0 * q * q * q)));
+}
+
+/* The line fit settings: exact polynomials through the nearest 5, 6 and 7
+ * mesh points of the line (degrees 4 to 6). */
+#define LINE_SETTINGS 3
+#define LINE_MAX_POINTS 7
+
+/* An extremum on a line of mesh points along one of its principal axes (a
+ * minimum on a symmetry axis of the zone, as silicon's on Gamma-X): the mesh
+ * energies along that line resolve the position and the mass along the axis
+ * far better than a fit over a ball of mesh points, which on a coarse mesh
+ * reaches across the crossing at the zone face. Each setting interpolates
+ * the band along the line (with its crossing partner: their sum and squared
+ * difference, which stay smooth through the crossing) and finds its
+ * stationary point within a mesh step of the estimate, recentred once; the
+ * mean of the settings moves k along the axis and gives the axial mass,
+ * their spread is the error. Only where symmetry has fixed k across the
+ * axis (snapped), so the position along it is the one unknown. */
+static void line_refine(grid_ctx *c, bm_mass_tensor *t)
+{
+    const bm_grid *g = c->g;
+    if (!t->symmetry_snapped || t->degenerate || t->divergent || c->dims != 3
+        || (t->kind != BM_EXTREMUM_MINIMUM && t->kind != BM_EXTREMUM_MAXIMUM))
+        return;
+    double x[3];   /* k in mesh-index coordinates */
+    for (int a = 0; a < 3; a++)
+        x[a] = t->k_frac[a] * (double)g->mesh[a] - g->offset[a];
+    int on_mesh = 1;
+    for (int a = 0; a < 3; a++)
+        on_mesh &= fabs(x[a] - nearbyint(x[a])) < 1e-6;
+    if (on_mesh)
+        return;   /* the local fits are centred on it already */
+    for (int m = 0; m < 3; m++) {
+        /* the shortest mesh direction p along axis m */
+        long p[3] = { 0, 0, 0 };
+        double pc[3] = { 0, 0, 0 }, plen = INFINITY;
+        for (long i = -3; i <= 3; i++)
+            for (long j = -3; j <= 3; j++)
+                for (long l = -3; l <= 3; l++) {
+                    long q[3] = { i, j, l };
+                    double v[3] = { 0, 0, 0 };
+                    for (int a = 0; a < 3; a++)
+                        for (int b = 0; b < 3; b++)
+                            v[b] += (double)q[a] * g->recip[a][b] / (double)g->mesh[a];
+                    double n = bm_norm3(v);
+                    if (n == 0.0 || n >= plen
+                        || fabs(fabs(bm_dot3(v, t->axes[m])) - n) > 1e-9 * n)
+                        continue;
+                    memcpy(p, q, sizeof q);
+                    memcpy(pc, v, sizeof v);
+                    plen = n;
+                }
+        if (!isfinite(plen))
+            continue;
+        /* a mesh point on the line through k: x - s p integral */
+        int a0 = 0;
+        for (int a = 1; a < 3; a++)
+            if (labs(p[a]) > labs(p[a0]))
+                a0 = a;
+        double s0 = NAN;
+        long base[3];
+        for (long q = -3; q <= 3 && !isfinite(s0); q++) {
+            double s = (x[a0] - (nearbyint(x[a0]) + (double)q)) / (double)p[a0];
+            int integral = 1;
+            for (int a = 0; a < 3; a++) {
+                double v = x[a] - s * (double)p[a];
+                integral &= fabs(v - nearbyint(v)) < 1e-6;
+                base[a] = lround(v);
+            }
+            if (integral)
+                s0 = s;
+        }
+        if (!isfinite(s0))
+            continue;
+        size_t npt = g->mesh[0] * g->mesh[1] * g->mesh[2];
+        int partner = t->partner_band;
+        int root = partner >= 0 && (size_t)partner > c->band ? -1 : 1;
+        double pos[LINE_SETTINGS], mass[LINE_SETTINGS];
+        int held = 0;
+        for (int st = 0; st < LINE_SETTINGS; st++) {
+            int n = 5 + st;
+            double s = s0;
+            int ok = 0;
+            for (int round = 0; round < 2; round++) {
+                long lo = (long)floor(s - (n - 1) / 2.0 + 0.5);
+                double xs[LINE_MAX_POINTS], ys[LINE_MAX_POINTS], yd[LINE_MAX_POINTS];
+                for (int i = 0; i < n; i++) {
+                    long j = lo + i;
+                    size_t w[3];
+                    for (int a = 0; a < 3; a++) {
+                        long mm = (long)g->mesh[a], v = base[a] + j * p[a];
+                        w[a] = (size_t)(((v % mm) + mm) % mm);
+                    }
+                    size_t lin = (w[0] * g->mesh[1] + w[1]) * g->mesh[2] + w[2];
+                    double e1 = g->energies[c->band * npt + lin];
+                    xs[i] = (double)j - s;
+                    if (partner >= 0) {
+                        double e2 = g->energies[(size_t)partner * npt + lin];
+                        ys[i] = e1 + e2;
+                        yd[i] = (e2 - e1) * (e2 - e1);
+                    } else {
+                        ys[i] = e1;
+                    }
+                }
+                double cs[LINE_MAX_POINTS], cd[LINE_MAX_POINTS];
+                if (poly_through(xs, ys, n, cs) != 0
+                    || (partner >= 0 && poly_through(xs, yd, n, cd) != 0))
+                    break;
+                const double *cdp = partner >= 0 ? cd : NULL;
+                /* the stationary point of the right kind within a step: a
+                 * scan for the start, then Newton on the slope */
+                double best = 0.0, bestv = NAN, sign = t->kind == BM_EXTREMUM_MINIMUM ? 1 : -1;
+                for (int i = 0; i <= 200; i++) {
+                    double u = -1.0 + i / 100.0, e[3];
+                    line_band(cs, cdp, n, root, u, e);
+                    if (!(sign * e[0] >= sign * bestv))
+                        bestv = e[0], best = u;
+                }
+                double u = best, e[3];
+                for (int it = 0; it < 30; it++) {
+                    line_band(cs, cdp, n, root, u, e);
+                    if (!(sign * e[2] > 0.0))
+                        break;
+                    double du = -e[1] / e[2];
+                    u += du;
+                    if (fabs(du) < 1e-12)
+                        break;
+                }
+                line_band(cs, cdp, n, root, u, e);
+                ok = fabs(u) < 1.0 && sign * e[2] > 0.0 && fabs(e[1]) < 1e-9 * fabs(e[2]) + 1e-12;
+                if (!ok)
+                    break;
+                s += u;
+                /* d2E/dk2 = d2E/dj2 / |p|^2 */
+                mass[held] = BM_HBAR2_OVER_ME_EV_A2 * plen * plen / e[2];
+            }
+            if (ok)
+                pos[held++] = s;
+        }
+        if (held < 2)
+            continue;
+        double ps = 0.0, ms = 0.0, plo = pos[0], phi = pos[0], mlo = mass[0], mhi = mass[0];
+        for (int i = 0; i < held; i++) {
+            ps += pos[i] / held;
+            ms += mass[i] / held;
+            plo = fmin(plo, pos[i]), phi = fmax(phi, pos[i]);
+            mlo = fmin(mlo, mass[i]), mhi = fmax(mhi, mass[i]);
+        }
+        double shift[3];
+        for (int a = 0; a < 3; a++) {
+            shift[a] = (ps - s0) * pc[a];
+            t->k[a] += shift[a];
+        }
+        for (int j = 0; j < 3; j++)
+            t->k_frac[j] = t->k[0] * c->binv[0][j] + t->k[1] * c->binv[1][j]
+                         + t->k[2] * c->binv[2][j];
+        t->line_fitted = 1;
+        for (int a = 0; a < 3; a++)
+            t->line_axis[a] = pc[a] / plen;
+        t->line_shift = bm_norm3(shift);
+        t->line_points = 4 + LINE_SETTINGS;
+        t->masses[m] = ms;
+        t->mass_errors[m] = fmax(mhi - mlo, 1e-6 * fabs(ms));
+        t->k_error = (phi - plo) * plen;
+        /* the tensor from its principal values, reordered by |m| */
+        for (int i = 0; i < 3; i++)
+            for (int j = 0; j < 3; j++) {
+                t->inv_mass[i][j] = 0.0;
+                for (int q = 0; q < 3; q++)
+                    t->inv_mass[i][j] += t->axes[q][i] * t->axes[q][j] / t->masses[q];
+            }
+        for (int a = 0; a < 3; a++)
+            for (int b = a + 1; b < 3; b++)
+                if (fabs(t->masses[b]) < fabs(t->masses[a])) {
+                    double tm = t->masses[a], te = t->mass_errors[a], tv[3];
+                    t->masses[a] = t->masses[b], t->mass_errors[a] = t->mass_errors[b];
+                    t->masses[b] = tm, t->mass_errors[b] = te;
+                    memcpy(tv, t->axes[a], sizeof tv);
+                    memcpy(t->axes[a], t->axes[b], sizeof tv);
+                    memcpy(t->axes[b], tv, sizeof tv);
+                }
+        /* convergence anew: the line fit may have settled what the ball could not */
+        double worst = 0.0;
+        int ok = 1;
+        for (int q = 0; q < 3; q++) {
+            double rel = t->mass_errors[q] / fabs(t->masses[q]);
+            ok &= rel <= c->conv;
+            worst = fmax(worst, isfinite(rel) ? rel : INFINITY);
+        }
+        if (!bm_warnings_has(&t->warnings, BM_WARN_KIND_UNCERTAIN)) {
+            drop_warnings(t, BM_WARN_NOT_CONVERGED);
+            t->converged = ok;
+            if (!ok)
+                bm_warn(&t->warnings, BM_WARN_NOT_CONVERGED, "masses not converged: the "
+                        "estimated error reaches %.1f%% of a mass (tolerance %.1f%%); a finer "
+                        "mesh, or DFT energies at a refinement stencil around this point "
+                        "fitted as a k-table, would converge them", 100.0 * worst,
+                        100.0 * c->conv);
+        }
+        return;
+    }
+}
+
 /* Snaps every refined extremum (see snap_to_symmetry) and merges the images
  * of one extremum that separate refinements reached, keeping the first. */
 static void snap_and_merge(grid_ctx *c, bm_mass_tensor *res, size_t *nres)
@@ -1347,8 +1620,10 @@ static void snap_and_merge(grid_ctx *c, bm_mass_tensor *res, size_t *nres)
     bm_errbuf err;
     if (c->dims == 3 && bm_lattice_rotations_cartesian(c->g->recip, rot, &nrot, &err) != BM_OK)
         nrot = 0;
-    for (size_t i = 0; i < *nres; i++)
+    for (size_t i = 0; i < *nres; i++) {
         snap_to_symmetry(c, (const double (*)[3][3])rot, nrot, &res[i]);
+        line_refine(c, &res[i]);
+    }
     /* sorted by energy, only neighbours within the degeneracy tolerance can
      * be images of one point or members of one star: linear in practice */
     if (*nres > 1)

@@ -76,6 +76,11 @@ typedef struct {
                                  the rotations that fix it */
     double snap_shift;        /* how far k moved, 1/Angstrom (0 when not snapped) */
     int site_rotations;       /* lattice rotations fixing the snapped k (0: not snapped) */
+    int line_fitted;          /* 1: the mass along line_axis and the position along it come
+                                 from the line of mesh points through k (see bm-extrema.c) */
+    double line_axis[3];      /* Cartesian unit vector */
+    double line_shift;        /* how far the line fit moved k, 1/Angstrom */
+    int line_points;          /* mesh points of the widest line fit */
     bm_kp_fit kp;             /* a degenerate extremum of a cubic crystal: the k.p fit of
                                  the touching bands (kp.model BM_KP_NONE otherwise) */
     bm_warnings warnings;

@@ -79,7 +79,11 @@ static const BmField response[] = {
       "mass_me, error_me}] along the lines of samples through it), symmetry_snap (a grid "
       "extremum within its k error of a point that rotations of the lattice fix: moved "
       "there, its tensor averaged over those rotations: {k_shift_inv_angstrom, "
-      "site_rotations}), degenerate_kp_fit (a "
+      "site_rotations}), line_fit (an extremum that symmetry has fixed onto a line of "
+      "mesh points along one of its principal axes: its position along the line and its "
+      "mass along it come from interpolating the mesh energies along that line with its "
+      "crossing partner, 5 to 7 points; {direction, k_shift_inv_angstrom, mesh_points}), "
+      "degenerate_kp_fit (a "
       "degenerate extremum of three or four touching bands of a cubic crystal: model "
       "(threefold-no-spin-orbit: L, M, N; fourfold-luttinger), bands, energy_ev, "
       "fit_rms_ev, points, radius_inv_angstrom, quartic_terms, lmn_hbar2_over_2me "
@@ -234,6 +238,13 @@ JsonObject *bm_mass_tensor_object(const bm_mass_tensor *t, gboolean fractional)
         bm_json_set_number(sn, "k_shift_inv_angstrom", t->snap_shift);
         json_object_set_int_member(sn, "site_rotations", t->site_rotations);
         json_object_set_object_member(o, "symmetry_snap", sn);
+    }
+    if (t->line_fitted) {
+        JsonObject *lf = json_object_new();
+        bm_json_set_vec3(lf, "direction", t->line_axis);
+        bm_json_set_number(lf, "k_shift_inv_angstrom", t->line_shift);
+        json_object_set_int_member(lf, "mesh_points", t->line_points);
+        json_object_set_object_member(o, "line_fit", lf);
     }
     if (t->kp.model != BM_KP_NONE)
         json_object_set_object_member(o, "degenerate_kp_fit", kp_fit_object(&t->kp));
