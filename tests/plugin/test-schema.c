@@ -28,7 +28,7 @@ static const Case cases[] = {
     { "mass-tensor", DATA, "{\"grid\": \"grid-small.json\", \"band\": 0}" },
     { "mass-tensor", EXAMPLES, "orte-arpes-mass.json" },
     /* a stencil that does not bracket the minimum: its estimate is beyond the data */
-    { "mass-tensor", DATA, "{\"table\": \"first-principles/si-refine-12-round-1.csv\", \"band\": \"c1\", \"extremum\": \"minimum\", \"stencil\": true}" },
+    { "mass-tensor", DATA, "{\"table\": \"first-principles/si-stencil-beyond.csv\", \"band\": \"c1\", \"extremum\": \"minimum\", \"stencil\": true}" },
     { "valley-average", NULL, "{\"valley\": " SI_VALLEY ", \"point_group\": \"Oh\", "
                               "\"position\": \"interior\"}" },
     { "valley-average", NULL, "{\"material\": \"Si\"}" },
