@@ -240,9 +240,11 @@ static void degenerate_kp(bm_mass_tensor *t, const bm_kp_lines *lines, const dou
     drop_warnings(t, BM_WARN_DEGENERATE_EXTREMUM);
     bm_warn(&t->warnings, BM_WARN_DEGENERATE_EXTREMUM, "degenerate %s: %zu bands touch here, "
             "so one sorted band has no mass tensor (none is given); their masses come from "
-            "the %s k.p fit of the %zu touching bands (degenerate_kp_fit)%s",
-            kind_name(t->kind), nb, t->kp.model == BM_KP_THREEFOLD
-            ? "threefold (no spin-orbit coupling)" : "fourfold (Luttinger)", nb, frame_note);
+            "the %s k.p fit of the %zu bands (degenerate_kp_fit)%s",
+            kind_name(t->kind), nb == 6 ? (size_t)4 : nb, t->kp.model == BM_KP_THREEFOLD
+            ? "threefold (no spin-orbit coupling)" : t->kp.model == BM_KP_FOURFOLD
+            ? "fourfold (Luttinger)" : "sixfold (spin-orbit coupling, the split-off pair "
+            "beside them included)", nb, frame_note);
     if (t->kp.rel_error <= tol)
         return;
     char how[160];
@@ -784,27 +786,60 @@ static size_t mesh_lines(const bm_grid *g, const long base[3], const size_t *gro
     return nl;
 }
 
+/* Four touching bands with a Kramers pair beside them within SPLIT_OFF_MAX_EV
+ * (below a maximum, above a minimum) take the pair in: the sixfold model
+ * with spin-orbit coupling and the split-off band. e_at(b) is band b's
+ * energy at the point (NAN where b may not join: another spin channel);
+ * group is ascending. Returns the new band count. */
+#define SPLIT_OFF_MAX_EV 1.0
+static size_t with_split_off(size_t *group, size_t nb, const double *e_at, size_t nbands,
+                             bm_extremum_kind kind, double degen)
+{
+    if (nb != 4 || (kind != BM_EXTREMUM_MAXIMUM && kind != BM_EXTREMUM_MINIMUM))
+        return nb;
+    int below = kind == BM_EXTREMUM_MAXIMUM;
+    if (below ? group[0] < 2 : group[3] + 2 >= nbands)
+        return nb;
+    size_t p1 = below ? group[0] - 2 : group[3] + 1, p2 = p1 + 1;
+    double e1 = e_at[p1], e2 = e_at[p2], edge = below ? e_at[group[0]] : e_at[group[3]];
+    double gap = below ? edge - e2 : e1 - edge;
+    if (!isfinite(e1) || !isfinite(e2) || fabs(e2 - e1) > degen || !(gap > degen)
+        || gap > SPLIT_OFF_MAX_EV)
+        return nb;
+    if (below) {
+        memmove(group + 2, group, 4 * sizeof *group);
+        group[0] = p1, group[1] = p2;
+    } else {
+        group[4] = p1, group[5] = p2;
+    }
+    return 6;
+}
+
 /* The k.p fit at a degenerate point f (fractional) of a grid: the mesh
  * energies themselves (no interpolant: it is not smooth where bands touch)
  * of the touching bands within 2.6 of the longest mesh steps. */
 static void grid_kp(grid_ctx *c, const double f[3], double e0, bm_mass_tensor *t)
 {
     const bm_grid *g = c->g;
-    size_t group[4], nb = 0;
+    size_t group[6], nb = 0;
+    double *e_at = malloc(g->nbands * sizeof *e_at);
+    if (!e_at)
+        return;
     for (size_t b = 0; b < g->nbands; b++) {
-        double eb;
-        if (!bm_grid_same_channel(g, b, c->band))
-            continue;
-        grid_eval(c, b, f, &eb, NULL, NULL);
-        if (isfinite(eb) && fabs(eb - e0) <= c->degen) {
-            if (nb == 4) {
-                nb = 5;
-                break;
-            }
-            group[nb++] = b;
-        }
+        e_at[b] = NAN;
+        if (bm_grid_same_channel(g, b, c->band))
+            grid_eval(c, b, f, &e_at[b], NULL, NULL);
     }
-    if (c->dims < 3 || nb < 3 || nb > 4)
+    for (size_t b = 0; b < g->nbands && nb < 5; b++)
+        if (isfinite(e_at[b]) && fabs(e_at[b] - e0) <= c->degen) {
+            if (nb == 4)
+                nb = 5;
+            else
+                group[nb++] = b;
+        }
+    nb = nb <= 4 ? with_split_off(group, nb, e_at, g->nbands, t->kind, c->degen) : nb;
+    free(e_at);
+    if (c->dims < 3 || nb < 3 || nb == 5 || nb > 6)
         return;
     if (!bm_kp_cubic_frame(g->recip)) {
         bm_warn(&t->warnings, BM_WARN_FIT_UNDETERMINED, "no k.p fit of the %zu touching bands: "
@@ -2063,17 +2098,23 @@ static void directional_masses(table_ctx *c, size_t i0, bm_mass_tensor *t)
 static void table_kp(table_ctx *c, size_t i0, bm_mass_tensor *t)
 {
     const double *e = c->t->energies, *k0 = tk(c, i0);
-    size_t np = c->t->npoints, group[4], nb = 0;
+    size_t np = c->t->npoints, group[6], nb = 0;
+    double *e_at = malloc(c->t->nbands * sizeof *e_at);
+    if (!e_at)
+        return;
     for (size_t b = 0; b < c->t->nbands; b++)
-        if (fabs(e[b * np + i0] - e[c->band * np + i0]) <= c->degen) {
-            if (nb == 4) {
+        e_at[b] = e[b * np + i0];
+    for (size_t b = 0; b < c->t->nbands && nb < 5; b++)
+        if (fabs(e_at[b] - e_at[c->band]) <= c->degen) {
+            if (nb == 4)
                 nb = 5;
-                break;
-            }
-            group[nb++] = b;
+            else
+                group[nb++] = b;
         }
-    if (c->dims < 3 || nb < 3 || nb > 4)
-        return;   /* the cubic models need three dimensions and three or four bands */
+    nb = nb <= 4 ? with_split_off(group, nb, e_at, c->t->nbands, t->kind, c->degen) : nb;
+    free(e_at);
+    if (c->dims < 3 || nb < 3 || nb == 5 || nb > 6)
+        return;   /* the cubic models need three dimensions and 3, 4 or 6 bands */
     double *k = malloc(np * 3 * sizeof *k), *en = malloc(np * nb * sizeof *en);
     if (k && en) {
         for (size_t i = 0; i < np; i++) {

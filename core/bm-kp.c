@@ -12,6 +12,8 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include <gsl/gsl_complex_math.h>
+#include <gsl/gsl_eigen.h>
 #include <gsl/gsl_errno.h>
 #include <gsl/gsl_multifit.h>
 
@@ -19,7 +21,9 @@
 #include "bm-linalg.h"
 #include "bm-units.h"
 
-#define NPAR_MAX 10             /* E0, L, M, N and six quartic invariants */
+#define NPAR_MAX 11             /* E0, L, M, N, six quartic invariants and (sixfold) the
+                                   split-off gap Delta in eV, always the last */
+#define NPAR_QUARTIC 10         /* E0, L, M, N and the six quartic invariants */
 #define C_KIN (0.5 * BM_HBAR2_OVER_ME_EV_A2)   /* hbar^2 / 2 m_e, eV A^2 */
 
 typedef struct {
@@ -86,8 +90,97 @@ static void symeig3_values(double h[3][3], double lam[3])
  * NULL, their derivatives d[band][p] with respect to the band parameters
  * p = 1..npar-1. Returns the number of distinct bands, or -1. */
 static int model_eval(const kp_params *m, const double k[3], double lam[3],
+                      double d[3][NPAR_MAX]);
+
+/* The sixfold model: H3(k) on each spin plus (Delta/3)(L.sigma - 1) in the
+ * basis (x up, x down, y up, ...), in units of hbar^2/2m_e; the Kramers
+ * pairs' eigenvalues (a pair's members are equal: the model has inversion and
+ * time reversal) and, when d is not NULL, their derivatives by
+ * Hellmann-Feynman, parameter 4 being Delta in eV. */
+static int sixfold_eval(const kp_params *m, const double k[3], double lam[3],
+                        double d[3][NPAR_MAX])
+{
+    const int nb = m->npar - 2;   /* band parameters 1 .. nb; Delta is x[nb + 1] */
+    double b[NPAR_MAX][3][3];
+    for (int p = 1; p <= nb; p++)
+        threefold_basis(p, k, b[p]);
+    /* L.sigma for l = 1 in the Cartesian p basis, (L_c)_ij = -i e_cij:
+     * element ((i s), (j t)) = sum_c -i e_cij (sigma_c)_st */
+    static const double sig_re[3][2][2] = { { { 0, 1 }, { 1, 0 } }, { { 0, 0 }, { 0, 0 } },
+                                            { { 1, 0 }, { 0, -1 } } };
+    static const double sig_im[3][2][2] = { { { 0, 0 }, { 0, 0 } }, { { 0, -1 }, { 1, 0 } },
+                                            { { 0, 0 }, { 0, 0 } } };
+    double so_re[6][6], so_im[6][6];
+    for (int i = 0; i < 3; i++)
+        for (int j = 0; j < 3; j++)
+            for (int s = 0; s < 2; s++)
+                for (int t = 0; t < 2; t++) {
+                    double re = 0.0, im = 0.0;
+                    for (int c = 0; c < 3; c++) {
+                        double e = (c == i || c == j || i == j) ? 0.0
+                                 : ((c + 1) % 3 == i ? 1.0 : -1.0);   /* e_cij */
+                        /* -i e (re + i im) = e im - i e re */
+                        re += e * sig_im[c][s][t];
+                        im += -e * sig_re[c][s][t];
+                    }
+                    so_re[2 * i + s][2 * j + t] = re - (i == j && s == t);
+                    so_im[2 * i + s][2 * j + t] = im;
+                }
+    gsl_matrix_complex *h = gsl_matrix_complex_alloc(6, 6);
+    gsl_matrix_complex *v = gsl_matrix_complex_alloc(6, 6);
+    gsl_vector *ev = gsl_vector_alloc(6);
+    gsl_eigen_hermv_workspace *w = gsl_eigen_hermv_alloc(6);
+    int ret = -1;
+    if (!h || !v || !ev || !w)
+        goto done;
+    double so = m->x[nb + 1] / (3.0 * C_KIN);
+    for (int a = 0; a < 6; a++)
+        for (int c = 0; c < 6; c++) {
+            double re = so * so_re[a][c], im = so * so_im[a][c];
+            if (a % 2 == c % 2)
+                for (int p = 1; p <= nb; p++)
+                    re += m->x[p] * b[p][a / 2][c / 2];
+            gsl_matrix_complex_set(h, a, c, gsl_complex_rect(re, im));
+        }
+    if (gsl_eigen_hermv(h, ev, v, w) != GSL_SUCCESS
+        || gsl_eigen_hermv_sort(ev, v, GSL_EIGEN_SORT_VAL_ASC) != GSL_SUCCESS)
+        goto done;
+    for (int n = 0; n < 3; n++)
+        lam[n] = 0.5 * (gsl_vector_get(ev, 2 * n) + gsl_vector_get(ev, 2 * n + 1));
+    if (d)
+        for (int n = 0; n < 3; n++) {
+            for (int p = 1; p <= nb + 1; p++)
+                d[n][p] = 0.0;
+            for (int q = 2 * n; q < 2 * n + 2; q++)
+                for (int a = 0; a < 6; a++)
+                    for (int c = 0; c < 6; c++) {
+                        gsl_complex va = gsl_matrix_complex_get(v, a, q);
+                        gsl_complex vc = gsl_matrix_complex_get(v, c, q);
+                        /* Re(conj(va) M_ac vc) for the real parts of M... */
+                        double pr = GSL_REAL(va) * GSL_REAL(vc) + GSL_IMAG(va) * GSL_IMAG(vc);
+                        double pi = GSL_REAL(va) * GSL_IMAG(vc) - GSL_IMAG(va) * GSL_REAL(vc);
+                        if (a % 2 == c % 2)
+                            for (int p = 1; p <= nb; p++)
+                                d[n][p] += 0.5 * b[p][a / 2][c / 2] * pr;
+                        d[n][nb + 1] += 0.5 * (so_re[a][c] * pr - so_im[a][c] * pi)
+                                 / (3.0 * C_KIN);
+                    }
+        }
+    ret = 3;
+done:
+    gsl_matrix_complex_free(h);
+    gsl_matrix_complex_free(v);
+    gsl_vector_free(ev);
+    if (w)
+        gsl_eigen_hermv_free(w);
+    return ret;
+}
+
+static int model_eval(const kp_params *m, const double k[3], double lam[3],
                       double d[3][NPAR_MAX])
 {
+    if (m->model == BM_KP_SIXFOLD)
+        return sixfold_eval(m, k, lam, d);
     if (m->model == BM_KP_FOURFOLD) {
         double g1 = m->x[1], g2 = m->x[2], g3 = m->x[3];
         double k2 = bm_dot3(k, k);
@@ -137,7 +230,7 @@ static int model_eval(const kp_params *m, const double k[3], double lam[3],
 /* Which distinct model band a data band is (fourfold: the pairs). */
 static int distinct_of(bm_kp_model model, size_t band)
 {
-    return model == BM_KP_FOURFOLD ? (int)band / 2 : (int)band;
+    return model == BM_KP_THREEFOLD ? (int)band : (int)band / 2;
 }
 
 typedef struct {
@@ -260,6 +353,25 @@ done:
     return ret;
 }
 
+/* The split-off gap at the point nearest the centre: the mean of the J = 3/2
+ * bands (the upper four at a maximum, the lower four at a minimum) less the
+ * split-off pair's, signed so that the pair lies at E0 - Delta. */
+static double split_off_start(const bm_kp_data *d, double rmax)
+{
+    size_t best = 0;
+    for (size_t i = 1; i < d->npoints; i++)
+        if (bm_norm3(d->k + 3 * i) < bm_norm3(d->k + 3 * best))
+            best = i;
+    (void)rmax;
+    const double *e = d->energies;
+    size_t n = d->npoints;
+    double lo = 0.5 * (e[0 * n + best] + e[1 * n + best]);
+    double hi = 0.5 * (e[4 * n + best] + e[5 * n + best]);
+    double mid = 0.5 * (e[2 * n + best] + e[3 * n + best]);
+    /* a maximum has the pair below (mid close to hi), a minimum above */
+    return fabs(hi - mid) < fabs(mid - lo) ? hi - lo : -(hi - lo);
+}
+
 /* The best of several starts: a model of sorted eigenvalues has more than one
  * local optimum (the sign of N, which band is which). */
 static int fit_model(const bm_kp_data *d, bm_kp_model model, int quartic, double rmax,
@@ -295,8 +407,13 @@ static int fit_model(const bm_kp_data *d, bm_kp_model model, int quartic, double
             m.x[1] = -s;                 /* gamma1 */
             m.x[2] = 0.2 * fabs(s);
             m.x[3] = 0.3 * nstart[t] * fabs(s);
+        } else if (model == BM_KP_SIXFOLD) {
+            m.npar = quartic ? NPAR_QUARTIC + 1 : 5;
+            m.x[1] = m.x[2] = s;
+            m.x[3] = nstart[t] * s;
+            m.x[m.npar - 1] = split_off_start(d, rmax);
         } else {
-            m.npar = quartic ? NPAR_MAX : 4;
+            m.npar = quartic ? NPAR_QUARTIC : 4;
             m.x[1] = m.x[2] = s;
             m.x[3] = nstart[t] * s;
         }
@@ -319,10 +436,18 @@ static int refit_from(const bm_kp_data *d, const kp_params *from, int quartic, d
 {
     *m = *from;
     if (m->model == BM_KP_THREEFOLD) {
-        int np = quartic ? NPAR_MAX : 4;
+        int np = quartic ? NPAR_QUARTIC : 4;
         for (int p = m->npar; p < np; p++)
             m->x[p] = 0.0;
         m->npar = np;
+    } else if (m->model == BM_KP_SIXFOLD) {
+        /* the band parameters, then Delta last */
+        int np = quartic ? NPAR_QUARTIC + 1 : 5;
+        double delta = from->x[from->npar - 1];
+        for (int p = 4; p < NPAR_MAX; p++)
+            m->x[p] = p < from->npar - 1 ? from->x[p] : 0.0;
+        m->npar = np;
+        m->x[np - 1] = delta;
     }
     return gauss_newton(d, rmax, m, fs);
 }
@@ -411,6 +536,30 @@ static void gamma_from_lmn(const double l[3], double g[3])
 static int derive(const kp_params *m, int ndist, derived *dv, double *qchange)
 {
     kp_params q = quadratic_part(m);
+    if (m->model == BM_KP_SIXFOLD) {
+        /* at the point: the J = 3/2 projection (the fourfold model of these
+         * gamma) and the split-off pair's isotropic curvature (L + 2M)/3 */
+        memcpy(dv->lmn, m->x + 1, sizeof dv->lmn);
+        gamma_from_lmn(dv->lmn, dv->gamma);
+        kp_params f = { .model = BM_KP_FOURFOLD, .npar = 4 };
+        memcpy(f.x + 1, dv->gamma, sizeof dv->gamma);
+        derived d4;
+        if (derive(&f, 2, &d4, qchange) != 0)
+            return -1;
+        double so = (dv->lmn[0] + 2.0 * dv->lmn[1]) / 3.0;
+        double mso = so != 0.0 ? 1.0 / so : INFINITY;
+        int up = so > 0.0;   /* a minimum: the split-off pair lies above */
+        for (int t = 0; t < 3; t++) {
+            dv->dir[t][up ? 2 : 0] = mso;
+            dv->dir[t][up ? 0 : 1] = d4.dir[t][0];
+            dv->dir[t][up ? 1 : 2] = d4.dir[t][1];
+        }
+        dv->dos[up ? 2 : 0] = mso;
+        dv->dos[up ? 0 : 1] = d4.dos[0];
+        dv->dos[up ? 1 : 2] = d4.dos[1];
+        (void)ndist;
+        return 0;
+    }
     if (m->model == BM_KP_FOURFOLD) {
         memcpy(dv->gamma, q.x + 1, sizeof dv->gamma);
         lmn_from_gamma(dv->gamma, dv->lmn);
@@ -466,11 +615,11 @@ static int propagate(const kp_params *m, const fit_stats *fs, int ndist, derived
  * change against the independent fits m2 and m3, either may be NULL, in
  * quadrature). */
 static bm_status report(const kp_params *m1, const fit_stats *f1, const kp_params *m2,
-                        const kp_params *m3, int quartic, double rfit, size_t npoints,
-                        double rms, bm_kp_fit *out, bm_errbuf *err)
+                        double inner_scale, const kp_params *m3, int quartic, double rfit,
+                        size_t npoints, double rms, bm_kp_fit *out, bm_errbuf *err)
 {
     bm_kp_model model = m1->model;
-    int ndist = model == BM_KP_THREEFOLD ? 3 : 2;
+    int ndist = model == BM_KP_FOURFOLD ? 2 : 3;
     derived v1, v2, v3, s1;
     double qchange = 0.0, qc2;
     if (derive(m1, ndist, &v1, &qchange) != 0 || propagate(m1, f1, ndist, &s1) != 0)
@@ -482,6 +631,17 @@ static bm_status report(const kp_params *m1, const fit_stats *f1, const kp_param
     out->quartic = quartic;
     out->radius = rfit;
     out->e0_ev = m1->x[0];
+    out->split_off_ev = out->split_off_error_ev = NAN;
+    if (model == BM_KP_SIXFOLD) {
+        double sys = 0.0;
+        if (have2)
+            sys = fmax(sys, inner_scale * fabs(m2->x[m2->npar - 1] - m1->x[m1->npar - 1]));
+        if (have3)
+            sys = fmax(sys, fabs(m3->x[m3->npar - 1] - m1->x[m1->npar - 1]));
+        int q = m1->npar - 1;
+        out->split_off_ev = m1->x[q];
+        out->split_off_error_ev = hypot(sqrt(fmax(0.0, f1->cov[q][q])), sys);
+    }
     out->rms_ev = rms;
     out->npoints = npoints;
     out->ndistinct = (size_t)ndist;
@@ -490,7 +650,7 @@ static bm_status report(const kp_params *m1, const fit_stats *f1, const kp_param
     const double *a3 = (const double *)&v3, *as = (const double *)&s1;
     double tot[sizeof(derived) / sizeof(double)];
     for (size_t v = 0; v < sizeof(derived) / sizeof(double); v++) {
-        double sys = have2 ? fabs(a1[v] - a2[v]) : 0.0;
+        double sys = have2 ? inner_scale * fabs(a1[v] - a2[v]) : 0.0;
         if (have3)
             sys = fmax(sys, fabs(a1[v] - a3[v]));
         tot[v] = have2 || have3 ? hypot(as[v], sys) : NAN;
@@ -536,9 +696,10 @@ bm_status bm_kp_fit_bands(const bm_kp_data *d, bm_kp_fit *out, bm_errbuf *err)
     if (!out)
         return bm_fail(err, BM_EINVAL, "k.p fit: no output given");
     memset(out, 0, sizeof *out);
-    if (!d || (d->nbands != 3 && d->nbands != 4))
+    if (!d || (d->nbands != 3 && d->nbands != 4 && d->nbands != 6))
         return bm_fail(err, BM_EINVAL, "k.p fit: %zu touching bands; the cubic models take "
-                       "3 (no spin-orbit coupling) or 4 (two Kramers pairs)", d ? d->nbands : 0);
+                       "3 (no spin-orbit coupling), 4 (two Kramers pairs) or 6 (with the "
+                       "split-off pair)", d ? d->nbands : 0);
     double rmax = 0.0;
     for (size_t i = 0; i < d->npoints; i++) {
         for (int a = 0; a < 3; a++)
@@ -551,15 +712,16 @@ bm_status bm_kp_fit_bands(const bm_kp_data *d, bm_kp_fit *out, bm_errbuf *err)
         rmax = fmax(rmax, bm_norm3(d->k + 3 * i));
     }
     double rfit = d->radius > 0.0 && d->radius < rmax ? d->radius : rmax;
-    bm_kp_model model = d->nbands == 3 ? BM_KP_THREEFOLD : BM_KP_FOURFOLD;
+    bm_kp_model model = d->nbands == 3 ? BM_KP_THREEFOLD
+                      : d->nbands == 4 ? BM_KP_FOURFOLD : BM_KP_SIXFOLD;
     /* the main fit: every point, with the quartic invariants if they fit */
     kp_params m1, m2;
     fit_stats f1, f2;
-    int quartic = model == BM_KP_THREEFOLD;
+    int quartic = model == BM_KP_THREEFOLD;   /* the sixfold model stays quadratic */
     int rc = fit_model(d, model, quartic, rfit, &m1, &f1);
     /* the quartic model wants some redundancy (six equations beyond its
      * parameters) and points that determine every invariant */
-    if (rc == 0 && quartic && (f1.neq < (size_t)NPAR_MAX + 6 || f1.rank < (size_t)NPAR_MAX))
+    if (rc == 0 && quartic && (f1.neq < (size_t)m1.npar + 6 || f1.rank < (size_t)m1.npar))
         rc = -1;
     if (rc == -1 && quartic) {
         quartic = 0;
@@ -576,13 +738,9 @@ bm_status bm_kp_fit_bands(const bm_kp_data *d, bm_kp_fit *out, bm_errbuf *err)
      * on every point given when the main radius leaves some out */
     kp_params m3;
     fit_stats f3;
-    int rc2 = refit_from(d, &m1, 0, quartic ? 0.7 * rfit : rfit, &m2, &f2);
+    int rc2 = refit_from(d, &m1, 0, 0.7 * rfit, &m2, &f2);
     if (rc2 != 0 && quartic)
         rc2 = refit_from(d, &m1, 0, rfit, &m2, &f2);
-    if (rc2 == 0 && !quartic && rfit == rmax) {
-        /* a quadratic main fit: the inner points are the check */
-        rc2 = refit_from(d, &m1, 0, 0.7 * rfit, &m2, &f2);
-    }
     int rc3 = rfit < rmax ? refit_from(d, &m1, quartic, rmax, &m3, &f3) : -1;
     if (rc2 == -2 || rc3 == -2)
         return bm_fail(err, BM_ENOMEM, "k.p fit: out of memory");
@@ -590,8 +748,13 @@ bm_status bm_kp_fit_bands(const bm_kp_data *d, bm_kp_fit *out, bm_errbuf *err)
     size_t used = 0;
     for (size_t i = 0; i < d->npoints; i++)
         used += bm_norm3(d->k + 3 * i) <= rfit;
-    return report(&m1, &f1, rc2 == 0 ? &m2 : NULL, rc3 == 0 ? &m3 : NULL, quartic, rfit,
-                  used, sqrt(f1.rss / (double)f1.neq), out, err);
+    /* a quadratic model's truncation bias grows as the radius squared: the
+     * fit at 0.7 of it carries about half of it, so the difference is
+     * doubled to estimate the whole; a quartic main fit is checked against
+     * the smaller model instead, whose difference is taken as it is */
+    double inner_scale = quartic ? 1.0 : 2.0;
+    return report(&m1, &f1, rc2 == 0 ? &m2 : NULL, inner_scale, rc3 == 0 ? &m3 : NULL,
+                  quartic, rfit, used, sqrt(f1.rss / (double)f1.neq), out, err);
 }
 
 /* ------------------------------------------------------------ lines */
@@ -705,8 +868,8 @@ bm_status bm_kp_fit_lines(const bm_kp_lines *l, bm_kp_fit *out, bm_errbuf *err)
     m1.x[0] += centre;
     if (rc2 == 0)
         m2.x[0] += centre;
-    st = report(&m1, &f1, rc2 == 0 ? &m2 : NULL, NULL, 0, reach, 1 + 2 * nl * l->npoints,
-                rms, out, err);
+    st = report(&m1, &f1, rc2 == 0 ? &m2 : NULL, 1.0, NULL, 0, reach,
+                1 + 2 * nl * l->npoints, rms, out, err);
 done:
     free(k);
     free(e1);

@@ -11,7 +11,13 @@
  *    without spin-orbit coupling forbids odd powers);
  *  - fourfold (two Kramers pairs, split-off band far away; Luttinger, Phys.
  *    Rev. 102, 1030 (1956)): E - E0 = -(gamma1 k^2 -/+ 2 sqrt(gamma2^2 k^4 +
- *    3 (gamma3^2 - gamma2^2)(kx^2 ky^2 + ky^2 kz^2 + kz^2 kx^2))), quadratic only.
+ *    3 (gamma3^2 - gamma2^2)(kx^2 ky^2 + ky^2 kz^2 + kz^2 kx^2))), quadratic only;
+ *  - sixfold (spin-orbit coupling, the split-off pair included; Dresselhaus,
+ *    Kip & Kittel's H in the six p-like spin states plus (Delta/3)(L.sigma - 1),
+ *    which puts the J = 3/2 states at E0 and the split-off pair at E0 - Delta):
+ *    quadratic in k, exact in Delta, so it holds across energies comparable
+ *    to the split-off gap, where the fourfold form fails. Its masses at the
+ *    point are those of the J = 3/2 projection and -1/gamma1 (split-off).
  * The parameter sets are one linear map apart (the J = 3/2 projection of the
  * threefold band when the spin-orbit splitting is large against the energies
  * fitted): gamma1 = -(L + 2M)/3, gamma2 = -(L - M)/6, gamma3 = -N/6. */
@@ -24,7 +30,9 @@
 typedef enum {
     BM_KP_NONE,        /* no fit */
     BM_KP_THREEFOLD,   /* three bands, no spin-orbit coupling: L, M, N */
-    BM_KP_FOURFOLD     /* four bands in two Kramers pairs: gamma1, gamma2, gamma3 */
+    BM_KP_FOURFOLD,    /* four bands in two Kramers pairs: gamma1, gamma2, gamma3 */
+    BM_KP_SIXFOLD      /* six bands in three Kramers pairs, spin-orbit coupling with the
+                          split-off pair: L, M, N and the split-off gap */
 } bm_kp_model;
 
 /* Energies of the touching bands around the degenerate point. */
@@ -32,7 +40,7 @@ typedef struct {
     size_t npoints;
     const double *k;          /* [point][3], Cartesian, 1/Angstrom, relative to the
                                  degenerate point, cubic axes */
-    size_t nbands;            /* 3: threefold; 4: fourfold */
+    size_t nbands;            /* 3: threefold; 4: fourfold; 6: sixfold */
     const double *energies;   /* [band][point], eV, bands ascending at every point */
     double radius;            /* the main fit takes the points within it, 1/Angstrom;
                                  those beyond serve the error estimate (0: every point) */
@@ -61,9 +69,11 @@ typedef struct {
     double rms_ev;            /* residual of the fit */
     double lmn[3], lmn_error[3];        /* L, M, N (hbar^2/2m_e units) */
     double gamma[3], gamma_error[3];    /* gamma1..3 of the J = 3/2 projection */
-    size_t ndistinct;         /* distinct bands: 3 (threefold) or 2 (fourfold) */
+    double split_off_ev, split_off_error_ev;   /* sixfold: the fitted gap Delta */
+    size_t ndistinct;         /* distinct bands: 3 (threefold, sixfold) or 2 (fourfold) */
     double directional[3][3]; /* [direction [100],[110],[111]][distinct band, lowest
-                                 first]: signed masses, m_e (INFINITY: flat) */
+                                 first (sixfold at a maximum: split-off, light, heavy)]:
+                                 signed masses, m_e (INFINITY: flat) */
     double directional_error[3][3];
     double dos_mass[3];       /* sphere-averaged DOS mass of each distinct band, m_e,
                                  signed like the band; INFINITY when its surface
@@ -74,7 +84,7 @@ typedef struct {
                                  bands) of gamma, m_e; NAN unless a hole maximum with
                                  a closed heavy surface */
     size_t nbands;            /* the caller's band indices of the fitted bands */
-    size_t band_index[4];
+    size_t band_index[6];
     bm_warnings warnings;     /* the caller frees them: bm_warnings_clear */
 } bm_kp_fit;
 

@@ -85,7 +85,10 @@ static const BmField response[] = {
       "crossing partner, 5 to 7 points; {direction, k_shift_inv_angstrom, mesh_points}), "
       "degenerate_kp_fit (a "
       "degenerate extremum of three or four touching bands of a cubic crystal: model "
-      "(threefold-no-spin-orbit: L, M, N; fourfold-luttinger), bands, energy_ev, "
+      "(threefold-no-spin-orbit: L, M, N; fourfold-luttinger; sixfold-spin-orbit where a "
+      "Kramers pair lies within 1 eV beyond four touching bands: L, M, N and "
+      "split_off_gap_ev with split_off_gap_error_ev, masses of the split-off pair, light "
+      "and heavy bands), bands, energy_ev, "
       "fit_rms_ev, points, radius_inv_angstrom, quartic_terms, lmn_hbar2_over_2me "
       "{L, M, N} and lmn_error, luttinger_parameters {gamma1, gamma2, gamma3} (the J = 3/2 "
       "projection) and luttinger_parameters_error, directional_masses_me {100, 110, 111: "
@@ -112,7 +115,9 @@ static JsonObject *kp_fit_object(const bm_kp_fit *f)
     static const char *dir_names[3] = { "100", "110", "111" };
     JsonObject *o = json_object_new();
     json_object_set_string_member(o, "model", f->model == BM_KP_THREEFOLD
-                                  ? "threefold-no-spin-orbit" : "fourfold-luttinger");
+                                  ? "threefold-no-spin-orbit"
+                                  : f->model == BM_KP_FOURFOLD ? "fourfold-luttinger"
+                                  : "sixfold-spin-orbit");
     JsonArray *bands = json_array_new();
     for (size_t q = 0; q < f->nbands; q++)
         json_array_add_int_element(bands, (gint64)f->band_index[q]);
@@ -122,6 +127,10 @@ static JsonObject *kp_fit_object(const bm_kp_fit *f)
     json_object_set_int_member(o, "points", (gint64)f->npoints);
     bm_json_set_number(o, "radius_inv_angstrom", f->radius);
     json_object_set_boolean_member(o, "quartic_terms", f->quartic);
+    if (f->model == BM_KP_SIXFOLD) {
+        bm_json_set_number(o, "split_off_gap_ev", f->split_off_ev);
+        bm_json_set_number(o, "split_off_gap_error_ev", f->split_off_error_ev);
+    }
     static const char *lmn_names[3] = { "L", "M", "N" };
     static const char *g_names[3] = { "gamma1", "gamma2", "gamma3" };
     JsonObject *lmn = json_object_new(), *lmn_e = json_object_new();
