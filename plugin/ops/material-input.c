@@ -53,8 +53,10 @@ static const Field fields[] = {
     { "band_gap_narrowing", F_BGN, AT(band_gap_narrowing), 0 },
 };
 
-const char *const bm_material_ignored_keys[] = { "comment", "derived", "warnings",
-                                                 "warning_codes", NULL };
+#define N_IGNORED_KEYS 4
+const char *const bm_material_ignored_keys[N_IGNORED_KEYS + 1] = { "comment", "derived",
+                                                                   "warnings", "warning_codes",
+                                                                   NULL };
 
 /* Keys of earlier versions: a clear error naming the new key. */
 static const char *const renamed[][2] = {
@@ -460,7 +462,8 @@ static gboolean read_field(BmMaterialInput *in, JsonObject *o, const Field *f,
 static gboolean read_object(BmMaterialInput *in, JsonObject *o, const char *where,
                             GError **error)
 {
-    const char *allowed[G_N_ELEMENTS(fields) + 4];
+    /* every field, every ignored key and the closing NULL */
+    const char *allowed[G_N_ELEMENTS(fields) + N_IGNORED_KEYS + 1];
     size_t k = 0;
     for (size_t i = 0; i < G_N_ELEMENTS(fields); i++)
         allowed[k++] = fields[i].key;
