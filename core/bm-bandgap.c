@@ -21,12 +21,16 @@ static const char *form_name(bm_gap_kind kind)
          : kind == BM_GAP_BOSE_EINSTEIN ? "Bose-Einstein" : "fixed";
 }
 
-static bm_status check_params(const bm_gap_model *g, bm_errbuf *err)
+bm_status bm_gap_model_check(const bm_gap_model *g, bm_errbuf *err)
 {
     const char *form = form_name(g->kind);
     if (!isfinite(g->eg0_ev))
         return bm_fail(err, BM_EINVAL, "band gap (%s): Eg0 = %g eV is not finite", form,
                        g->eg0_ev);
+    if (!(fabs(g->eg0_ev) <= BM_GAP_MAX_EV))
+        return bm_fail(err, BM_EINVAL, "band gap (%s): Eg0 = %g eV is outside the domain "
+                       "|Eg| <= %g eV (gaps are a few eV, the widest crystals about 14 eV: "
+                       "check the unit)", form, g->eg0_ev, BM_GAP_MAX_EV);
     if (g->kind == BM_GAP_VARSHNI) {
         if (!(g->alpha_ev_per_k >= 0.0) || !isfinite(g->alpha_ev_per_k))
             return bm_fail(err, BM_EINVAL, "band gap (Varshni): alpha = %g eV/K must be >= 0",
@@ -54,7 +58,7 @@ bm_status bm_gap_at(const bm_gap_model *g, double t_k, double *eg_ev, bm_warning
     if (g->kind != BM_GAP_VARSHNI && g->kind != BM_GAP_BOSE_EINSTEIN
         && g->kind != BM_GAP_FIXED)
         return bm_fail(err, BM_EINVAL, "band gap: no gap model given");
-    bm_status s = check_params(g, err);
+    bm_status s = bm_gap_model_check(g, err);
     if (s)
         return s;
     const char *form = form_name(g->kind);
@@ -70,6 +74,10 @@ bm_status bm_gap_at(const bm_gap_model *g, double t_k, double *eg_ev, bm_warning
         double occ = x > 700.0 ? 0.0 : 1.0 / expm1(x);
         eg = g->eg0_ev - 2.0 * g->a_b_ev * occ;
     }
+    if (!(fabs(eg) <= BM_GAP_MAX_EV))
+        return bm_fail(err, BM_EINVAL, "band gap (%s): Eg(%g K) = %g eV is outside the domain "
+                       "|Eg| <= %g eV: the parameters are used far outside their range", form,
+                       t_k, eg, BM_GAP_MAX_EV);
     *eg_ev = eg;
     if (eg <= 0.0)
         bm_warn(w, BM_WARN_GAP_NOT_POSITIVE, "band gap (%s): Eg(%g K) = %g eV is not positive; the "

@@ -30,13 +30,22 @@ typedef struct {
     const char *source;      /* where the parameters come from */
 } bm_gap_model;
 
+/* The domain of gaps (Eg0, and Eg at any temperature): |Eg| <= 100 eV. A
+ * larger value is a unit mistake, and would defeat the carrier solver. */
+#define BM_GAP_MAX_EV 100.0
+
+/* The parameters of a model (kind VARSHNI, BOSE_EINSTEIN or FIXED): finite,
+ * within their ranges and |Eg0| <= BM_GAP_MAX_EV; BM_EINVAL naming the value
+ * otherwise. bm_gap_at checks the same, and its result against the domain. */
+bm_status bm_gap_model_check(const bm_gap_model *g, bm_errbuf *err);
+
 /* "varshni", "bose-einstein", "fixed", "none". */
 const char *bm_gap_kind_name(bm_gap_kind kind);
 
 /* Eg(t_k) of the model, T >= 0 (T = 0 gives Eg0).  A gap that comes out <= 0
  * is returned with a warning (w may be NULL), since the parameters are then
- * used outside their range.  Bad parameters, no model (BM_GAP_NONE) or a bad
- * T are BM_EINVAL naming the value. */
+ * used outside their range.  Bad parameters, no model (BM_GAP_NONE), a bad
+ * T or a gap beyond |Eg| <= BM_GAP_MAX_EV are BM_EINVAL naming the value. */
 bm_status bm_gap_at(const bm_gap_model *g, double t_k, double *eg_ev, bm_warnings *w,
                     bm_errbuf *err);
 

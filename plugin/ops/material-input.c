@@ -53,8 +53,10 @@ static const Field fields[] = {
     { "band_gap_narrowing", F_BGN, AT(band_gap_narrowing), 0 },
 };
 
-const char *const bm_material_ignored_keys[] = { "comment", "derived", "warnings",
-                                                 "warning_codes", NULL };
+#define N_IGNORED_KEYS 4
+const char *const bm_material_ignored_keys[N_IGNORED_KEYS + 1] = { "comment", "derived",
+                                                                   "warnings", "warning_codes",
+                                                                   NULL };
 
 /* Keys of earlier versions: a clear error naming the new key. */
 static const char *const renamed[][2] = {
@@ -163,6 +165,19 @@ static gboolean sub_object(JsonObject *o, const char *key, const char *where,
     return TRUE;
 }
 
+/* The core's check of a gap model, named by its key: refused on reading, not
+ * when a later calculation trips over it. */
+static gboolean gap_in_domain(const bm_gap_model *g, const char *where, const char *key,
+                              GError **error)
+{
+    bm_errbuf err = {0};
+    if (bm_gap_model_check(g, &err) == BM_OK)
+        return TRUE;
+    g_autofree char *ctx = g_strdup_printf("%s: key \"%s\"", where, key);
+    bm_error_from_core(error, &err, ctx);
+    return FALSE;
+}
+
 static gboolean read_gap(BmMaterialInput *in, JsonObject *o, const Field *f, const char *where,
                          GError **error)
 {
@@ -181,7 +196,7 @@ static gboolean read_gap(BmMaterialInput *in, JsonObject *o, const Field *f, con
             return invalid(error, "%s: key \"band_gap_ev\" must be a number", where);
         g->eg0_ev = v.value;
         g->source = v.source;
-        return TRUE;
+        return gap_in_domain(g, where, f->key, error);
     }
     static const char *const vkeys[] = { "eg0_ev", "alpha_ev_per_k", "beta_k", "source", NULL };
     static const char *const bkeys[] = { "eg0_ev", "a_b_ev", "theta_k", "source", NULL };
@@ -195,7 +210,8 @@ static gboolean read_gap(BmMaterialInput *in, JsonObject *o, const Field *f, con
                 && bm_json_number(p, "beta_k", w, &g->beta_k, error)
               : bm_json_number(p, "a_b_ev", w, &g->a_b_ev, error)
                 && bm_json_number(p, "theta_k", w, &g->theta_k, error))
-        && source_of(in, p, w, in->origin, &g->source, error);
+        && source_of(in, p, w, in->origin, &g->source, error)
+        && gap_in_domain(g, where, f->key, error);
 }
 
 /* "conduction_valley": position, Cartesian direction, masses (bm_valley_info). */
@@ -460,7 +476,8 @@ static gboolean read_field(BmMaterialInput *in, JsonObject *o, const Field *f,
 static gboolean read_object(BmMaterialInput *in, JsonObject *o, const char *where,
                             GError **error)
 {
-    const char *allowed[G_N_ELEMENTS(fields) + 4];
+    /* every field, every ignored key and the closing NULL */
+    const char *allowed[G_N_ELEMENTS(fields) + N_IGNORED_KEYS + 1];
     size_t k = 0;
     for (size_t i = 0; i < G_N_ELEMENTS(fields); i++)
         allowed[k++] = fields[i].key;

@@ -173,13 +173,16 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
             bm_error_from_core(error, &err, "request: key \"name\"");
             return NULL;
         }
-        if (!at_t(m, t, &eg, &mdh, &w, error))
+        if (!at_t(m, t, &eg, &mdh, &w, error)) {
+            bm_warnings_clear(&w);
             return NULL;
+        }
         /* the material itself is a valid material file; "derived" and
          * "warnings" are skipped when it is read back */
         JsonObject *resp = bm_material_to_json(m);
         json_object_set_object_member(resp, "derived", derived(m, t, eg, mdh, &w));
         bm_json_warn_all(resp, &w);
+        bm_warnings_clear(&w);
         return resp;
     }
     JsonArray *pts = json_array_new();
@@ -187,6 +190,7 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
         const bm_material *m = bm_material_at(i);
         if (!at_t(m, t, &eg, &mdh, &w, error)) {
             json_array_unref(pts);
+            bm_warnings_clear(&w);
             return NULL;
         }
         g_autofree char *bs = NULL;

@@ -234,6 +234,7 @@ static void test_band_edge_mass(void)
                     BM_EINVAL);
     g_assert_nonnull(strstr(err.message, "open"));
     g_assert_cmpint(warn.count, >, 0);
+    bm_warnings_clear(&warn);
 }
 
 int main(int argc, char **argv)

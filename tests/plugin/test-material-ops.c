@@ -425,6 +425,27 @@ static void test_band_edge_mass(void)
                       <, 1e-6);
 }
 
+/* Gap parameters beyond |Eg| <= 100 eV are refused by key when the material
+ * is read (a gap of 1e308 eV once made the carrier solver fail to converge,
+ * an internal error); a gap model that leaves the domain at some temperature
+ * is refused naming the temperature. */
+static void test_gap_domain(void)
+{
+    op_expect_invalid("band-gap", "{\"material\": {\"band_gap_ev\": {\"value\": 1e308}}, "
+                      "\"temperature_k\": 300}", "key \"band_gap_ev\"");
+    op_expect_invalid("carrier-statistics", "{\"material\": {\"varshni\": {\"eg0_ev\": 1e308, "
+                      "\"alpha_ev_per_k\": 4.73e-4, \"beta_k\": 636}, \"electron_dos_mass_me\": "
+                      "{\"value\": 1.09}, \"statistics_hole_dos_mass_me\": {\"value\": 1.15}}, "
+                      "\"temperature_k\": 300}", "|Eg| <= 100 eV");
+    op_expect_invalid("band-gap", "{\"material\": {\"varshni\": {\"eg0_ev\": 1.17, "
+                      "\"alpha_ev_per_k\": 1e308, \"beta_k\": 636}}, \"temperature_k\": 300}",
+                      "key \"temperature_k\"");
+    /* at the edge of the domain the solver still answers */
+    g_autoptr(JsonObject) r = op_call("band-gap", "{\"material\": {\"band_gap_ev\": "
+                                      "{\"value\": 100}}, \"temperature_k\": 300}");
+    g_assert_nonnull(r);
+}
+
 int main(int argc, char **argv)
 {
     g_test_init(&argc, &argv, NULL);
@@ -439,5 +460,6 @@ int main(int argc, char **argv)
     g_test_add_func("/plugin/material-ops/holes-user-and-errors", test_holes_user_and_errors);
     g_test_add_func("/plugin/material-ops/round-trip", test_round_trip);
     g_test_add_func("/plugin/material-ops/band-edge-mass", test_band_edge_mass);
+    g_test_add_func("/plugin/material-ops/gap-domain", test_gap_domain);
     return g_test_run();
 }
