@@ -13,7 +13,7 @@
 int LLVMFuzzerInitialize(int *argc, char ***argv);
 int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);
 
-/* The folder the targets run in (tests/data: the files the seed requests
+/* The folder the targets run in (tests/data: the files the starting requests
  * name), set up once by fuzz_init. */
 void fuzz_init(void);
 

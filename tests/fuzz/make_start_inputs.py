@@ -1,5 +1,5 @@
 #!/usr/bin/python3
-"""make_seeds.py OUT [CLI]: the seed corpus of the fuzz targets, drawn from the
+"""make_start_inputs.py OUT [CLI]: the starting inputs of the fuzz targets, drawn from the
 project's own test and example files, written to OUT/<target>/:
 
   grid      band grid documents (tests/data, the first-principles corpus)
@@ -11,7 +11,7 @@ project's own test and example files, written to OUT/<target>/:
   request   "OP\\n" + a request: each operation's example of the request
             fuzz test, the example requests and the hosts' requests
 
-The targets run in tests/data, so file names in the seeds are written
+The targets run in tests/data, so file names in the starting inputs are written
 relative to it (or absolute)."""
 import glob
 import json
@@ -27,7 +27,7 @@ DATA = os.path.join(SRC, 'tests', 'data')
 sys.path.insert(0, os.path.join(SRC, 'tests', 'hosts'))
 import request_fuzz  # noqa: E402
 
-MAX_SEED = 200 * 1024     # larger files slow every run of a target
+MAX_INPUT_BYTES = 200 * 1024     # larger files slow every run of a target
 
 
 def relink(value, folder):
@@ -49,7 +49,7 @@ def put(out, target, name, data):
 def copy_files(out, target, patterns, edit=None):
     for pattern in patterns:
         for path in sorted(glob.glob(os.path.join(SRC, pattern))):
-            if os.path.getsize(path) > MAX_SEED:
+            if os.path.getsize(path) > MAX_INPUT_BYTES:
                 continue
             data = open(path, 'rb').read()
             if edit:
@@ -110,7 +110,7 @@ def main():
     materials(out, cli)
     requests(out)
     for target in sorted(os.listdir(out)):
-        print('%-9s %3d seeds' % (target, len(os.listdir(os.path.join(out, target)))))
+        print('%-9s %3d starting inputs' % (target, len(os.listdir(os.path.join(out, target)))))
 
 
 if __name__ == '__main__':
