@@ -23,6 +23,10 @@
 /* Weighted fit residual above this fraction of the fitted energy range
  * flags a non-parabolic band within the fit radius. */
 #define NONPARABOLIC_REL 0.02
+/* table fits: the automatic window grows by this factor while the terms
+ * beyond quadratic stay below significance at this level */
+#define WINDOW_GROWTH 1.25
+#define BEYOND_LEVEL 0.01
 /* E(2s) - E0 over E(s) - E0 is 4 for a parabola and 2 for a cone; a mean over
  * the sampled directions below this flags a conical point. */
 #define CONE_RATIO 2.5
@@ -58,7 +62,8 @@ static void tensor_init(bm_mass_tensor *t, int dims, bm_tensor_method method)
     t->sample_spacing = NAN;
     t->converged = -1;
     for (int m = 0; m < 3; m++)
-        t->mass_errors[m] = NAN;
+        t->mass_errors[m] = t->mass_stderr[m] = NAN;
+    t->window.beyond_p = t->window.noise_ev = NAN;
 }
 
 /* Fills inv_mass, masses, axes, kind and divergent from the Cartesian Hessian
@@ -2173,6 +2178,209 @@ static int outside_data(const table_ctx *c, const double x[3])
     return 0;
 }
 
+/* The statistical error of each principal mass: the variance of the curvature
+ * along its axis from the fit's covariance (first order in the scatter), so
+ * |dm / m| = sd(lambda) / |lambda|. */
+static void table_stderr(const table_ctx *c, const bm_quadric *q, bm_mass_tensor *t)
+{
+    for (int m = 0; m < c->dims; m++) {
+        double v[3];
+        for (int a = 0; a < 3; a++)
+            v[a] = bm_dot3(c->p[a], t->axes[m]);
+        double lam = 0.0;
+        for (int a = 0; a < c->dims; a++)
+            for (int b = 0; b < c->dims; b++)
+                lam += v[a] * q->h[a][b] * v[b];
+        double var = bm_quadric_curvature_var(q, v);
+        t->mass_stderr[m] = isfinite(t->masses[m]) && lam != 0.0 && var >= 0.0
+                          ? fabs(t->masses[m]) * sqrt(var) / fabs(lam) : NAN;
+    }
+}
+
+/* A residual large against the energy range is blamed on its cause: on
+ * non-parabolicity where the terms beyond quadratic are significant (or could
+ * not be tested), on scatter where they are not. */
+static void table_residual_check(bm_mass_tensor *t, const bm_quadric *q,
+                                 const bm_quadric_beyond *b, double span, double radius)
+{
+    if (!(span > 0.0 && q->rms > NONPARABOLIC_REL * span))
+        return;
+    if (b->degree && b->p_value >= BEYOND_LEVEL)
+        bm_warn(&t->warnings, BM_WARN_SCATTERED_DATA, "scattered data: the fit residual "
+                "%.3g meV (%.1f%% of the energy range %.3g eV within %.3g 1/Angstrom) is "
+                "scatter, not non-parabolicity (terms up to degree %d are not significant: "
+                "p = %.2f); the masses carry its standard errors (principal_masses_stderr_me)",
+                1e3 * q->rms, 100.0 * q->rms / span, span, radius, b->degree, b->p_value);
+    else if (b->degree)
+        bm_warn(&t->warnings, BM_WARN_NON_PARABOLIC, "non-parabolic band: quadratic fit "
+                "residual %.3g eV is %.1f%% of the energy range %.3g eV within %.3g 1/Angstrom, "
+                "and terms up to degree %d are significant (p = %.2g)", q->rms,
+                100.0 * q->rms / span, span, radius, b->degree, b->p_value);
+    else
+        nonparabolic_check(t, q, span, radius);
+}
+
+static int has_warning(const bm_mass_tensor *t, bm_warn_code code)
+{
+    for (size_t i = 0; i < t->warnings.count; i++)
+        if (t->warnings.items[i].code == code)
+            return 1;
+    return 0;
+}
+
+/* The systematic errors of a window where the data show nothing beyond
+ * quadratic (grown, or given): the fits over fewer and more points differ from it by
+ * their extra scatter as well, whose part, twice the standard deviation of the
+ * difference (sqrt|s_f^2 - s^2| for nested windows), is no error of the mass;
+ * what exceeds it, doubled as for any window (bias ~ r^2), is. The total error
+ * is that and the statistical error in quadrature. */
+static void table_quiet_errors(table_ctx *c, const double centre[3], size_t count,
+                               bm_mass_tensor *t)
+{
+    size_t npar = bm_quadric_nparams(c->dims), sizes[2];
+    sizes[0] = (size_t)(0.6 * (double)count);
+    if (sizes[0] < npar + 2)
+        sizes[0] = npar + 2;
+    sizes[1] = (size_t)(1.7 * (double)count);
+    double syst[3] = { 0, 0, 0 };
+    for (int f = 0; f < 2; f++) {
+        bm_quadric q;
+        double dmax, span;
+        size_t n;
+        if (table_fit(c, centre, 0.0, sizes[f], &q, &dmax, &span, &n) != 0 || n == count)
+            continue;
+        for (int m = 0; m < c->dims; m++) {
+            double v[3], lam = 0.0;
+            for (int a = 0; a < 3; a++)
+                v[a] = bm_dot3(c->p[a], t->axes[m]);
+            for (int a = 0; a < c->dims; a++)
+                for (int b = 0; b < c->dims; b++)
+                    lam += v[a] * q.h[a][b] * v[b];
+            if (lam == 0.0 || !isfinite(t->masses[m]) || !isfinite(t->mass_stderr[m]))
+                continue;
+            double mf = BM_HBAR2_OVER_ME_EV_A2 / lam;
+            double sf = fabs(mf) * sqrt(fmax(0.0, bm_quadric_curvature_var(&q, v))) / fabs(lam);
+            double sd = sqrt(fabs(sf * sf - t->mass_stderr[m] * t->mass_stderr[m]));
+            syst[m] = fmax(syst[m], fabs(mf - t->masses[m]) - 2.0 * sd);
+        }
+    }
+    if (has_warning(t, BM_WARN_NO_ERROR_ESTIMATE))
+        return;
+    drop_warnings(t, BM_WARN_NOT_CONVERGED);
+    int ok = !has_warning(t, BM_WARN_KIND_UNCERTAIN) && t->converged >= 0;
+    for (int m = 0; m < c->dims; m++) {
+        if (!isfinite(t->mass_stderr[m]) || !isfinite(t->masses[m])) {
+            ok = 0;
+            continue;
+        }
+        double sy = 2.0 * fmax(0.0, syst[m]);
+        t->mass_errors[m] = sqrt(t->mass_stderr[m] * t->mass_stderr[m] + sy * sy);
+        ok &= t->mass_errors[m] <= c->conv * fabs(t->masses[m]);
+    }
+    if (t->converged >= 0)
+        t->converged = ok;
+}
+
+/* The total error of a mass is never below its statistical part; a mass that
+ * misses the tolerance is worded by the cause of most of its error (where the
+ * scatter makes most of it: more or less noisy data, not a finer mesh). */
+static void table_error_floor(const table_ctx *c, bm_mass_tensor *t)
+{
+    int noisy = 0, over = 0;
+    double worst = 0.0;
+    for (int m = 0; m < c->dims; m++) {
+        if (!isfinite(t->mass_stderr[m]) || !isfinite(t->mass_errors[m]))
+            continue;
+        if (t->mass_errors[m] < t->mass_stderr[m])
+            t->mass_errors[m] = t->mass_stderr[m];
+        double rel = t->mass_errors[m] / fabs(t->masses[m]);
+        worst = fmax(worst, rel);
+        if (rel > c->conv) {
+            t->converged = 0;
+            over = 1;
+            noisy |= t->mass_stderr[m] >= 0.5 * t->mass_errors[m];
+        }
+    }
+    int said = has_warning(t, BM_WARN_NOT_CONVERGED);
+    if (!said && !(over && !has_warning(t, BM_WARN_KIND_UNCERTAIN)))
+        return;
+    drop_warnings(t, BM_WARN_NOT_CONVERGED);
+    if (!noisy) {
+        bm_warn(&t->warnings, BM_WARN_NOT_CONVERGED, "masses not converged: the estimated "
+                "error reaches %.1f%% of a mass (tolerance %.1f%%); points sampled closer "
+                "around the extremum (the refinement stencil, with \"stencil\": true) would "
+                "converge them", 100.0 * worst, 100.0 * c->conv);
+        return;
+    }
+    bm_warn(&t->warnings, BM_WARN_NOT_CONVERGED, "masses not converged: the estimated error "
+            "reaches %.1f%% of a mass (tolerance %.1f%%), most of it the scatter of the "
+            "energies (noise %.3g meV over %zu points); more points around the extremum, or "
+            "less noisy data, would reduce it", 100.0 * worst, 100.0 * c->conv,
+            1e3 * t->window.noise_ev, t->window.points);
+}
+
+/* The test for terms beyond quadratic of the window around centre (the
+ * radius given, or the n nearest samples); *m is its count. */
+static int window_test(table_ctx *c, const double centre[3], double radius, size_t n,
+                       bm_quadric_beyond *b, size_t *m)
+{
+    const double *eb = c->t->energies + c->band * c->t->npoints;
+    double dmax, dk[3];
+    *m = table_select(c, centre, radius, n, &dmax);
+    for (size_t q = 0; q < *m; q++) {
+        size_t id = c->order[q];
+        for (int i = 0; i < 3; i++)
+            dk[i] = tk(c, id)[i] - centre[i];
+        for (int a = 0; a < 3; a++)
+            c->u[q][a] = bm_dot3(c->p[a], dk);
+        c->e[q] = eb[id];
+    }
+    return bm_quadric_beyond_test(*m, c->dims, (const double (*)[3])c->u, c->e, b);
+}
+
+/* The automatic window of a table fit. From the default count (three times
+ * the quadric's parameters) the window grows by a quarter at a time while its
+ * energies show nothing beyond quadratic (the F test of a quartic, or of a
+ * cubic where the points are few, at 1 %): scatter then averages out over
+ * more points, and growth stops where non-parabolicity becomes visible (two
+ * windows in a row significant), so
+ * the quadric's bias stays within what the data can show. Returns the count;
+ * *chosen is the test of that window (degree 0 when none could be made). */
+static size_t table_window(table_ctx *c, const double centre[3], size_t from,
+                           bm_quadric_beyond *chosen)
+{
+    size_t np = c->t->npoints, n = from, best = from;
+    memset(chosen, 0, sizeof *chosen);
+    chosen->p_value = NAN;
+    int tested = 0, significant = 0;
+    for (;;) {
+        bm_quadric_beyond b;
+        size_t m;
+        if (window_test(c, centre, 0.0, n, &b, &m) != 0)
+            break;
+        if (b.degree) {
+            if (!tested)
+                *chosen = b;          /* the default window's own test */
+            tested = 1;
+            if (b.p_value < BEYOND_LEVEL) {
+                /* one window in a hundred shows this by chance: growth stops
+                 * at the second in a row (or at the default window itself) */
+                if (m == from || ++significant == 2)
+                    break;
+            } else {
+                significant = 0;
+                best = m;
+                *chosen = b;
+            }
+        }
+        if (m >= np)
+            break;
+        size_t next = (size_t)ceil(WINDOW_GROWTH * (double)m);
+        n = next > m ? next : m + 1;
+    }
+    return best;
+}
+
 static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
                                bm_extremum_kind hint, bm_mass_tensor *t, int *left,
                                bm_errbuf *err)
@@ -2208,8 +2416,14 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
     bm_quadric q;
     double dmax, span;
     size_t count;
+    /* the window: the radius given, or grown from the default count where
+     * the data allow (chosen where the walk starts and again where it ends) */
+    int automatic = c->radius == 0.0;
+    bm_quadric_beyond beyond = { .p_value = NAN };
+    size_t want = automatic ? table_window(c, centre, c->nfit, &beyond) : c->nfit;
+    for (int round = 0; round < 2; round++) {
     for (int it = 0;; it++) {
-        int rc = table_fit(c, centre, c->radius, c->nfit, &q, &dmax, &span, &count);
+        int rc = table_fit(c, centre, c->radius, want, &q, &dmax, &span, &count);
         if (rc == -2)
             return bm_fail(err, BM_EINTERNAL, "quadric fit failed (GSL)");
         if (rc == -1)
@@ -2256,6 +2470,24 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
             bm_warn(&t->warnings, BM_WARN_REFINEMENT_NOT_CONVERGED, "the walk to the "
                     "stationary point did not converge in 40 refits; reported where it stopped");
     }
+    if (!automatic || !refine || *left || round == 1)
+        break;
+    size_t again = table_window(c, centre, c->nfit, &beyond);
+    if (again == want)
+        break;
+    want = again;   /* the window where the walk ended differs: walk once more */
+    }
+    if (!automatic) {
+        /* the window given is tested as it is, for the wording of warnings */
+        size_t m;
+        window_test(c, centre, c->radius, want, &beyond, &m);
+    }
+    t->window.points = count;
+    t->window.radius = dmax;
+    t->window.chosen = !automatic ? 0 : want > c->nfit ? 2 : 1;
+    t->window.beyond_degree = beyond.degree;
+    t->window.beyond_p = beyond.degree ? beyond.p_value : NAN;
+    t->window.noise_ev = q.sigma;
     memcpy(t->k, centre, sizeof t->k);
     t->k_frac[0] = t->k_frac[1] = t->k_frac[2] = NAN;
     t->outside_data = *left;
@@ -2294,7 +2526,8 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
                 "point (the fit's stationary point is %.3g 1/Angstrom away), the tensor is the "
                 "local curvature there", gnorm, sqrt(du));
     }
-    nonparabolic_check(t, &q, span, dmax);
+    table_stderr(c, &q, t);
+    table_residual_check(t, &q, &beyond, span, dmax);
     if (refine) {
         /* errors: the same fit over about 0.6 and 1.7 times the points (or radius) */
         bm_bandfit est[3];
@@ -2318,6 +2551,9 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
         double dn;
         table_estimate(c, tk(c, nearest_sample(c, centre, &dn)), c->radius, count, &est[2]);
         assess_in(c->p, c->dims, c->conv, 2.0, est, 3, centre, t);
+        if (beyond.degree && beyond.p_value >= BEYOND_LEVEL)
+            table_quiet_errors(c, centre, count, t);
+        table_error_floor(c, t);
     }
     /* Conical test: refit with the radius doubled (or the point count grown by
      * 2^dims); curvature ~ 1/radius means E ~ |k|. */

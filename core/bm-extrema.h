@@ -53,6 +53,21 @@ typedef struct {
     int partner_band;         /* band fitted together with this one across a crossing, or -1 */
     double mass_errors[3];    /* estimated error of each principal mass, m_e: the spread of
                                  independent local fits (NAN where not assessed) */
+    double mass_stderr[3];    /* a table fit: the statistical part of each mass's error, m_e,
+                                 from the scatter of the energies about the fit propagated
+                                 through the fit's covariance to the principal values (NAN
+                                 elsewhere); mass_errors is never below it */
+    struct {
+        size_t points;        /* samples in the fit window */
+        double radius;        /* distance of the farthest, 1/Angstrom */
+        int chosen;           /* 0: the radius given; 1: the default count (the data show
+                                 terms beyond quadratic there already, or cannot tell);
+                                 2: grown from it while they showed none */
+        int beyond_degree;    /* degree of the polynomial the quadric was tested against
+                                 (4 or 3; 0: too few points to test) */
+        double beyond_p;      /* p-value of its extra terms (F test); NAN: not tested */
+        double noise_ev;      /* scatter of one energy about the quadric, eV */
+    } window;                 /* a table fit's window (points 0 elsewhere) */
     double k_error;           /* estimated error of k, 1/Angstrom (NAN: not assessed) */
     int nfits;                /* independent estimates behind the errors */
     double sample_spacing;    /* a table: distance from the sample nearest the extremum to

@@ -55,6 +55,7 @@ static const char *const warn_code_names[BM_WARN_COUNT] = {
     [BM_WARN_FIT_INCONSISTENT] = "fit-inconsistent",
     [BM_WARN_ORBIT_IRREGULAR] = "orbit-irregular",
     [BM_WARN_EXTREMA_CAPPED] = "extrema-capped",
+    [BM_WARN_SCATTERED_DATA] = "scattered-data",
 };
 
 const char *bm_warn_code_name(bm_warn_code code)

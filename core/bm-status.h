@@ -65,6 +65,7 @@ typedef enum {
     BM_WARN_FIT_INCONSISTENT,        /* residuals far beyond the stated uncertainties */
     BM_WARN_ORBIT_IRREGULAR,         /* a cross-section not star-shaped about its centre */
     BM_WARN_EXTREMA_CAPPED,          /* more extrema than are reported: the nearest in energy kept */
+    BM_WARN_SCATTERED_DATA,          /* a fit residual that is scatter, not non-parabolicity */
     BM_WARN_COUNT                    /* not a code: the number of codes */
 } bm_warn_code;
 

@@ -9,6 +9,8 @@
  *     in double quotes.
  *   - required columns: kx_inv_angstrom, ky_inv_angstrom, kz_inv_angstrom
  *     (Cartesian, 1/Angstrom; kz = 0 for 2D or line data), in any position;
+ *     or, for a cut along one line, k_inv_angstrom alone (the signed distance
+ *     along it, 1/Angstrom; the line's direction comes with the request);
  *   - every column whose header ends in "_ev" (case-insensitive) is one band,
  *     energies in eV; its band name is the header without the suffix (both
  *     forms are accepted when a band is looked up). At least one is needed.
@@ -195,7 +197,7 @@ BmKTable *bm_ktable_load_from_data(const char *data, gsize length, const char *n
     /* role of each column: 0..2 a k component, 3 + b band b, -1 ignored;
      * headers and band names are looked up in hash tables (a header of
      * 100,000 columns is read in linear time) */
-    int kcol[3] = { -1, -1, -1 };
+    int kcol[3] = { -1, -1, -1 }, cutcol = -1;
     g_autofree int *role = g_new(int, ncol);
     g_autoptr(GArray) band_cols = g_array_new(FALSE, FALSE, sizeof(int));
     g_autoptr(GHashTable) seen = g_hash_table_new(g_str_hash, g_str_equal);
@@ -216,6 +218,10 @@ BmKTable *bm_ktable_load_from_data(const char *data, gsize length, const char *n
                 kcol[d] = (int)c;
                 role[c] = d;
             }
+        if (strcmp(h, "k_inv_angstrom") == 0) {
+            cutcol = (int)c;
+            role[c] = 0;
+        }
         size_t n = strlen(h);
         if (role[c] < 0 && n >= 3 && g_ascii_strcasecmp(h + n - 3, "_ev") == 0) {
             if (!has_ev_suffix(h)) {
@@ -248,7 +254,12 @@ BmKTable *bm_ktable_load_from_data(const char *data, gsize length, const char *n
         }
         g_hash_table_insert(names, bname, GSIZE_TO_POINTER((gsize)c));
     }
-    for (int d = 0; d < 3; d++)
+    if (cutcol >= 0 && (kcol[0] >= 0 || kcol[1] >= 0 || kcol[2] >= 0)) {
+        bm_error_invalid(error, name, "line %zu: the header has both k_inv_angstrom (a cut "
+                "along one line) and Cartesian k columns: give one or the other", hline + 1);
+        return NULL;
+    }
+    for (int d = 0; d < 3 && cutcol < 0; d++)
         if (kcol[d] < 0) {
             GString *list = g_string_new(NULL);
             for (size_t c = 0; c < ncol && c < 20; c++) {
@@ -258,8 +269,9 @@ BmKTable *bm_ktable_load_from_data(const char *data, gsize length, const char *n
             if (ncol > 20)
                 g_string_append_printf(list, " and %zu more", ncol - 20);
             bm_error_invalid(error, name, "line %zu: the header lacks the column '%s' (found %s; "
-                    "expected kx_inv_angstrom, ky_inv_angstrom, kz_inv_angstrom and band "
-                    "columns ending in _ev, separated by %ss)", hline + 1, k_columns[d],
+                    "expected kx_inv_angstrom, ky_inv_angstrom, kz_inv_angstrom, or "
+                    "k_inv_angstrom for a cut along one line, and band columns ending in "
+                    "_ev, separated by %ss)", hline + 1, k_columns[d],
                     list->str, sep_name);
             g_string_free(list, TRUE);
             return NULL;
@@ -306,10 +318,12 @@ BmKTable *bm_ktable_load_from_data(const char *data, gsize length, const char *n
         t->band_names[b] = g_strndup(h, strlen(h) - 3);
     }
 
+    t->cut = cutcol >= 0;
     size_t p = 0;
     for (size_t i = hline + 1; i < nlines; i++) {
         if (is_skippable(lines[i]))
             continue;
+        row[1] = row[2] = 0.0;   /* a cut: (s, 0, 0) until oriented */
         g_autoptr(GPtrArray) f = split_fields(lines[i], sep);
         if (f->len != ncol) {
             bm_error_invalid(error, name, "line %zu: expected %zu %s-separated columns (as in the "
@@ -364,6 +378,23 @@ BmKTable *bm_ktable_load_from_data(const char *data, gsize length, const char *n
 fail:
     bm_ktable_free(t);
     return NULL;
+}
+
+gboolean bm_ktable_orient_cut(BmKTable *t, const double dir[3], GError **error)
+{
+    double n = sqrt(dir[0] * dir[0] + dir[1] * dir[1] + dir[2] * dir[2]);
+    if (!isfinite(n) || n == 0.0) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "request: \"cut_direction\" "
+                    "(%g, %g, %g) is not a direction: give a non-zero finite Cartesian vector",
+                    dir[0], dir[1], dir[2]);
+        return FALSE;
+    }
+    for (size_t p = 0; p < t->table.npoints; p++) {
+        double s = t->k[3 * p];
+        for (int i = 0; i < 3; i++)
+            t->k[3 * p + i] = s * dir[i] / n;
+    }
+    return TRUE;
 }
 
 BmKTable *bm_ktable_load(const char *path, GError **error)

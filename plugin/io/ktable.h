@@ -1,5 +1,6 @@
-/* ktable.h: reads a k-table (CSV or TSV of Cartesian k-points and band
- * energies) into a bm_ktable view plus band names. */
+/* ktable.h: reads a k-table (CSV or TSV of Cartesian k-points, or of the
+ * distance along one line, and band energies) into a bm_ktable view plus
+ * band names. */
 #ifndef BM_IO_KTABLE_H
 #define BM_IO_KTABLE_H
 
@@ -16,6 +17,8 @@ typedef struct {
     char *source;            /* the file path (or the name given for data) */
     double *k;               /* [point][3], 1/Angstrom */
     double *energies;        /* [band][point], eV */
+    gboolean cut;            /* a two-column cut: k holds (s, 0, 0), s along a direction
+                                the file does not give (bm_ktable_orient_cut sets it) */
 } BmKTable;
 
 /* Loads a table file. Errors: BM_ERROR_IO (unreadable) or
@@ -25,6 +28,10 @@ BmKTable *bm_ktable_load(const char *path, GError **error);
 /* Parses table text held in memory; name is used in messages. */
 BmKTable *bm_ktable_load_from_data(const char *data, gsize length, const char *name,
                                    GError **error);
+
+/* Puts a cut's points along the Cartesian direction dir (normalised here):
+ * k = s dir. Errors (BM_ERROR_INVALID_INPUT) for a zero or non-finite dir. */
+gboolean bm_ktable_orient_cut(BmKTable *table, const double dir[3], GError **error);
 
 void bm_ktable_free(BmKTable *table);
 

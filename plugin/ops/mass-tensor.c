@@ -38,6 +38,10 @@ static const BmParam params[] = {
     { "table", BM_VALUE_STRING, FALSE, NULL,
       "k-table (CSV or TSV: kx/ky/kz_inv_angstrom and NAME_ev columns); give this or grid",
       .unit = NULL },
+    { "cut_direction", BM_VALUE_ARRAY, FALSE, NULL,
+      "the Cartesian direction [x, y, z] of a two-column cut (a table with one "
+      "k_inv_angstrom column, the signed distance along the line): needed for one, refused "
+      "otherwise", .unit = NULL },
     { "band", BM_VALUE_INTEGER | BM_VALUE_STRING, FALSE, NULL,
       "band: 0-based index or name (may be left out when the data hold one band)",
       .unit = NULL },
@@ -71,7 +75,14 @@ static const BmField response[] = {
       "principal_axes, inverse_mass_tensor_per_me, fit_rms_ev, divergent, method "
       "(interpolant, crossing-aware local fit, table fit), crossing_partner_band (null "
       "when none), principal_masses_error_me (estimated error of each mass, m_e: the "
-      "spread of independent local fits; null where not assessed), k_error_inv_angstrom, "
+      "spread of independent local fits, never below the standard error; null where not "
+      "assessed), principal_masses_stderr_me (a table fit: the statistical part of each "
+      "mass's error, from the scatter of the energies about the fit through its covariance; "
+      "null elsewhere), fit_window (a table fit: points, radius_inv_angstrom, chosen_by "
+      "(request: the radius given; default: three points per parameter, where the data show "
+      "terms beyond quadratic already or cannot tell; grown: widened while the F test of a "
+      "quartic, or a cubic where points are few, found nothing beyond quadratic at 1 %), "
+      "beyond_quadratic_degree, beyond_quadratic_p_value, scatter_ev), k_error_inv_angstrom, "
       "converged (errors within convergence_tolerance; null where not assessed), "
       "refinement_stencil (with \"stencil\": {kind (principal-axes, or directional at a "
       "degenerate extremum), step_inv_angstrom, k_inv_angstrom, k_fractional (null for a "
@@ -188,6 +199,18 @@ static JsonArray *masses_array(const bm_mass_tensor *t)
     return a;
 }
 
+/* One value per principal mass: null beyond dims and where not assessed. */
+static JsonArray *per_mass_array(const double v[3], int dims)
+{
+    JsonArray *a = json_array_new();
+    for (int m = 0; m < 3; m++)
+        if (m < dims && isfinite(v[m]))
+            json_array_add_double_element(a, v[m]);
+        else
+            json_array_add_null_element(a);
+    return a;
+}
+
 static const char *method_text(bm_tensor_method m)
 {
     switch (m) {
@@ -219,13 +242,26 @@ JsonObject *bm_mass_tensor_object(const bm_mass_tensor *t, gboolean fractional)
         json_object_set_int_member(o, "crossing_partner_band", t->partner_band);
     else
         json_object_set_null_member(o, "crossing_partner_band");
-    JsonArray *err = json_array_new();
-    for (int m = 0; m < 3; m++)
-        if (m < t->dims && isfinite(t->mass_errors[m]))
-            json_array_add_double_element(err, t->mass_errors[m]);
-        else
-            json_array_add_null_element(err);
-    json_object_set_array_member(o, "principal_masses_error_me", err);
+    json_object_set_array_member(o, "principal_masses_error_me",
+                                 per_mass_array(t->mass_errors, t->dims));
+    json_object_set_array_member(o, "principal_masses_stderr_me",
+                                 per_mass_array(t->mass_stderr, t->dims));
+    if (t->window.points) {
+        JsonObject *w = json_object_new();
+        json_object_set_int_member(w, "points", (gint64)t->window.points);
+        bm_json_set_number(w, "radius_inv_angstrom", t->window.radius);
+        json_object_set_string_member(w, "chosen_by", t->window.chosen == 2 ? "grown"
+                                      : t->window.chosen == 1 ? "default" : "request");
+        if (t->window.beyond_degree) {
+            json_object_set_int_member(w, "beyond_quadratic_degree", t->window.beyond_degree);
+            bm_json_set_number(w, "beyond_quadratic_p_value", t->window.beyond_p);
+        } else {
+            json_object_set_null_member(w, "beyond_quadratic_degree");
+            json_object_set_null_member(w, "beyond_quadratic_p_value");
+        }
+        bm_json_set_number(w, "scatter_ev", t->window.noise_ev);
+        json_object_set_object_member(o, "fit_window", w);
+    }
     bm_json_set_number(o, "k_error_inv_angstrom", t->k_error);
     if (t->converged < 0)
         json_object_set_null_member(o, "converged");
@@ -293,6 +329,11 @@ BmMassTensorSearch *bm_mass_tensor_search(JsonObject *request, const BmCallInput
                                 "document) or \"table\" (a k-table)");
         return NULL;
     }
+    if (have_grid && json_object_has_member(request, "cut_direction")) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "request: \"cut_direction\" is "
+                    "for a two-column cut given as \"table\", not for a grid");
+        return NULL;
+    }
 
     /* the choice of "extremum" and the ranges are checked by the registry */
     bm_search which = (bm_search)bm_enum_value(request, "extremum", &bm_enum_extremum_search);
@@ -325,6 +366,24 @@ BmMassTensorSearch *bm_mass_tensor_search(JsonObject *request, const BmCallInput
     } else {
         s->table = bm_ktable_load(json_object_get_string_member(request, "table"), error);
         if (!s->table)
+            return NULL;
+        double dir[3];
+        gboolean have_dir = json_object_has_member(request, "cut_direction");
+        if (have_dir && !bm_json_vec3(request, "cut_direction", NULL, dir, error))
+            return NULL;
+        if (s->table->cut && !have_dir) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "request: %s is a cut along one "
+                        "line (a k_inv_angstrom column): give its Cartesian direction as "
+                        "\"cut_direction\": [x, y, z]", s->table->source);
+            return NULL;
+        }
+        if (!s->table->cut && have_dir) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "request: \"cut_direction\" "
+                        "is for a two-column cut, but %s gives Cartesian k (kx, ky, "
+                        "kz_inv_angstrom columns)", s->table->source);
+            return NULL;
+        }
+        if (s->table->cut && !bm_ktable_orient_cut(s->table, dir, error))
             return NULL;
         names = (const char *const *)s->table->band_names;
         alt_names = (const char *const *)s->table->band_headers;

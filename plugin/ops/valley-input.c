@@ -17,7 +17,8 @@
 #define EXTREMUM_KEYS \
     "kind", "dims", "energy_ev", "k_inv_angstrom", "k_fractional", "principal_masses_me", \
     "principal_axes", "inverse_mass_tensor_per_me", "fit_rms_ev", "divergent", "method", \
-    "crossing_partner_band", "principal_masses_error_me", "k_error_inv_angstrom", \
+    "crossing_partner_band", "principal_masses_error_me", "principal_masses_stderr_me", \
+    "fit_window", "k_error_inv_angstrom", \
     "converged", "refinement_stencil", "directional_masses", "symmetry_snap", "line_fit", \
     "degenerate_kp_fit", "warnings", "warning_codes"
 #define LIST_ENTRY_KEYS "energy_offset_ev", "weight"

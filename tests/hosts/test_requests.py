@@ -48,6 +48,9 @@ r = call("mass-tensor", "orte-arpes-mass.json")
 m = r["extrema"][0]["principal_masses_me"]
 check("line cut gives one mass, -0.23 m_e within 3 %",
       r["extrema"][0]["dims"] == 1 and abs(m[0] / -0.23 - 1) < 0.03 and m[1] is None)
+se = r["extrema"][0]["principal_masses_stderr_me"][0]
+check("its standard error is stated and -0.23 lies within two of it",
+      se is not None and 0 < se and abs(m[0] + 0.23) <= 2 * se)
 
 # Compensated n-Si: n -> N_D - N_A once ionised (charge neutrality, identity).
 r = call("carrier-statistics", "si-carriers.json")
