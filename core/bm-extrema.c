@@ -2470,7 +2470,9 @@ static bm_status table_analyse(table_ctx *c, const double start[3], int refine,
             bm_warn(&t->warnings, BM_WARN_REFINEMENT_NOT_CONVERGED, "the walk to the "
                     "stationary point did not converge in 40 refits; reported where it stopped");
     }
-    if (!automatic || !refine || *left || round == 1)
+    /* a window of every point tests the same where the walk ended (the
+     * polynomials of a degree are the same about any centre) */
+    if (!automatic || !refine || *left || round == 1 || count >= c->t->npoints)
         break;
     size_t again = table_window(c, centre, c->nfit, &beyond);
     if (again == want)

@@ -7,6 +7,7 @@
 #include <gsl/gsl_blas.h>
 #include <gsl/gsl_cdf.h>
 #include <gsl/gsl_errno.h>
+#include <gsl/gsl_linalg.h>
 #include <gsl/gsl_multifit.h>
 
 /* The scatter of one energy and the covariance of the coefficients of a
@@ -23,21 +24,28 @@ static double coefficient_cov(const gsl_matrix *X, const gsl_vector *w, const gs
     double result = NAN;
     if (!s0 || !s2 || !t1 || !t2)
         goto done;
+    gsl_matrix *wx = gsl_matrix_alloc(n, p);
+    gsl_vector *fit = gsl_vector_alloc(n);
+    if (!wx || !fit) {
+        gsl_matrix_free(wx);
+        gsl_vector_free(fit);
+        goto done;
+    }
+    gsl_matrix_memcpy(wx, X);
+    for (size_t m = 0; m < n; m++) {
+        gsl_vector_view row = gsl_matrix_row(wx, m);
+        gsl_vector_scale(&row.vector, gsl_vector_get(w, m));
+    }
+    gsl_blas_dgemm(CblasTrans, CblasNoTrans, 1.0, X, X, 0.0, s0);
+    gsl_blas_dgemm(CblasTrans, CblasNoTrans, 1.0, wx, wx, 0.0, s2);
+    gsl_blas_dgemv(CblasNoTrans, 1.0, X, c, 0.0, fit);
     double rss = 0.0;
     for (size_t m = 0; m < n; m++) {
-        double wm = gsl_vector_get(w, m), fit = 0.0;
-        for (size_t i = 0; i < p; i++) {
-            double xi = gsl_matrix_get(X, m, i);
-            fit += xi * gsl_vector_get(c, i);
-            for (size_t j = 0; j < p; j++) {
-                double xx = xi * gsl_matrix_get(X, m, j);
-                *gsl_matrix_ptr(s0, i, j) += xx;
-                *gsl_matrix_ptr(s2, i, j) += wm * wm * xx;
-            }
-        }
-        double r = gsl_vector_get(y, m) - fit;
+        double r = gsl_vector_get(y, m) - gsl_vector_get(fit, m);
         rss += r * r;
     }
+    gsl_matrix_free(wx);
+    gsl_vector_free(fit);
     /* t1 = M S0 M, then tr(t1 S2) */
     gsl_blas_dgemm(CblasNoTrans, CblasNoTrans, 1.0, cov, s0, 0.0, t2);
     gsl_blas_dgemm(CblasNoTrans, CblasNoTrans, 1.0, t2, cov, 0.0, t1);
@@ -193,30 +201,6 @@ static size_t monomials(int dims, int deg, int (*ex)[3])
     return n;
 }
 
-/* Unweighted fit of the first p monomials; the residual sum of squares, or
- * -1 on failure. Fills c when given. */
-static double poly_rss(const gsl_matrix *Xall, const gsl_vector *y, size_t p, gsl_vector *c)
-{
-    size_t n = Xall->size1;
-    gsl_matrix_const_view X = gsl_matrix_const_submatrix(Xall, 0, 0, n, p);
-    gsl_vector *cc = c ? c : gsl_vector_alloc(p);
-    gsl_matrix *cov = gsl_matrix_alloc(p, p);
-    gsl_multifit_linear_workspace *work = gsl_multifit_linear_alloc(n, p);
-    double chisq = -1.0;
-    size_t rank = 0;
-    if (cc && cov && work
-        && gsl_multifit_linear_tsvd(&X.matrix, y, 1e-12, cc, cov, &chisq, &rank, work) != GSL_SUCCESS)
-        chisq = -1.0;
-    if (rank < p)
-        chisq = -1.0;
-    if (!c)
-        gsl_vector_free(cc);
-    gsl_matrix_free(cov);
-    if (work)
-        gsl_multifit_linear_free(work);
-    return chisq;
-}
-
 int bm_quadric_beyond_test(size_t n, int dims, const double (*u)[3], const double *e,
                            bm_quadric_beyond *b)
 {
@@ -256,10 +240,34 @@ int bm_quadric_beyond_test(size_t n, int dims, const double (*u)[3], const doubl
         }
         gsl_vector_set(y, m, e[m] - emean);
     }
-    double rss2 = poly_rss(X, y, p2, NULL), rssd = poly_rss(X, y, pd, c);
-    if (rss2 < 0.0 || rssd < 0.0)
+    /* one Householder QR of the columns ordered by degree gives the residual
+     * sum of squares of every leading set: |y|^2 - |(Q^T y)[0..p)|^2 */
+    if (gsl_linalg_QR_decomp(X, c) != GSL_SUCCESS)
         goto done;
+    double rmax = 0.0, rmin = INFINITY;
+    for (size_t i = 0; i < pd; i++) {
+        rmax = fmax(rmax, fabs(gsl_matrix_get(X, i, i)));
+        rmin = fmin(rmin, fabs(gsl_matrix_get(X, i, i)));
+    }
     ret = 0;
+    if (!(rmin > 1e-10 * rmax))
+        goto done;   /* the points do not determine the polynomial: not tested */
+    if (gsl_linalg_QR_QTvec(X, c, y) != GSL_SUCCESS) {
+        ret = -2;
+        goto done;
+    }
+    double rss2 = 0.0, rssd = 0.0;
+    for (size_t i = p2; i < n; i++) {
+        double v = gsl_vector_get(y, i);
+        rss2 += v * v;
+        if (i >= pd)
+            rssd += v * v;
+    }
+    /* the polynomial's coefficients: R c = (Q^T y)[0..pd) */
+    gsl_vector_const_view head = gsl_vector_const_subvector(y, 0, pd);
+    gsl_matrix_const_view r = gsl_matrix_const_submatrix(X, 0, 0, pd, pd);
+    gsl_vector_memcpy(c, &head.vector);
+    gsl_blas_dtrsv(CblasUpper, CblasNoTrans, CblasNonUnit, &r.matrix, c);
     b->degree = deg;
     double nu1 = (double)(pd - p2), nu2 = (double)(n - pd);
     /* exact data (sums of squares at rounding level): nothing beyond quadratic
