@@ -123,6 +123,28 @@ static JsonArray *valleys_json(const BmValleySet *s)
     return va;
 }
 
+/* The scalar is 3 / tr(M_c^-1), and tr(M_c^-1) is the population-weighted
+ * mean of the valleys' traces: where every valley has the same trace (the
+ * valleys of one star, whatever their offsets) no population can move it. */
+static const char *conductivity_meaning(const BmValleySet *s)
+{
+    double lo = INFINITY, hi = -INFINITY;
+    for (size_t v = 0; v < s->n; v++) {
+        const double (*m)[3] = (const double (*)[3])s->valleys[v].inv_mass;
+        double tr = m[0][0] + m[1][1] + m[2][2];
+        lo = fmin(lo, tr);
+        hi = fmax(hi, tr);
+    }
+    if (hi - lo <= 1e-9 * fabs(hi))
+        return "3 / trace of the inverse tensor: the harmonic mean of the principal values, "
+               "a direction average. Every valley here has the same trace, so no shift of "
+               "the valley populations (strain, valley offsets, temperature) can change it: "
+               "read conductivity_principal_masses_me for transport along a direction";
+    return "3 / trace of the inverse tensor: the harmonic mean of the principal values, a "
+           "direction average; read conductivity_principal_masses_me for transport along a "
+           "direction";
+}
+
 static JsonObject *respond(const BmValleySet *s, const bm_population *pop, gboolean has_t,
                            const bm_valley_average *avg)
 {
@@ -130,15 +152,18 @@ static JsonObject *respond(const BmValleySet *s, const bm_population *pop, gbool
     bm_json_set_number(resp, "valley_count", s->count);
     bm_json_set_number(resp, "dos_mass_me", avg->dos_mass);
     json_object_set_string_member(resp, "dos_mass_reference", "lowest valley edge");
-    bm_json_set_mat3(resp, "conductivity_mass_tensor_me", CM3(avg->conductivity_mass_tensor));
-    bm_json_set_number(resp, "conductivity_mass_me", avg->conductivity_mass);
-    json_object_set_boolean_member(resp, "conductivity_isotropic", avg->conductivity_isotropic);
+    /* anisotropic: the directional masses first, the scalar after them with
+     * what it means (and when populations cannot move it) */
     if (!avg->conductivity_isotropic) {
-        json_object_set_string_member(resp, "conductivity_mass_meaning",
-                                      "3 / trace of the inverse tensor (harmonic mean)");
         bm_json_set_vec3(resp, "conductivity_principal_masses_me", avg->conductivity_masses);
         bm_json_set_mat3(resp, "conductivity_principal_axes", CM3(avg->conductivity_axes));
     }
+    bm_json_set_mat3(resp, "conductivity_mass_tensor_me", CM3(avg->conductivity_mass_tensor));
+    bm_json_set_number(resp, "conductivity_mass_me", avg->conductivity_mass);
+    json_object_set_boolean_member(resp, "conductivity_isotropic", avg->conductivity_isotropic);
+    if (!avg->conductivity_isotropic)
+        json_object_set_string_member(resp, "conductivity_mass_meaning",
+                                      conductivity_meaning(s));
     json_object_set_object_member(resp, "population", population_json(pop, has_t));
     if (s->has_mat) {
         json_object_set_string_member(resp, "material", s->mat.mat.name);

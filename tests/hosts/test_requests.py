@@ -63,6 +63,15 @@ r = call("valley-average", "strained-si-valleys.json")
 t = r["conductivity_mass_tensor_me"]
 check("strained Si: in-plane mass between m_t and the unstrained value",
       0.19 < t[0][0] < 0.2598 and abs(t[0][0] - t[1][1]) < 1e-12 and t[2][2] > 0.2598)
+# The scalar 3 / tr(M^-1) cannot move: every valley's inverse tensor has the
+# trace 1/m_l + 2/m_t (identity), so the population-weighted mean keeps it.
+ml, mt = 0.98, 0.19   # the masses the example request gives
+check("strained Si: the scalar stays 3 / (1/m_l + 2/m_t) and the response says why",
+      abs(r["conductivity_mass_me"] - 3 / (1 / ml + 2 / mt)) < 1e-9
+      and "no shift of the valley populations" in r["conductivity_mass_meaning"])
+keys = list(r)
+check("strained Si: the directional masses come before the scalar",
+      keys.index("conductivity_principal_masses_me") < keys.index("conductivity_mass_me"))
 
 r = call("hole-mass", "gaas-holes.json")
 g1, g2 = 6.98, 2.06   # GaAs Luttinger parameters of the built-in table (Vurgaftman et al. 2001)
