@@ -30,38 +30,49 @@ typedef enum {
 typedef struct {
     const char *schoenflies;
     const char *hm;           /* international short symbol */
+    const char *laue;         /* the group with inversion added: its Laue class */
     int n;
     gen_id gens[3];
 } group_def;
 
+/* All 32 crystallographic point groups. */
 static const group_def GROUPS[] = {
-    {"C1",  "1",      1, {G_E}},
-    {"Ci",  "-1",     1, {G_INV}},
-    {"C2",  "2",      1, {G_C2Z}},
-    {"C2h", "2/m",    2, {G_C2Z, G_INV}},
-    {"D2",  "222",    2, {G_C2Z, G_C2X}},
-    {"D2h", "mmm",    3, {G_C2Z, G_C2X, G_INV}},
-    {"C4",  "4",      1, {G_C4Z}},
-    {"C4h", "4/m",    2, {G_C4Z, G_INV}},
-    {"D4",  "422",    2, {G_C4Z, G_C2X}},
-    {"C4v", "4mm",    2, {G_C4Z, G_SIGX}},
-    {"D2d", "-42m",   2, {G_S4Z, G_C2X}},
-    {"D4h", "4/mmm",  3, {G_C4Z, G_C2X, G_INV}},
-    {"C3",  "3",      1, {G_C3Z}},
-    {"C3v", "3m",     2, {G_C3Z, G_SIGX}},
-    {"D3",  "32",     2, {G_C3Z, G_C2X}},
-    {"D3d", "-3m",    3, {G_C3Z, G_C2X, G_INV}},
-    {"D3h", "-6m2",   3, {G_C3Z, G_C2X, G_SIGH}},
-    {"C6",  "6",      1, {G_C6Z}},
-    {"C6h", "6/m",    2, {G_C6Z, G_INV}},
-    {"C6v", "6mm",    2, {G_C6Z, G_SIGX}},
-    {"D6",  "622",    2, {G_C6Z, G_C2X}},
-    {"D6h", "6/mmm",  3, {G_C6Z, G_C2X, G_INV}},
-    {"T",   "23",     2, {G_C2Z, G_C3D}},
-    {"Th",  "m-3",    3, {G_C2Z, G_C3D, G_INV}},
-    {"Td",  "-43m",   2, {G_S4Z, G_C3D}},
-    {"O",   "432",    2, {G_C4Z, G_C3D}},
-    {"Oh",  "m-3m",   3, {G_C4Z, G_C3D, G_INV}},
+    {"C1",  "1",      "-1",     1, {G_E}},
+    {"Ci",  "-1",     "-1",     1, {G_INV}},
+    {"C2",  "2",      "2/m",    1, {G_C2Z}},
+    {"Cs",  "m",      "2/m",    1, {G_SIGH}},
+    {"C2h", "2/m",    "2/m",    2, {G_C2Z, G_INV}},
+    {"D2",  "222",    "mmm",    2, {G_C2Z, G_C2X}},
+    {"C2v", "mm2",    "mmm",    2, {G_C2Z, G_SIGX}},
+    {"D2h", "mmm",    "mmm",    3, {G_C2Z, G_C2X, G_INV}},
+    {"C4",  "4",      "4/m",    1, {G_C4Z}},
+    {"S4",  "-4",     "4/m",    1, {G_S4Z}},
+    {"C4h", "4/m",    "4/m",    2, {G_C4Z, G_INV}},
+    {"D4",  "422",    "4/mmm",  2, {G_C4Z, G_C2X}},
+    {"C4v", "4mm",    "4/mmm",  2, {G_C4Z, G_SIGX}},
+    {"D2d", "-42m",   "4/mmm",  2, {G_S4Z, G_C2X}},
+    {"D4h", "4/mmm",  "4/mmm",  3, {G_C4Z, G_C2X, G_INV}},
+    {"C3",  "3",      "-3",     1, {G_C3Z}},
+    {"S6",  "-3",     "-3",     2, {G_C3Z, G_INV}},
+    {"C3v", "3m",     "-3m",    2, {G_C3Z, G_SIGX}},
+    {"D3",  "32",     "-3m",    2, {G_C3Z, G_C2X}},
+    {"D3d", "-3m",    "-3m",    3, {G_C3Z, G_C2X, G_INV}},
+    {"C6",  "6",      "6/m",    1, {G_C6Z}},
+    {"C3h", "-6",     "6/m",    2, {G_C3Z, G_SIGH}},
+    {"C6h", "6/m",    "6/m",    2, {G_C6Z, G_INV}},
+    {"D6",  "622",    "6/mmm",  2, {G_C6Z, G_C2X}},
+    {"C6v", "6mm",    "6/mmm",  2, {G_C6Z, G_SIGX}},
+    {"D3h", "-6m2",   "6/mmm",  3, {G_C3Z, G_C2X, G_SIGH}},
+    {"D6h", "6/mmm",  "6/mmm",  3, {G_C6Z, G_C2X, G_INV}},
+    {"T",   "23",     "m-3",    2, {G_C2Z, G_C3D}},
+    {"Th",  "m-3",    "m-3",    3, {G_C2Z, G_C3D, G_INV}},
+    {"O",   "432",    "m-3m",   2, {G_C4Z, G_C3D}},
+    {"Td",  "-43m",   "m-3m",   2, {G_S4Z, G_C3D}},
+    {"Oh",  "m-3m",   "m-3m",   3, {G_C4Z, G_C3D, G_INV}},
+};
+/* other names in use for the same groups */
+static const struct { const char *alias, *name; } ALIASES[] = {
+    {"C1h", "Cs"}, {"C3i", "S6"}, {"Vd", "D2d"}, {"V", "D2"}, {"Vh", "D2h"},
 };
 #define N_GROUPS (sizeof GROUPS / sizeof GROUPS[0])
 
@@ -171,8 +182,8 @@ too_big:
 
 const char *bm_point_group_names(void)
 {
-    return "C1, Ci, C2, C2h, D2, D2h, C4, C4h, D4, C4v, D2d, D4h, C3, C3v, D3, D3d, "
-           "D3h, C6, C6h, C6v, D6, D6h, T, Th, Td, O, Oh";
+    return "C1, Ci, C2, Cs, C2h, D2, C2v, D2h, C4, S4, C4h, D4, C4v, D2d, D4h, C3, S6, "
+           "C3v, D3, D3d, C6, C3h, C6h, D6, C6v, D3h, D6h, T, Th, O, Td, Oh";
 }
 
 bm_status bm_point_group_get(const char *name, bm_point_group *out, bm_errbuf *err)
@@ -180,6 +191,9 @@ bm_status bm_point_group_get(const char *name, bm_point_group *out, bm_errbuf *e
     if (!name || !*name)
         return bm_fail(err, BM_EINVAL, "point group: no name given (supported: %s)",
                        bm_point_group_names());
+    for (size_t i = 0; i < sizeof ALIASES / sizeof ALIASES[0]; i++)
+        if (strcmp(name, ALIASES[i].alias) == 0)
+            name = ALIASES[i].name;
     for (size_t i = 0; i < N_GROUPS; i++) {
         const group_def *d = &GROUPS[i];
         if (strcmp(name, d->schoenflies) != 0 && strcmp(name, d->hm) != 0)
@@ -187,8 +201,10 @@ bm_status bm_point_group_get(const char *name, bm_point_group *out, bm_errbuf *e
         double gens[3][3][3];
         for (int k = 0; k < d->n; k++)
             gen_matrix(d->gens[k], gens[k]);
-        return bm_point_group_generate(BM_M3CP(gens), d->n,
-                                       d->schoenflies, out, err);
+        bm_status st = bm_point_group_generate(BM_M3CP(gens), d->n, d->schoenflies, out, err);
+        if (st == BM_OK)
+            snprintf(out->laue, sizeof out->laue, "%s", d->laue);
+        return st;
     }
     return bm_fail(err, BM_EINVAL,
                    "point group \"%.40s\" is not supported (supported Schoenflies symbols: %s; "

@@ -12,9 +12,13 @@
  * - tetragonal, hexagonal and trigonal groups: the principal axis is z;
  *   the secondary two-fold axis (D groups) or the mirror normal (C_nv groups,
  *   a mirror plane x = 0) lies along x;
- * - C2 and C2h: the two-fold axis is z. */
+ * - C2 and C2h: the two-fold axis is z; Cs: the mirror plane is z = 0;
+ *   C2v: the two-fold axis is z, a mirror plane x = 0. */
 typedef struct {
     char name[8];        /* Schoenflies symbol, e.g. "Oh" */
+    char laue[8];        /* its Laue class (international symbol: the group with
+                            inversion, which time reversal adds to a valley star);
+                            empty for a group made from generators */
     int order;           /* number of operations */
     int has_inversion;   /* 1 when -1 is an element */
     double ops[BM_POINT_GROUP_MAX_ORDER][3][3];

@@ -319,6 +319,127 @@ bm_status bm_valley_star_build(const bm_valley_shape *shape, bm_valley_site site
     return BM_OK;
 }
 
+/* Fractional coordinates of a Cartesian k against the reciprocal lattice of
+ * lattice vectors a: f_i = k . a_i / (2 pi). */
+static void k_fractional(const double a[3][3], const double k[3], double f[3])
+{
+    for (int i = 0; i < 3; i++)
+        f[i] = (k[0] * a[i][0] + k[1] * a[i][1] + k[2] * a[i][2]) / (2.0 * M_PI);
+}
+
+static int integral(const double f[3], double tol)
+{
+    for (int i = 0; i < 3; i++)
+        if (fabs(f[i] - nearbyint(f[i])) > tol)
+            return 0;
+    return 1;
+}
+
+/* The shortest image k + G (G a reciprocal-lattice vector): the first-zone image. */
+static void first_zone(const double a[3][3], double b[3][3], const double k[3],
+                       double out[3])
+{
+    double f[3], best = INFINITY;
+    k_fractional(a, k, f);
+    for (int i = 0; i < 3; i++)
+        f[i] -= nearbyint(f[i]);
+    for (int n0 = -2; n0 <= 2; n0++)
+        for (int n1 = -2; n1 <= 2; n1++)
+            for (int n2 = -2; n2 <= 2; n2++) {
+                double c[3];
+                for (int j = 0; j < 3; j++)
+                    c[j] = (f[0] + n0) * b[0][j] + (f[1] + n1) * b[1][j] + (f[2] + n2) * b[2][j];
+                double l = bm_v3_norm(c);
+                if (l < best * (1.0 - 1e-12)) {
+                    best = l;
+                    memcpy(out, c, sizeof c);
+                }
+            }
+}
+
+bm_status bm_valley_star_zone(const bm_valley_shape *shape, const double k[3],
+                              const double a[3][3], const bm_point_group *g,
+                              double snap_tol, double *snapped_rad,
+                              bm_valley_star *out, bm_errbuf *err)
+{
+    if (snapped_rad)
+        *snapped_rad = 0.0;
+    if (!k || !a || !g || !out)
+        return bm_fail(err, BM_EINVAL, "valley star: k, lattice, group and output are needed");
+    for (int i = 0; i < 3; i++) {
+        if (!isfinite(k[i]))
+            return bm_fail(err, BM_EINVAL, "valley star: k[%d] = %g is not finite", i, k[i]);
+        for (int j = 0; j < 3; j++)
+            if (!isfinite(a[i][j]))
+                return bm_fail(err, BM_EINVAL, "valley star: lattice vector %d is not finite", i);
+    }
+    /* reciprocal vectors b_i (rows): b = 2 pi (a^-1)^T */
+    double ai[3][3], b[3][3];
+    double scale = bm_v3_norm(a[0]) * bm_v3_norm(a[1]) * bm_v3_norm(a[2]);
+    if (!bm_m3_inverse(BM_M3P(ai), BM_M3CP(a), 1e-9 * scale))
+        return bm_fail(err, BM_EINVAL, "valley star: the lattice vectors are linearly dependent");
+    for (int i = 0; i < 3; i++)
+        for (int j = 0; j < 3; j++)
+            b[i][j] = 2.0 * M_PI * ai[j][i];
+    /* every operation must map the reciprocal lattice onto itself */
+    for (int o = 0; o < g->order; o++)
+        for (int i = 0; i < 3; i++) {
+            double rb[3], f[3];
+            bm_m3_apply(rb, BM_M3CP(g->ops[o]), b[i]);
+            k_fractional(a, rb, f);
+            if (!integral(f, 1e-6))
+                return bm_fail(err, BM_EINVAL, "valley star: operation %d of %s does not map "
+                               "the lattice onto itself (reciprocal vector %d goes to "
+                               "(%.4g, %.4g, %.4g) in reciprocal-lattice units): give the "
+                               "lattice vectors in the point group's frame (principal axis z, "
+                               "cube axes x, y, z)", o, g->name, i + 1, f[0], f[1], f[2]);
+        }
+    double k0[3];
+    first_zone(a, b, k, k0);
+    double kl = bm_v3_norm(k0);
+    double blen = fmin(fmin(bm_v3_norm(b[0]), bm_v3_norm(b[1])), bm_v3_norm(b[2]));
+    int gamma = kl < 1e-9 * blen;
+    if (!gamma && snap_tol > 0.0) {
+        double d[3] = { k0[0] / kl, k0[1] / kl, k0[2] / kl }, moved = 0.0;
+        bm_status st = bm_valley_snap_direction(d, g, snap_tol, &moved, err);
+        if (st != BM_OK)
+            return st;
+        for (int j = 0; j < 3; j++)
+            k0[j] = kl * d[j];
+        if (snapped_rad)
+            *snapped_rad = moved;
+    }
+    bm_status st = bm_valley_star_build(shape, gamma ? BM_SITE_GAMMA : BM_SITE_INTERIOR,
+                                        gamma ? NULL : k0, g, out, err);
+    if (st != BM_OK)
+        return st;
+    /* classes of star points equal modulo the reciprocal lattice */
+    int cls[BM_STAR_MAX], size[BM_STAR_MAX] = { 0 }, nclass = 0;
+    for (size_t s = 0; s < out->n; s++) {
+        for (int j = 0; j < 3; j++)
+            out->valleys[s].k[j] = gamma ? 0.0 : kl * out->valleys[s].direction[j];
+        cls[s] = -1;
+        for (size_t t = 0; t < s && cls[s] < 0; t++) {
+            double d[3], f[3];
+            for (int j = 0; j < 3; j++)
+                d[j] = out->valleys[s].k[j] - out->valleys[t].k[j];
+            k_fractional(a, d, f);
+            if (integral(f, 1e-6))
+                cls[s] = cls[t];
+        }
+        if (cls[s] < 0)
+            cls[s] = nclass++;
+        size[cls[s]]++;
+    }
+    out->valley_count = 0.0;
+    for (size_t s = 0; s < out->n; s++) {
+        out->valleys[s].weight = 1.0 / size[cls[s]];
+        out->valley_count += out->valleys[s].weight;
+    }
+    out->valley_count = nclass;   /* the same sum, exactly */
+    return BM_OK;
+}
+
 bm_status bm_valley_average_compute(bm_valley *valleys, size_t n, const bm_population *pop,
                                     bm_valley_average *out, bm_errbuf *err)
 {

@@ -34,6 +34,8 @@ typedef struct {
                                   positive away from the carriers' band edge
                                   (up for electrons, down for holes) */
     double population;         /* fraction of the carriers (filled by the average) */
+    double k[3];               /* a star counted by zone shares: the star point in the
+                                  first zone, 1/Angstrom (0 otherwise) */
 } bm_valley;
 
 #define BM_STAR_MAX BM_POINT_GROUP_MAX_ORDER
@@ -77,6 +79,21 @@ bm_status bm_valley_snap_direction(double dir[3], const bm_point_group *g, doubl
 bm_status bm_valley_star_build(const bm_valley_shape *shape, bm_valley_site site,
                                const double direction[3], const bm_point_group *g,
                                bm_valley_star *out, bm_errbuf *err);
+
+/* The star of a valley at k (Cartesian, 1/Angstrom) in a crystal of lattice
+ * vectors a (rows, Angstrom, in the point group's frame), counted by zone
+ * shares: k is taken to its first-zone image, the star points are its images
+ * under g with time reversal, and each counts 1/m where m of them are one
+ * point modulo a reciprocal-lattice vector (on a zone face 1/2, at a
+ * hexagonal zone corner 1/3); valley_count is the number of distinct points
+ * modulo the reciprocal lattice. With snap_tol > 0 the first-zone image's
+ * direction is snapped first (bm_valley_snap_direction; *snapped_rad gets the
+ * angle). BM_EINVAL where g does not map the lattice
+ * onto itself (axes not in the group's frame) or a is singular. */
+bm_status bm_valley_star_zone(const bm_valley_shape *shape, const double k[3],
+                              const double a[3][3], const bm_point_group *g,
+                              double snap_tol, double *snapped_rad,
+                              bm_valley_star *out, bm_errbuf *err);
 
 /* Fills a bm_valley from a shape (direction may be NULL, weight > 0). */
 bm_status bm_valley_from_shape(const bm_valley_shape *shape, const double direction[3],

@@ -48,7 +48,10 @@ static const BmField response[] = {
     { "material", NULL, TRUE, "the material's name (with \"material\")" },
     { "valley_source", NULL, TRUE, "source of the material's valley (with \"material\")" },
     { "point_group", NULL, TRUE, "the point group of the star (with \"valley\" or \"material\")" },
-    { "position", NULL, TRUE, "the valley site of the star (with \"valley\" or \"material\")" },
+    { "star_symmetry", NULL, TRUE, "the symmetry of the star: the point group with time "
+      "reversal, its Laue class (with \"valley\" or \"material\")" },
+    { "position", NULL, TRUE, "the valley site of the star (with \"valley\" or "
+      "\"material\"; zone-shares with \"lattice_angstrom\")" },
     { "position_from", NULL, TRUE,
       "how the site was chosen: request, default, or the extremum's k (with \"valley\")" },
     { "direction_snapped", NULL, TRUE,
@@ -113,6 +116,8 @@ static JsonArray *valleys_json(const BmValleySet *s)
         const bm_valley *v = &s->valleys[i];
         JsonObject *o = json_object_new();
         bm_json_set_vec3(o, "direction", v->direction);
+        if (s->zone_shares)
+            bm_json_set_vec3(o, "k_inv_angstrom", v->k);
         bm_json_set_number(o, "weight", v->weight);
         bm_json_set_vec3(o, "principal_masses_me", v->masses);
         bm_json_set_mat3(o, "axes", CM3(v->axes));
@@ -145,6 +150,20 @@ static const char *conductivity_meaning(const BmValleySet *s)
            "direction";
 }
 
+/* A valley star has the symmetry of the point group with time reversal
+ * (k -> -k), which adds inversion: the group's Laue class. */
+static void set_star_symmetry(JsonObject *resp, const char *group_name)
+{
+    bm_point_group g;
+    bm_errbuf err = {0};
+    if (bm_point_group_get(group_name, &g, &err) != BM_OK)
+        return;
+    g_autofree char *text = g_strdup_printf("%s with time reversal (k -> -k): the Laue "
+                                            "class %s, so groups of one Laue class give the "
+                                            "same star", g.name, g.laue);
+    json_object_set_string_member(resp, "star_symmetry", text);
+}
+
 static JsonObject *respond(const BmValleySet *s, const bm_population *pop, gboolean has_t,
                            const bm_valley_average *avg)
 {
@@ -171,6 +190,7 @@ static JsonObject *respond(const BmValleySet *s, const bm_population *pop, gbool
     }
     if (s->group_name) {
         json_object_set_string_member(resp, "point_group", s->group_name);
+        set_star_symmetry(resp, s->group_name);
         json_object_set_string_member(resp, "position", s->site_name);
         if (s->site_from)
             json_object_set_string_member(resp, "position_from", s->site_from);

@@ -12,7 +12,7 @@
  * and weight. Each list is written once and the entry form extends it. */
 #define VALLEY_KEYS \
     "longitudinal_mass_me", "transverse_mass_me", "axis", "principal_masses_me", "axes", \
-    "direction"
+    "direction", "k_inv_angstrom"
 /* An element of mass-tensor's "extrema", taken as it is. */
 #define EXTREMUM_KEYS \
     "kind", "dims", "energy_ev", "k_inv_angstrom", "k_fractional", "principal_masses_me", \
@@ -39,6 +39,7 @@ typedef struct {
     double dir[3];
     gboolean has_dir;
     BmValleyCarrier carrier;
+    gboolean has_k;             /* dir is the valley's k, 1/Angstrom (not only a direction) */
     gboolean site_known;        /* an extremum's k fixes gamma / interior / face */
     double snap_tol;            /* an extremum's direction is snapped within this (0: not) */
     bm_valley_site site;
@@ -172,6 +173,7 @@ static gboolean parse_extremum(JsonObject *v, const char *where, gboolean list_e
     }
     extremum_site(v, p->dir, p);
     p->has_dir = p->site != BM_SITE_GAMMA;
+    p->has_k = TRUE;
     /* a numerical position is snapped onto its symmetry element, within its
      * own error (k_error / |k|, at least 1e-4, at most 0.05 rad) */
     double klen = sqrt(p->dir[0] * p->dir[0] + p->dir[1] * p->dir[1] + p->dir[2] * p->dir[2]);
@@ -234,10 +236,21 @@ static gboolean parse_valley(JsonObject *v, const char *where, gboolean list_ent
             return FALSE;
         }
     }
+    if (json_object_has_member(v, "direction") && json_object_has_member(v, "k_inv_angstrom")) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: give \"direction\" or "
+                    "\"k_inv_angstrom\" (the valley's position), not both", where);
+        return FALSE;
+    }
     if (json_object_has_member(v, "direction")) {
         if (!bm_json_vec3(v, "direction", where, p->dir, error))
             return FALSE;
         p->has_dir = TRUE;
+    }
+    if (json_object_has_member(v, "k_inv_angstrom")) {
+        if (!bm_json_vec3(v, "k_inv_angstrom", where, p->dir, error))
+            return FALSE;
+        p->has_k = TRUE;
+        p->has_dir = p->dir[0] != 0.0 || p->dir[1] != 0.0 || p->dir[2] != 0.0;
     }
     return TRUE;
 }
@@ -329,6 +342,48 @@ static gboolean build_star(BmValleySet *s, const bm_valley_shape *shape, bm_vall
     return TRUE;
 }
 
+/* The star counted by zone shares: the valley's k and the lattice vectors. */
+static gboolean build_zone_star(BmValleySet *s, const ParsedValley *p, JsonObject *request,
+                                GError **error)
+{
+    bm_errbuf err = {0};
+    const char *group_name = json_object_get_string_member(request, "point_group");
+    bm_point_group g;
+    if (bm_point_group_get(group_name, &g, &err) != BM_OK) {
+        bm_error_from_core(error, &err, "request: key \"point_group\"");
+        return FALSE;
+    }
+    if (json_object_has_member(request, "position")) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "request: \"lattice_angstrom\" "
+                    "counts the star by zone shares, which replaces \"position\": leave one out");
+        return FALSE;
+    }
+    if (!p->has_k) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "valley: \"lattice_angstrom\" "
+                    "counts the star by zone shares and needs the valley's k: give "
+                    "\"k_inv_angstrom\" in the valley (an extremum of mass-tensor has it)");
+        return FALSE;
+    }
+    double a[3][3];
+    if (!bm_json_mat3(request, "lattice_angstrom", "request", a, error))
+        return FALSE;
+    s->star = g_new0(bm_valley_star, 1);
+    if (bm_valley_star_zone(&p->shape, p->dir, (const double (*)[3])a, &g, s->snap_tol,
+                            &s->snapped_rad, s->star, &err) != BM_OK) {
+        bm_error_from_core(error, &err, "valley");
+        return FALSE;
+    }
+    s->valleys = s->star->valleys;
+    s->n = s->star->n;
+    s->count = s->star->valley_count;
+    s->group_name = group_name;
+    s->site_name = "zone-shares";
+    s->site_from = "lattice_angstrom: the star points modulo reciprocal-lattice vectors, each "
+                   "counted by its share of the zone";
+    s->zone_shares = TRUE;
+    return TRUE;
+}
+
 /* "valley" may be a whole mass-tensor response holding a single extremum. */
 static JsonObject *single_valley(JsonObject *request, GError **error)
 {
@@ -361,6 +416,9 @@ static gboolean from_valley(JsonObject *request, BmValleySet *s, GError **error)
     ParsedValley p;
     if (!v || !parse_valley(v, "valley", FALSE, &p, &s->pw, error) || !adopt(s, &p, v, "valley", error))
         return FALSE;
+    s->snap_tol = p.snap_tol;
+    if (json_object_has_member(request, "lattice_angstrom"))
+        return build_zone_star(s, &p, request, error);
     /* the registry checked "position" against the valley sites */
     bm_valley_site site = BM_SITE_INTERIOR;
     s->site_from = "default";
@@ -469,6 +527,13 @@ gboolean bm_valley_set_read(JsonObject *request, BmValleySet *s, GError **error)
         return FALSE;
     }
     g_string_free(given, TRUE);
+    if (json_object_has_member(request, "lattice_angstrom")
+        && !json_object_has_member(request, "valley")) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "request: \"lattice_angstrom\" "
+                    "goes with \"valley\" and \"point_group\" (a star counted by zone "
+                    "shares), not with \"valleys\" or \"material\"");
+        return FALSE;
+    }
     if (json_object_has_member(request, "valley"))
         return from_valley(request, s, error);
     if (json_object_has_member(request, "material"))

@@ -33,6 +33,7 @@ typedef struct {
     BmMaterialInput mat;         /* material path only */
     gboolean has_mat;
     BmValleyCarrier carrier;     /* one kind for all valleys */
+    gboolean zone_shares;        /* the star was counted by zone shares (valleys carry k) */
     bm_warnings pw;              /* parsing warnings */
     bm_warnings carried;         /* warnings of extrema given as valleys */
 } BmValleySet;
@@ -56,6 +57,11 @@ void bm_valley_set_clear(BmValleySet *s);
     { "position", BM_VALUE_STRING, FALSE, NULL, \
       "where \"valley\" sits (default interior; for an extremum of mass-tensor, from " \
       "its k)", .choices = &bm_enum_valley_site }, \
+    { "lattice_angstrom", BM_VALUE_ARRAY, FALSE, NULL, \
+      "with \"valley\": the lattice vectors [a1, a2, a3] (rows, Angstrom, in the point " \
+      "group's frame): the star is then counted from the valley's k modulo reciprocal-" \
+      "lattice vectors, each point by its share of the zone (a hexagonal zone corner " \
+      "1/3), instead of by \"position\"", .unit = "Angstrom" }, \
     { "material", BM_VALUE_STRING | BM_VALUE_OBJECT, FALSE, NULL, \
       "instead of \"valley\": a built-in material name, an object or a JSON file; its " \
       "conduction valley and point group give the star", .unit = NULL }, \
