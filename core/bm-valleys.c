@@ -440,6 +440,53 @@ bm_status bm_valley_star_zone(const bm_valley_shape *shape, const double k[3],
     return BM_OK;
 }
 
+bm_status bm_valley_confine(const bm_valley *v, const double normal[3], bm_confined_valley *out,
+                            bm_errbuf *err)
+{
+    double nl = bm_v3_norm(normal);
+    if (!isfinite(nl) || nl == 0.0)
+        return bm_fail(err, BM_EINVAL, "confinement: the layer normal is zero or not finite");
+    /* an orthonormal basis: e[0], e[1] in the plane, e[2] the normal */
+    double e[3][3] = { { 0 } };
+    for (int i = 0; i < 3; i++)
+        e[0][i] = normal[i] / nl;
+    bm_complete_basis(e, 1);
+    double basis[3][3];
+    memcpy(basis[0], e[1], sizeof basis[0]);
+    memcpy(basis[1], e[2], sizeof basis[1]);
+    memcpy(basis[2], e[0], sizeof basis[2]);
+    double w[3][3];
+    for (int a = 0; a < 3; a++)
+        for (int b = 0; b < 3; b++) {
+            double s = 0.0;
+            for (int i = 0; i < 3; i++)
+                for (int j = 0; j < 3; j++)
+                    s += basis[a][i] * v->inv_mass[i][j] * basis[b][j];
+            w[a][b] = s;
+        }
+    if (!(w[2][2] > 0.0))
+        return bm_fail(err, BM_EINVAL, "confinement: the valley's inverse mass along the "
+                       "normal is %g 1/m_e, not positive", w[2][2]);
+    out->quantization_mass = 1.0 / w[2][2];
+    double p[3][3] = { { 0 } }, ev[3], vec[3][3];
+    for (int a = 0; a < 2; a++)
+        for (int b = 0; b < 2; b++)
+            p[a][b] = w[a][b] - w[a][2] * w[b][2] / w[2][2];
+    if (bm_symeig(p, 2, ev, vec) != 0 || !(ev[0] > 0.0) || !(ev[1] > 0.0))
+        return bm_fail(err, BM_EINVAL, "confinement: the in-plane inverse mass tensor is not "
+                       "positive definite");
+    out->dos_mass_2d = 1.0 / sqrt(ev[0] * ev[1]);
+    /* ascending masses: the larger inverse mass first */
+    int big = ev[0] >= ev[1] ? 0 : 1;
+    for (int m = 0; m < 2; m++) {
+        int o = m == 0 ? big : 1 - big;
+        out->inplane_masses[m] = 1.0 / ev[o];
+        for (int i = 0; i < 3; i++)
+            out->inplane_axes[m][i] = vec[o][0] * basis[0][i] + vec[o][1] * basis[1][i];
+    }
+    return BM_OK;
+}
+
 bm_status bm_valley_average_compute(bm_valley *valleys, size_t n, const bm_population *pop,
                                     bm_valley_average *out, bm_errbuf *err)
 {

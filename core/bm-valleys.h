@@ -95,6 +95,22 @@ bm_status bm_valley_star_zone(const bm_valley_shape *shape, const double k[3],
                               double snap_tol, double *snapped_rad,
                               bm_valley_star *out, bm_errbuf *err);
 
+/* A valley in a layer confined along the unit normal n (the effective-mass
+ * approximation for an ellipsoid tilted against the layer; Stern & Howard,
+ * Phys. Rev. 163, 816 (1967)): with W the inverse mass tensor, the subbands
+ * are quantised with m_z = 1 / (n W n), and the in-plane motion has the
+ * inverse tensor W_ij - W_in W_jn / W_nn, whose determinant gives the 2D
+ * density-of-states mass sqrt(m1 m2 m3 / m_z). */
+typedef struct {
+    double quantization_mass;     /* m_z, m_e */
+    double dos_mass_2d;           /* m_e */
+    double inplane_masses[2];     /* principal in-plane masses, ascending, m_e */
+    double inplane_axes[2][3];    /* their Cartesian unit vectors (rows) */
+} bm_confined_valley;
+
+bm_status bm_valley_confine(const bm_valley *v, const double normal[3], bm_confined_valley *out,
+                            bm_errbuf *err);
+
 /* Fills a bm_valley from a shape (direction may be NULL, weight > 0). */
 bm_status bm_valley_from_shape(const bm_valley_shape *shape, const double direction[3],
                                double weight, double energy_offset_ev,

@@ -12,7 +12,8 @@
  * and weight. Each list is written once and the entry form extends it. */
 #define VALLEY_KEYS \
     "longitudinal_mass_me", "transverse_mass_me", "axis", "principal_masses_me", "axes", \
-    "direction", "k_inv_angstrom"
+    "direction", "k_inv_angstrom", "longitudinal_mass_error_me", "transverse_mass_error_me", \
+    "principal_masses_error_me"
 /* An element of mass-tensor's "extrema", taken as it is. */
 #define EXTREMUM_KEYS \
     "kind", "dims", "energy_ev", "k_inv_angstrom", "k_fractional", "principal_masses_me", \
@@ -40,6 +41,8 @@ typedef struct {
     gboolean has_dir;
     BmValleyCarrier carrier;
     gboolean has_k;             /* dir is the valley's k, 1/Angstrom (not only a direction) */
+    int nerr;                   /* mass parameters with errors: 2 (m_l, m_t), 3 (principal) */
+    double merr[3];             /* their errors, m_e (NAN: none given) */
     gboolean site_known;        /* an extremum's k fixes gamma / interior / face */
     double snap_tol;            /* an extremum's direction is snapped within this (0: not) */
     bm_valley_site site;
@@ -96,6 +99,37 @@ static void extremum_site(JsonObject *v, const double k[3], ParsedValley *p)
         half = half && fabs(2.0 * kf[i] - nearbyint(2.0 * kf[i])) < 1e-6;
     if (half)
         p->site = BM_SITE_FACE;
+}
+
+/* Errors of the principal masses, when given: numbers >= 0, or null (not
+ * assessed: then no error is propagated at all). */
+static gboolean mass_errors(JsonObject *v, const char *key, int n, const char *where,
+                            ParsedValley *p, GError **error)
+{
+    JsonNode *en = json_object_get_member(v, key);
+    if (!en || JSON_NODE_HOLDS_NULL(en))
+        return TRUE;
+    JsonArray *ea = JSON_NODE_HOLDS_ARRAY(en) ? json_node_get_array(en) : NULL;
+    if (!ea || json_array_get_length(ea) != (guint)n) {
+        g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: \"%s\" must hold %d errors",
+                    where, key, n);
+        return FALSE;
+    }
+    for (int i = 0; i < n; i++) {
+        JsonNode *e = json_array_get_element(ea, (guint)i);
+        GType t = JSON_NODE_HOLDS_VALUE(e) ? json_node_get_value_type(e) : G_TYPE_INVALID;
+        if (JSON_NODE_HOLDS_NULL(e))
+            return TRUE;   /* one not assessed: no propagation */
+        double x = t == G_TYPE_DOUBLE || t == G_TYPE_INT64 ? json_node_get_double(e) : NAN;
+        if (!isfinite(x) || x < 0.0) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: %s[%d] must be a "
+                        "finite number >= 0 (or null)", where, key, i);
+            return FALSE;
+        }
+        p->merr[i] = x;
+    }
+    p->nerr = n;
+    return TRUE;
 }
 
 /* An extremum of mass-tensor: a minimum is an electron valley, a maximum a hole
@@ -174,6 +208,8 @@ static gboolean parse_extremum(JsonObject *v, const char *where, gboolean list_e
     extremum_site(v, p->dir, p);
     p->has_dir = p->site != BM_SITE_GAMMA;
     p->has_k = TRUE;
+    if (!mass_errors(v, "principal_masses_error_me", 3, where, p, error))
+        return FALSE;
     /* a numerical position is snapped onto its symmetry element, within its
      * own error (k_error / |k|, at least 1e-4, at most 0.05 rad) */
     double klen = sqrt(p->dir[0] * p->dir[0] + p->dir[1] * p->dir[1] + p->dir[2] * p->dir[2]);
@@ -216,7 +252,39 @@ static gboolean parse_valley(JsonObject *v, const char *where, gboolean list_ent
         }
         memcpy(p->dir, ax, sizeof ax);
         p->has_dir = TRUE;
+        if (json_object_has_member(v, "principal_masses_error_me")) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: a spheroidal valley "
+                        "takes longitudinal_mass_error_me and transverse_mass_error_me", where);
+            return FALSE;
+        }
+        double e[2] = { NAN, NAN };
+        gboolean any = FALSE;
+        static const char *const ek[2] = { "longitudinal_mass_error_me", "transverse_mass_error_me" };
+        for (int i = 0; i < 2; i++)
+            if (json_object_has_member(v, ek[i])) {
+                any = TRUE;
+                if (!bm_json_number(v, ek[i], where, &e[i], error))
+                    return FALSE;
+                if (!isfinite(e[i]) || e[i] < 0.0) {
+                    g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: %s = %g must be "
+                                "finite and >= 0", where, ek[i], e[i]);
+                    return FALSE;
+                }
+            }
+        if (any) {
+            p->nerr = 2;
+            p->merr[0] = isfinite(e[0]) ? e[0] : 0.0;
+            p->merr[1] = isfinite(e[1]) ? e[1] : 0.0;
+        }
     } else {
+        if (json_object_has_member(v, "longitudinal_mass_error_me")
+            || json_object_has_member(v, "transverse_mass_error_me")) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: a valley of "
+                        "principal_masses_me takes principal_masses_error_me", where);
+            return FALSE;
+        }
+        if (!mass_errors(v, "principal_masses_error_me", 3, where, p, error))
+            return FALSE;
         gsize n = 0;
         g_autofree double *m = bm_json_numbers(v, "principal_masses_me", where, &n, error);
         if (!m)
@@ -342,6 +410,50 @@ static gboolean build_star(BmValleySet *s, const bm_valley_shape *shape, bm_vall
     return TRUE;
 }
 
+/* The three masses of the valley's mass parameters: (m_l, m_t, m_t) or (m1, m2, m3). */
+static void param_masses(int nerr, const double *x, double m[3])
+{
+    m[0] = x[0];
+    m[1] = x[1];
+    m[2] = nerr == 2 ? x[1] : x[2];
+}
+
+/* The relative errors of the DOS mass ((m1 m2 m3)^(1/3) times a factor the
+ * star and populations give) and of the scalar conductivity mass (3 / sum of
+ * 1/m_i: one star, whatever its populations), to first order from the mass
+ * errors taken as independent (a spheroid's two transverse masses are one). */
+static void propagate_errors(const ParsedValley *p, BmValleySet *s)
+{
+    if (p->nerr == 0)
+        return;
+    double x[3], m[3];
+    for (int i = 0; i < 3; i++)
+        x[i] = i == 0 ? p->shape.masses[0] : 0.0;
+    if (p->nerr == 2) {
+        /* a spheroid's shape holds (m_l, m_t, m_t) */
+        x[0] = p->shape.masses[0];
+        x[1] = p->shape.masses[1];
+    } else {
+        memcpy(x, p->shape.masses, sizeof x);
+    }
+    double vd = 0.0, vc = 0.0;
+    param_masses(p->nerr, x, m);
+    double d0 = cbrt(m[0] * m[1] * m[2]), c0 = 3.0 / (1.0 / m[0] + 1.0 / m[1] + 1.0 / m[2]);
+    for (int i = 0; i < p->nerr; i++) {
+        double h = 1e-6 * x[i], xp[3];
+        memcpy(xp, x, sizeof xp);
+        xp[i] += h;
+        param_masses(p->nerr, xp, m);
+        double dd = (cbrt(m[0] * m[1] * m[2]) - d0) / h / d0;
+        double dc = (3.0 / (1.0 / m[0] + 1.0 / m[1] + 1.0 / m[2]) - c0) / h / c0;
+        vd += dd * dd * p->merr[i] * p->merr[i];
+        vc += dc * dc * p->merr[i] * p->merr[i];
+    }
+    s->has_mass_errors = TRUE;
+    s->dos_rel_error = sqrt(vd);
+    s->conductivity_rel_error = sqrt(vc);
+}
+
 /* The star counted by zone shares: the valley's k and the lattice vectors. */
 static gboolean build_zone_star(BmValleySet *s, const ParsedValley *p, JsonObject *request,
                                 GError **error)
@@ -381,6 +493,7 @@ static gboolean build_zone_star(BmValleySet *s, const ParsedValley *p, JsonObjec
     s->site_from = "lattice_angstrom: the star points modulo reciprocal-lattice vectors, each "
                    "counted by its share of the zone";
     s->zone_shares = TRUE;
+    memcpy(s->lattice, a, sizeof s->lattice);
     return TRUE;
 }
 
@@ -417,6 +530,7 @@ static gboolean from_valley(JsonObject *request, BmValleySet *s, GError **error)
     if (!v || !parse_valley(v, "valley", FALSE, &p, &s->pw, error) || !adopt(s, &p, v, "valley", error))
         return FALSE;
     s->snap_tol = p.snap_tol;
+    propagate_errors(&p, s);
     if (json_object_has_member(request, "lattice_angstrom"))
         return build_zone_star(s, &p, request, error);
     /* the registry checked "position" against the valley sites */

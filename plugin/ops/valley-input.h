@@ -34,6 +34,10 @@ typedef struct {
     gboolean has_mat;
     BmValleyCarrier carrier;     /* one kind for all valleys */
     gboolean zone_shares;        /* the star was counted by zone shares (valleys carry k) */
+    double lattice[3][3];        /* lattice_angstrom, rows (zone_shares only) */
+    gboolean has_mass_errors;    /* the valley's masses came with errors */
+    double dos_rel_error;        /* relative error of the DOS mass they give */
+    double conductivity_rel_error; /* of the scalar conductivity mass */
     bm_warnings pw;              /* parsing warnings */
     bm_warnings carried;         /* warnings of extrema given as valleys */
 } BmValleySet;

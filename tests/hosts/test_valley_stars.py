@@ -16,22 +16,7 @@ import os
 import subprocess
 import sys
 
-CLI = sys.argv[1] if len(sys.argv) > 1 else os.environ['BANDMASS_CLI']
-failures = []
-
-
-def check(what, ok):
-    print(("ok     " if ok else "FAILED ") + what)
-    if not ok:
-        failures.append(what)
-
-
-def call(request, expect_ok=True):
-    p = subprocess.run([CLI, 'call', 'valley-average'], input=json.dumps(request),
-                       capture_output=True, text=True)
-    if expect_ok and p.returncode != 0:
-        raise SystemExit('valley-average failed: ' + p.stderr)
-    return json.loads(p.stdout) if p.returncode == 0 else p
+from valley_calls import CLI, call, check, failures
 
 
 def star(group, lattice, k, masses=(0.3, 0.5, 0.9)):

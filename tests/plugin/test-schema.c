@@ -42,6 +42,18 @@ static const Case cases[] = {
                               "\"axes\": [[1,0,0],[0,1,0],[0,0,1]]}, \"point_group\": \"Oh\", "
                               "\"position\": \"gamma\"}" },
     { "valley-average", EXAMPLES, "strained-si-valleys.json" },
+    /* strain with the built-in deformation potential, a (001) well */
+    { "valley-average", NULL, "{\"material\": \"Si\", \"strain\": [[0.01,0,0],[0,0.01,0],"
+                              "[0,0,-0.0077]], \"temperature_k\": 300, \"statistics\": "
+                              "\"boltzmann\", \"confinement_miller\": [0,0,1], "
+                              "\"well_width_nm\": 5}" },
+    /* a star counted by zone shares, masses with errors */
+    { "valley-average", NULL, "{\"valley\": {\"longitudinal_mass_me\": 0.98, "
+                              "\"transverse_mass_me\": 0.19, \"axis\": [1,0,0], "
+                              "\"k_inv_angstrom\": [0.98,0,0], \"longitudinal_mass_error_me\": "
+                              "0.03, \"transverse_mass_error_me\": 0.01}, \"point_group\": "
+                              "\"Oh\", \"lattice_angstrom\": [[0,2.7155,2.7155],"
+                              "[2.7155,0,2.7155],[2.7155,2.7155,0]]}" },
     { "valley-average", NULL, "{\"valleys\": [" SI_VALLEY "], \"temperature_k\": 300, "
                               "\"fermi_level_ev\": -0.1}" },
     { "hole-mass", EXAMPLES, "gaas-holes.json" },
