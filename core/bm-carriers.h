@@ -62,6 +62,7 @@ typedef enum {
 typedef struct {
     bm_dos_mass_kind kind;
     double value;                 /* FIXED */
+    double error;                 /* FIXED: its standard error, m_e (0: none given) */
     size_t n;                     /* TABLE */
     const double *t_k, *mass;
     double fit_numerator[BM_DOS_FIT_NUMERATOR];      /* FIT */

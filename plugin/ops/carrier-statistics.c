@@ -54,6 +54,11 @@ static const BmField response[] = {
     { "statistics_hole_dos_mass_me", "m_e", TRUE,
       "valence-band DOS mass m_dh(T) used for Nv (the carrier-statistics hole DOS mass)" },
     { "nc_cm3", "cm^-3", TRUE, "effective density of states of the conduction band" },
+    { "nc_error_cm3", "cm^-3", TRUE, "where a fixed DOS mass of the material carries "
+      "error_me: the error of nc_cm3 it gives (3/2 of the mass's relative error)" },
+    { "nv_error_cm3", "cm^-3", TRUE, "the same for nv_cm3" },
+    { "ni_error_cm3", "cm^-3", TRUE, "the same for ni_cm3 (3/4 of the two relative errors "
+      "in quadrature)" },
     { "nv_cm3", "cm^-3", TRUE, "effective density of states of the valence band" },
     { "ni_cm3", "cm^-3", TRUE, "intrinsic density sqrt(Nc Nv) exp(-Eg / 2kT) of the "
       "undoped gap" },
@@ -250,6 +255,20 @@ static gboolean read_mass_points(JsonObject *request, MassPoints *mp, bm_materia
         return FALSE;
     }
     return TRUE;
+}
+
+/* Errors of Nc, Nv and ni where a fixed DOS mass carries one: Nc ~ m^(3/2),
+ * ni ~ (Nc Nv)^(1/2), first order, the two masses independent. */
+static void set_errors(JsonObject *o, const bm_carrier_state *st, const bm_material *m)
+{
+    const bm_dos_mass_model *e = &m->electron_dos_mass, *h = &m->statistics_hole_dos_mass;
+    double re = e->kind == BM_DOS_MASS_FIXED && e->error > 0.0 ? e->error / e->value : 0.0;
+    double rh = h->kind == BM_DOS_MASS_FIXED && h->error > 0.0 ? h->error / h->value : 0.0;
+    if (re == 0.0 && rh == 0.0)
+        return;
+    bm_json_set_number(o, "nc_error_cm3", 1.5 * re * st->nc_cm3);
+    bm_json_set_number(o, "nv_error_cm3", 1.5 * rh * st->nv_cm3);
+    bm_json_set_number(o, "ni_error_cm3", 0.75 * hypot(re, rh) * st->ni_cm3);
 }
 
 static void set_state(JsonObject *o, const bm_carrier_state *st, const Dopants *don,
@@ -456,6 +475,7 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
         }
         JsonObject *row = list ? json_object_new() : resp;
         set_state(row, &st, &don, &acc);
+        set_errors(row, &st, &mat.mat);
         if (doping_sweep) {
             json_object_set_array_member(row, "donors", dopant_list(&don, st.donor_ionisation_ev,
                                                                     st.donor_fully_ionised));

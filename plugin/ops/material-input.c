@@ -278,8 +278,8 @@ static gboolean fixed_numbers(JsonObject *o, const char *key, const char *where,
 static gboolean read_dos(BmMaterialInput *in, JsonObject *o, const Field *f, const char *where,
                          GError **error)
 {
-    static const char *const keys[] = { "value", "points", "fit_numerator", "fit_denominator",
-                                        "source", NULL };
+    static const char *const keys[] = { "value", "error_me", "points", "fit_numerator",
+                                        "fit_denominator", "source", NULL };
     static const char *const pkeys[] = { "temperature_k", "mass_me", NULL };
     bm_dos_mass_model *m = FIELD(&in->mat, f, bm_dos_mass_model);
     memset(m, 0, sizeof *m);
@@ -302,9 +302,23 @@ static gboolean read_dos(BmMaterialInput *in, JsonObject *o, const Field *f, con
         return invalid(error, "%s: give exactly one of \"value\", \"points\" or "
                        "\"fit_numerator\" with \"fit_denominator\"", w);
     bm_errbuf err = {0};
+    if (json_object_has_member(d, "error_me")) {
+        if (!has_v)
+            return invalid(error, "%s: \"error_me\" goes with a fixed \"value\"", w);
+        if (!bm_json_number(d, "error_me", w, &m->error, error))
+            return FALSE;
+        if (!isfinite(m->error) || m->error < 0.0)
+            return invalid(error, "%s: \"error_me\" = %g must be finite and >= 0", w,
+                           m->error);
+    }
     if (has_v) {
         m->kind = BM_DOS_MASS_FIXED;
-        return bm_json_positive(d, "value", w, &m->value, error);
+        if (!bm_json_positive(d, "value", w, &m->value, error))
+            return FALSE;
+        if (m->error >= m->value)
+            return invalid(error, "%s: \"error_me\" %g is not below the mass %g", w,
+                           m->error, m->value);
+        return TRUE;
     }
     if (has_f) {
         m->kind = BM_DOS_MASS_FIT;
@@ -566,6 +580,8 @@ static JsonObject *dos_json(const bm_dos_mass_model *m)
     JsonObject *d = json_object_new();
     if (m->kind == BM_DOS_MASS_FIXED) {
         bm_json_set_number(d, "value", m->value);
+        if (m->error > 0.0)
+            bm_json_set_number(d, "error_me", m->error);
     } else if (m->kind == BM_DOS_MASS_FIT) {
         bm_json_set_numbers(d, "fit_numerator", m->fit_numerator, BM_DOS_FIT_NUMERATOR);
         bm_json_set_numbers(d, "fit_denominator", m->fit_denominator, BM_DOS_FIT_DENOMINATOR);

@@ -101,4 +101,24 @@ want_c = math.hypot(mc ** 2 / (3 * ml ** 2) * dl, mc ** 2 / 3 * 2 / mt ** 2 * dt
 check('m_d error to first order', abs(r['dos_mass_error_me'] / want_d - 1) < 1e-5)
 check('m_c error to first order', abs(r['conductivity_mass_error_me'] / want_c - 1) < 1e-5)
 
+# carrier-statistics: a fixed DOS mass with an error gives errors of Nc and ni
+mat = {'name': 'Orvane-T', 'band_gap_ev': 0.61,
+       'electron_dos_mass_me': {'value': 0.42, 'error_me': 0.02},
+       'statistics_hole_dos_mass_me': {'value': 0.55, 'error_me': 0.03}}
+r = call({'material': mat, 'temperature_k': 300}, op='carrier-statistics')
+re_, rh = 0.02 / 0.42, 0.03 / 0.55
+check('Nc error is 3/2 of the mass\'s relative error (Nc ~ m^(3/2))',
+      abs(r['nc_error_cm3'] / (1.5 * re_ * r['nc_cm3']) - 1) < 1e-12)
+check('ni error is 3/4 of the two relative errors in quadrature (ni ~ (Nc Nv)^(1/2))',
+      abs(r['ni_error_cm3'] / (0.75 * math.hypot(re_, rh) * r['ni_cm3']) - 1) < 1e-12)
+lo = call({'material': dict(mat, electron_dos_mass_me=0.42 - 1e-4), 'temperature_k': 300},
+          op='carrier-statistics')['nc_cm3']
+hi = call({'material': dict(mat, electron_dos_mass_me=0.42 + 1e-4), 'temperature_k': 300},
+          op='carrier-statistics')['nc_cm3']
+check('the same slope as Nc recomputed at m +- 1e-4',
+      abs((hi - lo) / 2e-4 * 0.02 / r['nc_error_cm3'] - 1) < 1e-6)
+p = call({'material': dict(mat, electron_dos_mass_me={'value': 0.42, 'error_me': 0.5}),
+          'temperature_k': 300}, op='carrier-statistics', expect_ok=False)
+check('an error as large as the mass is refused', p.returncode == 2)
+
 sys.exit(1 if failures else 0)

@@ -47,6 +47,11 @@ static const Case cases[] = {
                               "[0,0,-0.0077]], \"temperature_k\": 300, \"statistics\": "
                               "\"boltzmann\", \"confinement_miller\": [0,0,1], "
                               "\"well_width_nm\": 5}" },
+    /* a material whose DOS mass carries an error */
+    { "carrier-statistics", NULL, "{\"material\": {\"name\": \"Orvane-T\", \"band_gap_ev\": "
+                                  "0.61, \"electron_dos_mass_me\": {\"value\": 0.42, "
+                                  "\"error_me\": 0.02}, \"statistics_hole_dos_mass_me\": 0.55}, "
+                                  "\"temperature_k\": 300}" },
     /* a star counted by zone shares, masses with errors */
     { "valley-average", NULL, "{\"valley\": {\"longitudinal_mass_me\": 0.98, "
                               "\"transverse_mass_me\": 0.19, \"axis\": [1,0,0], "
