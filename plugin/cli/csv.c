@@ -117,6 +117,15 @@ static void row_put(Row *r, const char *name, char *text)
     g_hash_table_insert(r->cells, n, text);
 }
 
+/* Appends the columns of src to dst, in their order. */
+static void row_append(Row *dst, const Row *src)
+{
+    for (guint i = 0; i < src->names->len; i++) {
+        const char *n = src->names->pdata[i];
+        row_put(dst, n, g_strdup(g_hash_table_lookup(src->cells, n)));
+    }
+}
+
 /* Labels for the elements of an array key: species names for per-species
  * values, x/y/z for Cartesian k; NULL: numbered from 1. */
 typedef struct {
@@ -264,7 +273,8 @@ typedef enum {
     ROWS_MEMBER,     /* an array of objects under key (absent: one row) */
     ROWS_OBJECTS,    /* an object of objects under key: one row each, "name" first */
     ROWS_PARALLEL,   /* arrays (or single numbers) under key and key2, element by element */
-    ROWS_HOLES       /* hole-mass: one row per hole band */
+    ROWS_HOLES,      /* hole-mass: one row per hole band */
+    ROWS_BANDS       /* mass-tensor of every band: each band's extrema */
 } RowsKind;
 
 static const struct {
@@ -284,6 +294,30 @@ static const struct {
     { "fermi-integral", ROWS_PARALLEL, "eta", "values" },
     { "hole-mass", ROWS_HOLES, NULL, NULL },
 };
+
+/* The rows of the objects in the array under key, then (mass-tensor) a
+ * table's estimates beyond its data, each marked by a beyond_data column. */
+static void member_rows(JsonObject *response, const char *key, GPtrArray *rows,
+                        const Labels *lab)
+{
+    JsonNode *member = json_object_get_member(response, key);
+    JsonArray *a = member && JSON_NODE_HOLDS_ARRAY(member) ? json_node_get_array(member) : NULL;
+    JsonNode *beyond = json_object_get_member(response, "beyond_data");
+    JsonArray *b = beyond && JSON_NODE_HOLDS_ARRAY(beyond) ? json_node_get_array(beyond) : NULL;
+    for (int part = 0; part < 2; part++) {
+        JsonArray *list = part ? b : a;
+        for (guint i = 0; list && i < json_array_get_length(list); i++) {
+            JsonNode *e = json_array_get_element(list, i);
+            if (!JSON_NODE_HOLDS_OBJECT(e))
+                continue;
+            Row *r = row_new();
+            if (!strcmp(key, "extrema"))
+                row_put(r, "beyond_data", g_strdup(part ? "true" : "false"));
+            flatten_object(r, lab, json_node_get_object(e), TRUE);
+            g_ptr_array_add(rows, r);
+        }
+    }
+}
 
 /* hole-mass: heavy, light and split-off bands with their parabolic mass,
  * population and Luttinger directional and DOS masses. */
@@ -341,7 +375,11 @@ gboolean bm_cli_csv(const BmOperation *op, JsonObject *response, GString *out, G
     const char *rows_key = key;
 
     JsonNode *member = key ? json_object_get_member(response, key) : NULL;
-    if (kind == ROWS_MEMBER && !member)
+    if (!strcmp(op->name, "mass-tensor") && json_object_has_member(response, "bands")) {
+        kind = ROWS_BANDS;
+        member = json_object_get_member(response, "bands");
+        rows_key = "bands";
+    } else if (kind == ROWS_MEMBER && !member)
         kind = ROWS_SINGLE;   /* one point: the response is the row */
     switch (kind) {
     case ROWS_SINGLE: {
@@ -350,22 +388,24 @@ gboolean bm_cli_csv(const BmOperation *op, JsonObject *response, GString *out, G
         g_ptr_array_add(rows, r);
         break;
     }
-    case ROWS_MEMBER: {
-        JsonArray *a = JSON_NODE_HOLDS_ARRAY(member) ? json_node_get_array(member) : NULL;
-        JsonNode *beyond = json_object_get_member(response, "beyond_data");
-        JsonArray *b = beyond && JSON_NODE_HOLDS_ARRAY(beyond) ? json_node_get_array(beyond)
-                                                                 : NULL;
-        for (int part = 0; part < 2; part++) {
-            JsonArray *list = part ? b : a;
-            for (guint i = 0; list && i < json_array_get_length(list); i++) {
-                JsonNode *e = json_array_get_element(list, i);
-                if (!JSON_NODE_HOLDS_OBJECT(e))
-                    continue;
-                Row *r = row_new();
-                if (!strcmp(key, "extrema"))   /* a table's estimates beyond its data */
-                    row_put(r, "beyond_data", g_strdup(part ? "true" : "false"));
-                flatten_object(r, &lab, json_node_get_object(e), TRUE);
-                g_ptr_array_add(rows, r);
+    case ROWS_MEMBER:
+        member_rows(response, key, rows, &lab);
+        break;
+    case ROWS_BANDS: {
+        /* mass-tensor with "band": "all": each band's rows, its index and name first */
+        JsonArray *bands = json_node_get_array(member);
+        for (guint i = 0; i < json_array_get_length(bands); i++) {
+            JsonObject *one = json_array_get_object_element(bands, i);
+            JsonObject *band = json_object_get_object_member(one, "band");
+            guint before = rows->len;
+            member_rows(one, "extrema", rows, &lab);
+            for (guint q = before; q < rows->len; q++) {
+                Row *r = rows->pdata[q], *head = row_new();
+                row_put(head, "band_index", cell(json_object_get_member(band, "index")));
+                row_put(head, "band_name", cell(json_object_get_member(band, "name")));
+                row_append(head, r);
+                rows->pdata[q] = head;
+                row_free(r);
             }
         }
         break;

@@ -421,16 +421,15 @@ static void append_value(GString *out, JsonNode *n, const char *fmt)
         g_string_append_printf(out, " %10s", "-");
 }
 
-static void render_mass_tensor(G_GNUC_UNUSED const BmOperation *op,
-                               JsonObject *response, GString *out)
+/* One band's extrema; response holds band and extrema, source is the file. */
+static void render_band_extrema(JsonObject *response, const char *source, GString *out)
 {
     JsonObject *b = json_object_get_object_member(response, "band");
     const char *name = json_object_get_null_member(b, "name") ? NULL
                      : json_object_get_string_member(b, "name");
     g_string_append_printf(out, "band %" G_GINT64_FORMAT "%s%s%s of %s\n",
                            json_object_get_int_member(b, "index"), name ? " (" : "",
-                           name ? name : "", name ? ")" : "",
-                           json_object_get_string_member(response, "source"));
+                           name ? name : "", name ? ")" : "", source);
     JsonArray *list = json_object_get_array_member(response, "extrema");
     guint n = json_array_get_length(list);
     /* grids give fractional k; scattered tables only Cartesian k */
@@ -503,7 +502,30 @@ static void render_mass_tensor(G_GNUC_UNUSED const BmOperation *op,
     }
     if (n == 0)
         g_string_append(out, "(no extrema)\n");
-    /* top-level warnings are printed by the host after the table */
+}
+
+static void render_mass_tensor(G_GNUC_UNUSED const BmOperation *op,
+                               JsonObject *response, GString *out)
+{
+    const char *source = json_object_get_string_member(response, "source");
+    if (!json_object_has_member(response, "bands")) {
+        render_band_extrema(response, source, out);
+        return;   /* top-level warnings are printed by the host after the table */
+    }
+    /* "band": "all": each band with its own warnings (the host prints only
+     * the top level's) */
+    JsonArray *bands = json_object_get_array_member(response, "bands");
+    for (guint i = 0; i < json_array_get_length(bands); i++) {
+        JsonObject *one = json_array_get_object_element(bands, i);
+        if (i)
+            g_string_append_c(out, '\n');
+        render_band_extrema(one, source, out);
+        JsonNode *w = json_object_get_member(one, "warnings");
+        for (guint c = 0; w && JSON_NODE_HOLDS_ARRAY(w) && c < json_array_get_length(
+                 json_node_get_array(w)); c++)
+            g_string_append_printf(out, "warning: %s\n",
+                                   json_array_get_string_element(json_node_get_array(w), c));
+    }
 }
 
 /* ---- sheet-density ---- */

@@ -27,6 +27,7 @@
 #include "mass-tensor.h"
 #include "bm-json.h"
 #include "band-select.h"
+#include "grid-input.h"
 
 #include <math.h>
 #include <stdlib.h>
@@ -43,7 +44,8 @@ static const BmParam params[] = {
       "k_inv_angstrom column, the signed distance along the line): needed for one, refused "
       "otherwise", .unit = NULL },
     { "band", BM_VALUE_INTEGER | BM_VALUE_STRING, FALSE, NULL,
-      "band: 0-based index or name (may be left out when the data hold one band)",
+      "band: 0-based index or name (may be left out when the data hold one band), or "
+      "\"all\" for every band in turn",
       .unit = NULL },
     { "extremum", BM_VALUE_STRING, FALSE, "\"all\"", "which extrema to report",
       .choices = &bm_enum_extremum_search },
@@ -66,9 +68,12 @@ static const BmParam params[] = {
 };
 
 static const BmField response[] = {
-    { "band", NULL, FALSE, "the band: {index (0-based), name (null when unnamed)}" },
+    { "band", NULL, TRUE, "the band: {index (0-based), name (null when unnamed)}; with "
+      "\"band\": \"all\", in each element of bands" },
     { "source", NULL, FALSE, "where the band data came from (file, or \"in-memory grid\")" },
-    { "extrema", NULL, FALSE,
+    { "bands", NULL, TRUE, "with \"band\": \"all\": one object per band, in order, each "
+      "with band, extrema, beyond_data and warnings as a one-band request gives them" },
+    { "extrema", NULL, TRUE,
       "one object per extremum: kind (minimum, maximum, saddle), dims, energy_ev, "
       "k_inv_angstrom, k_fractional (null for a table), principal_masses_me (signed, m_e, "
       "by increasing |m|; \"divergent\" or null where there is no finite mass), "
@@ -497,7 +502,7 @@ static void add_stencil(JsonObject *o, const bm_mass_tensor *t, double recip[3][
     json_object_set_object_member(o, "refinement_stencil", st);
 }
 
-static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
+static JsonObject *run_band(JsonObject *request, const BmCallInputs *inputs, GError **error)
 {
     g_autoptr(BmMassTensorSearch) s = bm_mass_tensor_search(request, inputs, error);
     if (!s)
@@ -532,6 +537,86 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     }
     bm_json_warn_all(response, &s->warnings);
     return response;
+}
+
+static gboolean all_bands(JsonObject *request)
+{
+    JsonNode *n = json_object_get_member(request, "band");
+    return n && JSON_NODE_HOLDS_VALUE(n) && json_node_get_value_type(n) == G_TYPE_STRING
+        && strcmp(json_node_get_string(n), "all") == 0;
+}
+
+/* "band": "all": every band in turn, the grid read once; one response per
+ * band under "bands", each as a one-band request gives it. */
+static JsonObject *run_all(JsonObject *request, const BmCallInputs *inputs, GError **error)
+{
+    gboolean has_grid = json_object_has_member(request, "grid")
+                     || bm_call_inputs_lookup(inputs, "grid", BM_INPUT_BAND_GRID, NULL);
+    gboolean has_table = json_object_has_member(request, "table");
+    if (has_grid == has_table)
+        return run_band(request, inputs, error);   /* says what is wrong with the band data */
+    /* the request with its own top-level members: "band" and "grid" change */
+    g_autoptr(JsonObject) sub = json_object_new();
+    g_autoptr(GList) keys = json_object_get_members(request);
+    for (GList *k = keys; k; k = k->next)
+        json_object_set_member(sub, k->data,
+                               json_node_copy(json_object_get_member(request, k->data)));
+    g_autoptr(BmBandGrid) loaded = NULL;
+    g_autoptr(BmKTable) table = NULL;
+    BmInput in = { "grid", BM_INPUT_BAND_GRID, NULL };
+    BmCallInputs own = { 1, &in };
+    const BmCallInputs *use = inputs;
+    size_t nbands;
+    char **names;
+    if (has_grid) {
+        const BmBandGrid *grid = bm_grid_input(request, inputs, &loaded, error);
+        if (!grid)
+            return NULL;
+        if (loaded) {   /* read here once: every band's search gets it handed over */
+            json_object_remove_member(sub, "grid");
+            in.value = grid;
+            use = &own;
+        }
+        nbands = grid->grid.nbands;
+        names = grid->band_names;
+    } else {
+        table = bm_ktable_load(json_object_get_string_member(request, "table"), error);
+        if (!table)
+            return NULL;
+        nbands = table->table.nbands;
+        names = table->band_names;
+    }
+    for (size_t b = 0; names && b < nbands; b++)
+        if (names[b] && strcmp(names[b], "all") == 0) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "request: \"band\": \"all\" "
+                        "is ambiguous: band %zu of the data is named \"all\" (select it by "
+                        "index %zu)", b, b);
+            return NULL;
+        }
+    JsonObject *response = json_object_new();
+    JsonArray *list = json_array_new();
+    json_object_set_array_member(response, "bands", list);
+    for (size_t b = 0; b < nbands; b++) {
+        json_object_set_int_member(sub, "band", (gint64)b);
+        JsonObject *one = run_band(sub, use, error);
+        if (!one) {
+            g_prefix_error(error, "band %zu: ", b);
+            json_object_unref(response);
+            return NULL;
+        }
+        if (!json_object_has_member(response, "source"))
+            json_object_set_string_member(response, "source",
+                                          json_object_get_string_member(one, "source"));
+        json_object_remove_member(one, "source");
+        json_array_add_object_element(list, one);
+    }
+    return response;
+}
+
+static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
+{
+    return all_bands(request) ? run_all(request, inputs, error)
+                              : run_band(request, inputs, error);
 }
 
 const BmOperation bm_op_mass_tensor = {

@@ -27,6 +27,8 @@ static const Case cases[] = {
     { "constants", NULL, "{}" },
     { "mass-tensor", DATA, "{\"grid\": \"grid-small.json\", \"band\": 0}" },
     { "mass-tensor", EXAMPLES, "orte-arpes-mass.json" },
+    { "mass-tensor", DATA, "{\"grid\": \"first-principles/si-12.json\", \"band\": \"all\", "
+                           "\"extremum\": \"minimum\"}" },
     /* a stencil that does not bracket the minimum: its estimate is beyond the data */
     { "mass-tensor", DATA, "{\"table\": \"first-principles/si-stencil-beyond.csv\", \"band\": \"c1\", \"extremum\": \"minimum\", \"stencil\": true}" },
     { "valley-average", NULL, "{\"valley\": " SI_VALLEY ", \"point_group\": \"Oh\", "
