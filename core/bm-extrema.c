@@ -335,6 +335,16 @@ static bm_status grid_geometry(const bm_grid *g, bm_errbuf *err)
         for (int c = 0; c < 3; c++)
             if (!isfinite(g->recip[a][c]))
                 return bm_fail(err, BM_EINVAL, "reciprocal vector b%d component %d is not finite", a + 1, c);
+    /* the domain of a crystal: lattice periods from about 6 mA to 6 um
+     * (|b| from 1e-4 to 1e3 1/A); beyond it a value is a unit mistake, and
+     * fit radii and stencil reaches computed from it overflow */
+    for (int a = 0; a < 3; a++) {
+        double l = bm_norm3(g->recip[a]);
+        if (l > 1e3 || (g->mesh[a] > 1 && l < 1e-4))
+            return bm_fail(err, BM_EINVAL, "reciprocal vector b%d has length %g 1/Angstrom, "
+                           "outside the domain 1e-4 to 1e3 1/Angstrom (lattice periods of 6 mA "
+                           "to 6 um; a unit mistake?)", a + 1, l);
+    }
     if (g->channel_bands && g->nbands % g->channel_bands != 0)
         return bm_fail(err, BM_EINVAL, "%zu bands do not split into spin channels of %zu",
                        g->nbands, g->channel_bands);

@@ -327,6 +327,13 @@ JsonObject *bm_registry_invoke(const BmOperation *op, JsonObject *request,
         if (error && !*error)
             g_set_error(error, BM_ERROR, BM_ERROR_INTERNAL,
                         "%s failed without saying why", op->name);
+        /* a second line of defence: a message is text a host can show,
+         * whatever bytes of the user's a reader let into it */
+        if (error && *error && !g_utf8_validate((*error)->message, -1, NULL)) {
+            char *valid = g_utf8_make_valid((*error)->message, -1);
+            g_free((*error)->message);
+            (*error)->message = valid;
+        }
         return NULL;
     }
     bm_json_warnings_ensure(response);
@@ -339,9 +346,9 @@ char *bm_registry_call_json(const char *op_name, const char *request_json,
 {
     const BmOperation *op = bm_registry_lookup(op_name);
     if (!op) {
+        g_autofree char *q = bm_text_for_message(op_name ? op_name : "(null)", -1);
         g_set_error(error, BM_ERROR, BM_ERROR_UNKNOWN_OPERATION,
-                    "no operation named \"%s\" (list them with: bandmass ops)",
-                    op_name ? op_name : "(null)");
+                    "no operation named %s (list them with: bandmass ops)", q);
         return NULL;
     }
     g_autoptr(GError) parse_error = NULL;

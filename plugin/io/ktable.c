@@ -169,6 +169,13 @@ BmKTable *bm_ktable_load_from_data(const char *data, gsize length, const char *n
                 "kx_inv_angstrom,ky_inv_angstrom,kz_inv_angstrom,band_ev)");
         return NULL;
     }
+    /* band names come from the header and go into every response: text */
+    if (!g_utf8_validate(lines[hline], -1, NULL)) {
+        g_autofree char *q = bm_text_for_message(lines[hline], -1);
+        bm_error_invalid(error, name, "line %zu: the header row %s is not UTF-8 text (band "
+                "names are written into every answer)", hline + 1, q);
+        return NULL;
+    }
     char sep = strchr(lines[hline], '\t') ? '\t' : ',';
     const char *sep_name = sep == '\t' ? "tab" : "comma";
     g_autoptr(GPtrArray) header = split_fields(lines[hline], sep);

@@ -24,6 +24,7 @@
  * read() for arrays that outlive the call. */
 #define _DEFAULT_SOURCE 1   /* MAP_POPULATE */
 #include "npy.h"
+#include "bm-json.h"
 #include "bm-error-private.h"
 
 #include <errno.h>
@@ -298,9 +299,10 @@ static gboolean parse_header(const char *text, size_t len, const char *path,
                 return FALSE;
             hd->have_shape = TRUE;
         } else {
+            g_autofree char *q = bm_text_for_message(key, -1);
             g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                        "%s: .npy header has an unexpected key '%s' (expected "
-                        "'descr', 'fortran_order' and 'shape')", path, key);
+                        "%s: .npy header has an unexpected key %s (expected "
+                        "'descr', 'fortran_order' and 'shape')", path, q);
             return FALSE;
         }
         hskip(&h);
@@ -442,9 +444,9 @@ BmNpyArray *bm_npy_read_f64(const char *path, GError **error)
     else if (strcmp(hd.descr, ">f8") == 0)
         swap = (G_BYTE_ORDER == G_LITTLE_ENDIAN);
     else {
+        g_autofree char *q = bm_text_for_message(hd.descr, -1);
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
-                    "%s: unsupported dtype '%s'; expected '<f8' or '>f8' (float64)",
-                    path, hd.descr);
+                    "%s: unsupported dtype %s; expected '<f8' or '>f8' (float64)", path, q);
         goto out;
     }
     if (hd.fortran) {

@@ -603,7 +603,7 @@ static void write_field(JsonObject *o, const bm_material *m, const Field *f)
 {
     switch (f->type) {
     case F_STRING: {
-        const char *s = *CFIELD(m, f, const char *);
+        const char *s = *CFIELD(m, f, char *);
         if (s)
             json_object_set_string_member(o, f->key, s);
         return;

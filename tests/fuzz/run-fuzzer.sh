@@ -17,5 +17,7 @@ G_SLICE=always-malloc
 export ASAN_OPTIONS UBSAN_OPTIONS G_SLICE
 # -timeout: one input taking longer is a finding (every request is bounded);
 # -rss_limit_mb: so is one that needs more memory than this
+# -error_exitcode: libFuzzer's own default, 77, is what meson reads as "skipped"
 exec "$fuzzer" -max_total_time="${BANDMASS_FUZZ_SECONDS:-12}" -timeout=30 -rss_limit_mb=2560 \
+    -error_exitcode=1 -timeout_exitcode=1 \
     -max_len=65536 -print_final_stats=1 -artifact_prefix="$artifacts/" "$corpus" "$start"

@@ -271,9 +271,9 @@ static void test_npy_bad(tmpdir *t, gconstpointer data)
         { "unclosed.npy", "{'descr': '<f8', 'fortran_order': False, 'shape': (2, 3)",
           "not a valid dict literal" },
         { "i4.npy", "{'descr': '<i4', 'fortran_order': False, 'shape': (2, 3), }",
-          "unsupported dtype '<i4'; expected '<f8' or '>f8'" },
+          "unsupported dtype \"<i4\"; expected '<f8' or '>f8'" },
         { "f4.npy", "{'descr': '<f4', 'fortran_order': False, 'shape': (2, 3), }",
-          "unsupported dtype '<f4'" },
+          "unsupported dtype \"<f4\"" },
         { "struct.npy", "{'descr': [('a', '<f8')], 'fortran_order': False, 'shape': (2, 3), }",
           "structured dtype" },
         { "fortran.npy", "{'descr': '<f8', 'fortran_order': True, 'shape': (2, 3), }",
@@ -282,7 +282,7 @@ static void test_npy_bad(tmpdir *t, gconstpointer data)
         { "badshape.npy", "{'descr': '<f8', 'fortran_order': False, 'shape': (2, x), }",
           "'shape' must be a tuple" },
         { "extra.npy", "{'descr': '<f8', 'fortran_order': False, 'shape': (2, 3), 'x': 1}",
-          "unexpected key 'x'" },
+          "unexpected key \"x\"" },
         { "bool.npy", "{'descr': '<f8', 'fortran_order': Maybe, 'shape': (2, 3), }",
           "'fortran_order' must be True or False" },
         { "huge.npy", "{'descr': '<f8', 'fortran_order': False, "
@@ -308,7 +308,7 @@ static void test_npy_bad(tmpdir *t, gconstpointer data)
     /* NumPy-written files that are not float64 C order */
     struct { const char *file, *what; } numpy_cases[] = {
         { "grid-fortran.npy", "fortran_order is True" },
-        { "grid-f4.npy", "unsupported dtype '<f4'" },
+        { "grid-f4.npy", "unsupported dtype \"<f4\"" },
     };
     for (size_t c = 0; c < G_N_ELEMENTS(numpy_cases); c++) {
         g_autofree char *p = data_path(numpy_cases[c].file);
@@ -574,6 +574,7 @@ static void test_grid_bad_files(tmpdir *t, gconstpointer data)
     g_autoptr(GByteArray) b = npy_bytes("{'descr': '<f8', 'fortran_order': False, "
                                         "'shape': (1, 2, 2, 1), }", body, sizeof body);
     g_autofree char *np = write_file(t, "nan.npy", b->data, b->len);
+    g_assert_nonnull(np);
     const char *doc = HEAD RECIP "\"mesh\": [2, 2, 1], \"energies_ev\": \"nan.npy\"}";
     g_autofree char *dp = write_file(t, "nan.json", doc, -1);
     GError *e = NULL;

@@ -107,6 +107,7 @@ static void test_defaults_and_warnings(void)
     g_autoptr(JsonObject) req2 = parse_object("{\"temperature_k\": 1000, \"weights\": [0, 0.5],"
                                               " \"mode\": \"fancy\"}");
     g_autoptr(JsonObject) resp2 = bm_registry_invoke(&echo_op, req2, NULL, &error);
+    g_assert_nonnull(resp2);
     g_assert_no_error(error);
 }
 
