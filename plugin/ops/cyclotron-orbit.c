@@ -10,6 +10,7 @@
 #include "bm-enums.h"
 #include "bm-error-private.h"
 #include "grid-input.h"
+#include "bm-parallel.h"
 #include "band-select.h"
 #include "bm-bandinterp.h"
 #include "bm-extrema.h"
@@ -109,10 +110,9 @@ typedef struct {
     bm_errbuf *errs;
 } orbit_job;
 
-static void run_direction(gpointer slot, gpointer data)
+static void run_direction(gsize i, gpointer data)
 {
     orbit_job *j = data;
-    size_t i = GPOINTER_TO_SIZE(slot) - 1;
     j->status[i] = bm_orbits_find(j->g, j->bi, j->band, j->c, j->fd->dirs[i], j->e, j->sense,
                                   &j->sets[i], &j->errs[i]);
 }
@@ -188,17 +188,7 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     status = g_new0(bm_status, fd.n);
     errs = g_new0(bm_errbuf, fd.n);
     orbit_job job = { &grid->grid, bi, band, c, &fd, e, sense, sets, status, errs };
-    guint threads = MIN(g_get_num_processors(), 64);
-    GThreadPool *pool = threads > 1 && fd.n > 1
-        ? g_thread_pool_new(run_direction, &job, (gint)threads, TRUE, NULL) : NULL;
-    for (gsize i = 0; i < fd.n; i++) {
-        if (pool)
-            g_thread_pool_push(pool, GSIZE_TO_POINTER(i + 1), NULL);
-        else
-            run_direction(GSIZE_TO_POINTER(i + 1), &job);
-    }
-    if (pool)
-        g_thread_pool_free(pool, FALSE, TRUE);
+    bm_parallel_for(fd.n, MIN(g_get_num_processors(), 64), run_direction, &job);
     for (gsize i = 0; i < fd.n; i++) {
         bm_orbit_set set = sets[i];
         if (status[i] != BM_OK) {

@@ -11,6 +11,7 @@
 #include "bm-json.h"
 #include "bm-error-private.h"
 #include "grid-input.h"
+#include "bm-parallel.h"
 #include "band-select.h"
 #include "bm-crystal.h"
 #include "bm-thermal.h"
@@ -111,10 +112,9 @@ typedef struct {
     size_t first;             /* the batch's first unit */
 } pool_job;
 
-static void run_unit(gpointer slot, gpointer data)
+static void run_unit(gsize i, gpointer data)
 {
     pool_job *job = data;
-    size_t i = GPOINTER_TO_SIZE(slot) - 1;
     bm_thermal_accumulate(job->setup, job->first + i, &job->parts[i]);
 }
 
@@ -151,16 +151,7 @@ static gboolean sample(const bm_thermal_setup *s, guint want_threads, bm_thermal
     for (size_t first = 0; ok && first < nu; first += UNITS_PER_BATCH) {
         size_t count = MIN(UNITS_PER_BATCH, nu - first);
         job.first = first;
-        GThreadPool *pool = threads > 1
-            ? g_thread_pool_new(run_unit, &job, (gint)threads, TRUE, NULL) : NULL;
-        for (size_t u = 0; u < count; u++) {
-            if (pool)
-                g_thread_pool_push(pool, GSIZE_TO_POINTER(u + 1), NULL);
-            else
-                run_unit(GSIZE_TO_POINTER(u + 1), &job);
-        }
-        if (pool)
-            g_thread_pool_free(pool, FALSE, TRUE);
+        bm_parallel_for(count, threads, run_unit, &job);
         for (size_t u = 0; u < count; u++) {
             bm_thermal_merge(s, out, &parts[u]);
             bm_thermal_spectrum_reset(&parts[u], s);
