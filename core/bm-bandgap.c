@@ -74,10 +74,10 @@ bm_status bm_gap_at(const bm_gap_model *g, double t_k, double *eg_ev, bm_warning
         double occ = x > 700.0 ? 0.0 : 1.0 / expm1(x);
         eg = g->eg0_ev - 2.0 * g->a_b_ev * occ;
     }
-    if (!(fabs(eg) <= BM_GAP_MAX_EV))
+    if (!(eg <= BM_GAP_MAX_EV && eg >= BM_GAP_MIN_EV))
         return bm_fail(err, BM_EINVAL, "band gap (%s): Eg(%g K) = %g eV is outside the domain "
-                       "|Eg| <= %g eV: the parameters are used far outside their range", form,
-                       t_k, eg, BM_GAP_MAX_EV);
+                       "%g to %g eV (a semimetal's overlap at most): the parameters are used "
+                       "far outside their range", form, t_k, eg, BM_GAP_MIN_EV, BM_GAP_MAX_EV);
     *eg_ev = eg;
     if (eg <= 0.0)
         bm_warn(w, BM_WARN_GAP_NOT_POSITIVE, "band gap (%s): Eg(%g K) = %g eV is not positive; the "

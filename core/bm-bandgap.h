@@ -33,6 +33,10 @@ typedef struct {
 /* The domain of gaps (Eg0, and Eg at any temperature): |Eg| <= 100 eV. A
  * larger value is a unit mistake, and would defeat the carrier solver. */
 #define BM_GAP_MAX_EV 100.0
+/* The most negative gap: the band overlap of a semimetal (HgTe about -0.3 eV,
+ * grey tin and bismuth less; common practice, no source). Beyond it the
+ * parameters are used far outside their range. */
+#define BM_GAP_MIN_EV (-2.0)
 
 /* The parameters of a model (kind VARSHNI, BOSE_EINSTEIN or FIXED): finite,
  * within their ranges and |Eg0| <= BM_GAP_MAX_EV; BM_EINVAL naming the value

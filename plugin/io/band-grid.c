@@ -398,13 +398,15 @@ static gboolean mesh_index(const BmBandGrid *g, const double f[3], size_t idx[3]
     for (int a = 0; a < 3; a++) {
         double x = f[a] * (double)n[a] - g->grid.offset[a];
         double r = nearbyint(x);
-        if (fabs(x - r) > 1e-6) {
+        /* a point more than a thousand zones out is no mesh point of this
+         * grid (and would overflow an integer index) */
+        if (fabs(x - r) > 1e-6 || !(fabs(f[a]) <= 1e3)) {
             *bad_axis = a;
-            *off_by = x - r;
+            *off_by = fabs(f[a]) <= 1e3 ? x - r : NAN;   /* NAN: beyond the domain */
             return FALSE;
         }
-        long m = (long)r % (long)n[a];
-        idx[a] = (size_t)(m < 0 ? m + (long)n[a] : m);
+        double m = fmod(r, (double)n[a]);   /* exact for any finite r */
+        idx[a] = (size_t)(m < 0.0 ? m + (double)n[a] : m);
     }
     return TRUE;
 }
@@ -502,6 +504,11 @@ static gboolean place_points(JsonArray *kl, JsonNode *en, const char *name, cons
                             &f[a], error))
                 return FALSE;
         }
+        if (!mesh_index(g, f, idx, &bad, &off_by) && isnan(off_by))
+            return bm_error_invalid(error, name, "'k_points_fractional'[%zu] = (%g, %g, %g): "
+                                    "component %d lies beyond 1000 reciprocal-lattice vectors "
+                                    "(fractional coordinates of a mesh point are within a few "
+                                    "zones)", q, f[0], f[1], f[2], bad + 1);
         if (!mesh_index(g, f, idx, &bad, &off_by))
             return bm_error_invalid(error, name, "'k_points_fractional'[%zu] = (%g, %g, %g) "
                                     "is not a point of the %zu x %zu x %zu mesh (offset "

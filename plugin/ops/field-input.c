@@ -59,9 +59,20 @@ static gboolean read_sweep(JsonObject *s, BmFieldDirections *out, GError **error
     return TRUE;
 }
 
+static gboolean read_directions(JsonObject *request, BmFieldDirections *out, GError **error);
+
+/* On failure nothing is left allocated: the callers return at once. */
 gboolean bm_field_directions_read(JsonObject *request, BmFieldDirections *out, GError **error)
 {
     memset(out, 0, sizeof *out);
+    if (read_directions(request, out, error))
+        return TRUE;
+    bm_field_directions_clear(out);
+    return FALSE;
+}
+
+static gboolean read_directions(JsonObject *request, BmFieldDirections *out, GError **error)
+{
     gboolean one = json_object_has_member(request, "field_direction");
     gboolean many = json_object_has_member(request, "field_directions");
     if (one == many) {

@@ -83,9 +83,9 @@ static void test_varshni_and_bose_einstein(void)
     g_assert_cmpfloat(eg, ==, 1.52);
     g_assert_cmpint(bm_gap_at(&be, 1.0, &eg, NULL, &err), ==, BM_OK);
     g_assert_cmpfloat(eg, ==, 1.52);
-    double t = 24000.0, x = 240.0 / t;
+    double t = 2400.0, x = 240.0 / t;   /* next term x^3/720: 2e-7 eV */
     g_assert_cmpint(bm_gap_at(&be, t, &eg, NULL, &err), ==, BM_OK);
-    g_assert_cmpfloat(fabs(eg - (1.52 - 2 * 0.057 * (1 / x - 0.5 + x / 12))), <, 1e-9);
+    g_assert_cmpfloat(fabs(eg - (1.52 - 2 * 0.057 * (1 / x - 0.5 + x / 12))), <, 1e-6);
     /* a gap that goes negative is returned with a warning */
     bm_warnings w = { 0 };
     g_assert_cmpint(bm_gap_at(&gaas, 5000.0, &eg, &w, &err), ==, BM_OK);
