@@ -431,12 +431,9 @@ bm_status bm_valley_star_zone(const bm_valley_shape *shape, const double k[3],
             cls[s] = nclass++;
         size[cls[s]]++;
     }
-    out->valley_count = 0.0;
-    for (size_t s = 0; s < out->n; s++) {
+    for (size_t s = 0; s < out->n; s++)
         out->valleys[s].weight = 1.0 / size[cls[s]];
-        out->valley_count += out->valleys[s].weight;
-    }
-    out->valley_count = nclass;   /* the same sum, exactly */
+    out->valley_count = nclass;   /* the sum of the weights, exactly */
     return BM_OK;
 }
 

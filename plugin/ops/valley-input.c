@@ -426,16 +426,10 @@ static void propagate_errors(const ParsedValley *p, BmValleySet *s)
 {
     if (p->nerr == 0)
         return;
+    /* the parameters: a spheroid's shape holds (m_l, m_t, m_t), so its first
+     * two masses are m_l and m_t; a general valley's three are its own */
     double x[3], m[3];
-    for (int i = 0; i < 3; i++)
-        x[i] = i == 0 ? p->shape.masses[0] : 0.0;
-    if (p->nerr == 2) {
-        /* a spheroid's shape holds (m_l, m_t, m_t) */
-        x[0] = p->shape.masses[0];
-        x[1] = p->shape.masses[1];
-    } else {
-        memcpy(x, p->shape.masses, sizeof x);
-    }
+    memcpy(x, p->shape.masses, sizeof x);
     double vd = 0.0, vc = 0.0;
     param_masses(p->nerr, x, m);
     double d0 = cbrt(m[0] * m[1] * m[2]), c0 = 3.0 / (1.0 / m[0] + 1.0 / m[1] + 1.0 / m[2]);
