@@ -197,6 +197,11 @@ static gboolean refuse(SEXP x, const Path *path, Failure *f)
                 Rf_type2char(TYPEOF(x)), c ? " and class " : "", c ? c : "", why);
 }
 
+static gboolean refuse_na(const Path *path, Failure *f)
+{
+    return fail(f, BM_R_INVALID_INPUT, "%s: NA (a missing value) cannot be sent", path->text);
+}
+
 static gboolean refuse_real(double v, const Path *path, Failure *f)
 {
     if (isfinite(v))
@@ -210,7 +215,7 @@ static gboolean refuse_real(double v, const Path *path, Failure *f)
 static const char *text_of(SEXP s, const Path *path, Failure *f)
 {
     if (s == NA_STRING) {
-        fail(f, BM_R_INVALID_INPUT, "%s: NA (a missing value) cannot be sent", path->text);
+        refuse_na(path, f);
         return NULL;
     }
     cetype_t ce = Rf_getCharCE(s);
@@ -256,8 +261,7 @@ static gboolean fill_element(JsonNode *n, SEXP x, R_xlen_t i, const Path *path, 
             gint64 v;
             memcpy(&v, &REAL(x)[i], sizeof v);
             if (v == INT64_MIN)   /* bit64's NA */
-                return fail(f, BM_R_INVALID_INPUT, "%s: NA (a missing value) cannot be sent",
-                            path->text);
+                return refuse_na(path, f);
             json_node_init_int(n, v);
             return TRUE;
         }
@@ -269,14 +273,12 @@ static gboolean fill_element(JsonNode *n, SEXP x, R_xlen_t i, const Path *path, 
     }
     case INTSXP:
         if (INTEGER(x)[i] == NA_INTEGER)
-            return fail(f, BM_R_INVALID_INPUT, "%s: NA (a missing value) cannot be sent",
-                        path->text);
+            return refuse_na(path, f);
         json_node_init_int(n, INTEGER(x)[i]);
         return TRUE;
     case LGLSXP:
         if (LOGICAL(x)[i] == NA_LOGICAL)
-            return fail(f, BM_R_INVALID_INPUT, "%s: NA (a missing value) cannot be sent",
-                        path->text);
+            return refuse_na(path, f);
         json_node_init_boolean(n, LOGICAL(x)[i] != 0);
         return TRUE;
     case STRSXP: {

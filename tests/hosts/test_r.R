@@ -383,7 +383,8 @@ same(bandmass_call("carrier-statistics", list(material = "Si", temperatures_k = 
 # a donor density of 1e17 and above: the response repeats it exactly as sent
 got <- bandmass_call("carrier-statistics",
                      list(material = "GaAs", temperature_k = 300,
-                          donors = list(list(species = "Si", density_cm3 = 1e17))))
+                          donors = list(list(species = "Si", density_cm3 = 1e17))),
+                     warn = FALSE)
 check(got$donors$density_cm3[1] == 1e17, "density 1e17 received exactly")
 same(got, cli(c("call", "carrier-statistics"),
               '{"material": "GaAs", "temperature_k": 300, "donors": [{"species": "Si", "density_cm3": 1e17}]}'),
@@ -392,7 +393,8 @@ same(got, cli(c("call", "carrier-statistics"),
 for (d in 10^seq(14, 20, by = 0.5)) {
   got <- bandmass_call("carrier-statistics",
                        list(material = "GaAs", temperature_k = 300,
-                            donors = data.frame(species = "Si", density_cm3 = d)))
+                            donors = data.frame(species = "Si", density_cm3 = d)),
+                       warn = FALSE)   # degenerate doping: boltzmann-deviation, kept
   check(got$donors$density_cm3[1] == d, sprintf("density %.17g received exactly", d))
   same(got, cli(c("call", "carrier-statistics"),
                 sprintf(paste0('{"material": "GaAs", "temperature_k": 300, ',
