@@ -402,4 +402,9 @@ for (d in 10^seq(14, 20, by = 0.5)) {
        sprintf("carrier-statistics at %g cm^-3", d))
 }
 cat("carrier-statistics: checked against the CLI\n")
+# sourcing the loader again loads the module again (never unmapped: it is
+# linked with -z nodelete, as libbandmass)
+before <- bandmass_call("constants")
+source(Sys.getenv("BANDMASS_R"))
+check(identical(bandmass_call("constants"), before), "the loader sourced twice")
 cat("r: all checks passed\n")
