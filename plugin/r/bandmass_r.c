@@ -358,7 +358,10 @@ static gboolean fill_data_frame(JsonNode *n, SEXP x, Path *path, Failure *f)
     R_xlen_t rows = cols > 0 ? Rf_xlength(VECTOR_ELT(x, 0)) : 0;
     for (R_xlen_t c = 0; c < cols; c++) {
         SEXP col = VECTOR_ELT(x, c);
-        size_t old = path_push(path, "$%s", CHAR(STRING_ELT(names, c)));
+        const char *name = text_of(STRING_ELT(names, c), path, f);
+        if (!name)
+            return FALSE;
+        size_t old = path_push(path, "$%s", name);
         gboolean ok = refuse(col, path, f);
         if (ok && Rf_inherits(col, "data.frame"))
             ok = fail(f, BM_R_INVALID_INPUT, "%s: a data frame inside a data frame cannot be "
@@ -381,7 +384,9 @@ static gboolean fill_data_frame(JsonNode *n, SEXP x, Path *path, Failure *f)
         json_object_unref(o);
         for (R_xlen_t c = 0; c < cols; c++) {
             SEXP col = VECTOR_ELT(x, c);
-            const char *name = CHAR(STRING_ELT(names, c));
+            const char *name = text_of(STRING_ELT(names, c), path, f);   /* checked above */
+            if (!name)
+                return FALSE;
             size_t old = path_push(path, "$%s[%td]", name, (ptrdiff_t)r + 1);
             JsonNode *e = new_member(o, name);
             gboolean ok = TYPEOF(col) == VECSXP ? fill(e, VECTOR_ELT(col, r), FALSE, path, f)

@@ -188,6 +188,10 @@ refused("request$donors$species: a value of type integer and class factor",
                                                                 density_cm3 = 1e16))))
 refused("request$t: NA (a missing value) cannot be sent",
         bandmass_call("constants", list(t = NA_real_)))
+refused("request$donors$density_cm3[2]: NA (a missing value) cannot be sent",
+        bandmass_call("carrier-statistics",
+                      list(material = "Si", donors = data.frame(species = c("P", "As"),
+                                                                density_cm3 = c(1e16, NA)))))
 refused("request$t[2]: NaN and Inf cannot be sent",
         bandmass_call("constants", list(t = c(1, NaN))))
 refused("request$t[[1]]$x: NaN and Inf cannot be sent",
