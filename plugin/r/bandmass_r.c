@@ -25,7 +25,8 @@
  *   takes only an array); matrix -> array of its rows (m[1, ] first);
  *   bit64 integer64 -> JSON integer, exact to 2^63 - 1.
  *   Numbers are sent exactly: a whole double below 2^53 in size goes as a
- *   JSON integer, any other double as that very double (1e17, 1e300, -0).
+ *   JSON integer, any other double as that very double (1e17, 1e300, -0;
+ *   from 2^53 up a double, which keys that take an integer refuse).
  *   Refused, naming the path of the value (request$donors[[1]]$density_cm3):
  *   NA, NaN and Inf; text that is not UTF-8 (or marked as bytes); and every
  *   type or class listed in refusal() (S4 objects such as the Matrix

@@ -172,6 +172,12 @@ refused("band index 9007199254740993 is out of range",
         bandmass_call("mass-tensor", list(grid = grid, band = int64(1, 2^21))))
 refused("band index 9223372036854775807 is out of range",
         bandmass_call("mass-tensor", list(grid = grid, band = int64(-1, 2147483647))))
+# a double from 2^53 up may not be the integer meant (2^53 + 1 reads as
+# 2^53): it goes as a double, which a key taking an integer refuses
+refused('request key "band" of mass-tensor must be string or integer',
+        bandmass_call("mass-tensor", list(grid = grid, band = 2^53)))
+refused("band index 9007199254740991 is out of range",
+        bandmass_call("mass-tensor", list(grid = grid, band = 2^53 - 1)))
 
 # --- every refusal names the path of the value
 refused("request$f: a value of type closure: a function cannot be sent",
