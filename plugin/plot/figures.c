@@ -315,6 +315,8 @@ static BmPlotFigure *fig_thermal(JsonObject *r, GError **error)
     return fig;
 }
 
+static gboolean vec3(JsonArray *a, double v[3]);
+
 /* ---- cyclotron-ellipsoid ---- */
 
 /* x of a point of a field sweep: its angle, or its place in a list. */
@@ -382,9 +384,32 @@ static BmPlotFigure *fig_ellipsoid(JsonObject *r, GError **error)
             done[w] = TRUE;
             g_string_append_printf(name, "%s%u", members++ ? ", " : "", w + 1);
         }
-        g_autofree char *dir = direction_text(arr(obj_at(valleys, v), "direction"));
         g_string_prepend(name, members > 1 ? "valleys " : "valley ");
-        g_string_append_printf(name, " (%s)", dir);
+        /* their directions, each once up to its sign */
+        g_autoptr(GPtrArray) dirs = g_ptr_array_new_with_free_func(g_free);
+        for (guint w = v; w < nv; w++) {
+            if (memcmp(line_of + (gsize)w * len(pts), line_of + (gsize)v * len(pts),
+                       len(pts) * sizeof(int)))
+                continue;
+            double d[3];
+            if (!vec3(arr(obj_at(valleys, w), "direction"), d))
+                continue;
+            int lead = fabs(d[0]) > 1e-9 ? 0 : fabs(d[1]) > 1e-9 ? 1 : 2;
+            double sign = d[lead] < 0 ? -1 : 1;
+            for (int k = 0; k < 3; k++)
+                d[k] = fabs(d[k]) < 1e-9 ? 0 : sign * d[k];
+            g_autofree char *t = g_strdup_printf("[%.3g %.3g %.3g]", d[0], d[1], d[2]);
+            gboolean seen = FALSE;
+            for (guint k = 0; k < dirs->len && !seen; k++)
+                seen = !strcmp(g_ptr_array_index(dirs, k), t);
+            if (!seen)
+                g_ptr_array_add(dirs, g_steal_pointer(&t));
+        }
+        for (guint k = 0; k < dirs->len && k < 3; k++)
+            g_string_append_printf(name, "%s±%s", k ? ", " : ": ",
+                                   (char *)g_ptr_array_index(dirs, k));
+        if (dirs->len > 3)
+            g_string_append(name, ", ...");
         g_autofree char *label = g_string_free(name, FALSE);
         BmPlotSeries *s = bm_plot_series_add(a, label, BM_SERIES_LINE_MARKERS);
         for (guint i = 0; i < len(pts); i++) {

@@ -537,17 +537,22 @@ static double nice_step(double raw)
     return (m <= 1 ? 1 : m <= 2 ? 2 : m <= 2.5 ? 2.5 : m <= 5 ? 5 : 10) * p;
 }
 
+/* A tick label, with a typographic minus sign. */
 static char *linear_label(double v, double step)
 {
     if (fabs(v) < 1e-9 * step)
         v = 0;
     double big = MAX(fabs(v), step);
-    if (big >= 1e5 || step < 1e-4)
-        return g_strdup_printf("%.3g", v);
-    int decimals = MAX(0, (int)ceil(-log10(step) - 1e-9));
-    if (fmod(step * pow(10, decimals), 1.0) > 1e-6)   /* 2.5 */
-        decimals++;
-    return g_strdup_printf("%.*f", decimals, v);
+    g_autofree char *text = NULL;
+    if (big >= 1e5 || step < 1e-4) {
+        text = g_strdup_printf("%.3g", fabs(v));
+    } else {
+        int decimals = MAX(0, (int)ceil(-log10(step) - 1e-9));
+        if (fmod(step * pow(10, decimals), 1.0) > 1e-6)   /* 2.5 */
+            decimals++;
+        text = g_strdup_printf("%.*f", decimals, fabs(v));
+    }
+    return g_strconcat(v < 0 ? "−" : "", text, NULL);
 }
 
 static const char *const superscript[] = { "⁰", "¹", "²", "³", "⁴", "⁵", "⁶", "⁷", "⁸", "⁹" };
@@ -837,9 +842,15 @@ static gboolean draw_panel(Canvas *c, const BmPlotPanel *p, guint pi, Box box, G
     ay.px1 = top + 6;
     axis_ticks(&ay, MAX(2, (int)((ay.px0 - ay.px1) / 55)));
     double left = box.x + SIZE_LABEL + 12 + widest_label(c, &ay) + TICK_LEN + 6;
-    double right = box.x + box.w - 10;
     ax.px0 = left;
-    ax.px1 = right;
+    ax.px1 = box.x + box.w - 10;
+    /* the last x label is centred on its tick: room for its half */
+    x_ticks_fit(c, &ax);
+    if (ax.labels->len) {
+        double half = text_width(c, g_ptr_array_index(ax.labels, ax.labels->len - 1),
+                                 SIZE_TICK, FALSE) / 2;
+        ax.px1 = box.x + box.w - MAX(10, half + 2);
+    }
     if (p->equal) {
         /* one scale for both: widen the range of the finer axis */
         double sx = (ax.px1 - ax.px0) / (ax.hi - ax.lo), sy = (ay.px0 - ay.px1) / (ay.hi - ay.lo);
@@ -850,14 +861,6 @@ static gboolean draw_panel(Canvas *c, const BmPlotPanel *p, guint pi, Box box, G
         axis_ticks(&ay, MAX(2, (int)((ay.px0 - ay.px1) / 55)));
     }
     x_ticks_fit(c, &ax);
-    /* the last x label may stick out by half its width: keep it inside */
-    if (ax.labels->len) {
-        double last = axis_px(&ax, g_array_index(ax.major, double, ax.major->len - 1));
-        double half = text_width(c, g_ptr_array_index(ax.labels, ax.labels->len - 1),
-                                 SIZE_TICK, FALSE) / 2;
-        if (last + half > box.x + box.w)
-            ax.px1 -= last + half - (box.x + box.w);
-    }
     Box area = { ax.px0, ay.px1, ax.px1 - ax.px0, ay.px0 - ay.px1 };
 
     group_begin(c, "grid", NULL, NULL);
