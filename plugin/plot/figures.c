@@ -583,6 +583,110 @@ static BmPlotFigure *fig_orbit(JsonObject *r, GError **error)
     return fig;
 }
 
+/* ---- mass-tensor and kane-fit: band cuts ---- */
+
+/* A series of the numbers of arrays xs and ys (equal lengths) of cut c. */
+static void cut_series(BmPlotPanel *panel, JsonObject *c, const char *xs, const char *ys,
+                       const char *name, BmSeriesStyle style)
+{
+    JsonArray *x = arr(c, xs), *y = arr(c, ys);
+    if (len(x) == 0 || len(y) == 0)
+        return;   /* no samples near this line: no legend entry either */
+    BmPlotSeries *s = bm_plot_series_add(panel, name, style);
+    for (guint i = 0; i < len(x) && i < len(y); i++)
+        bm_plot_series_point(s, num_at(x, i), num_at(y, i));
+}
+
+static char *axis_label(JsonObject *c)
+{
+    g_autofree char *dir = direction_text(arr(c, "axis"));
+    return g_strdup_printf("k − k₀ along %s (1/Å)", dir);
+}
+
+static BmPlotFigure *fig_mass_tensor(JsonObject *r, GError **error)
+{
+    if (arr(r, "bands"))
+        return refuse(error, "mass-tensor --plot: draws one band: name it with band (not "
+                      "\"all\")");
+    JsonArray *ext = arr(r, "extrema");
+    JsonObject *e = NULL;
+    guint which = 0;
+    for (guint i = 0; i < len(ext) && !e; i++)
+        if (len(arr(obj_at(ext, i), "band_cuts")) > 0) {
+            e = obj_at(ext, i);
+            which = i;
+        }
+    if (!e)
+        return refuse(error, "mass-tensor --plot: the response holds no band cuts: ask for "
+                      "them with cuts true (an extremum with a finite mass)");
+    JsonArray *cuts = arr(e, "band_cuts");
+    JsonObject *band = json_object_get_member(r, "band")
+        && JSON_NODE_HOLDS_OBJECT(json_object_get_member(r, "band"))
+        ? json_object_get_object_member(r, "band") : NULL;
+    const char *bname = str(band, "name");
+    g_autofree char *bt = bname ? g_strdup_printf("band %s", bname)
+                                : g_strdup_printf("band %g", num(band, "index"));
+    g_autofree char *more = len(ext) > 1
+        ? g_strdup_printf(" (extremum %u of %u: extremum minimum or maximum picks one)",
+                          which + 1, len(ext))
+        : g_strdup("");
+    g_autofree char *title = g_strdup_printf("%s: cuts through its %s at %.4g eV%s", bt,
+                                             str(e, "kind") ? str(e, "kind") : "extremum",
+                                             num(e, "energy_ev"), more);
+    BmPlotFigure *fig = bm_plot_figure_new(title, len(cuts) > 1 ? WIDE_W : ONE_W,
+                                           len(cuts) > 1 ? WIDE_H : ONE_H);
+    for (guint d = 0; d < len(cuts); d++) {
+        JsonObject *c = obj_at(cuts, d);
+        g_autofree char *xl = axis_label(c);
+        g_autofree char *pt = g_strdup_printf("principal axis %u", d + 1);
+        BmPlotPanel *p = bm_plot_panel_add(fig, pt, xl, "energy (eV)");
+        g_autofree char *fit = g_strdup_printf("quadric fit, m = %.4g m_e", num(c, "mass_me"));
+        cut_series(p, c, "offset_inv_angstrom", "band_energy_ev", "interpolated band",
+                   BM_SERIES_LINE);
+        cut_series(p, c, "offset_inv_angstrom", "fit_energy_ev", fit, BM_SERIES_FIT);
+        cut_series(p, c, "data_offset_inv_angstrom", "data_energy_ev",
+                   arr(c, "band_energy_ev") ? "mesh points near the line" : "samples",
+                   BM_SERIES_MARKERS);
+    }
+    return fig;
+}
+
+static BmPlotFigure *fig_kane(JsonObject *r, GError **error)
+{
+    JsonArray *cuts = arr(r, "cuts");
+    if (len(cuts) == 0)
+        return refuse(error, "kane-fit --plot: the response holds no band cuts: ask for them "
+                      "with cuts true");
+    JsonObject *kane = json_object_get_member(r, "kane")
+        && JSON_NODE_HOLDS_OBJECT(json_object_get_member(r, "kane"))
+        ? json_object_get_object_member(r, "kane") : NULL;
+    JsonObject *par = json_object_get_member(r, "parabolic")
+        && JSON_NODE_HOLDS_OBJECT(json_object_get_member(r, "parabolic"))
+        ? json_object_get_object_member(r, "parabolic") : NULL;
+    g_autofree char *title = g_strdup_printf("Kane and parabolic fits at the %s (%s preferred)",
+                                             str(r, "kind") ? str(r, "kind") : "extremum",
+                                             str(r, "preferred") ? str(r, "preferred") : "?");
+    BmPlotFigure *fig = bm_plot_figure_new(title, len(cuts) > 1 ? WIDE_W : ONE_W,
+                                           len(cuts) > 1 ? WIDE_H : ONE_H);
+    for (guint d = 0; d < len(cuts); d++) {
+        JsonObject *c = obj_at(cuts, d);
+        g_autofree char *xl = axis_label(c);
+        g_autofree char *pt = g_strdup_printf("principal direction %u", d + 1);
+        BmPlotPanel *p = bm_plot_panel_add(fig, pt, xl, "energy (eV)");
+        g_autofree char *pn = g_strdup_printf("parabolic, m = %.4g m_e",
+                                              num_at(arr(par, "principal_masses_me"), d));
+        g_autofree char *kn = g_strdup_printf("Kane, m = %.4g m_e, α = %.3g /eV",
+                                              num_at(arr(kane, "principal_masses_me"), d),
+                                              num(kane, "alpha_per_ev"));
+        cut_series(p, c, "offset_inv_angstrom", "parabolic_energy_ev", pn, BM_SERIES_LINE);
+        if (kane)
+            cut_series(p, c, "offset_inv_angstrom", "kane_energy_ev", kn, BM_SERIES_FIT);
+        cut_series(p, c, "data_offset_inv_angstrom", "data_energy_ev", "points of the fits",
+                   BM_SERIES_MARKERS);
+    }
+    return fig;
+}
+
 /* ---- the table ---- */
 
 typedef BmPlotFigure *(*FigureFunc)(JsonObject *response, GError **error);
@@ -590,6 +694,8 @@ typedef BmPlotFigure *(*FigureFunc)(JsonObject *response, GError **error);
 static const struct { const char *op; FigureFunc figure; } figures[] = {
     { "carrier-statistics", fig_carriers },
     { "thermal-mass", fig_thermal },
+    { "mass-tensor", fig_mass_tensor },
+    { "kane-fit", fig_kane },
     { "cyclotron-orbit", fig_orbit },
     { "cyclotron-ellipsoid", fig_ellipsoid },
 };

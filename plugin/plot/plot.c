@@ -714,12 +714,15 @@ static double covered(const BmPlotPanel *p, const Axis *ax, const Axis *ay, Box 
     return hits;
 }
 
-static void draw_legend(Canvas *c, const BmPlotPanel *p, const Axis *ax, const Axis *ay,
-                        Box area)
+/* The legend's box where it covers least of the drawing (the corners, top
+ * right first, then the middles of the sides); how much it covers there. */
+static double legend_place(Canvas *c, const BmPlotPanel *p, const Axis *ax, const Axis *ay,
+                           Box area, Box *best)
 {
     guint n = legend_entries(p);
+    memset(best, 0, sizeof *best);
     if (n == 0)
-        return;
+        return 0;
     double row = SIZE_LEGEND * 1.55, sample = 26, w = 0;
     for (guint i = 0; i < p->series->len; i++) {
         const BmPlotSeries *s = g_ptr_array_index(p->series, i);
@@ -727,12 +730,9 @@ static void draw_legend(Canvas *c, const BmPlotPanel *p, const Axis *ax, const A
             w = MAX(w, text_width(c, s->name, SIZE_LEGEND, FALSE));
     }
     Box b = { 0, 0, w + sample + 22, n * row + 8 };
-    /* the place under which the least is drawn: the corners (top right
-     * first), then the middles of the sides */
     static const double places[][2] = {
         { 1, 0 }, { 0, 0 }, { 1, 1 }, { 0, 1 }, { 1, 0.5 }, { 0, 0.5 }, { 0.5, 0 }, { 0.5, 1 },
     };
-    Box best = b;
     double least = INFINITY;
     for (guint k = 0; k < G_N_ELEMENTS(places); k++) {
         Box t = b;
@@ -741,9 +741,17 @@ static void draw_legend(Canvas *c, const BmPlotPanel *p, const Axis *ax, const A
         double hits = covered(p, ax, ay, t);
         if (hits < least - 0.25) {
             least = hits;
-            best = t;
+            *best = t;
         }
     }
+    return least;
+}
+
+static void draw_legend(Canvas *c, const BmPlotPanel *p, Box best)
+{
+    if (legend_entries(p) == 0)
+        return;
+    double row = SIZE_LEGEND * 1.55, sample = 26;
     Rgb white = { 1, 1, 1 }, frame = rgb_hex(0xBBBBBB);
     group_begin(c, "legend", NULL, NULL);
     draw_rect(c, best.x, best.y, best.w, best.h, &white, 0.88, &frame, 1);
@@ -758,7 +766,7 @@ static void draw_legend(Canvas *c, const BmPlotPanel *p, const Axis *ax, const A
         if (s->style != BM_SERIES_MARKERS) {
             double xy[4] = { x0, y, x1, y };
             draw_polyline(c, xy, 2, col, s->style == BM_SERIES_REFERENCE ? 1.5 : 2,
-                          s->style == BM_SERIES_REFERENCE);
+                          s->style == BM_SERIES_REFERENCE || s->style == BM_SERIES_FIT);
         }
         if (s->style == BM_SERIES_LINE_MARKERS || s->style == BM_SERIES_MARKERS)
             draw_marker(c, (x0 + x1) / 2, y, s->mark, 4, col, s->style == BM_SERIES_MARKERS);
@@ -789,7 +797,8 @@ static void draw_series(Canvas *c, const BmPlotSeries *s, guint pi, guint si, co
             continue;
         }
         if (s->style != BM_SERIES_MARKERS)
-            draw_polyline(c, (double *)(void *)xy->data, xy->len / 2, col, ref ? 1.5 : 2.2, ref);
+            draw_polyline(c, (double *)(void *)xy->data, xy->len / 2, col, ref ? 1.5 : 2.2,
+                          ref || s->style == BM_SERIES_FIT);
         if (s->style == BM_SERIES_LINE_MARKERS || s->style == BM_SERIES_MARKERS)
             for (guint k = 0; k < xy->len / 2; k++)
                 draw_marker(c, g_array_index(xy, double, 2 * k),
@@ -801,6 +810,41 @@ static void draw_series(Canvas *c, const BmPlotSeries *s, guint pi, guint si, co
 }
 
 /* ---- a panel ---- */
+
+/* Places the axes of a panel in box below top (after its title): pixel
+ * ends, ticks, the equal scale; lo and hi come padded and may widen. */
+static void layout(Canvas *c, const BmPlotPanel *p, Box box, double top, Axis *ax, Axis *ay,
+                   double *bottom, double *left)
+{
+    /* the plot area: y labels measured from the y ticks, which depend on
+     * the height alone */
+    *bottom = box.y + box.h - (TICK_LEN + 6 + SIZE_TICK + 10 + SIZE_LABEL);
+    ay->px0 = *bottom;
+    ay->px1 = top + 6;
+    axis_ticks(ay, MAX(2, (int)((ay->px0 - ay->px1) / 55)));
+    *left = box.x + SIZE_LABEL + 12 + widest_label(c, ay) + TICK_LEN + 6;
+    ax->px0 = *left;
+    ax->px1 = box.x + box.w - 10;
+    /* the last x label is centred on its tick: room for its half */
+    x_ticks_fit(c, ax);
+    if (ax->labels->len) {
+        double half = text_width(c, g_ptr_array_index(ax->labels, ax->labels->len - 1),
+                                 SIZE_TICK, FALSE) / 2;
+        ax->px1 = box.x + box.w - MAX(10, half + 2);
+    }
+    if (p->equal) {
+        /* one scale for both: widen the range of the finer axis */
+        double sx = (ax->px1 - ax->px0) / (ax->hi - ax->lo);
+        double sy = (ay->px0 - ay->px1) / (ay->hi - ay->lo);
+        Axis *wide = sx > sy ? ax : ay;
+        double scale = MIN(sx, sy), span = fabs(wide->px1 - wide->px0) / scale;
+        double mid = (wide->lo + wide->hi) / 2;
+        wide->lo = mid - span / 2;
+        wide->hi = mid + span / 2;
+        axis_ticks(ay, MAX(2, (int)((ay->px0 - ay->px1) / 55)));
+    }
+    x_ticks_fit(c, ax);
+}
 
 static gboolean draw_panel(Canvas *c, const BmPlotPanel *p, guint pi, Box box, GError **error)
 {
@@ -825,6 +869,7 @@ static gboolean draw_panel(Canvas *c, const BmPlotPanel *p, guint pi, Box box, G
     }
     pad_range(&ax);
     pad_range(&ay);
+    double range[4] = { ax.lo, ax.hi, ay.lo, ay.hi };
 
     Rgb ink = rgb_hex(INK), grid = rgb_hex(GRID_INK);
     g_autofree char *pid = g_strdup_printf("panel-%u", pi);
@@ -835,33 +880,18 @@ static gboolean draw_panel(Canvas *c, const BmPlotPanel *p, guint pi, Box box, G
                   SIZE_PANEL_TITLE, TRUE, 0.5, 0.5, FALSE, "panel-title", ink);
         top += SIZE_PANEL_TITLE * 2.0;
     }
-    /* the plot area: y labels measured from the y ticks, which depend on
-     * the height alone */
-    double bottom = box.y + box.h - (TICK_LEN + 6 + SIZE_TICK + 10 + SIZE_LABEL);
-    ay.px0 = bottom;
-    ay.px1 = top + 6;
-    axis_ticks(&ay, MAX(2, (int)((ay.px0 - ay.px1) / 55)));
-    double left = box.x + SIZE_LABEL + 12 + widest_label(c, &ay) + TICK_LEN + 6;
-    ax.px0 = left;
-    ax.px1 = box.x + box.w - 10;
-    /* the last x label is centred on its tick: room for its half */
-    x_ticks_fit(c, &ax);
-    if (ax.labels->len) {
-        double half = text_width(c, g_ptr_array_index(ax.labels, ax.labels->len - 1),
-                                 SIZE_TICK, FALSE) / 2;
-        ax.px1 = box.x + box.w - MAX(10, half + 2);
-    }
-    if (p->equal) {
-        /* one scale for both: widen the range of the finer axis */
-        double sx = (ax.px1 - ax.px0) / (ax.hi - ax.lo), sy = (ay.px0 - ay.px1) / (ay.hi - ay.lo);
-        Axis *wide = sx > sy ? &ax : &ay;
-        double s = MIN(sx, sy), len = fabs(wide->px1 - wide->px0) / s, mid = (wide->lo + wide->hi) / 2;
-        wide->lo = mid - len / 2;
-        wide->hi = mid + len / 2;
-        axis_ticks(&ay, MAX(2, (int)((ay.px0 - ay.px1) / 55)));
-    }
-    x_ticks_fit(c, &ax);
+    double bottom, left;
+    layout(c, p, box, top, &ax, &ay, &bottom, &left);
     Box area = { ax.px0, ay.px1, ax.px1 - ax.px0, ay.px0 - ay.px1 };
+    /* the legend inside where it covers nothing, else above the plot */
+    Box legend;
+    if (legend_place(c, p, &ax, &ay, area, &legend) > 0) {
+        ax.lo = range[0], ax.hi = range[1], ay.lo = range[2], ay.hi = range[3];
+        layout(c, p, box, top + legend.h + 4, &ax, &ay, &bottom, &left);
+        area = (Box){ ax.px0, ay.px1, ax.px1 - ax.px0, ay.px0 - ay.px1 };
+        legend.x = area.x + area.w - legend.w;
+        legend.y = area.y - legend.h - 6;
+    }
 
     group_begin(c, "grid", NULL, NULL);
     for (guint i = 0; i < ax.major->len; i++) {
@@ -914,7 +944,7 @@ static gboolean draw_panel(Canvas *c, const BmPlotPanel *p, guint pi, Box box, G
               FALSE, 0.5, 0.5, TRUE, "axis-label y-label", ink);
     group_end(c);
 
-    draw_legend(c, p, &ax, &ay, area);
+    draw_legend(c, p, legend);
     group_end(c);
     axis_clear(&ax);
     axis_clear(&ay);

@@ -21,6 +21,7 @@ typedef enum {
 typedef enum {
     BM_SERIES_LINE_MARKERS,   /* a computed sweep: line through marked points */
     BM_SERIES_LINE,           /* a curve: line only */
+    BM_SERIES_FIT,            /* a fitted curve: dashed line */
     BM_SERIES_MARKERS,        /* data: markers only */
     BM_SERIES_REFERENCE,      /* a reference level (band edge): grey dashed line */
 } BmSeriesStyle;
