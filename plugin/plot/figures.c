@@ -872,7 +872,20 @@ BmPlotFigure *bm_plot_batch_figure(const char *path, const char *x_field,
     g_autofree char *title = g_strdup_printf("%s: %u item%s", base, *used, *used == 1 ? "" : "s");
     BmPlotFigure *fig = bm_plot_figure_new(title, ONE_W, ONE_H);
     g_autofree char *xl = field_label(x_field);
-    g_autofree char *yl = ny == 1 ? field_label(y_fields[0]) : g_strdup("value");
+    /* several fields: "value", with their unit when they share one */
+    g_autofree char *yl = field_label(y_fields[0]);
+    if (ny > 1) {
+        const char *unit = strrchr(yl, '(');
+        for (guint k = 1; k < ny && unit; k++) {
+            g_autofree char *other = field_label(y_fields[k]);
+            const char *u = strrchr(other, '(');
+            if (!u || strcmp(u, unit))
+                unit = NULL;
+        }
+        char *v = unit ? g_strdup_printf("value %s", unit) : g_strdup("value");
+        g_free(yl);
+        yl = v;
+    }
     BmPlotPanel *panel = bm_plot_panel_add(fig, NULL, xl, yl);
     bm_plot_panel_set_log(panel, x_log, y_log);
     for (guint k = 0; k < ny; k++) {

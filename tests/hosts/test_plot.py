@@ -227,7 +227,7 @@ class Plots(unittest.TestCase):
         self.assertEqual((int(root.get('width')), int(root.get('height'))), ONE)
         curves, labels = panels['panel-0']
         self.assertEqual(curves, ['n_cm3 (cm⁻³)', 'p_cm3 (cm⁻³)'])
-        self.assertEqual(labels, ['temperature_k (K)', 'value'])
+        self.assertEqual(labels, ['temperature_k (K)', 'value (cm⁻³)'])
         # four items drawn: four points on each polyline
         for g in root.iter(SVG + 'g'):
             if g.get('class') == 'curve':
