@@ -59,8 +59,9 @@ static gboolean check_path(const char *path, BmPlotFormat *format, GError **erro
 gboolean bm_cli_plot_check(const BmOperation *op, const char *path, GError **error)
 {
     if (!bm_plot_has_figure(op->name)) {
+        g_autofree char *ops = bm_plot_operations();
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s has no plot (--plot is taken "
-                    "by %s)", op->name, bm_plot_operations());
+                    "by %s)", op->name, ops);
         return FALSE;
     }
     BmPlotFormat format;

@@ -708,16 +708,12 @@ gboolean bm_plot_has_figure(const char *op_name)
     return FALSE;
 }
 
-const char *bm_plot_operations(void)
+char *bm_plot_operations(void)
 {
-    static char *list;
-    if (!list) {
-        GString *s = g_string_new(NULL);
-        for (guint i = 0; i < G_N_ELEMENTS(figures); i++)
-            g_string_append_printf(s, "%s%s", i ? ", " : "", figures[i].op);
-        list = g_string_free(s, FALSE);
-    }
-    return list;
+    GString *s = g_string_new(NULL);
+    for (guint i = 0; i < G_N_ELEMENTS(figures); i++)
+        g_string_append_printf(s, "%s%s", i ? ", " : "", figures[i].op);
+    return g_string_free(s, FALSE);
 }
 
 BmPlotFigure *bm_plot_figure_for(const char *op_name, JsonObject *response, GError **error)
@@ -725,7 +721,8 @@ BmPlotFigure *bm_plot_figure_for(const char *op_name, JsonObject *response, GErr
     for (guint i = 0; i < G_N_ELEMENTS(figures); i++)
         if (!strcmp(figures[i].op, op_name))
             return figures[i].figure(response, error);
-    return refuse(error, "%s has no plot (plots: %s)", op_name, bm_plot_operations());
+    g_autofree char *ops = bm_plot_operations();
+    return refuse(error, "%s has no plot (plots: %s)", op_name, ops);
 }
 
 /* ---- batch results ---- */

@@ -9,8 +9,8 @@
 
 /* TRUE when op_name has a figure (bandmass OP --plot FILE). */
 gboolean bm_plot_has_figure(const char *op_name);
-/* The operations that have one, comma-separated (static text). */
-const char *bm_plot_operations(void);
+/* The operations that have one, comma-separated (free it). */
+char *bm_plot_operations(void);
 
 /* The figure of op_name's response; BM_ERROR_INVALID_INPUT when this
  * response holds nothing to plot (the message says which request would). */

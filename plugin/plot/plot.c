@@ -234,6 +234,14 @@ static double text_width(Canvas *c, const char *text, double size, gboolean bold
     return e.x_advance;
 }
 
+/* The largest size up to size (down to 70 % of it) at which text fits in
+ * width; text wider even then is drawn at that smallest size. */
+static double fit_size(Canvas *c, const char *text, double size, gboolean bold, double width)
+{
+    double w = text_width(c, text, size, bold);
+    return w <= width ? size : MAX(0.7 * size, size * width / w);
+}
+
 /* The text's baseline is put so that the line of capitals is centred on
  * (or, by va 0 / 1, hangs from / stands on) y; ha 0, 0.5, 1: x is the
  * text's left edge, middle or right edge. rotated: read bottom to top. */
@@ -877,7 +885,8 @@ static gboolean draw_panel(Canvas *c, const BmPlotPanel *p, guint pi, Box box, G
     double top = box.y;
     if (p->title) {
         draw_text(c, box.x + box.w / 2, top + SIZE_PANEL_TITLE * 0.5, p->title,
-                  SIZE_PANEL_TITLE, TRUE, 0.5, 0.5, FALSE, "panel-title", ink);
+                  fit_size(c, p->title, SIZE_PANEL_TITLE, TRUE, box.w), TRUE, 0.5, 0.5, FALSE,
+                  "panel-title", ink);
         top += SIZE_PANEL_TITLE * 2.0;
     }
     double bottom, left;
@@ -926,8 +935,9 @@ static gboolean draw_panel(Canvas *c, const BmPlotPanel *p, guint pi, Box box, G
         draw_text(c, x, bottom + TICK_LEN + 4, g_ptr_array_index(ax.labels, i), SIZE_TICK,
                   FALSE, 0.5, 0, FALSE, "tick-label", ink);
     }
-    draw_text(c, area.x + area.w / 2, box.y + box.h - 2, p->x_label, SIZE_LABEL, FALSE, 0.5, 1,
-              FALSE, "axis-label x-label", ink);
+    draw_text(c, area.x + area.w / 2, box.y + box.h - 2, p->x_label,
+              fit_size(c, p->x_label, SIZE_LABEL, FALSE, area.w), FALSE, 0.5, 1, FALSE,
+              "axis-label x-label", ink);
     group_end(c);
     group_begin(c, "axis y-axis", NULL, NULL);
     for (guint i = 0; i < ay.minor->len; i++) {
@@ -940,8 +950,9 @@ static gboolean draw_panel(Canvas *c, const BmPlotPanel *p, guint pi, Box box, G
         draw_text(c, left - TICK_LEN - 4, y, g_ptr_array_index(ay.labels, i), SIZE_TICK, FALSE,
                   1, 0.5, FALSE, "tick-label", ink);
     }
-    draw_text(c, box.x + 2 + SIZE_LABEL * 0.4, area.y + area.h / 2, p->y_label, SIZE_LABEL,
-              FALSE, 0.5, 0.5, TRUE, "axis-label y-label", ink);
+    draw_text(c, box.x + 2 + SIZE_LABEL * 0.4, area.y + area.h / 2, p->y_label,
+              fit_size(c, p->y_label, SIZE_LABEL, FALSE, area.h), FALSE, 0.5, 0.5, TRUE,
+              "axis-label y-label", ink);
     group_end(c);
 
     draw_legend(c, p, legend);
@@ -957,7 +968,8 @@ static gboolean draw_figure(Canvas *c, const BmPlotFigure *fig, GError **error)
     draw_rect(c, 0, 0, fig->width, fig->height, &white, 1, NULL, 0);
     double top = PAD * 0.75;
     if (fig->title) {
-        draw_text(c, fig->width / 2.0, top + SIZE_TITLE * 0.5, fig->title, SIZE_TITLE, TRUE,
+        draw_text(c, fig->width / 2.0, top + SIZE_TITLE * 0.5, fig->title,
+                  fit_size(c, fig->title, SIZE_TITLE, TRUE, fig->width - 2 * PAD), TRUE,
                   0.5, 0.5, FALSE, "title", ink);
         top += SIZE_TITLE * 2.1;
     }
