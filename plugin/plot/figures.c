@@ -147,7 +147,10 @@ static void fermi_series(BmPlotPanel *panel, JsonArray *pts, const char *x_key, 
             bm_plot_series_point(s, num(p, x_key), num(p, "fermi_level_ev"));
         }
     }
-    BmPlotSeries *ec = bm_plot_series_add(panel, "band edges E_c, E_v", BM_SERIES_REFERENCE);
+    g_autofree char *edges = temps->len > 1
+        ? g_strdup_printf("band edges E_c, E_v at %g K", g_array_index(temps, double, 0))
+        : g_strdup("band edges E_c, E_v");
+    BmPlotSeries *ec = bm_plot_series_add(panel, edges, BM_SERIES_REFERENCE);
     BmPlotSeries *ev = bm_plot_series_add(panel, NULL, BM_SERIES_REFERENCE);
     for (guint i = 0; i < len(pts); i++) {
         JsonObject *p = obj_at(pts, i);
@@ -219,11 +222,10 @@ static BmPlotFigure *fig_carriers(JsonObject *r, GError **error)
         BmPlotSeries *ref = bm_plot_series_add(a, donors ? "N_D (density = doping)"
                                                          : "N_A (density = doping)",
                                                BM_SERIES_REFERENCE);
-        for (guint i = 0; i < nds->len + nas->len; i++) {
-            GArray *v = donors ? nds : nas;
-            if (i < v->len)
-                bm_plot_series_point(ref, g_array_index(v, double, i), g_array_index(v, double, i));
-        }
+        GArray *doping = donors ? nds : nas;
+        for (guint i = 0; i < doping->len; i++)
+            bm_plot_series_point(ref, g_array_index(doping, double, i),
+                                 g_array_index(doping, double, i));
         BmPlotPanel *b = bm_plot_panel_add(fig, "Fermi level", xl, "energy above E_v (eV)");
         bm_plot_panel_set_log(b, TRUE, FALSE);
         fermi_series(b, pts, key, temps, "temperature_k");
