@@ -11,6 +11,7 @@
 #include "output.h"
 #include "options.h"
 #include "csv.h"
+#include "manual.h"
 #include "plot-command.h"
 
 #define EXIT_USAGE 2
@@ -41,6 +42,7 @@ static void print_main_help(void)
            "Usage:\n"
            "  bandmass ops [--json | --markdown] list the operations (--json, --markdown:\n"
            "                                     every key, unit, range and response field)\n"
+           "  bandmass ops --man | --bash-completion   the manual page, the completion script\n"
            "  bandmass call OP [--input FILE]    run OP on a JSON request (stdin by default)\n"
            "                [--output FILE] [--compact]\n"
            "  bandmass OP [--KEY VALUE]... [--json | --csv] [--output FILE]\n"
@@ -122,7 +124,15 @@ static int cmd_ops(int argc, char **argv)
             as_json = TRUE;
         else if (strcmp(argv[i], "--markdown") == 0)
             as_markdown = TRUE;
-        else
+        else if (strcmp(argv[i], "--man") == 0) {
+            g_autofree char *page = bm_cli_man_page(PACKAGE_VERSION);
+            fputs(page, stdout);
+            return 0;
+        } else if (strcmp(argv[i], "--bash-completion") == 0) {
+            g_autofree char *script = bm_cli_bash_completion(bm_cli_plot_supported);
+            fputs(script, stdout);
+            return 0;
+        } else
             return usage_error("ops: unknown option %s", argv[i]);
     }
     if (as_markdown) {
