@@ -8,6 +8,7 @@
 
 #include "figures.h"
 #include "bm-error.h"
+#include "bm-error-private.h"
 
 #define WIDE_W 1280
 #define WIDE_H 560
@@ -817,9 +818,9 @@ BmPlotFigure *bm_plot_batch_figure(const char *path, const char *x_field,
 {
     g_autofree char *text = NULL;
     gsize length = 0;
-    g_autoptr(GError) local = NULL;
-    if (!g_file_get_contents(path, &text, &length, &local))
-        return refuse(error, "cannot read the batch results %s: %s", path, local->message);
+    /* a regular file of at most 1 GiB, as every input file */
+    if (!bm_error_read_file(path, "the batch results", &text, &length, error))
+        return NULL;
     guint ny = g_strv_length((char **)y_fields);
     g_autoptr(GPtrArray) curves = g_ptr_array_new_with_free_func((GDestroyNotify)g_array_unref);
     for (guint k = 0; k < ny; k++)

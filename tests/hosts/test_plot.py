@@ -250,7 +250,9 @@ class Plots(unittest.TestCase):
                 ([str(results), '--x', 'temperature_k', '--y', 'n_cm3', '--output',
                   str(self.dir / 'a.jpg')], ['.svg, .png or .pdf']),
                 ([str(self.dir / 'none.jsonl'), '--x', 'a', '--y', 'b', '--output',
-                  str(self.dir / 'a.svg')], ['none.jsonl'])):
+                  str(self.dir / 'a.svg')], ['none.jsonl']),
+                ([str(self.dir), '--x', 'a', '--y', 'b', '--output',
+                  str(self.dir / 'a.svg')], ['batch results'])):
             p = run('plot', *args)
             self.assertEqual(p.returncode, 2, p.stderr)
             for w in words:
