@@ -184,9 +184,9 @@ double bm_quadric_reach(double mass_me, double energy_ev)
     return sqrt(2.0 * fabs(mass_me) * energy_ev / BM_HBAR2_OVER_ME_EV_A2);
 }
 
-bm_status bm_grid_line_band(const bm_grid *g, size_t band, const double k0[3],
-                            const double axis[3], const double *q, size_t n, double *e,
-                            bm_errbuf *err)
+bm_status bm_grid_line_band(const bm_grid *g, const bm_bandinterp *bi, size_t band,
+                            const double k0[3], const double axis[3], const double *q,
+                            size_t n, double *e, bm_errbuf *err)
 {
     double u[3], b[3][3], binv[3][3];
     if (!unit(axis, u))
@@ -196,9 +196,6 @@ bm_status bm_grid_line_band(const bm_grid *g, size_t band, const double k0[3],
     memcpy(b, g->recip, sizeof b);
     if (bm_inv3(b, binv) != 0)
         return bm_fail(err, BM_EINVAL, "band cut: the reciprocal vectors are singular");
-    bm_bandinterp *bi = bm_bandinterp_new(g, BM_BANDINTERP_PAIR_GAP_EV);
-    if (!bi)
-        return bm_fail(err, BM_ENOMEM, "band cut: out of memory");
     for (size_t i = 0; i < n; i++) {
         double k[3], f[3];
         for (int c = 0; c < 3; c++)
@@ -207,6 +204,5 @@ bm_status bm_grid_line_band(const bm_grid *g, size_t band, const double k0[3],
             f[a] = k[0] * binv[0][a] + k[1] * binv[1][a] + k[2] * binv[2][a];
         bm_bandinterp_eval(bi, band, f, &e[i], NULL, NULL);
     }
-    bm_bandinterp_free(bi);
     return BM_OK;
 }

@@ -7,6 +7,7 @@
 
 #include <stddef.h>
 
+#include "bm-bandinterp.h"
 #include "bm-bands.h"
 #include "bm-extrema.h"
 #include "bm-status.h"
@@ -38,11 +39,12 @@ bm_status bm_ktable_line_samples(const bm_ktable *t, size_t band, const double k
                                  const double axis[3], double reach, double tolerance,
                                  bm_line_samples *out, bm_errbuf *err);
 
-/* The interpolated band (bm-bandinterp.h, the interpolant of thermal-mass
- * and kane-fit) at k0 + q[i] axis (unit direction), i < n, into e. */
-bm_status bm_grid_line_band(const bm_grid *g, size_t band, const double k0[3],
-                            const double axis[3], const double *q, size_t n, double *e,
-                            bm_errbuf *err);
+/* The interpolated band bi of g (bm-bandinterp.h, the interpolant of
+ * thermal-mass and kane-fit, built once by the caller for every cut) at
+ * k0 + q[i] axis (unit direction), i < n, into e. */
+bm_status bm_grid_line_band(const bm_grid *g, const bm_bandinterp *bi, size_t band,
+                            const double k0[3], const double axis[3], const double *q,
+                            size_t n, double *e, bm_errbuf *err);
 
 /* The energy of the quadric of t at k0 + dk: E0 + (hbar^2 / 2 m_e) dk . M^-1 . dk
  * (M^-1 t's inverse mass tensor in 1/m_e). */

@@ -25,6 +25,7 @@
 #include "bm-linalg.h"
 #include "bm-stencil.h"
 #include "bm-cuts.h"
+#include "bm-bandinterp.h"
 #include "bm-error-private.h"
 #include "mass-tensor.h"
 #include "bm-json.h"
@@ -519,7 +520,7 @@ static void add_stencil(JsonObject *o, const bm_mass_tensor *t, double recip[3][
 /* The band cuts of t (bm-cuts.h): along each principal axis with a finite
  * mass, the samples near the line and the quadric on it. */
 static gboolean add_cuts(JsonObject *o, const bm_mass_tensor *t, const BmMassTensorSearch *s,
-                         const BmCallInputs *inputs, GError **error)
+                         const BmCallInputs *inputs, bm_bandinterp **bi, GError **error)
 {
     if (t->degenerate)
         return TRUE;
@@ -565,8 +566,12 @@ static gboolean add_cuts(JsonObject *o, const bm_mass_tensor *t, const BmMassTen
         bm_json_set_numbers(c, "offset_inv_angstrom", q, BM_CUT_CURVE_POINTS);
         bm_json_set_numbers(c, "fit_energy_ev", e, BM_CUT_CURVE_POINTS);
         if (grid && !s->table) {
-            if (bm_grid_line_band(&grid->grid, s->band, t->k, t->axes[d], q,
-                                  BM_CUT_CURVE_POINTS, e, &err) != BM_OK) {
+            if (!*bi)   /* one interpolant for every cut of the response */
+                *bi = bm_bandinterp_new(&grid->grid, BM_BANDINTERP_PAIR_GAP_EV);
+            if (!*bi)
+                bm_fail(&err, BM_ENOMEM, "band cut: out of memory");
+            if (!*bi || bm_grid_line_band(&grid->grid, *bi, s->band, t->k, t->axes[d], q,
+                                          BM_CUT_CURVE_POINTS, e, &err) != BM_OK) {
                 json_object_unref(c);
                 json_array_unref(cuts);
                 bm_error_from_core(error, &err, s->source);
@@ -598,16 +603,19 @@ static JsonObject *run_band(JsonObject *request, const BmCallInputs *inputs, GEr
     gboolean stencil = json_object_get_boolean_member(request, "stencil");
     gboolean cuts = json_object_get_boolean_member(request, "cuts");
     json_object_set_array_member(response, "extrema", list);
+    bm_bandinterp *bi = NULL;
     for (size_t i = 0; i < s->n_tensors; i++) {
         JsonObject *o = bm_mass_tensor_object(&s->tensors[i], s->fractional);
         if (stencil)
             add_stencil(o, &s->tensors[i], s->fractional ? s->recip : NULL);
         json_array_add_object_element(list, o);
-        if (cuts && !add_cuts(o, &s->tensors[i], s, inputs, error)) {
+        if (cuts && !add_cuts(o, &s->tensors[i], s, inputs, &bi, error)) {
+            bm_bandinterp_free(bi);
             json_object_unref(response);
             return NULL;
         }
     }
+    bm_bandinterp_free(bi);
     if (s->n_beyond) {
         JsonArray *bl = json_array_new();
         for (size_t i = s->n_tensors; i < s->n_tensors + s->n_beyond; i++) {
