@@ -17,3 +17,8 @@
  * Before writing, partial files that a killed run left for the same path (their
  * process no longer exists, owned by the caller) are removed. */
 gboolean bm_cli_write_output(const char *path, const char *text, gsize len, GError **error);
+
+/* The same for the file of another option (its messages name that option:
+ * "cannot write --plot PATH: ..."). */
+gboolean bm_cli_write_file(const char *option, const char *path, const char *text, gsize len,
+                           GError **error);
