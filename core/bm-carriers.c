@@ -3,6 +3,7 @@
 #include "bm-carriers.h"
 
 #include <math.h>
+#include "bm-bandgap.h"
 #include "bm-fermi.h"
 #include "bm-units.h"
 
@@ -661,6 +662,27 @@ static double rel_dev(double a, double b)
  * dEg = dEg_app + kT [F_1/2^-1(r) - ln r], r the majority density over its
  * band's effective density of states (bm-carriers.h); the narrowing fields of
  * out follow the gap used. */
+/* The consistency residual of a narrowing deg: app + kT [F_1/2^-1(r) - ln r]
+ * - deg, with the Fermi level solved at that narrowing (into *u). */
+static bm_status narrowing_residual(nctx *c, bm_carrier_state *out, double app, double deg,
+                                    double *u, int *iters, double *h)
+{
+    int it;
+    set_narrowing(c, out, deg);
+    bm_status st = solve_u(c, *u, u, &it);
+    *iters += it;
+    if (st)
+        return st;
+    double g, gp, eta, corr = 0.0;
+    ndens d;
+    neutrality_eval(c, *u, &g, &gp, &d);
+    double r = d.n >= d.p ? d.n / c->nc : d.p / c->nv;
+    if (r > 0.0 && isfinite(r) && bm_fermi_dirac_half_inverse(r, &eta, NULL) == BM_OK)
+        corr = out->kt_ev * (eta - log(r));
+    *h = app + corr - deg;
+    return BM_OK;
+}
+
 static bm_status solve_state(const bm_semiconductor *s, nctx *c, bm_carrier_state *out,
                              double u0, double *u, int *iters)
 {
@@ -669,26 +691,51 @@ static bm_status solve_state(const bm_semiconductor *s, nctx *c, bm_carrier_stat
     int fd_fix = !c->boltzmann && m && m->kind != BM_BGN_NONE && m->apparent && app > 0.0;
     set_narrowing(c, out, deg);
     *iters = 0;
+    int it;
+    bm_status st = solve_u(c, u0, u, &it);
+    *iters += it;
+    if (st || !fd_fix)
+        return st;
+    /* the plain fixed point, which converges in a few steps wherever the
+     * majority carriers come from the dopants */
+    double u_start = *u;
     for (int k = 0; k < 100; k++) {
-        int it;
-        bm_status st = solve_u(c, u0, u, &it);
-        *iters += it;
-        if (st || !fd_fix)
+        double h;
+        st = narrowing_residual(c, out, app, deg, u, iters, &h);
+        if (st)
             return st;
-        double g, gp, eta, corr = 0.0;
-        ndens d;
-        neutrality_eval(c, *u, &g, &gp, &d);
-        double r = d.n >= d.p ? d.n / c->nc : d.p / c->nv;
-        if (r > 0.0 && isfinite(r) && bm_fermi_dirac_half_inverse(r, &eta, NULL) == BM_OK)
-            corr = out->kt_ev * (eta - log(r));
-        double next = app + corr;
-        if (fabs(next - deg) <= 1e-12 + 1e-12 * deg)
+        if (fabs(h) <= 1e-12 + 1e-12 * deg) {
+            set_narrowing(c, out, deg);
             return BM_OK;
-        deg = next;
-        set_narrowing(c, out, deg);
-        u0 = *u;
+        }
+        deg += h;
+        if (!(deg >= app && deg < out->band_gap_ev - BM_GAP_MIN_EV))
+            break;   /* left the range a narrowing can have */
     }
-    return BM_ENOCONV;
+    /* Where it does not (carriers so degenerate that the correction grows with
+     * the narrowing nearly as fast as the narrowing), bisect the residual over
+     * the narrowings that leave the gap above its domain's lower end; with no
+     * root there the apparent model cannot be made consistent: refused. */
+    double lo = app, hi = out->band_gap_ev - BM_GAP_MIN_EV, hlo, hhi, ulo = u_start, uhi = u_start;
+    if (!(hi > lo))
+        hi = lo;
+    st = narrowing_residual(c, out, app, lo, &ulo, iters, &hlo);
+    if (!st)
+        st = narrowing_residual(c, out, app, hi, &uhi, iters, &hhi);
+    if (st || !(hlo >= 0.0 && hhi <= 0.0))
+        return BM_EINVAL;
+    for (int k = 0; k < 200 && hi - lo > 1e-12 + 1e-12 * lo; k++) {
+        double mid = 0.5 * (lo + hi), hm, um = ulo;
+        st = narrowing_residual(c, out, app, mid, &um, iters, &hm);
+        if (st)
+            return st;
+        if (hm >= 0.0)
+            lo = mid, ulo = um;
+        else
+            hi = mid;
+    }
+    *u = ulo;
+    return narrowing_residual(c, out, app, lo, u, iters, &hlo);
 }
 
 bm_status bm_carriers_solve(const bm_semiconductor *s, double t_k,
@@ -701,6 +748,14 @@ bm_status bm_carriers_solve(const bm_semiconductor *s, double t_k,
         return st;
     double u;
     st = solve_state(s, &c, out, initial_u(&c), &u, &out->iterations);
+    if (st == BM_EINVAL) {
+        bm_warnings_clear(&out->warnings);
+        return bm_fail(err, st, "carrier statistics: the apparent band-gap narrowing cannot "
+                       "be made consistent with Fermi-Dirac statistics at %g K: the carriers "
+                       "are so degenerate that the correction outgrows any narrowing the gap "
+                       "allows (give the narrowing model \"apparent\": false, or Boltzmann "
+                       "statistics)", t_k);
+    }
     if (st) {
         bm_warnings_clear(&out->warnings);
         return bm_fail(err, st, "carrier statistics: neutrality did not converge at %g K",
