@@ -648,14 +648,17 @@ static void show_progress(BmBatchWriter *w, gint64 now, gboolean final)
     char left[32];
     format_duration(left, sizeof left, rate > 0 ? (total - ran) / rate : -1);
     if (w->tty) {
-        enum { WIDTH = 30 };
+        /* one line of at most 79 columns, padded so that a shorter one
+         * covers the last */
+        enum { WIDTH = 20 };
         char bar[WIDTH + 1];
         gsize fill = total ? ran * WIDTH / total : WIDTH;
         for (gsize k = 0; k < WIDTH; k++)
             bar[k] = k < fill ? '#' : '.';
         bar[WIDTH] = '\0';
-        fprintf(stderr, "\rbandmass batch [%s] %zu/%zu items, %zu failed, %.0f items/s, %s left ",
-                bar, ran, total, w->failed, rate, left);
+        g_autofree char *text = g_strdup_printf("batch [%s] %zu/%zu, %zu failed, %.0f/s, %s left",
+                                                bar, ran, total, w->failed, rate, left);
+        fprintf(stderr, "\r%-79.79s", text);
         w->bar_drawn = TRUE;
     } else if (!final) {
         fprintf(stderr, "bandmass batch: %zu of %zu items (%zu failed), %.0f items/s, about %s "
