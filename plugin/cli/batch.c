@@ -330,8 +330,8 @@ static void add_grid_inputs(JsonArray *inputs, const char *path)
             continue;
         const char *ref = json_node_get_string(n);
         g_autofree char *dir = g_path_get_dirname(path);
-        g_autofree char *full = g_path_is_absolute(ref) ? g_strdup(ref)
-                                                         : g_build_filename(dir, ref, NULL);
+        g_autofree char *full = g_path_is_absolute(ref) || !strcmp(dir, ".")
+            ? g_strdup(ref) : g_build_filename(dir, ref, NULL);
         g_autofree char *key = g_strdup_printf("grid.%s", keys[k]);
         add_input(inputs, key, full);
     }
@@ -500,8 +500,17 @@ static gboolean read_existing(const BmBatch *b, const char *path, int fd, gsize 
     gsize lines = 0;
     gboolean ok = TRUE;
     while (ok && (got = getline(&line, &cap, f)) > 0) {
-        if (line[got - 1] != '\n')
-            break;          /* torn: redone */
+        if (line[got - 1] != '\n') {
+            /* torn: redone; but text without any line end is cut off only
+             * when it is the start of a header (a stopped run's first write),
+             * never someone's file */
+            static const char start[] = "{\"format\":\"" BM_BATCH_FORMAT "\"";
+            if (lines == 0 && strncmp(line, start, MIN((gsize)got, sizeof start - 1)) != 0)
+                ok = refuse(error, BM_ERROR_INVALID_INPUT, path, "it is not the output of a "
+                            "batch run (it holds no %s header); nothing was written: pass "
+                            "another file name", BM_BATCH_FORMAT);
+            break;
+        }
         lines++;
         g_autofree char *what = g_strdup_printf("%s line %zu", path, lines);
         g_autoptr(GError) bad = NULL;

@@ -273,6 +273,18 @@ class Batch(unittest.TestCase):
         self.assertEqual(p.returncode, 2)
         with open(os.path.join(d, 'notes.txt')) as f:
             self.assertEqual(f.read(), 'my notes\n')
+        # nor is one without a line end (a torn header is only ever a header's start)
+        for text in ('no line end', '{"format":"bandmass-batch-2"'):
+            with open(os.path.join(d, 'torn.txt'), 'w') as f:
+                f.write(text)
+            p = run('batch', 'm.jsonl', '--output', 'torn.txt', cwd=d, check=False)
+            self.assertEqual(p.returncode, 2, text)
+            with open(os.path.join(d, 'torn.txt')) as f:
+                self.assertEqual(f.read(), text)
+        with open(os.path.join(d, 'torn.txt'), 'w') as f:
+            f.write('{"format":"bandm')
+        run('batch', 'm.jsonl', '--output', 'torn.txt', '--quiet', cwd=d)
+        self.assertEqual(items_only(os.path.join(d, 'torn.txt')), items_only(self.full))
         p = run('batch', 'm.jsonl', '--threads', '0', cwd=d, check=False)
         self.assertEqual(p.returncode, 2)
 
