@@ -3,6 +3,7 @@
 
 #include <errno.h>
 #include <fcntl.h>
+#include <pthread.h>
 #include <signal.h>
 #include <stdio.h>
 #include <string.h>
@@ -438,8 +439,10 @@ char *bm_batch_run(const BmBatch *b, gsize i, gboolean *failed)
 #define BAR_INTERVAL_US (G_USEC_PER_SEC / 5)
 #define LINE_INTERVAL_US (10 * G_USEC_PER_SEC)
 
+/* The lock is a pthread mutex, not a GMutex: GLib's futex-based locks are
+ * invisible to ThreadSanitizer (tests/run.sh --threads runs batch under it). */
 struct _BmBatchWriter {
-    GMutex lock;
+    pthread_mutex_t lock;
     int fd;
     gboolean regular;    /* a regular file: synced */
     char *path;          /* as given, for messages ("standard output" when NULL) */
@@ -616,7 +619,7 @@ BmBatchWriter *bm_batch_writer_open(const BmBatch *b, const char *path, const ch
         return NULL;
     }
     BmBatchWriter *w = g_new0(BmBatchWriter, 1);
-    g_mutex_init(&w->lock);
+    pthread_mutex_init(&w->lock, NULL);
     w->fd = fd;
     w->regular = regular;
     w->path = g_strdup(path ? path : "standard output");
@@ -699,7 +702,7 @@ static void flush_ready(BmBatchWriter *w)
 
 gboolean bm_batch_writer_put(BmBatchWriter *w, gsize i, char *line, gboolean failed)
 {
-    g_mutex_lock(&w->lock);
+    pthread_mutex_lock(&w->lock);
     if (i < w->next || i >= w->n || w->pending[i]) {
         g_free(line);   /* already written or out of range: a caller's slip */
     } else {
@@ -711,21 +714,21 @@ gboolean bm_batch_writer_put(BmBatchWriter *w, gsize i, char *line, gboolean fai
         flush_ready(w);
     }
     gboolean ok = w->error == NULL;
-    g_mutex_unlock(&w->lock);
+    pthread_mutex_unlock(&w->lock);
     return ok;
 }
 
 gboolean bm_batch_writer_ok(BmBatchWriter *w)
 {
-    g_mutex_lock(&w->lock);
+    pthread_mutex_lock(&w->lock);
     gboolean ok = w->error == NULL;
-    g_mutex_unlock(&w->lock);
+    pthread_mutex_unlock(&w->lock);
     return ok;
 }
 
 gboolean bm_batch_writer_close(BmBatchWriter *w, GError **error)
 {
-    g_mutex_lock(&w->lock);
+    pthread_mutex_lock(&w->lock);
     flush_ready(w);
     if (w->regular && !w->error && fsync(w->fd) != 0 && errno != EINVAL)
         g_set_error(&w->error, BM_ERROR, BM_ERROR_IO, "cannot write --output %s: %s", w->path,
@@ -755,8 +758,8 @@ gboolean bm_batch_writer_close(BmBatchWriter *w, GError **error)
     gboolean ok = w->error == NULL;
     if (!ok)
         g_propagate_error(error, w->error);
-    g_mutex_unlock(&w->lock);
-    g_mutex_clear(&w->lock);
+    pthread_mutex_unlock(&w->lock);
+    pthread_mutex_destroy(&w->lock);
     g_free(w);
     return ok;
 }
