@@ -5,6 +5,7 @@
 #include <fcntl.h>
 #include <pthread.h>
 #include <signal.h>
+#include <stdint.h>
 #include <stdio.h>
 #include <string.h>
 #include <unistd.h>
@@ -33,6 +34,11 @@ struct _BmBatch {
     gsize len;
     char sha256[65];
     GArray *items;       /* Item */
+    /* checksums of input files already read in this run, by path and file
+     * identity (device, inode, size, modification and change times): a file
+     * that many items name is read once, a file changed meanwhile again */
+    pthread_mutex_t sums_lock;
+    GHashTable *sums;
 };
 
 static void item_clear(gpointer p)
@@ -196,6 +202,8 @@ BmBatch *bm_batch_new(const char *name, const char *text, gsize len)
     g_autofree char *hex = sha256_hex((const guchar *)text, len);
     g_strlcpy(b->sha256, hex, sizeof b->sha256);
     b->items = g_array_new(FALSE, FALSE, sizeof(Item));
+    pthread_mutex_init(&b->sums_lock, NULL);
+    b->sums = g_hash_table_new_full(g_str_hash, g_str_equal, g_free, g_free);
     g_array_set_clear_func(b->items, item_clear);
 
     g_autoptr(GHashTable) ids = g_hash_table_new_full(g_str_hash, g_str_equal, g_free, NULL);
@@ -231,6 +239,8 @@ void bm_batch_free(BmBatch *b)
     if (!b)
         return;
     g_array_unref(b->items);
+    g_hash_table_unref(b->sums);
+    pthread_mutex_destroy(&b->sums_lock);
     g_free(b->text);
     g_free(b->name);
     g_free(b);
@@ -265,7 +275,7 @@ char *bm_batch_header(const BmBatch *b, const char *workers_key, guint workers)
 /* ---- one item ---- */
 
 /* The SHA-256 of a file's bytes, or NULL when it cannot be read. */
-static char *file_sha256(const char *path)
+static char *file_sha256(BmBatch *b, const char *path)
 {
     int fd = open(path, O_RDONLY | O_CLOEXEC | O_NONBLOCK);
     if (fd < 0)
@@ -275,6 +285,18 @@ static char *file_sha256(const char *path)
         close(fd);
         return NULL;
     }
+    char *key = g_strdup_printf("%s\n%ju:%ju:%jd:%jd.%09ld:%jd.%09ld", path, (uintmax_t)st.st_dev,
+                                (uintmax_t)st.st_ino, (intmax_t)st.st_size,
+                                (intmax_t)st.st_mtim.tv_sec, (long)st.st_mtim.tv_nsec,
+                                (intmax_t)st.st_ctim.tv_sec, (long)st.st_ctim.tv_nsec);
+    pthread_mutex_lock(&b->sums_lock);
+    char *known = g_strdup(g_hash_table_lookup(b->sums, key));
+    pthread_mutex_unlock(&b->sums_lock);
+    if (known) {
+        close(fd);
+        g_free(key);
+        return known;
+    }
     g_autoptr(GChecksum) sum = g_checksum_new(G_CHECKSUM_SHA256);
     guchar buf[65536];
     for (;;) {
@@ -283,6 +305,7 @@ static char *file_sha256(const char *path)
             continue;
         if (got < 0) {
             close(fd);
+            g_free(key);
             return NULL;
         }
         if (got == 0)
@@ -290,15 +313,19 @@ static char *file_sha256(const char *path)
         g_checksum_update(sum, buf, got);
     }
     close(fd);
-    return g_strdup(g_checksum_get_string(sum));
+    char *hex = g_strdup(g_checksum_get_string(sum));
+    pthread_mutex_lock(&b->sums_lock);
+    g_hash_table_replace(b->sums, key, g_strdup(hex));
+    pthread_mutex_unlock(&b->sums_lock);
+    return hex;
 }
 
-static void add_input(JsonArray *inputs, const char *key, const char *path)
+static void add_input(BmBatch *b, JsonArray *inputs, const char *key, const char *path)
 {
     JsonObject *o = json_object_new();
     json_object_set_string_member(o, "key", key);
     json_object_set_string_member(o, "path", path);
-    g_autofree char *sum = file_sha256(path);
+    g_autofree char *sum = file_sha256(b, path);
     if (sum)
         json_object_set_string_member(o, "sha256", sum);
     else
@@ -311,9 +338,9 @@ static void add_input(JsonArray *inputs, const char *key, const char *path)
  * document's folder: that file is an input too. */
 #define GRID_DOCUMENT_LOOK_BYTES (1 << 20)
 
-static void add_grid_inputs(JsonArray *inputs, const char *path)
+static void add_grid_inputs(BmBatch *b, JsonArray *inputs, const char *path)
 {
-    add_input(inputs, "grid", path);
+    add_input(b, inputs, "grid", path);
     struct stat st;
     if (stat(path, &st) != 0 || !S_ISREG(st.st_mode) || st.st_size > GRID_DOCUMENT_LOOK_BYTES)
         return;
@@ -334,13 +361,13 @@ static void add_grid_inputs(JsonArray *inputs, const char *path)
         g_autofree char *full = g_path_is_absolute(ref) || !strcmp(dir, ".")
             ? g_strdup(ref) : g_build_filename(dir, ref, NULL);
         g_autofree char *key = g_strdup_printf("grid.%s", keys[k]);
-        add_input(inputs, key, full);
+        add_input(b, inputs, key, full);
     }
 }
 
 /* The files the request names: "grid" (and the .npy its document names),
  * "table", and a "material" that is not a built-in name. */
-static JsonArray *request_inputs(JsonObject *request)
+static JsonArray *request_inputs(BmBatch *b, JsonObject *request)
 {
     JsonArray *inputs = json_array_new();
     static const char *const keys[] = { "grid", "table", "material" };
@@ -350,13 +377,13 @@ static JsonArray *request_inputs(JsonObject *request)
             continue;
         const char *path = json_node_get_string(n);
         if (k == 0) {
-            add_grid_inputs(inputs, path);
+            add_grid_inputs(b, inputs, path);
         } else if (k == 1) {
-            add_input(inputs, keys[k], path);
+            add_input(b, inputs, keys[k], path);
         } else {
             bm_errbuf err = {0};
             if (!bm_material_find(path, &err) && g_file_test(path, G_FILE_TEST_IS_REGULAR))
-                add_input(inputs, keys[k], path);
+                add_input(b, inputs, keys[k], path);
         }
     }
     return inputs;
@@ -410,7 +437,9 @@ char *bm_batch_run(const BmBatch *b, gsize i, gboolean *failed)
                                                  (guint)it->each);
             json_object_set_member(request, key, json_node_copy(v));
         }
-        inputs = request_inputs(request);
+        /* the checksum cache is the one thing of the batch that items
+         * change, under its own lock */
+        inputs = request_inputs((BmBatch *)b, request);
         response = bm_registry_invoke(bm_registry_lookup(it->op), request, NULL, &error);
         if (!response)
             g_prefix_error(&error, "manifest line %u: ", it->line);
