@@ -3,8 +3,9 @@
 # carrier-statistics, band-gap, constants) and on a set of band grids (24^3
 # k-points, 8 bands, .npy; mass-tensor with "band": "all"), with 1 and 2
 # threads, against a shell loop of `bandmass call` and a Python loop over the
-# GI binding (Bandmass.call) doing the same items. Prints items per second,
-# peak memory (/usr/bin/time -v) and whether the answers agree.
+# GI binding (Bandmass.call) doing the same items. Prints items per second of
+# wall time and of CPU time (user + system: less swayed by other load on a
+# shared machine), peak memory (/usr/bin/time -v) and whether the answers agree.
 # Usage: bench-batch.py BANDMASS_CLI [GRIDS [SMALL]] (GRIDS 1000, SMALL 10000;
 # the shell loop runs a slice of each set, as one process per item is slow).
 import json
@@ -78,7 +79,13 @@ def run_batch(folder, manifest, threads):
     rss = int(re.search(r'Maximum resident set size \(kbytes\): (\d+)', p.stderr).group(1))
     with open(out) as f:
         items = [json.loads(x) for x in f.read().splitlines()[1:]]
-    return wall, rss, items
+    return wall, cpu_time(p.stderr), rss, items
+
+
+def cpu_time(report):
+    """User + system seconds from /usr/bin/time -v."""
+    return sum(float(re.search(r'%s time \(seconds\): ([0-9.]+)' % k, report).group(1))
+               for k in ('User', 'System'))
 
 
 def shell_loop(folder, rows):
@@ -93,11 +100,11 @@ def shell_loop(folder, rows):
     if os.path.exists(os.path.join(folder, 'shell.jsonl')):
         os.unlink(os.path.join(folder, 'shell.jsonl'))
     t = time.perf_counter()
-    subprocess.run(['/usr/bin/time', '-v', 'sh', script], cwd=folder, check=True,
-                   capture_output=True)
+    p = subprocess.run(['/usr/bin/time', '-v', 'sh', script], cwd=folder, check=True,
+                       capture_output=True, text=True)
     wall = time.perf_counter() - t
     with open(os.path.join(folder, 'shell.jsonl')) as f:
-        return wall, [json.loads(x) for x in f]
+        return wall, cpu_time(p.stderr), [json.loads(x) for x in f]
 
 
 def gi_loop(folder, rows):
@@ -109,6 +116,7 @@ gi.require_version('Bandmass', '1.0')
 from gi.repository import Bandmass
 rows = [json.loads(x) for x in open(sys.argv[1])]
 t = time.perf_counter()
+c = time.process_time()
 out = []
 for r in rows:
     try:
@@ -116,7 +124,8 @@ for r in rows:
     except gi.repository.GLib.Error as e:
         out.append({'error': e.message})
 wall = time.perf_counter() - t
-json.dump({'wall': wall, 'rss': resource.getrusage(resource.RUSAGE_SELF).ru_maxrss,
+cpu = time.process_time() - c
+json.dump({'wall': wall, 'cpu': cpu, 'rss': resource.getrusage(resource.RUSAGE_SELF).ru_maxrss,
            'answers': out}, open(sys.argv[2], 'w'))
 '''
     manifest = os.path.join(folder, 'gi-rows.jsonl')
@@ -125,7 +134,7 @@ json.dump({'wall': wall, 'rss': resource.getrusage(resource.RUSAGE_SELF).ru_maxr
     subprocess.run(['/usr/bin/python3', '-c', code, manifest, res], cwd=folder, check=True)
     with open(res) as f:
         r = json.load(f)
-    return r['wall'], r['rss'], r['answers']
+    return r['wall'], r['cpu'], r['rss'], r['answers']
 
 
 def main():
@@ -140,30 +149,33 @@ def main():
               '%.0f MB), made in %.1f s' % (N_SMALL, N_GRIDS, MESH, BANDS,
                                             N_GRIDS * BANDS * MESH ** 3 * 8 / 1e6,
                                             time.perf_counter() - t))
-        print('%-34s %10s %10s %12s' % ('', 'items', 'items/s', 'peak MB'))
+        print('load average at the start: %.2f' % os.getloadavg()[0])
+        print('%-34s %8s %10s %14s %9s' % ('', 'items', 'items/s', 'items/CPU-s', 'peak MB'))
+        row = '%-34s %8d %10.0f %14.0f %9s'
+
         for name, rows in (('small', small), ('grids', grids)):
             manifest = os.path.join(folder, name + '.jsonl')
             results = {}
             for threads in (1, 2):
-                wall, rss, items = run_batch(folder, manifest, threads)
+                wall, cpu, rss, items = run_batch(folder, manifest, threads)
                 results[threads] = items
-                print('%-34s %10d %10.0f %12.1f' % ('batch %s, %d thread%s' % (
-                    name, threads, '' if threads == 1 else 's'), len(rows), len(rows) / wall,
-                    rss / 1024))
+                print(row % ('batch %s, %d thread%s' % (name, threads, '' if threads == 1 else 's'),
+                             len(rows), len(rows) / wall, len(rows) / cpu, '%.1f' % (rss / 1024)))
             assert results[1] == results[2], 'thread counts disagree'
             assert all(x['status'] == 'ok' for x in results[1]), 'an item failed'
             # the same items, one `bandmass call` process each (a slice)
             part = rows[:SHELL_SMALL if name == 'small' else SHELL_GRIDS]
-            wall, answers = shell_loop(folder, part)
-            print('%-34s %10d %10.0f %12s' % ('shell loop of bandmass call', len(part),
-                                             len(part) / wall, '(1 item)'))
+            wall, cpu, answers = shell_loop(folder, part)
+            print(row % ('shell loop of bandmass call', len(part), len(part) / wall,
+                         len(part) / cpu, '-'))
             assert answers == [x['response'] for x in results[1][:len(part)]], 'shell differs'
             # the same items through the GI binding, one process
-            wall, rss, answers = gi_loop(folder, rows)
-            print('%-34s %10d %10.0f %12.1f' % ('Python loop over Bandmass.call', len(rows),
-                                               len(rows) / wall, rss / 1024))
+            wall, cpu, rss, answers = gi_loop(folder, rows)
+            print(row % ('Python loop over Bandmass.call', len(rows), len(rows) / wall,
+                         len(rows) / cpu, '%.1f' % (rss / 1024)))
             assert answers == [x['response'] for x in results[1]], 'GI answers differ'
         print('answers: batch with 1 and 2 threads, the shell loop and the GI loop agree')
+        print('load average at the end: %.2f' % os.getloadavg()[0])
     finally:
         shutil.rmtree(folder)
 
