@@ -11,7 +11,8 @@ struct bm_bandinterp {
     double offset[3];
     double pair_gap;        /* eV; 0: no pairs */
     double *single;         /* [band][npt] spline coefficients of each band */
-    double *sum;            /* [band][npt] of E_b + E_{b+1} (b < nbands - 1) */
+    /* the pair's sum E_b + E_{b+1} needs no spline of its own: the spline
+     * is linear in the data, so its coefficients are single[b] + single[b+1] */
     double *sqdiff;         /* [band][npt] of (E_{b+1} - E_b)^2 */
     unsigned char *paired;  /* [band]: 1 when b and b + 1 may pair (same spin channel) */
 };
@@ -108,11 +109,9 @@ bm_bandinterp *bm_bandinterp_new(const bm_grid *g, double pair_gap_ev)
     size_t np = bi->pair_gap > 0.0 ? g->nbands - 1 : 0, npt = bi->npt;
     bi->single = malloc(g->nbands * npt * sizeof *bi->single);
     bi->paired = calloc(g->nbands, 1);
-    if (np) {
-        bi->sum = malloc(np * npt * sizeof *bi->sum);
+    if (np)
         bi->sqdiff = malloc(np * npt * sizeof *bi->sqdiff);
-    }
-    if (!bi->single || !bi->paired || (np && (!bi->sum || !bi->sqdiff))) {
+    if (!bi->single || !bi->paired || (np && !bi->sqdiff)) {
         bm_bandinterp_free(bi);
         return NULL;
     }
@@ -125,12 +124,9 @@ bm_bandinterp *bm_bandinterp_new(const bm_grid *g, double pair_gap_ev)
             continue;
         bi->paired[b] = 1;
         const double *lo = g->energies + b * npt, *hi = lo + npt;
-        double *s = bi->sum + b * npt, *d = bi->sqdiff + b * npt;
-        for (size_t m = 0; m < npt; m++) {
-            s[m] = lo[m] + hi[m];
+        double *d = bi->sqdiff + b * npt;
+        for (size_t m = 0; m < npt; m++)
             d[m] = (hi[m] - lo[m]) * (hi[m] - lo[m]);
-        }
-        failed |= spline_of(s, bi->mesh);
         failed |= spline_of(d, bi->mesh);
     }
     if (failed) {
@@ -145,7 +141,6 @@ void bm_bandinterp_free(bm_bandinterp *bi)
     if (!bi)
         return;
     free(bi->single);
-    free(bi->sum);
     free(bi->sqdiff);
     free(bi->paired);
     free(bi);
@@ -255,14 +250,20 @@ static void blend_weight(double x, double *w, double *dw, double *ddw)
 }
 
 /* The band from the pair splines: the lower (upper) root of the pair, for
- * band = pair (band = pair + 1).  The square root is held away from zero so
- * that its derivatives stay finite at a touching point. */
-static void pair_eval(const bm_bandinterp *bi, size_t pair, int upper, const axis_weights a[3],
-                      int want_h, jet *out)
+ * band = pair (band = pair + 1); one and two are the two bands' own spline
+ * jets, whose sum is the spline of the pair's sum.  The square root is held
+ * away from zero so that its derivatives stay finite at a touching point. */
+static void pair_eval(const bm_bandinterp *bi, size_t pair, int upper, const jet *one,
+                      const jet *two, const axis_weights a[3], int want_h, jet *out)
 {
     jet s, d;
     memset(out, 0, sizeof *out);
-    spline_eval(bi, bi->sum + pair * bi->npt, a, want_h, &s);
+    s.e = one->e + two->e;
+    for (int i = 0; i < 3; i++) {
+        s.g[i] = one->g[i] + two->g[i];
+        for (int j = 0; j < 3; j++)
+            s.h[i][j] = want_h ? one->h[i][j] + two->h[i][j] : 0.0;
+    }
     spline_eval(bi, bi->sqdiff + pair * bi->npt, a, want_h, &d);
     const double floor_sq = 1e-12;   /* (1 micro-eV)^2 */
     double dv = d.e > floor_sq ? d.e : floor_sq;
@@ -325,7 +326,7 @@ void bm_bandinterp_eval(const bm_bandinterp *bi, size_t band, const double f[3],
                 continue;
             size_t pair = side == 0 ? band - 1 : band;
             jet p;
-            pair_eval(bi, pair, side == 0, a, want_h, &p);
+            pair_eval(bi, pair, side == 0, &self, &nb[side], a, want_h, &p);
             /* gap = |E_other - E_self|: its derivatives, in units of the pair gap */
             double sgn = nb[side].e >= self.e ? 1.0 : -1.0, inv = 1.0 / bi->pair_gap;
             double gg[3], diff = p.e - self.e;

@@ -525,12 +525,16 @@ static bm_status setup(const bm_semiconductor *s, double t_k, bm_statistics stat
         if (st)
             return st;
     }
-    if (!(me > 0.0) || !isfinite(me))
-        return bm_fail(err, BM_EINVAL, "carrier statistics: electron DOS mass %g m_e must "
-                       "be finite and > 0", me);
-    if (!(mh > 0.0) || !isfinite(mh))
-        return bm_fail(err, BM_EINVAL, "carrier statistics: hole DOS mass %g m_e must be "
-                       "finite and > 0", mh);
+    /* one domain for every source of the masses (fixed, table, fit, hook):
+     * beyond it the neutrality solve has no meaningful root to find */
+    if (!(me >= BM_DOS_MASS_MIN_ME && me <= BM_DOS_MASS_MAX_ME))
+        return bm_fail(err, BM_EINVAL, "carrier statistics: electron DOS mass %g m_e at %g K "
+                       "is outside the domain %g to %g m_e", me, t_k, BM_DOS_MASS_MIN_ME,
+                       BM_DOS_MASS_MAX_ME);
+    if (!(mh >= BM_DOS_MASS_MIN_ME && mh <= BM_DOS_MASS_MAX_ME))
+        return bm_fail(err, BM_EINVAL, "carrier statistics: hole DOS mass %g m_e at %g K is "
+                       "outside the domain %g to %g m_e", mh, t_k, BM_DOS_MASS_MIN_ME,
+                       BM_DOS_MASS_MAX_ME);
     bm_status st = check_dopants("donor", s->donors, s->ndonors, err);
     if (st)
         return st;

@@ -35,6 +35,12 @@ typedef enum {
     BM_BOLTZMANN = 1       /* n = Nc exp(eta): on request */
 } bm_statistics;
 
+/* The domain of a density-of-states mass in carrier statistics (m_e): wide
+ * enough for heavy-fermion compounds, narrow enough that Nc and Nv stay far
+ * from overflow at any temperature of the solver. */
+#define BM_DOS_MASS_MIN_ME 1e-4
+#define BM_DOS_MASS_MAX_ME 1e4
+
 /* Optional temperature-dependent density-of-states masses: called once per
  * solve with the temperature; return BM_OK and fill both masses (m_e). */
 typedef bm_status (*bm_dos_mass_hook)(double t_k, double *m_dos_electron,

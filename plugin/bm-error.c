@@ -58,6 +58,14 @@ gboolean bm_error_read_file(const char *path, const char *what, char **text, gsi
         why = "not a regular file (a FIFO, a device or a directory cannot be read as a document)";
     else if ((guint64)st.st_size > BM_MAX_DOCUMENT_BYTES)
         why = "larger than the 1 GiB a document may have";
+    if (err == ENOENT && !g_path_is_absolute(path)) {
+        /* say where a relative name was looked for: the usual mistake */
+        g_autofree char *cwd = g_get_current_dir();
+        g_set_error(error, BM_ERROR, BM_ERROR_IO, "cannot read %s: %s: no such file in %s "
+                    "(relative names are read from the folder the program runs in; give "
+                    "the path from there or an absolute one)", what, path, cwd);
+        return FALSE;
+    }
     if (err || why) {
         g_set_error(error, BM_ERROR, BM_ERROR_IO, "cannot read %s: %s: %s", what, path,
                     why ? why : g_strerror(err));

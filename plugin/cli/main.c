@@ -13,6 +13,7 @@
 #include "csv.h"
 #include "batch.h"
 #include "bm-parallel.h"
+#include "manual.h"
 
 #define EXIT_USAGE 2
 
@@ -42,6 +43,7 @@ static void print_main_help(void)
            "Usage:\n"
            "  bandmass ops [--json | --markdown] list the operations (--json, --markdown:\n"
            "                                     every key, unit, range and response field)\n"
+           "  bandmass ops --man | --bash-completion   the manual page, the completion script\n"
            "  bandmass call OP [--input FILE]    run OP on a JSON request (stdin by default)\n"
            "                [--output FILE] [--compact]\n"
            "  bandmass OP [--KEY VALUE]... [--json | --csv] [--output FILE]\n"
@@ -126,7 +128,15 @@ static int cmd_ops(int argc, char **argv)
             as_json = TRUE;
         else if (strcmp(argv[i], "--markdown") == 0)
             as_markdown = TRUE;
-        else
+        else if (strcmp(argv[i], "--man") == 0) {
+            g_autofree char *page = bm_cli_man_page(PACKAGE_VERSION);
+            fputs(page, stdout);
+            return 0;
+        } else if (strcmp(argv[i], "--bash-completion") == 0) {
+            g_autofree char *script = bm_cli_bash_completion();
+            fputs(script, stdout);
+            return 0;
+        } else
             return usage_error("ops: unknown option %s", argv[i]);
     }
     if (as_markdown) {
