@@ -1,9 +1,9 @@
 #!/usr/bin/python3
 """test_install.py: `meson install` into a temporary root puts every part where
 its users look for it, and the installed parts work from there without the
-build tree: the CLI, a GI script (typelib and the NumPy override), a C host
-compiled against the installed headers through pkg-config, the manual page
-and the bash completion.
+build tree: the CLI, a GI script (typelib and the NumPy override), the R
+loader and module, a C host compiled against the installed headers through
+pkg-config, the manual page and the bash completion.
 
 Usage: test_install.py BUILD_DIR SOURCE_DIR"""
 import json
@@ -64,6 +64,10 @@ def main():
         }
         if os.path.exists(os.path.join(BUILD, 'plugin', 'octave', 'bandmass.mex')):
             expected['Octave adapter'] = under('datadir', 'bandmass', 'octave', 'bandmass.mex')
+        r_built = os.path.exists(os.path.join(BUILD, 'plugin', 'r', 'bandmass_r.so'))
+        if r_built:
+            expected['R module'] = under('datadir', 'bandmass', 'r', 'bandmass_r.so')
+            expected['R loader'] = under('datadir', 'bandmass', 'r', 'bandmass.R')
         for what, path in expected.items():
             check(os.path.exists(path), '%s installed at %s' % (what, path[len(dest):]))
 
@@ -94,6 +98,24 @@ def main():
             p = run(['/usr/bin/python3', '-c', script], env=gi_env)
             check(p.returncode == 0 and p.stdout.strip() == compact.strip(),
                   'GI script on the installed typelib answers as the CLI ' + p.stderr[-500:])
+
+        # R: the installed loader names the installed module; with that name
+        # moved into the temporary root it loads and answers as the CLI
+        loader = expected.get('R loader')
+        if r_built and os.path.exists(loader) and shutil.which('Rscript'):
+            module = expected['R module'][len(dest):]
+            text = open(loader).read()
+            check('dyn.load("%s")' % module in text, 'R loader names the installed module')
+            moved = os.path.join(dest, 'bandmass-moved.R')
+            with open(moved, 'w') as f:
+                f.write(text.replace(module, dest + module))
+            script = ('source(%r); v <- bandmass_call("constants")$constants; '
+                      'cat(sprintf("%%.17g", v$boltzmann_ev_per_k$value))' % moved)
+            p = run(['Rscript', '--vanilla', '-e', script], env=env)
+            want = json.loads(built)['constants']['boltzmann_ev_per_k']['value']
+            check(p.returncode == 0 and p.stdout and float(p.stdout) == want,
+                  'R loader and module from the installed tree answer as the CLI '
+                  + p.stderr[-500:])
 
         # a C host built against the installed headers through pkg-config
         pc_env = dict(env, PKG_CONFIG_PATH=os.path.join(libdir, 'pkgconfig'),
