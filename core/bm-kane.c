@@ -179,6 +179,8 @@ bm_status bm_kane_fit_points(const double (*q)[3], const double *e, size_t n, in
         out->masses_stderr_me[d] = fabs(out->masses_me[d] * sc / c);
     }
     out->offset_ev = par[dims];
+    for (int d = 0; d < dims; d++)
+        out->shift[d] = par[dims + 1 + d];
     if (kane) {
         out->alpha_per_ev = par[ia];
         out->alpha_stderr_per_ev = sqrt(s2 * gsl_matrix_get(cov, (size_t)ia, (size_t)ia));
@@ -191,6 +193,19 @@ done:
     gsl_vector_free(r);
     gsl_vector_free(p);
     return st;
+}
+
+double bm_kane_fit_energy(const bm_kane_fit *f, const double q[3])
+{
+    double gamma = 0.0, e, dg, da;
+    for (int d = 0; d < f->dims; d++) {
+        double x = q[d] - f->shift[d];
+        gamma += BM_HBAR2_OVER_ME_EV_A2 / (2.0 * f->masses_me[d]) * x * x;
+    }
+    if (1.0 + 4.0 * f->alpha_per_ev * gamma < 0.0)
+        return NAN;
+    kane_energy(gamma, f->alpha_per_ev, &e, &dg, &da);
+    return f->offset_ev + e;
 }
 
 typedef struct {

@@ -15,6 +15,8 @@ typedef struct {
     double alpha_per_ev;      /* 0 for the parabolic fit */
     double alpha_stderr_per_ev;
     double offset_ev;         /* fitted energy of the edge relative to the one given */
+    double shift[3];          /* fitted centre along each principal direction, from the
+                                 point given, 1/Angstrom */
     double rms_residual_ev;
     double aic;               /* n ln(RSS / n) + 2 p: the smaller describes the data better */
     size_t npoints;
@@ -29,6 +31,12 @@ typedef struct {
  * linear fit, standard errors from s^2 (J^T J)^-1. */
 bm_status bm_kane_fit_points(const double (*q)[3], const double *e, size_t n, int dims, int kane,
                              bm_kane_fit *out, bm_errbuf *err);
+
+/* The fitted band at q (offsets from the point given along the principal
+ * directions, 1/Angstrom): offset + E, E (1 + alpha E) = sum_i hbar^2 (q_i -
+ * shift_i)^2 / (2 m_i), measured into the band as the fit's energies; NAN
+ * past the turning point of a negative alpha. */
+double bm_kane_fit_energy(const bm_kane_fit *f, const double q[3]);
 
 /* Non-degenerate thermal masses of a Kane band with principal masses m
  * (dims of them) and alpha, at temperature T: the DOS mass from the closed

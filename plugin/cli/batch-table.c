@@ -25,7 +25,7 @@ static gboolean bad_path(GError **error, const char *path, gsize at, const char 
     g_autofree char *shown = bm_text_for_message(path, -1);
     g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "--fields: field %s, character %zu: "
                 "%s (a field is keys joined by '.', each key optionally followed by list "
-                "indexes [N], e.g. points[0].fermi_level_ev)", shown, at + 1, why);
+                "indexes [N] or .N, e.g. points[0].fermi_level_ev)", shown, at + 1, why);
     return FALSE;
 }
 
@@ -92,7 +92,14 @@ static JsonNode *follow(JsonNode *n, GArray *steps)
 {
     for (guint k = 0; n && k < steps->len; k++) {
         const Step *s = &g_array_index(steps, Step, k);
-        if (s->key) {
+        if (s->key && JSON_NODE_HOLDS_ARRAY(n) && s->key[strspn(s->key, "0123456789")] == '\0'
+            && strlen(s->key) <= 9) {
+            /* "points.0": a whole number after a '.' indexes a list, as
+             * bandmass plot reads its fields */
+            JsonArray *a = json_node_get_array(n);
+            guint64 ix = strtoull(s->key, NULL, 10);
+            n = ix < json_array_get_length(a) ? json_array_get_element(a, (guint)ix) : NULL;
+        } else if (s->key) {
             n = JSON_NODE_HOLDS_OBJECT(n)
                 ? json_object_get_member(json_node_get_object(n), s->key) : NULL;
         } else {

@@ -83,7 +83,8 @@ gboolean bm_batch_writer_close(BmBatchWriter *writer, GError **error);
 /* The CSV of batch outputs: a header row "id,status,FIELD,...", then one row
  * per item line of each file in order. fields is a comma-separated list of
  * response paths: keys joined by '.', each optionally followed by list
- * indexes [N] (points[0].fermi_level_ev). A field an item lacks is an empty
+ * indexes [N] (points[0].fermi_level_ev; points.0.fermi_level_ev, as bandmass
+ * plot spells it, is the same). A field an item lacks is an empty
  * cell; an object or list is its compact JSON. FALSE with error set
  * (BM_ERROR_INVALID_INPUT) for a malformed path or a file that is not a batch
  * output, naming the path or the file and line. */

@@ -14,6 +14,7 @@
 #include "batch.h"
 #include "bm-parallel.h"
 #include "manual.h"
+#include "plot-command.h"
 
 #define EXIT_USAGE 2
 
@@ -54,13 +55,15 @@ static void print_main_help(void)
            "                                     the same --output again resumes it\n"
            "  bandmass batch-table RESULTS... --fields PATH,... [--output FILE]\n"
            "                                     batch results as CSV, one row per item\n"
+           "  bandmass OP ... --plot FILE        also draw the result (.svg, .png or .pdf)\n"
+           "%s"
            "  bandmass --version\n\n"
            "Option names are request keys with '-' for '_' (--temperature-k 300).\n"
            "Arrays and objects are given as JSON ('[1,0,0]') or as comma lists (100,200);\n"
            "list items may be ranges: 100:500:50 (linear), 1e14:1e20:x10 (geometric).\n"
            "Numbers are plain decimals without units; true/false options may stand alone.\n"
            "Exit status: 0 success, 2 bad input or usage, 1 internal failure.\n",
-           PACKAGE_VERSION);
+           PACKAGE_VERSION, bm_cli_plot_usage);
 }
 
 /* Writes text to stdout, or to path by the rules of bm_cli_write_output. */
@@ -133,7 +136,7 @@ static int cmd_ops(int argc, char **argv)
             fputs(page, stdout);
             return 0;
         } else if (strcmp(argv[i], "--bash-completion") == 0) {
-            g_autofree char *script = bm_cli_bash_completion();
+            g_autofree char *script = bm_cli_bash_completion(bm_cli_plot_supported);
             fputs(script, stdout);
             return 0;
         } else
@@ -231,6 +234,9 @@ static void print_op_help(const BmOperation *op)
     printf("\nOutput: a readable table; --json for the response object "
            "(as 'bandmass call %s'),\n--csv for its table as CSV (one row for a single point), "
            "--output FILE to write it\n(a file atomically, a device or FIFO through).\n", op->name);
+    if (bm_cli_plot_supported(op))
+        printf("--plot FILE also draws the result (README, Plots); the extension chooses the "
+               "format:\n.svg, .png or .pdf.\n");
 }
 
 /* Markdown table cells: '|' escaped, no line breaks. */
@@ -316,7 +322,7 @@ static void print_markdown(void)
 static int cmd_operation(const BmOperation *op, int argc, char **argv)
 {
     enum { TABLE, JSON, CSV } view = TABLE;
-    const char *output = NULL;
+    const char *output = NULL, *plot = NULL;
     g_autoptr(JsonObject) request = json_object_new();
     g_autoptr(GError) error = NULL;
 
@@ -332,6 +338,14 @@ static int cmd_operation(const BmOperation *op, int argc, char **argv)
             if (i + 1 >= argc)
                 return usage_error("%s: --output needs a file name", op->name);
             output = argv[++i];
+            continue;
+        }
+        if (!strcmp(arg, "--plot")) {
+            if (i + 1 >= argc)
+                return usage_error("%s: --plot needs a file name", op->name);
+            plot = argv[++i];
+            if (!bm_cli_plot_check(op, plot, &error))
+                return fail(error);
             continue;
         }
         if (strncmp(arg, "--", 2) != 0)
@@ -376,6 +390,9 @@ static int cmd_operation(const BmOperation *op, int argc, char **argv)
 
     g_autoptr(JsonObject) response = bm_registry_invoke(op, request, NULL, &error);
     if (!response)
+        return fail(error);
+    /* the plot first: a plot that cannot be drawn or written leaves nothing */
+    if (plot && !bm_cli_plot_response(op, response, plot, &error))
         return fail(error);
 
     g_autoptr(GString) out = g_string_new(NULL);
@@ -519,6 +536,8 @@ static int dispatch(int argc, char **argv)
         return cmd_batch(argc - 2, argv + 2);
     if (!strcmp(cmd, "batch-table"))
         return cmd_batch_table(argc - 2, argv + 2);
+    if (!strcmp(cmd, "plot"))
+        return bm_cli_plot_command(argc - 2, argv + 2);
     const BmOperation *op = bm_registry_lookup(cmd);
     if (!op)
         return usage_error("unknown command or operation \"%s\"", cmd);

@@ -27,6 +27,14 @@ static const struct {
      "The items of batch outputs as CSV: id, status and each response field, a path of keys "
      "joined by '.' with list indexes [N]."},
     {"OP --help", "The keys, units, ranges and defaults of OP, and its response keys."},
+    {"OP [--KEY VALUE]... --plot FILE",
+     "Also draw the result of an operation that has a plot (carrier-statistics sweeps, "
+     "thermal-mass, mass-tensor and kane-fit with cuts, cyclotron-orbit and "
+     "cyclotron-ellipsoid field sweeps); the extension of FILE chooses SVG, PNG or PDF. "
+     "Built where cairo is found."},
+    {"plot RESULTS.jsonl --x FIELD --y FIELD [--y FIELD]... [--log-x] [--log-y] --output FILE",
+     "Draw batch results (JSON lines of items with an id and a response): one curve per --y "
+     "against --x, each FIELD a dotted path into the responses."},
     {"--version", "The version."},
 };
 
@@ -170,7 +178,7 @@ static void words(GString *out, const char *const *names, gsize n)
         g_string_append_printf(out, "%s%s", i ? " " : "", names[i]);
 }
 
-char *bm_cli_bash_completion(void)
+char *bm_cli_bash_completion(gboolean (*has_plot)(const BmOperation *op))
 {
     guint n;
     const BmOperation *const *ops = bm_registry_operations(&n);
@@ -182,15 +190,16 @@ char *bm_cli_bash_completion(void)
                                 "    prev=\"${COMP_WORDS[COMP_CWORD-1]}\"\n"
                                 "    op=\"${COMP_WORDS[1]}\"\n"
                                 "    if [ \"$COMP_CWORD\" -eq 1 ]; then\n"
-                                "        COMPREPLY=($(compgen -W 'ops call batch batch-table --help "
-                                "--version ");
+                                "        COMPREPLY=($(compgen -W 'ops call plot batch batch-table "
+                                "--help --version ");
     g_autofree const char **names = g_new0(const char *, n + 1);
     for (guint i = 0; i < n; i++)
         names[i] = ops[i]->name;
     words(out, names, n);
     g_string_append(out, "' -- \"$cur\"))\n        return\n    fi\n"
                          "    case \"$prev\" in\n"
-                         "    --input|--output) COMPREPLY=($(compgen -f -- \"$cur\")); return ;;\n"
+                         "    --input|--output|--plot) COMPREPLY=($(compgen -f -- \"$cur\")); "
+                         "return ;;\n"
                          "    esac\n"
                          "    case \"$op\" in\n"
                          "    ops) COMPREPLY=($(compgen -W '--json --markdown --man "
@@ -207,11 +216,15 @@ char *bm_cli_bash_completion(void)
                          "        else\n"
                          "            COMPREPLY=($(compgen -W '--input --output --compact' -- "
                          "\"$cur\"))\n"
-                         "        fi\n        return ;;\n");
+                         "        fi\n        return ;;\n"
+                         "    plot) COMPREPLY=($(compgen -W '--x --y --log-x --log-y --output "
+                         "--help' -- \"$cur\") $(compgen -f -- \"$cur\")); return ;;\n");
     for (guint i = 0; i < n; i++) {
         const BmOperation *op = ops[i];
         g_string_append_printf(out, "    %s)\n        case \"$prev\" in\n", op->name);
         GString *opts = g_string_new("--json --csv --output --help");
+        if (has_plot && has_plot(op))
+            g_string_append(opts, " --plot");
         for (const BmParam *p = op->params; p && p->name; p++) {
             g_autofree char *dashed = g_strdelimit(g_strdup(p->name), "_", '-');
             g_string_append_printf(opts, " --%s", dashed);

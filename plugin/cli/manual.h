@@ -4,12 +4,15 @@
 #ifndef BM_CLI_MANUAL_H
 #define BM_CLI_MANUAL_H
 
+#include "registry.h"
+
 /* bandmass.1 in troff (man macros), for `bandmass ops --man`. */
 char *bm_cli_man_page(const char *version);
 
 /* A bash completion script for `bandmass ops --bash-completion`:
  * subcommands, operations, each operation's options and choice names, and
- * file names where a key takes a file. */
-char *bm_cli_bash_completion(void);
+ * file names where a key takes a file; --plot for the operations has_plot
+ * accepts (NULL: none). */
+char *bm_cli_bash_completion(gboolean (*has_plot)(const BmOperation *op));
 
 #endif

@@ -20,15 +20,16 @@
  * the partial name stays within NAME_MAX (255 on every common file system). */
 #define NAME_BYTES 200
 
-static gboolean io_error(GError **error, const char *path, const char *fmt, ...)
-    G_GNUC_PRINTF(3, 4);
-static gboolean io_error(GError **error, const char *path, const char *fmt, ...)
+static gboolean io_error(GError **error, const char *option, const char *path,
+                         const char *fmt, ...) G_GNUC_PRINTF(4, 5);
+static gboolean io_error(GError **error, const char *option, const char *path,
+                         const char *fmt, ...)
 {
     va_list ap;
     va_start(ap, fmt);
     g_autofree char *why = g_strdup_vprintf(fmt, ap);
     va_end(ap);
-    g_set_error(error, BM_ERROR, BM_ERROR_IO, "cannot write --output %s: %s", path, why);
+    g_set_error(error, BM_ERROR, BM_ERROR_IO, "cannot write %s %s: %s", option, path, why);
     return FALSE;
 }
 
@@ -87,19 +88,19 @@ static void remove_leftovers(const char *dir, const char *base)
 /* A character device or a FIFO: opened for writing as it is (no O_CREAT, so
  * nothing is created if it vanished; O_NOFOLLOW, so a link put in its place
  * is not followed), checked to be the same file, written through. */
-static gboolean write_through(const char *path, const struct stat *before, const char *text,
-                              gsize len, GError **error)
+static gboolean write_through(const char *option, const char *path, const struct stat *before,
+                              const char *text, gsize len, GError **error)
 {
     int fd;
     do
         fd = open(path, O_WRONLY | O_NOCTTY | O_NOFOLLOW | O_CLOEXEC);
     while (fd < 0 && errno == EINTR);
     if (fd < 0)
-        return io_error(error, path, "%s", g_strerror(errno));
+        return io_error(error, option, path, "%s", g_strerror(errno));
     struct stat st;
     if (fstat(fd, &st) != 0 || st.st_dev != before->st_dev || st.st_ino != before->st_ino) {
         close(fd);
-        return io_error(error, path, "it was replaced while being opened");
+        return io_error(error, option, path, "it was replaced while being opened");
     }
     /* a FIFO whose reader went away: EPIPE and a message, not a silent death */
     struct sigaction ignore = { .sa_handler = SIG_IGN }, old;
@@ -112,13 +113,13 @@ static gboolean write_through(const char *path, const struct stat *before, const
         ok = FALSE;
         err = errno;
     }
-    return ok ? TRUE : io_error(error, path, "%s", g_strerror(err));
+    return ok ? TRUE : io_error(error, option, path, "%s", g_strerror(err));
 }
 
 /* Absent or a regular file with one link: a partial file beside it, renamed
  * over it when complete. old is the replaced file's status, or NULL. */
-static gboolean write_replace(const char *path, const struct stat *old, const char *text,
-                              gsize len, GError **error)
+static gboolean write_replace(const char *option, const char *path, const struct stat *old,
+                              const char *text, gsize len, GError **error)
 {
     g_autofree char *dir = g_path_get_dirname(path);
     g_autofree char *base = g_path_get_basename(path);
@@ -129,7 +130,7 @@ static gboolean write_replace(const char *path, const struct stat *old, const ch
     g_autofree char *tmp = g_build_filename(dir, name, NULL);
     int fd = mkstemp(tmp);   /* mode 0600, O_EXCL */
     if (fd < 0)
-        return io_error(error, path, "cannot create a partial file in %s: %s", dir,
+        return io_error(error, option, path, "cannot create a partial file in %s: %s", dir,
                         g_strerror(errno));
     fcntl(fd, F_SETFD, FD_CLOEXEC);
 
@@ -169,34 +170,40 @@ static gboolean write_replace(const char *path, const struct stat *old, const ch
     }
     if (why || err) {
         unlink(tmp);
-        return io_error(error, path, "%s", why ? why : g_strerror(err));
+        return io_error(error, option, path, "%s", why ? why : g_strerror(err));
     }
     return TRUE;
 }
 
-gboolean bm_cli_output_kind(const char *path, struct stat *st, BmCliOutputKind *kind,
-                            GError **error)
+gboolean bm_cli_write_output(const char *path, const char *text, gsize len, GError **error)
+{
+    return bm_cli_write_file("--output", path, text, len, error);
+}
+
+/* What is at path, by the rules of output.h; refusals name option and path. */
+static gboolean output_kind(const char *option, const char *path, struct stat *st,
+                            BmCliOutputKind *kind, GError **error)
 {
     if (!*path)
-        return io_error(error, path, "an empty file name");
+        return io_error(error, option, path, "an empty file name");
     if (lstat(path, st) != 0) {
         if (errno != ENOENT)
-            return io_error(error, path, "%s", g_strerror(errno));
+            return io_error(error, option, path, "%s", g_strerror(errno));
         *kind = BM_CLI_OUTPUT_ABSENT;
         return TRUE;
     }
     if (S_ISLNK(st->st_mode)) {
         g_autofree char *target = g_file_read_link(path, NULL);
         g_autofree char *shown = target ? g_strescape(target, NULL) : g_strdup("?");
-        return io_error(error, path, "it is a symbolic link (to \"%s\"%s); output is never "
-                        "written through a link: pass the resolved path (realpath %s)",
+        return io_error(error, option, path, "it is a symbolic link (to \"%s\"%s); output is "
+                        "never written through a link: pass the resolved path (realpath %s)",
                         shown, g_file_test(path, G_FILE_TEST_EXISTS) ? "" : ", which does not "
                         "exist", path);
     }
     if (S_ISREG(st->st_mode) && st->st_nlink > 1)
-        return io_error(error, path, "it has %lu hard links; replacing it would break them and "
-                        "writing in place would change every linked name: remove it first, or "
-                        "pass another name", (unsigned long)st->st_nlink);
+        return io_error(error, option, path, "it has %lu hard links; replacing it would break "
+                        "them and writing in place would change every linked name: remove it "
+                        "first, or pass another name", (unsigned long)st->st_nlink);
     if (S_ISREG(st->st_mode)) {
         *kind = BM_CLI_OUTPUT_REGULAR;
         return TRUE;
@@ -205,13 +212,20 @@ gboolean bm_cli_output_kind(const char *path, struct stat *st, BmCliOutputKind *
         *kind = BM_CLI_OUTPUT_THROUGH;
         return TRUE;
     }
-    return io_error(error, path, "it is %s; output goes to a regular file, a character device "
-                    "or a FIFO", S_ISDIR(st->st_mode) ? "a directory"
+    return io_error(error, option, path, "it is %s; output goes to a regular file, a character "
+                    "device or a FIFO", S_ISDIR(st->st_mode) ? "a directory"
                     : S_ISBLK(st->st_mode) ? "a block device"
                     : S_ISSOCK(st->st_mode) ? "a socket" : "not a regular file");
 }
 
-gboolean bm_cli_write_output(const char *path, const char *text, gsize len, GError **error)
+gboolean bm_cli_output_kind(const char *path, struct stat *st, BmCliOutputKind *kind,
+                            GError **error)
+{
+    return output_kind("--output", path, st, kind, error);
+}
+
+gboolean bm_cli_write_file(const char *option, const char *path, const char *text, gsize len,
+                           GError **error)
 {
     /* past a file-size limit, write fails with EFBIG and the partial file is
      * removed, instead of the process dying and leaving it behind */
@@ -219,14 +233,14 @@ gboolean bm_cli_write_output(const char *path, const char *text, gsize len, GErr
 
     struct stat st;
     BmCliOutputKind kind;
-    if (!bm_cli_output_kind(path, &st, &kind, error))
+    if (!output_kind(option, path, &st, &kind, error))
         return FALSE;
     switch (kind) {
     case BM_CLI_OUTPUT_ABSENT:
-        return write_replace(path, NULL, text, len, error);
+        return write_replace(option, path, NULL, text, len, error);
     case BM_CLI_OUTPUT_REGULAR:
-        return write_replace(path, &st, text, len, error);
+        return write_replace(option, path, &st, text, len, error);
     default:
-        return write_through(path, &st, text, len, error);
+        return write_through(option, path, &st, text, len, error);
     }
 }

@@ -19,6 +19,11 @@
  * process no longer exists, owned by the caller) are removed. */
 gboolean bm_cli_write_output(const char *path, const char *text, gsize len, GError **error);
 
+/* The same for the file of another option (its messages name that option:
+ * "cannot write --plot PATH: ..."). */
+gboolean bm_cli_write_file(const char *option, const char *path, const char *text, gsize len,
+                           GError **error);
+
 /* What is at an --output path, by the rules above. */
 typedef enum {
     BM_CLI_OUTPUT_ABSENT,    /* nothing: a file may be created */
@@ -28,7 +33,8 @@ typedef enum {
 
 /* Looks at path (lstat, into *st) and sets *kind; any other kind of file (a
  * symbolic link, a regular file with more than one hard link, a directory,
- * ...) is refused (BM_ERROR_IO, naming path and what to do). Writers that
- * append (bandmass batch) follow the same rules as bm_cli_write_output. */
+ * ...) is refused (BM_ERROR_IO, naming --output, path and what to do).
+ * Writers that append (bandmass batch) follow the same rules as
+ * bm_cli_write_output. */
 gboolean bm_cli_output_kind(const char *path, struct stat *st, BmCliOutputKind *kind,
                             GError **error);

@@ -13,6 +13,7 @@
 #include "bm-error-private.h"
 #include "bm-bandinterp.h"
 #include "bm-kane.h"
+#include "bm-cuts.h"
 #include "bm-linalg.h"
 #include "bm-units.h"
 #include "mass-tensor.h"
@@ -42,6 +43,9 @@ static const BmParam params[] = {
     { "convergence_tolerance", BM_VALUE_NUMBER, FALSE, "0.02",
       "relative error a converged mass of the search may have", .lower = BM_GT(0),
       .upper = BM_LE(1) },
+    { "cuts", BM_VALUE_BOOLEAN, FALSE, "false",
+      "give the band cuts: the points along each principal direction and both fitted curves "
+      "there (for plotting)", .unit = NULL },
     BM_PARAM_END
 };
 
@@ -61,6 +65,13 @@ static const BmField response[] = {
     { "points", NULL, FALSE,
       "one per temperature: temperature_k, dos_mass_me, conductivity_principal_masses_me, "
       "conductivity_mass_me (the harmonic mean)" },
+    { "cuts", NULL, TRUE,
+      "with \"cuts\": one per principal direction: axis, data_offset_inv_angstrom and "
+      "data_energy_ev (the points of the fits on that line through the extremum: a grid's "
+      "samples along it, a table's points within half the sample spacing of it; offsets "
+      "signed along axis), offset_inv_angstrom with parabolic_energy_ev and kane_energy_ev "
+      "(the fitted curves there; null without a Kane fit, or past the turning point of a "
+      "negative alpha); energies in the data's zero" },
     { "source", NULL, TRUE, "where the band data came from" },
     BM_FIELD_END
 };
@@ -83,6 +94,57 @@ static JsonObject *fit_object(const bm_kane_fit *f, double sign, gboolean kane)
     bm_json_set_number(o, "rms_residual_ev", f->rms_residual_ev);
     bm_json_set_number(o, "aic", f->aic);
     return o;
+}
+
+/* The band cuts: along each principal direction d, the fit points on that
+ * line (a table's within half its sample spacing of it) and both fits there,
+ * in the data's energies (e0 + sign * energy into the band). */
+static JsonArray *cut_array(const double (*q)[3], const double *e, size_t n, int dims,
+                            const bm_mass_tensor *t, double sign, const bm_kane_fit *pf,
+                            const bm_kane_fit *kf, gboolean table)
+{
+    double tol = table && isfinite(t->sample_spacing) ? 0.5 * t->sample_spacing : 1e-12;
+    JsonArray *cuts = json_array_new();
+    for (int d = 0; d < dims; d++) {
+        GArray *dq = g_array_new(FALSE, FALSE, sizeof(double));
+        GArray *de = g_array_new(FALSE, FALSE, sizeof(double));
+        double reach = 0.0;
+        for (size_t i = 0; i < n; i++) {
+            double off = 0.0;
+            for (int o = 0; o < dims; o++)
+                if (o != d)
+                    off += q[i][o] * q[i][o];
+            reach = fmax(reach, fabs(q[i][d]));
+            if (sqrt(off) > tol)
+                continue;
+            double ev = t->energy_ev + sign * e[i];
+            g_array_append_val(dq, q[i][d]);
+            g_array_append_val(de, ev);
+        }
+        JsonObject *c = json_object_new();
+        bm_json_set_vec3(c, "axis", t->axes[d]);
+        bm_json_set_numbers(c, "data_offset_inv_angstrom", (const double *)(void *)dq->data,
+                            dq->len);
+        bm_json_set_numbers(c, "data_energy_ev", (const double *)(void *)de->data, de->len);
+        g_array_unref(dq);
+        g_array_unref(de);
+        double cq[BM_CUT_CURVE_POINTS], ep[BM_CUT_CURVE_POINTS], ek[BM_CUT_CURVE_POINTS];
+        for (int i = 0; i < BM_CUT_CURVE_POINTS; i++) {
+            double h = reach * (2.0 * i / (BM_CUT_CURVE_POINTS - 1) - 1.0), v[3] = { 0, 0, 0 };
+            v[d] = h;
+            cq[i] = h;
+            ep[i] = t->energy_ev + sign * bm_kane_fit_energy(pf, v);
+            ek[i] = kf ? t->energy_ev + sign * bm_kane_fit_energy(kf, v) : NAN;
+        }
+        bm_json_set_numbers(c, "offset_inv_angstrom", cq, BM_CUT_CURVE_POINTS);
+        bm_json_set_numbers(c, "parabolic_energy_ev", ep, BM_CUT_CURVE_POINTS);
+        if (kf)
+            bm_json_set_numbers(c, "kane_energy_ev", ek, BM_CUT_CURVE_POINTS);
+        else
+            json_object_set_null_member(c, "kane_energy_ev");
+        json_array_add_object_element(cuts, c);
+    }
+    return cuts;
 }
 
 static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError **error)
@@ -219,11 +281,15 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
         bm_error_from_core(error, &err, s->source);
         return NULL;
     }
-    g_array_unref(qa), g_array_unref(ea);
     gboolean kane_ok = isfinite(kf.aic) && isfinite(kf.alpha_per_ev) && isfinite(kf.masses_me[0])
                        && kf.masses_me[0] > 0.0;
     for (int d = 1; d < dims; d++)
         kane_ok = kane_ok && isfinite(kf.masses_me[d]) && kf.masses_me[d] > 0.0;
+    JsonArray *cuts = json_object_get_boolean_member(request, "cuts")
+        ? cut_array((const double (*)[3])(void *)qa->data, (const double *)ea->data, n, dims,
+                    t, sign, &pf, kane_ok ? &kf : NULL, s->table != NULL)
+        : NULL;
+    g_array_unref(qa), g_array_unref(ea);
 
     JsonObject *resp = json_object_new();
     bm_warnings w = {0};
@@ -280,6 +346,8 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
         }
         json_object_set_array_member(resp, "points", pa);
     }
+    if (cuts)
+        json_object_set_array_member(resp, "cuts", cuts);
     json_object_set_string_member(resp, "source", s->source);
     for (size_t i = 0; i < t->warnings.count; i++)
         bm_warn(&w, t->warnings.items[i].code, "the search that located the extremum (its "

@@ -24,6 +24,9 @@
 #include "bm-enums.h"
 #include "bm-linalg.h"
 #include "bm-stencil.h"
+#include "bm-cuts.h"
+#include "bm-bandinterp.h"
+#include "bm-error-private.h"
 #include "mass-tensor.h"
 #include "bm-json.h"
 #include "band-select.h"
@@ -64,6 +67,9 @@ static const BmParam params[] = {
     { "stencil", BM_VALUE_BOOLEAN, FALSE, "false",
       "give each extremum a refinement stencil: k-points to compute with the band-structure "
       "code and fit back as a k-table (the refinement loop)", .unit = NULL },
+    { "cuts", BM_VALUE_BOOLEAN, FALSE, "false",
+      "give each extremum its band cuts: the samples along each principal axis through it "
+      "and the fitted quadric there (for plotting)", .unit = NULL },
     BM_PARAM_END
 };
 
@@ -111,7 +117,13 @@ static const BmField response[] = {
       "one signed mass per distinct band, lowest band first} and "
       "directional_masses_error_me, dos_masses_me and dos_masses_error_me (null for an "
       "open surface), luttinger_band_edge_hole_dos_mass_me (hole-mass's warped heavy and "
-      "light bands of these gamma), largest_relative_error), warnings" },
+      "light bands of these gamma), largest_relative_error), band_cuts (with \"cuts\", "
+      "one per principal axis with a finite mass: {axis, mass_me, data_offset_inv_angstrom "
+      "and data_energy_ev (the samples within half a mesh step of the line through the "
+      "extremum, or half the sample spacing for a table; offsets signed along axis), "
+      "offset_inv_angstrom and fit_energy_ev (the fitted quadric on that line), "
+      "band_energy_ev (a grid: the interpolated band there, the interpolant of "
+      "thermal-mass)}), warnings" },
     { "beyond_data", NULL, TRUE,
       "a table only, when present: where the lowest (highest) sample lies on the boundary "
       "and the fit's stationary point is outside the points given, its estimate (objects "
@@ -502,6 +514,77 @@ static void add_stencil(JsonObject *o, const bm_mass_tensor *t, double recip[3][
     json_object_set_object_member(o, "refinement_stencil", st);
 }
 
+/* Energy within which a cut reaches along each axis (from the quadric). */
+#define CUT_ENERGY_EV 0.25
+
+/* The band cuts of t (bm-cuts.h): along each principal axis with a finite
+ * mass, the samples near the line and the quadric on it. */
+static gboolean add_cuts(JsonObject *o, const bm_mass_tensor *t, const BmMassTensorSearch *s,
+                         const BmCallInputs *inputs, bm_bandinterp **bi, GError **error)
+{
+    if (t->degenerate)
+        return TRUE;
+    const BmBandGrid *grid = s->grid;
+    if (!grid && !s->table)
+        grid = bm_call_inputs_lookup(inputs, "grid", BM_INPUT_BAND_GRID, NULL);
+    JsonArray *cuts = json_array_new();
+    for (int d = 0; d < t->dims; d++) {
+        double m = t->masses[d];
+        if (!isfinite(m) || m == 0)
+            continue;
+        double reach = bm_quadric_reach(m, CUT_ENERGY_EV);
+        if (s->table && t->window.radius > 0)
+            reach = fmax(reach, 1.2 * t->window.radius);
+        if (grid && !s->table)
+            reach = fmax(reach, 2.5 * bm_grid_mesh_step(&grid->grid));
+        bm_line_samples ls;
+        bm_errbuf err = { BM_OK, "" };
+        bm_status st = s->table
+            ? bm_ktable_line_samples(&s->table->table, s->band, t->k, t->axes[d], reach,
+                                     isfinite(t->sample_spacing) ? 0.5 * t->sample_spacing
+                                                                 : 1e-9, &ls, &err)
+            : grid ? bm_grid_line_samples(&grid->grid, s->band, t->k, t->axes[d], reach, &ls,
+                                          &err)
+                   : bm_fail(&err, BM_EINVAL, "band cut: no band data");
+        if (st != BM_OK) {
+            json_array_unref(cuts);
+            bm_error_from_core(error, &err, s->source);
+            return FALSE;
+        }
+        JsonObject *c = json_object_new();
+        bm_json_set_vec3(c, "axis", t->axes[d]);
+        bm_json_set_number(c, "mass_me", m);
+        bm_json_set_numbers(c, "data_offset_inv_angstrom", ls.q, ls.n);
+        bm_json_set_numbers(c, "data_energy_ev", ls.e, ls.n);
+        bm_line_samples_clear(&ls);
+        double q[BM_CUT_CURVE_POINTS], e[BM_CUT_CURVE_POINTS];
+        for (int i = 0; i < BM_CUT_CURVE_POINTS; i++) {
+            q[i] = reach * (2.0 * i / (BM_CUT_CURVE_POINTS - 1) - 1.0);
+            double dk[3] = { q[i] * t->axes[d][0], q[i] * t->axes[d][1], q[i] * t->axes[d][2] };
+            e[i] = bm_mass_tensor_energy(t, dk);
+        }
+        bm_json_set_numbers(c, "offset_inv_angstrom", q, BM_CUT_CURVE_POINTS);
+        bm_json_set_numbers(c, "fit_energy_ev", e, BM_CUT_CURVE_POINTS);
+        if (grid && !s->table) {
+            if (!*bi)   /* one interpolant for every cut of the response */
+                *bi = bm_bandinterp_new(&grid->grid, BM_BANDINTERP_PAIR_GAP_EV);
+            if (!*bi)
+                bm_fail(&err, BM_ENOMEM, "band cut: out of memory");
+            if (!*bi || bm_grid_line_band(&grid->grid, *bi, s->band, t->k, t->axes[d], q,
+                                          BM_CUT_CURVE_POINTS, e, &err) != BM_OK) {
+                json_object_unref(c);
+                json_array_unref(cuts);
+                bm_error_from_core(error, &err, s->source);
+                return FALSE;
+            }
+            bm_json_set_numbers(c, "band_energy_ev", e, BM_CUT_CURVE_POINTS);
+        }
+        json_array_add_object_element(cuts, c);
+    }
+    json_object_set_array_member(o, "band_cuts", cuts);
+    return TRUE;
+}
+
 static JsonObject *run_band(JsonObject *request, const BmCallInputs *inputs, GError **error)
 {
     g_autoptr(BmMassTensorSearch) s = bm_mass_tensor_search(request, inputs, error);
@@ -518,13 +601,21 @@ static JsonObject *run_band(JsonObject *request, const BmCallInputs *inputs, GEr
     json_object_set_string_member(response, "source", s->source);
     JsonArray *list = json_array_new();
     gboolean stencil = json_object_get_boolean_member(request, "stencil");
+    gboolean cuts = json_object_get_boolean_member(request, "cuts");
+    json_object_set_array_member(response, "extrema", list);
+    bm_bandinterp *bi = NULL;
     for (size_t i = 0; i < s->n_tensors; i++) {
         JsonObject *o = bm_mass_tensor_object(&s->tensors[i], s->fractional);
         if (stencil)
             add_stencil(o, &s->tensors[i], s->fractional ? s->recip : NULL);
         json_array_add_object_element(list, o);
+        if (cuts && !add_cuts(o, &s->tensors[i], s, inputs, &bi, error)) {
+            bm_bandinterp_free(bi);
+            json_object_unref(response);
+            return NULL;
+        }
     }
-    json_object_set_array_member(response, "extrema", list);
+    bm_bandinterp_free(bi);
     if (s->n_beyond) {
         JsonArray *bl = json_array_new();
         for (size_t i = s->n_tensors; i < s->n_tensors + s->n_beyond; i++) {

@@ -311,6 +311,12 @@ class Batch(unittest.TestCase):
                 self.assertEqual(float(row[5]), r['extrema'][0]['principal_masses_me'][1])
                 self.assertEqual(row[6], str(r['band']['index']))
             self.assertEqual(row[7], '')
+        # "extrema.0.principal_masses_me.1" is the same field (bandmass plot's spelling)
+        p2 = run('batch-table', 'full.jsonl', '--fields',
+                 fields.replace('points[0]', 'points.0').replace('extrema[0].principal_masses_me[1]',
+                                                                  'extrema.0.principal_masses_me.1'),
+                 cwd=d)
+        self.assertEqual(p2.stdout.splitlines()[1:], p.stdout.splitlines()[1:])
         # an object or a list is its JSON
         p = run('batch-table', 'full.jsonl', '--fields', 'warnings', cwd=d)
         self.assertEqual(list(csv.reader(io.StringIO(p.stdout)))[1][2], '[]')

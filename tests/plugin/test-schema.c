@@ -75,6 +75,11 @@ static const Case cases[] = {
       "\"energy_ev\": 0.55, \"field_directions\": [[1, 0, 0], [0, 0, 1]]}" },
     { "kane-fit", DATA, "{\"grid\": \"first-principles/si-12.json\", \"band\": \"c1\", "
       "\"temperatures_k\": [300]}" },
+    /* band cuts for plotting (mass-tensor: inside each extremum) */
+    { "kane-fit", DATA, "{\"grid\": \"first-principles/si-12.json\", \"band\": \"c1\", "
+      "\"temperatures_k\": [300], \"cuts\": true}" },
+    { "mass-tensor", DATA, "{\"grid\": \"first-principles/si-12.json\", \"band\": \"c1\", "
+      "\"extremum\": \"minimum\", \"cuts\": true}" },
     { "thermal-mass", DATA, "{\"grid\": \"first-principles/si-12.json\", \"bands\": \"valence\", "
       "\"temperatures_k\": [300], \"density_cm3\": 1e17}" },
     { "band-gap", NULL, "{\"material\": \"Si\", \"temperatures_k\": [0, 300]}" },
