@@ -19,7 +19,7 @@ EXAMPLES = Path(__file__).resolve().parents[2] / 'examples'
 
 # hbar^2 / m_e = 7.61996 eV Angstrom^2 (CODATA; shared reference list).
 HBAR2_ME = 7.61996
-# The demo band of examples/make_orvane_bands.py (fcc, a = 6.1 A). Expanding its
+# The demo band of orvane telluride in examples/make_compounds.py (fcc, a = 6.1 A). Expanding its
 # tight-binding forms to second order (a mathematical identity, done by hand):
 # at X the conduction band has d2E/dq_x2 = 2 a^2 (t_1 + t_2) along Gamma-X and
 # 2 a^2 t_2 across it; at Gamma the valence band has d2E/dq2 = -2 a^2 t_v.
@@ -40,13 +40,31 @@ class Pipe(unittest.TestCase):
     @classmethod
     def setUpClass(cls):
         cls.tmp = tempfile.TemporaryDirectory()
-        subprocess.run([sys.executable, str(EXAMPLES / 'make_orvane_bands.py'), cls.tmp.name],
+        subprocess.run([sys.executable, str(EXAMPLES / 'make_compounds.py'), cls.tmp.name],
                        check=True)
-        cls.grid = os.path.join(cls.tmp.name, 'orvane-grid.json')
+        cls.grid = os.path.join(cls.tmp.name, 'OrTe-grid.json')
 
     @classmethod
     def tearDownClass(cls):
         cls.tmp.cleanup()
+
+    def test_other_demo_compounds(self):
+        # kestrel antimonide: cosine bands 2t(1 - cos ka) have m = hbar^2 / (2 t a^2)
+        # (second-order expansion, an identity); vessium nitride: a Kane band whose
+        # lattice form eps -> hbar^2 k^2 / 2m at Gamma keeps the band-edge mass m
+        for name, band, want in (('KeSb', 'conduction', [HBAR2_ME / (2 * 0.95 * 4.2 ** 2)] * 2
+                                  + [HBAR2_ME / (2 * 0.12 * 6.4 ** 2)]),
+                                 ('KeSb', 'valence', [-HBAR2_ME / (2 * 0.25 * 6.4 ** 2)]
+                                  + [-HBAR2_ME / (2 * 0.35 * 4.2 ** 2)] * 2),
+                                 ('VsN', 'conduction', [0.12] * 3)):
+            grid = os.path.join(self.tmp.name, name + '-grid.json')
+            r = json.loads(cli('mass-tensor', '--grid', grid, '--band', band, '--extremum',
+                               'minimum' if band == 'conduction' else 'maximum', '--json'))
+            e = r['extrema'][0]
+            for got, err, ref in zip(e['principal_masses_me'], e['principal_masses_error_me'],
+                                     sorted(want, key=abs)):
+                self.assertLessEqual(abs(got - ref), max(2 * err, 1e-4 * abs(ref)),
+                                     f'{name} {band}: {got} +- {err} against {ref}')
 
     def check_x_valleys(self, r):
         # X sits on the zone face: 6 positions, 3 full valleys; multi-valley
