@@ -59,7 +59,7 @@ def first_round(out):
         grid = str(out / f"{name}-grid.json")
         items += [
             (f"{name}/conduction-minimum", "mass-tensor",
-             {"grid": grid, "band": "conduction", "extremum": "minimum"}),
+             {"grid": grid, "band": "conduction", "extremum": "minimum", "cuts": True}),
             (f"{name}/valence-maximum", "mass-tensor",
              {"grid": grid, "band": "valence", "extremum": "maximum"}),
             (f"{name}/thermal", "thermal-mass",
@@ -70,7 +70,8 @@ def first_round(out):
              {"grid": grid, "bands": "conduction", "temperature_k": 300,
               "density_cm3": DOPING_SEEBECK}),
             (f"{name}/kane", "kane-fit",
-             {"grid": grid, "band": "conduction", "temperatures_k": [100, 300, 600]}),
+             {"grid": grid, "band": "conduction", "temperatures_k": [100, 300, 600],
+              "cuts": True}),
         ]
     for name, donor in REAL.items():
         items += [
@@ -201,6 +202,7 @@ def main(bm, out):
         ("Si-cyclotron.png", "Si/cyclotron", "results-1.jsonl"),
     ] + [(f"{n}-thermal.png", f"{n}/thermal", "results-1.jsonl") for n in COMPOUNDS] \
       + [(f"{n}-kane.png", f"{n}/kane", "results-1.jsonl") for n in COMPOUNDS] \
+      + [(f"{n}-cuts.png", f"{n}/conduction-minimum", "results-1.jsonl") for n in COMPOUNDS] \
       + [(f"{n}-orbits.png", f"{n}/orbits", "results-2.jsonl") for n in COMPOUNDS]
     made = []
     for png, item, results in plots:
@@ -208,6 +210,8 @@ def main(bm, out):
                             "--output", str(out / png)], capture_output=True, text=True)
         if p.returncode == 0:
             made.append(png)
+        else:
+            print(f"plot {png}: {p.stderr.strip()}")
     print(f"\nreport, batch results and {len(made)} plots in {out}")
 
 

@@ -35,6 +35,8 @@ static const struct {
     {"plot RESULTS.jsonl --x FIELD --y FIELD [--y FIELD]... [--log-x] [--log-y] --output FILE",
      "Draw batch results (JSON lines of items with an id and a response): one curve per --y "
      "against --x, each FIELD a dotted path into the responses."},
+    {"plot RESULTS.jsonl --item ID --output FILE",
+     "Draw one item's own plot from its stored response, as --plot draws it."},
     {"--version", "The version."},
 };
 
@@ -217,7 +219,7 @@ char *bm_cli_bash_completion(gboolean (*has_plot)(const BmOperation *op))
                          "            COMPREPLY=($(compgen -W '--input --output --compact' -- "
                          "\"$cur\"))\n"
                          "        fi\n        return ;;\n"
-                         "    plot) COMPREPLY=($(compgen -W '--x --y --log-x --log-y --output "
+                         "    plot) COMPREPLY=($(compgen -W '--x --y --item --log-x --log-y --output "
                          "--help' -- \"$cur\") $(compgen -f -- \"$cur\")); return ;;\n");
     for (guint i = 0; i < n; i++) {
         const BmOperation *op = ops[i];

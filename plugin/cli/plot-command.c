@@ -8,6 +8,7 @@
 #include "plot-command.h"
 #include "output.h"
 #include "bm-error.h"
+#include "bm-error-private.h"
 
 #ifdef BM_HAVE_PLOT
 #include "figures.h"
@@ -15,7 +16,9 @@
 
 const char bm_cli_plot_usage[] =
     "  bandmass plot RESULTS.jsonl --x FIELD --y FIELD [--y FIELD]... [--log-x] [--log-y]\n"
-    "                --output FILE        draw batch results (FILE .svg, .png or .pdf)\n";
+    "                --output FILE        draw batch results (FILE .svg, .png or .pdf)\n"
+    "  bandmass plot RESULTS.jsonl --item ID --output FILE\n"
+    "                                     one item's own plot, as --plot draws it\n";
 
 static int plot_fail(const GError *error)
 {
@@ -89,9 +92,46 @@ gboolean bm_cli_plot_response(const BmOperation *op, JsonObject *response, const
     return fig && write_figure(fig, "--plot", path, error);
 }
 
+/* The figure of one item of a batch results file: the operation's own plot
+ * of the stored response, as --plot would have drawn it. */
+static BmPlotFigure *item_figure(const char *path, const char *item, GError **error)
+{
+    g_autofree char *text = NULL;
+    if (!bm_error_read_file(path, "batch results", &text, NULL, error))
+        return NULL;
+    g_auto(GStrv) lines = g_strsplit(text, "\n", -1);
+    for (guint n = 0; lines[n]; n++) {
+        g_autoptr(JsonParser) parser = json_parser_new();
+        if (!*lines[n] || !json_parser_load_from_data(parser, lines[n], -1, NULL))
+            continue;
+        JsonNode *root = json_parser_get_root(parser);
+        JsonObject *o = JSON_NODE_HOLDS_OBJECT(root) ? json_node_get_object(root) : NULL;
+        JsonNode *id = o ? json_object_get_member(o, "id") : NULL;
+        if (!id || !JSON_NODE_HOLDS_VALUE(id))
+            continue;
+        g_autofree char *id_text = json_node_get_value_type(id) == G_TYPE_STRING
+            ? g_strdup(json_node_get_string(id))
+            : g_strdup_printf("%" G_GINT64_FORMAT, json_node_get_int(id));
+        if (strcmp(id_text, item))
+            continue;
+        const char *op = json_object_get_string_member_with_default(o, "op", NULL);
+        const char *status = json_object_get_string_member_with_default(o, "status", "");
+        JsonNode *response = json_object_get_member(o, "response");
+        if (strcmp(status, "ok") || !op || !response || !JSON_NODE_HOLDS_OBJECT(response)) {
+            g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s line %u: item \"%s\" has "
+                        "no answer to draw (status \"%s\")", path, n + 1, item, status);
+            return NULL;
+        }
+        return bm_plot_figure_for(op, json_node_get_object(response), error);
+    }
+    g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "%s: no item with id \"%s\"", path,
+                item);
+    return NULL;
+}
+
 int bm_cli_plot_command(int argc, char **argv)
 {
-    const char *input = NULL, *x = NULL, *output = NULL;
+    const char *input = NULL, *x = NULL, *output = NULL, *item = NULL;
     g_autoptr(GPtrArray) ys = g_ptr_array_new();
     gboolean x_log = FALSE, y_log = FALSE;
     for (int i = 0; i < argc; i++) {
@@ -109,6 +149,12 @@ int bm_cli_plot_command(int argc, char **argv)
         }
         if (!strcmp(a, "--log-x")) { x_log = TRUE; continue; }
         if (!strcmp(a, "--log-y")) { y_log = TRUE; continue; }
+        if (!strcmp(a, "--item")) {
+            if (i + 1 >= argc)
+                return plot_usage("--item needs an item id");
+            item = argv[++i];
+            continue;
+        }
         if (!strcmp(a, "--x") || !strcmp(a, "--y") || !strcmp(a, "--output")) {
             if (i + 1 >= argc)
                 return plot_usage("%s needs a value", a);
@@ -131,12 +177,22 @@ int bm_cli_plot_command(int argc, char **argv)
     }
     if (!input)
         return plot_usage("name a results file (JSON lines)");
-    if (!x || ys->len == 0)
-        return plot_usage("give --x FIELD and at least one --y FIELD");
     if (!output)
         return plot_usage("give --output FILE (.svg, .png or .pdf)");
     g_autoptr(GError) error = NULL;
     BmPlotFormat format;
+    if (item) {
+        if (x || ys->len)
+            return plot_usage("--item draws one item's own plot: no --x or --y with it");
+        if (!check_path(output, &format, &error))
+            return plot_fail(error);
+        g_autoptr(BmPlotFigure) one = item_figure(input, item, &error);
+        if (!one || !write_figure(one, "--output", output, &error))
+            return plot_fail(error);
+        return 0;
+    }
+    if (!x || ys->len == 0)
+        return plot_usage("give --x FIELD and at least one --y FIELD (or --item ID)");
     if (!check_path(output, &format, &error))
         return plot_fail(error);
     g_ptr_array_add(ys, NULL);

@@ -21,7 +21,7 @@
     "crossing_partner_band", "principal_masses_error_me", "principal_masses_stderr_me", \
     "fit_window", "k_error_inv_angstrom", \
     "converged", "refinement_stencil", "directional_masses", "symmetry_snap", "line_fit", \
-    "degenerate_kp_fit", "warnings", "warning_codes"
+    "degenerate_kp_fit", "band_cuts", "warnings", "warning_codes"
 #define LIST_ENTRY_KEYS "energy_offset_ev", "weight"
 static const char *const valley_keys[] = { VALLEY_KEYS, NULL };
 static const char *const list_entry_keys[] = { VALLEY_KEYS, LIST_ENTRY_KEYS, NULL };

@@ -89,6 +89,18 @@ class Pipe(unittest.TestCase):
                              '--json'))
         self.assertEqual(one['dos_mass_me'], whole['dos_mass_me'])
 
+    def test_extremum_with_every_option_plugs_in(self):
+        # whatever keys mass-tensor adds on request (band cuts, a refinement
+        # stencil) an extremum still goes into valley-average as it is
+        mt = cli('mass-tensor', '--grid', self.grid, '--band', 'conduction', '--extremum',
+                 'minimum', '--cuts', '--stencil', '--json')
+        e = json.loads(mt)['extrema'][0]
+        self.assertIn('band_cuts', e)
+        self.assertIn('refinement_stencil', e)
+        r = json.loads(cli('valley-average', '--valley', json.dumps(e), '--point-group', 'Oh',
+                           '--json'))
+        self.check_x_valleys(r)
+
     def test_cli_hole_valley(self):
         mt = cli('mass-tensor', '--grid', self.grid, '--band', 'valence',
                  '--extremum', 'maximum', '--json')

@@ -208,8 +208,8 @@ class Plots(unittest.TestCase):
             p = subprocess.run([CLI, 'call', 'carrier-statistics', '--compact'],
                                input=json.dumps(request), capture_output=True, text=True)
             self.assertEqual(p.returncode, 0, p.stderr)
-            lines.append(json.dumps({'id': 'si-%d' % t, 'status': 'ok',
-                                     'response': json.loads(p.stdout)}))
+            lines.append(json.dumps({'id': 'si-%d' % t, 'op': 'carrier-statistics',
+                                     'status': 'ok', 'response': json.loads(p.stdout)}))
         lines.append(json.dumps({'id': 'bad', 'status': 'error',
                                  'error': {'message': 'no such material'}}))
         lines.append('not json at all')
@@ -238,6 +238,33 @@ class Plots(unittest.TestCase):
                 '--output', str(out_png))
         self.assertEqual(p.returncode, 0, p.stderr)
         self.assertEqual(png_size(out_png), ONE)
+
+    def test_batch_item(self):
+        # one item's own plot from batch results equals --plot on the same request
+        request = {'material': 'Si', 'temperatures_k': [200, 300, 400],
+                   'donors': [{'species': 'P', 'density_cm3': 1e16}]}
+        p = subprocess.run([CLI, 'call', 'carrier-statistics', '--compact'],
+                           input=json.dumps(request), capture_output=True, text=True)
+        self.assertEqual(p.returncode, 0, p.stderr)
+        results = self.batch_file()
+        with open(results, 'a') as f:
+            f.write(json.dumps({'id': 'sweep', 'op': 'carrier-statistics', 'status': 'ok',
+                                'response': json.loads(p.stdout)}) + '\n')
+        p = run('plot', str(results), '--item', 'sweep', '--output', str(self.dir / 'i.svg'))
+        self.assertEqual(p.returncode, 0, p.stderr)
+        p = run('carrier-statistics', '--material', 'Si', '--temperatures-k', '200,300,400',
+                '--donors', '[{"species": "P", "density_cm3": 1e16}]',
+                '--plot', str(self.dir / 'd.svg'))
+        self.assertEqual(p.returncode, 0, p.stderr)
+        self.assertEqual((self.dir / 'i.svg').read_bytes(), (self.dir / 'd.svg').read_bytes())
+        for item, words in (('bad', ['no answer to draw', 'error']),
+                            ('nope', ['no item with id "nope"']),
+                            ('si-300', ['one point'])):
+            p = run('plot', str(results), '--item', item, '--output', str(self.dir / 'a.svg'))
+            self.assertEqual(p.returncode, 2, p.stderr)
+            for w in words:
+                self.assertIn(w, p.stderr)
+            self.assertFalse((self.dir / 'a.svg').exists())
 
     def test_batch_refused(self):
         results = self.batch_file()
