@@ -22,6 +22,8 @@ static gpointer take_items(gpointer p)
 void bm_parallel_for(gsize n, guint threads, void (*fn)(gsize i, gpointer data), gpointer data)
 {
     g_return_if_fail(n <= G_MAXINT);
+    if (n == 0)
+        return;   /* (no threads: MIN(threads, n) - 1 would wrap) */
     Items it = { n, 0, fn, data };
     guint extra = threads > 1 ? MIN(threads, (guint)MIN(n, 64)) - 1 : 0;
     GThread *t[64];

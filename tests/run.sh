@@ -7,7 +7,8 @@
 #                                    with both sanitizers), in build-fuzz/
 #   tests/run.sh --threads           the threaded entry-point test under
 #                                    ThreadSanitizer (constants, a grid search,
-#                                    thermal-mass on threads of its own), in build-tsan/
+#                                    thermal-mass on threads of its own) and
+#                                    bandmass batch on two threads, in build-tsan/
 # CI runs all four.
 set -euo pipefail
 here="$(cd "$(dirname "${BASH_SOURCE[0]}")" && pwd)"
@@ -76,6 +77,24 @@ threads)
             status=1
         fi
     done
+    # bandmass batch on two threads: items of several operations, a grid, a
+    # failing line, lines written in order from whichever thread finished
+    manifest="$(mktemp "${TMPDIR:-/tmp}/bandmass-tsan-XXXXXX.jsonl")"
+    for i in 1 2 3 4 5 6 7 8; do
+        echo "{\"op\": \"carrier-statistics\", \"request\": {\"material\": \"Si\", \"temperature_k\": ${i}00}}"
+        echo "{\"op\": \"fermi-integral\", \"request\": {\"order\": 0.5, \"eta\": $i}}"
+        echo "{\"op\": \"mass-tensor\", \"request\": {\"grid\": \"$fp/si-12.json\", \"band\": \"c1\"}}"
+        echo "{\"op\": \"no-such-operation\"}"
+    done >"$manifest"
+    if G_SLICE=always-malloc \
+        TSAN_OPTIONS="halt_on_error=1 suppressions=$top/tests/hosts/tsan.supp" \
+        "$top/build-tsan/plugin/bandmass" batch "$manifest" --threads 2 --quiet >/dev/null; then
+        echo "threads: batch (2 threads, 32 items): no race reported"
+    else
+        echo "threads: batch (2 threads, 32 items): FAILED"
+        status=1
+    fi
+    rm -f "$manifest"
     ;;
 esac
 exit "$status"

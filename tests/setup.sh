@@ -11,7 +11,7 @@ packages=(gcc pkg-config meson ninja-build python3 libgsl-dev libglib2.0-dev
           libjson-glib-dev gobject-introspection libgirepository1.0-dev
           python3-gi python3-numpy python3-scipy python3-mpmath gjs
           octave liboctave-dev time valgrind libsymspg-dev r-base-dev r-cran-matrix
-          libcairo2-dev fonts-dejavu-core)
+          libcairo2-dev fonts-dejavu-core libopenmpi-dev)
 
 # install_packages PACKAGE...: installs those not installed yet (apt-get).
 install_packages() {

@@ -23,7 +23,7 @@ static char *number_text(double v)
     return g_strdup(buf);
 }
 
-static char *quoted(const char *s)
+char *bm_cli_csv_quoted(const char *s)
 {
     if (!strpbrk(s, ",\"\n\r"))
         return g_strdup(s);
@@ -32,8 +32,7 @@ static char *quoted(const char *s)
     return g_strdup_printf("\"%s\"", doubled);
 }
 
-/* The cell of a scalar node (NULL for anything that is not one). */
-static char *cell(JsonNode *n)
+char *bm_cli_csv_cell(JsonNode *n)
 {
     if (!n || JSON_NODE_HOLDS_NULL(n))
         return g_strdup("");
@@ -41,7 +40,7 @@ static char *cell(JsonNode *n)
         return NULL;
     GType t = json_node_get_value_type(n);
     if (t == G_TYPE_STRING)
-        return quoted(json_node_get_string(n));
+        return bm_cli_csv_quoted(json_node_get_string(n));
     if (t == G_TYPE_BOOLEAN)
         return g_strdup(json_node_get_boolean(n) ? "true" : "false");
     if (t == G_TYPE_INT64)
@@ -186,7 +185,7 @@ static char **dopant_labels(JsonObject *response, const char *key)
 static void flatten(Row *r, const Labels *lab, const char *key, JsonNode *n, gboolean top)
 {
     if (is_scalar(n)) {
-        row_put(r, key, cell(n));
+        row_put(r, key, bm_cli_csv_cell(n));
         return;
     }
     if (JSON_NODE_HOLDS_ARRAY(n)) {
@@ -198,7 +197,7 @@ static void flatten(Row *r, const Labels *lab, const char *key, JsonNode *n, gbo
                 const char *t = json_array_get_string_element(a, i);
                 g_string_append_printf(s, "%s%s", i ? "; " : "", t ? t : "");
             }
-            row_put(r, key, quoted(s->str));
+            row_put(r, key, bm_cli_csv_quoted(s->str));
             return;
         }
         for (guint i = 0; i < len; i++) {
@@ -206,7 +205,7 @@ static void flatten(Row *r, const Labels *lab, const char *key, JsonNode *n, gbo
             char buf[16];
             g_autofree char *name = column_name(key, element_label(lab, key, i, buf));
             if (is_scalar(e)) {
-                row_put(r, name, cell(e));
+                row_put(r, name, bm_cli_csv_cell(e));
             } else if (top && JSON_NODE_HOLDS_ARRAY(e)) {
                 JsonArray *inner = json_node_get_array(e);
                 for (guint j = 0; j < json_array_get_length(inner); j++) {
@@ -215,7 +214,7 @@ static void flatten(Row *r, const Labels *lab, const char *key, JsonNode *n, gbo
                         continue;
                     g_autofree char *label = g_strdup_printf("%u_%u", i + 1, j + 1);
                     g_autofree char *name2 = column_name(key, label);
-                    row_put(r, name2, cell(f));
+                    row_put(r, name2, bm_cli_csv_cell(f));
                 }
             }
         }
@@ -229,7 +228,7 @@ static void flatten(Row *r, const Labels *lab, const char *key, JsonNode *n, gbo
             if (!is_scalar(m))
                 continue;
             g_autofree char *name = g_strdup_printf("%s_%s", key, (const char *)l->data);
-            row_put(r, name, cell(m));
+            row_put(r, name, bm_cli_csv_cell(m));
         }
     }
 }
@@ -339,19 +338,19 @@ static void hole_rows(JsonObject *response, GPtrArray *rows, const Labels *lab)
         row_put(r, "band", g_strdup(bands[b].band));
         JsonObject *iv = in && json_object_has_member(in, bands[b].input)
             ? json_object_get_object_member(in, bands[b].input) : NULL;
-        row_put(r, "parabolic_mass_me", cell(iv ? json_object_get_member(iv, "value") : NULL));
+        row_put(r, "parabolic_mass_me", bm_cli_csv_cell(iv ? json_object_get_member(iv, "value") : NULL));
         row_put(r, "population_fraction",
-                cell(fr ? json_object_get_member(fr, bands[b].fraction) : NULL));
+                bm_cli_csv_cell(fr ? json_object_get_member(fr, bands[b].fraction) : NULL));
         JsonObject *dir = lu && bands[b].luttinger
             && json_object_has_member(lu, bands[b].luttinger)
             ? json_object_get_object_member(lu, bands[b].luttinger) : NULL;
         const char *dirs[3] = { "100", "110", "111" };
         for (int d = 0; d < 3; d++) {
             g_autofree char *name = g_strdup_printf("luttinger_mass_%s_me", dirs[d]);
-            row_put(r, name, cell(dir ? json_object_get_member(dir, dirs[d]) : NULL));
+            row_put(r, name, bm_cli_csv_cell(dir ? json_object_get_member(dir, dirs[d]) : NULL));
         }
         row_put(r, "luttinger_dos_mass_me",
-                cell(lu && bands[b].dos ? json_object_get_member(lu, bands[b].dos) : NULL));
+                bm_cli_csv_cell(lu && bands[b].dos ? json_object_get_member(lu, bands[b].dos) : NULL));
         g_ptr_array_add(rows, r);
     }
     (void)lab;
@@ -401,8 +400,8 @@ gboolean bm_cli_csv(const BmOperation *op, JsonObject *response, GString *out, G
             member_rows(one, "extrema", rows, &lab);
             for (guint q = before; q < rows->len; q++) {
                 Row *r = rows->pdata[q], *head = row_new();
-                row_put(head, "band_index", cell(json_object_get_member(band, "index")));
-                row_put(head, "band_name", cell(json_object_get_member(band, "name")));
+                row_put(head, "band_index", bm_cli_csv_cell(json_object_get_member(band, "index")));
+                row_put(head, "band_name", bm_cli_csv_cell(json_object_get_member(band, "name")));
                 row_append(head, r);
                 rows->pdata[q] = head;
                 row_free(r);
@@ -419,7 +418,7 @@ gboolean bm_cli_csv(const BmOperation *op, JsonObject *response, GString *out, G
             if (!JSON_NODE_HOLDS_OBJECT(e))
                 continue;
             Row *r = row_new();
-            row_put(r, "name", quoted(l->data));
+            row_put(r, "name", bm_cli_csv_quoted(l->data));
             flatten_object(r, &lab, json_node_get_object(e), TRUE);
             g_ptr_array_add(rows, r);
         }
@@ -438,7 +437,7 @@ gboolean bm_cli_csv(const BmOperation *op, JsonObject *response, GString *out, G
                 if (v && JSON_NODE_HOLDS_ARRAY(v))
                     v = i < json_array_get_length(json_node_get_array(v))
                         ? json_array_get_element(json_node_get_array(v), i) : NULL;
-                row_put(r, names[c], cell(v));
+                row_put(r, names[c], bm_cli_csv_cell(v));
             }
             g_ptr_array_add(rows, r);
         }
@@ -470,7 +469,7 @@ gboolean bm_cli_csv(const BmOperation *op, JsonObject *response, GString *out, G
         return FALSE;
     }
     for (guint c = 0; c < header->len; c++) {
-        g_autofree char *h = quoted(header->pdata[c]);
+        g_autofree char *h = bm_cli_csv_quoted(header->pdata[c]);
         g_string_append_printf(out, "%s%s", c ? "," : "", h);
     }
     g_string_append_c(out, '\n');

@@ -16,6 +16,15 @@ G_BEGIN_DECLS
 gboolean bm_cli_csv(const BmOperation *op, JsonObject *response, GString *out,
                     GError **error);
 
+/* A CSV cell: s as it is, or in double quotes (inner quotes doubled) when it
+ * holds a comma, a quote or a line break. Free it. */
+char *bm_cli_csv_quoted(const char *s);
+
+/* The cell of a scalar node (a number in the fewest digits that read back,
+ * true/false, a quoted string; empty for null or no node), or NULL for an
+ * object or a list. Free it. */
+char *bm_cli_csv_cell(JsonNode *n);
+
 G_END_DECLS
 
 #endif

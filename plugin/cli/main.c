@@ -11,6 +11,8 @@
 #include "output.h"
 #include "options.h"
 #include "csv.h"
+#include "batch.h"
+#include "bm-parallel.h"
 #include "manual.h"
 #include "plot-command.h"
 
@@ -48,6 +50,11 @@ static void print_main_help(void)
            "  bandmass OP [--KEY VALUE]... [--json | --csv] [--output FILE]\n"
            "                                     run OP with request keys as options\n"
            "  bandmass OP --help                 the keys, units and defaults of OP\n"
+           "  bandmass batch MANIFEST [--output FILE] [--threads N] [--quiet]\n"
+           "                                     run a manifest of requests (JSON lines);\n"
+           "                                     the same --output again resumes it\n"
+           "  bandmass batch-table RESULTS... --fields PATH,... [--output FILE]\n"
+           "                                     batch results as CSV, one row per item\n"
            "  bandmass OP ... --plot FILE        also draw the result (.svg, .png or .pdf)\n"
            "%s"
            "  bandmass --version\n\n"
@@ -409,6 +416,99 @@ static int cmd_operation(const BmOperation *op, int argc, char **argv)
     return 0;
 }
 
+/* ---- batch runs (batch.c) ---- */
+
+typedef struct {
+    const BmBatch *batch;
+    BmBatchWriter *writer;
+    gsize first;
+} BatchRun;
+
+static void batch_item(gsize i, gpointer data)
+{
+    BatchRun *run = data;
+    if (!bm_batch_writer_ok(run->writer))
+        return;   /* the output failed: the rest is not run */
+    gboolean failed = FALSE;
+    char *line = bm_batch_run(run->batch, run->first + i, &failed);
+    bm_batch_writer_put(run->writer, run->first + i, line, failed);
+}
+
+static int cmd_batch(int argc, char **argv)
+{
+    const char *manifest = NULL, *output = NULL;
+    gboolean quiet = FALSE;
+    guint threads = MIN(g_get_num_processors(), 64);
+    for (int i = 0; i < argc; i++) {
+        if (!strcmp(argv[i], "--output") && i + 1 < argc) {
+            output = argv[++i];
+        } else if (!strcmp(argv[i], "--threads") && i + 1 < argc) {
+            const char *t = argv[++i];
+            char *end = NULL;
+            errno = 0;
+            guint64 v = g_ascii_strtoull(t, &end, 10);
+            if (errno || !g_ascii_isdigit(*t) || *end || v < 1 || v > 64)
+                return usage_error("batch: --threads \"%s\": a whole number from 1 to 64", t);
+            threads = (guint)v;
+        } else if (!strcmp(argv[i], "--quiet")) {
+            quiet = TRUE;
+        } else if (argv[i][0] == '-' && argv[i][1] != '\0') {
+            return usage_error("batch: unknown or incomplete option %s", argv[i]);
+        } else if (!manifest) {
+            manifest = argv[i];
+        } else {
+            return usage_error("batch: unexpected argument %s", argv[i]);
+        }
+    }
+    if (!manifest)
+        return usage_error("batch: name a manifest (JSON lines: {\"op\": ..., \"request\": "
+                           "{...}, \"id\": ...})");
+    g_autoptr(GError) error = NULL;
+    g_autoptr(BmBatch) batch = bm_batch_load(manifest, &error);
+    if (!batch)
+        return fail(error);
+    g_autofree char *header = bm_batch_header(batch, "threads", threads);
+    BmBatchWriter *writer = bm_batch_writer_open(batch, output, header, !quiet, &error);
+    if (!writer)
+        return fail(error);
+    BatchRun run = { batch, writer, bm_batch_writer_done(writer) };
+    bm_parallel_for(bm_batch_length(batch) - run.first, threads, batch_item, &run);
+    if (!bm_batch_writer_close(writer, &error)) {
+        fprintf(stderr, "bandmass: error: %s\n", error->message);
+        return 1;
+    }
+    return 0;
+}
+
+static int cmd_batch_table(int argc, char **argv)
+{
+    const char *fields = NULL, *output = NULL;
+    g_autoptr(GPtrArray) results = g_ptr_array_new();
+    for (int i = 0; i < argc; i++) {
+        if (!strcmp(argv[i], "--fields") && i + 1 < argc)
+            fields = argv[++i];
+        else if (!strcmp(argv[i], "--output") && i + 1 < argc)
+            output = argv[++i];
+        else if (argv[i][0] == '-' && argv[i][1] != '\0')
+            return usage_error("batch-table: unknown or incomplete option %s", argv[i]);
+        else
+            g_ptr_array_add(results, argv[i]);
+    }
+    if (results->len == 0)
+        return usage_error("batch-table: name one or more outputs of bandmass batch");
+    if (!fields)
+        return usage_error("batch-table: --fields PATH,... names the response fields "
+                           "(e.g. --fields fermi_level_ev,points[0].electrons_cm3)");
+    g_ptr_array_add(results, NULL);
+    g_autoptr(GError) error = NULL;
+    g_autoptr(GString) out = g_string_new(NULL);
+    if (!bm_batch_table((const char *const *)results->pdata, fields, out, &error))
+        return fail(error);
+    if (!emit(output, out->str, &error))
+        return fail(error);
+    return 0;
+}
+
 static int dispatch(int argc, char **argv)
 {
     if (argc < 2) {
@@ -432,6 +532,10 @@ static int dispatch(int argc, char **argv)
         return cmd_ops(argc - 2, argv + 2);
     if (!strcmp(cmd, "call"))
         return cmd_call(argc - 2, argv + 2);
+    if (!strcmp(cmd, "batch"))
+        return cmd_batch(argc - 2, argv + 2);
+    if (!strcmp(cmd, "batch-table"))
+        return cmd_batch_table(argc - 2, argv + 2);
     if (!strcmp(cmd, "plot"))
         return bm_cli_plot_command(argc - 2, argv + 2);
     const BmOperation *op = bm_registry_lookup(cmd);

@@ -18,6 +18,14 @@ static const struct {
     {"OP [--KEY VALUE]... [--json | --csv] [--output FILE]",
      "Run OP with its request keys as options and print a readable table; --json prints the "
      "response object, --csv its table as CSV."},
+    {"batch MANIFEST [--output FILE] [--threads N] [--quiet]",
+     "Run a manifest of requests (JSON lines: {\"op\": OP, \"request\": {...}, \"id\": ID}, "
+     "or a template line with \"each\": {KEY: [values]}) on N threads, writing one JSON line "
+     "per item in manifest order after a provenance header; the same --output again resumes "
+     "the run. Progress and a summary go to standard error."},
+    {"batch-table RESULTS... --fields PATH,... [--output FILE]",
+     "The items of batch outputs as CSV: id, status and each response field, a path of keys "
+     "joined by '.' with list indexes [N]."},
     {"OP --help", "The keys, units, ranges and defaults of OP, and its response keys."},
     {"OP [--KEY VALUE]... --plot FILE",
      "Also draw the result of an operation that has a plot (carrier-statistics sweeps, "
@@ -184,7 +192,8 @@ char *bm_cli_bash_completion(gboolean (*has_plot)(const BmOperation *op))
                                 "    prev=\"${COMP_WORDS[COMP_CWORD-1]}\"\n"
                                 "    op=\"${COMP_WORDS[1]}\"\n"
                                 "    if [ \"$COMP_CWORD\" -eq 1 ]; then\n"
-                                "        COMPREPLY=($(compgen -W 'ops call plot --help --version ");
+                                "        COMPREPLY=($(compgen -W 'ops call plot batch batch-table "
+                                "--help --version ");
     g_autofree const char **names = g_new0(const char *, n + 1);
     for (guint i = 0; i < n; i++)
         names[i] = ops[i]->name;
@@ -197,6 +206,10 @@ char *bm_cli_bash_completion(gboolean (*has_plot)(const BmOperation *op))
                          "    case \"$op\" in\n"
                          "    ops) COMPREPLY=($(compgen -W '--json --markdown --man "
                          "--bash-completion' -- \"$cur\")); return ;;\n"
+                         "    batch) COMPREPLY=($(compgen -W '--output --threads --quiet' -- "
+                         "\"$cur\") $(compgen -f -- \"$cur\")); return ;;\n"
+                         "    batch-table) COMPREPLY=($(compgen -W '--fields --output' -- "
+                         "\"$cur\") $(compgen -f -- \"$cur\")); return ;;\n"
                          "    call)\n"
                          "        if [ \"$COMP_CWORD\" -eq 2 ]; then\n"
                          "            COMPREPLY=($(compgen -W '");

@@ -180,22 +180,19 @@ gboolean bm_cli_write_output(const char *path, const char *text, gsize len, GErr
     return bm_cli_write_file("--output", path, text, len, error);
 }
 
-gboolean bm_cli_write_file(const char *option, const char *path, const char *text, gsize len,
-                           GError **error)
+/* What is at path, by the rules of output.h; refusals name option and path. */
+static gboolean output_kind(const char *option, const char *path, struct stat *st,
+                            BmCliOutputKind *kind, GError **error)
 {
     if (!*path)
         return io_error(error, option, path, "an empty file name");
-    /* past a file-size limit, write fails with EFBIG and the partial file is
-     * removed, instead of the process dying and leaving it behind */
-    signal(SIGXFSZ, SIG_IGN);
-
-    struct stat st;
-    if (lstat(path, &st) != 0) {
+    if (lstat(path, st) != 0) {
         if (errno != ENOENT)
             return io_error(error, option, path, "%s", g_strerror(errno));
-        return write_replace(option, path, NULL, text, len, error);
+        *kind = BM_CLI_OUTPUT_ABSENT;
+        return TRUE;
     }
-    if (S_ISLNK(st.st_mode)) {
+    if (S_ISLNK(st->st_mode)) {
         g_autofree char *target = g_file_read_link(path, NULL);
         g_autofree char *shown = target ? g_strescape(target, NULL) : g_strdup("?");
         return io_error(error, option, path, "it is a symbolic link (to \"%s\"%s); output is "
@@ -203,16 +200,47 @@ gboolean bm_cli_write_file(const char *option, const char *path, const char *tex
                         shown, g_file_test(path, G_FILE_TEST_EXISTS) ? "" : ", which does not "
                         "exist", path);
     }
-    if (S_ISREG(st.st_mode) && st.st_nlink > 1)
+    if (S_ISREG(st->st_mode) && st->st_nlink > 1)
         return io_error(error, option, path, "it has %lu hard links; replacing it would break "
                         "them and writing in place would change every linked name: remove it "
-                        "first, or pass another name", (unsigned long)st.st_nlink);
-    if (S_ISREG(st.st_mode))
-        return write_replace(option, path, &st, text, len, error);
-    if (S_ISCHR(st.st_mode) || S_ISFIFO(st.st_mode))
-        return write_through(option, path, &st, text, len, error);
+                        "first, or pass another name", (unsigned long)st->st_nlink);
+    if (S_ISREG(st->st_mode)) {
+        *kind = BM_CLI_OUTPUT_REGULAR;
+        return TRUE;
+    }
+    if (S_ISCHR(st->st_mode) || S_ISFIFO(st->st_mode)) {
+        *kind = BM_CLI_OUTPUT_THROUGH;
+        return TRUE;
+    }
     return io_error(error, option, path, "it is %s; output goes to a regular file, a character "
-                    "device or a FIFO", S_ISDIR(st.st_mode) ? "a directory"
-                    : S_ISBLK(st.st_mode) ? "a block device"
-                    : S_ISSOCK(st.st_mode) ? "a socket" : "not a regular file");
+                    "device or a FIFO", S_ISDIR(st->st_mode) ? "a directory"
+                    : S_ISBLK(st->st_mode) ? "a block device"
+                    : S_ISSOCK(st->st_mode) ? "a socket" : "not a regular file");
+}
+
+gboolean bm_cli_output_kind(const char *path, struct stat *st, BmCliOutputKind *kind,
+                            GError **error)
+{
+    return output_kind("--output", path, st, kind, error);
+}
+
+gboolean bm_cli_write_file(const char *option, const char *path, const char *text, gsize len,
+                           GError **error)
+{
+    /* past a file-size limit, write fails with EFBIG and the partial file is
+     * removed, instead of the process dying and leaving it behind */
+    signal(SIGXFSZ, SIG_IGN);
+
+    struct stat st;
+    BmCliOutputKind kind;
+    if (!output_kind(option, path, &st, &kind, error))
+        return FALSE;
+    switch (kind) {
+    case BM_CLI_OUTPUT_ABSENT:
+        return write_replace(option, path, NULL, text, len, error);
+    case BM_CLI_OUTPUT_REGULAR:
+        return write_replace(option, path, &st, text, len, error);
+    default:
+        return write_through(option, path, &st, text, len, error);
+    }
 }

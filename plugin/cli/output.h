@@ -2,6 +2,7 @@
 #pragma once
 
 #include <glib.h>
+#include <sys/stat.h>
 
 /* The prefix of a partial file: ".NAME" + this + "PID-XXXXXX", beside NAME. */
 #define BM_CLI_PARTIAL_TAG ".bandmass-partial-"
@@ -22,3 +23,18 @@ gboolean bm_cli_write_output(const char *path, const char *text, gsize len, GErr
  * "cannot write --plot PATH: ..."). */
 gboolean bm_cli_write_file(const char *option, const char *path, const char *text, gsize len,
                            GError **error);
+
+/* What is at an --output path, by the rules above. */
+typedef enum {
+    BM_CLI_OUTPUT_ABSENT,    /* nothing: a file may be created */
+    BM_CLI_OUTPUT_REGULAR,   /* a regular file with one link */
+    BM_CLI_OUTPUT_THROUGH    /* a character device or a FIFO: written through */
+} BmCliOutputKind;
+
+/* Looks at path (lstat, into *st) and sets *kind; any other kind of file (a
+ * symbolic link, a regular file with more than one hard link, a directory,
+ * ...) is refused (BM_ERROR_IO, naming --output, path and what to do).
+ * Writers that append (bandmass batch) follow the same rules as
+ * bm_cli_write_output. */
+gboolean bm_cli_output_kind(const char *path, struct stat *st, BmCliOutputKind *kind,
+                            GError **error);
