@@ -73,6 +73,9 @@ def main():
 
         # the CLI from the installed tree, nothing of the build on its paths
         env = {'PATH': '/usr/bin:/bin', 'LD_LIBRARY_PATH': libdir, 'LANG': 'C.UTF-8'}
+        # the sanitizer pass's run-time and options (tests/sanitize/wrap.sh) go along
+        env.update({k: v for k, v in os.environ.items()
+                    if k in ('LD_PRELOAD', 'ASAN_OPTIONS', 'UBSAN_OPTIONS', 'G_SLICE')})
         built = run([os.path.join(BUILD, 'plugin', 'bandmass'), 'call', 'constants'],
                     input='{}').stdout
         compact = run([os.path.join(BUILD, 'plugin', 'bandmass'), 'call', 'constants',
