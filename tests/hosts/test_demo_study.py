@@ -34,7 +34,9 @@ class DemoStudy(unittest.TestCase):
 
     def test_runs_and_reports(self):
         self.assertEqual(self.result.returncode, 0, self.result.stderr)
-        self.assertLess(self.seconds, 60.0)
+        # under a minute once built; the sanitizer pass runs four times slower
+        limit = 240.0 if 'BANDMASS_ASAN_RUNTIME' in os.environ else 60.0
+        self.assertLess(self.seconds, limit)
         print('study: %.1f s' % self.seconds, file=sys.stderr)
         report = json.loads((self.out / 'report.json').read_text())
         names = [r['candidate'] for r in report['rows']]
