@@ -172,7 +172,8 @@ def main(bm, out):
         return sorted(have, key=lambda r: abs(r[key]), reverse=reverse)
 
     print("Lakemoor Institute, thin-film screening group: channel and thermoelectric candidates")
-    print("(three fictional compounds from model bands; Si, Ge, GaAs from handbook parameters)\n")
+    print("(three fictional compounds from model bands; Si, Ge, GaAs from handbook parameters,")
+    print(" Si's Seebeck coefficient from the project's LDA silicon grid; no grids for Ge, GaAs)\n")
     print(f"{'candidate':10} {'valleys':>7} {'m_c (m_e)':>10} {'m_dos (m_e)':>11} "
           f"{'v_th 300 K (cm/s)':>18} {'S at 1e19 (uV/K)':>17} {'warnings':>8}")
     def fmt(v, f):
