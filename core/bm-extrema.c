@@ -2742,8 +2742,10 @@ bm_status bm_ktable_mass_tensors(const bm_ktable *t, size_t band, bm_search whic
                 if (notes)
                     bm_warn(notes, BM_WARN_NO_EXTREMUM, "no %s reported: from the %s sample "
                             "(point %zu) the fit reaches a %s, not a %s (the %s sample lies "
-                            "on the boundary of the table)", what, want_min ? "lowest" : "highest",
-                            from, kind_name(r->kind), what, want_min ? "lowest" : "highest");
+                            "on the boundary of the table; the band spans %.6f to %.6f eV over "
+                            "it)", what, want_min ? "lowest" : "highest",
+                            from, kind_name(r->kind), what, want_min ? "lowest" : "highest",
+                            eb[lo], eb[hi]);
             } else if (nres == 1 && r->kind == BM_EXTREMUM_SADDLE && res[0].kind == BM_EXTREMUM_SADDLE) {
                 double d[3] = { r->k[0] - res[0].k[0], r->k[1] - res[0].k[1], r->k[2] - res[0].k[2] };
                 double tol = 1e-6 * fmax(1.0, bm_norm3(res[0].k));
@@ -2761,10 +2763,11 @@ bm_status bm_ktable_mass_tensors(const bm_ktable *t, size_t band, bm_search whic
                         want_min ? "lowest" : "highest", from, r->k[0], r->k[1], r->k[2]);
                 if (notes)
                     bm_warn(notes, BM_WARN_NO_EXTREMUM, "no %s reported: the %s sample (point "
-                            "%zu, E = %.6f eV) lies on the boundary of the table and the fit's "
+                            "%zu, E = %.6f eV; the band spans %.6f to %.6f eV over the table) "
+                            "lies on the boundary of the table and the fit's "
                             "stationary point is beyond the points given; its estimate is under "
                             "beyond_data (sample around it, or extend the table)", what,
-                            want_min ? "lowest" : "highest", from, eb[from]);
+                            want_min ? "lowest" : "highest", from, eb[from], eb[lo], eb[hi]);
             }
             if (drop) {
                 bm_warnings_clear(&r->warnings);

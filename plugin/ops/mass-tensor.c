@@ -410,9 +410,18 @@ BmMassTensorSearch *bm_mass_tensor_search(JsonObject *request, const BmCallInput
 
     if (!json_object_has_member(request, "band")) {
         if (nbands != 1) {
+            /* say what there is to choose from */
+            g_autoptr(GString) list = g_string_new(NULL);
+            for (size_t b = 0; names && b < nbands && b < 12; b++)
+                g_string_append_printf(list, "%s'%s'", b ? ", " : " (", names[b]);
+            if (names && nbands > 12)
+                g_string_append(list, ", ...");
+            if (names)
+                g_string_append(list, ")");
             g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT,
                         "request: missing key \"band\": %s holds %zu bands (give a 0-based "
-                        "index or a name)", s->source, nbands);
+                        "index 0..%zu, a name%s or \"all\")", s->source, nbands, nbands - 1,
+                        list->str);
             return NULL;
         }
         s->band = 0;
