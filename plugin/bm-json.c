@@ -845,3 +845,27 @@ void bm_json_warn_all(JsonObject *o, const bm_warnings *w)
         bm_json_warn(o, BM_WARN_WARNINGS_LOST, "%zu further warning%s lost: out of memory",
                      w->lost, w->lost == 1 ? " was" : "s were");
 }
+
+gssize bm_json_matrix_columns(JsonArray *a)
+{
+    gssize cols = -1;
+    for (guint i = 0; i < json_array_get_length(a); i++) {
+        JsonNode *r = json_array_get_element(a, i);
+        if (!JSON_NODE_HOLDS_ARRAY(r))
+            return -1;
+        JsonArray *row = json_node_get_array(r);
+        guint len = json_array_get_length(row);
+        if (len == 0 || (cols >= 0 && (gssize)len != cols))
+            return -1;
+        for (guint j = 0; j < len; j++) {
+            JsonNode *e = json_array_get_element(row, j);
+            if (JSON_NODE_HOLDS_NULL(e))
+                continue;
+            GType t = JSON_NODE_HOLDS_VALUE(e) ? json_node_get_value_type(e) : G_TYPE_INVALID;
+            if (t != G_TYPE_DOUBLE && t != G_TYPE_INT64)
+                return -1;
+        }
+        cols = len;
+    }
+    return cols;
+}

@@ -52,6 +52,10 @@ void bm_json_set_numbers(JsonObject *o, const char *key, const double *v, gsize 
  * '\\' and control characters; other UTF-8 passes through. Pretty output
  * indents by two spaces and writes `"key" : value`. */
 void bm_json_write(GString *out, JsonNode *node, gboolean pretty);
+/* For the host adapters (Octave, R): the common length of rows that are all
+ * non-empty arrays of numbers or nulls (a matrix), or -1 where a is none. */
+gssize bm_json_matrix_columns(JsonArray *a);
+
 char *bm_json_to_string(JsonNode *node, gboolean pretty);
 char *bm_json_object_to_string(JsonObject *o, gboolean pretty);
 /* Appends one double as the writer spells it. */

@@ -296,26 +296,6 @@ static double number_of(JsonNode *n)
     return JSON_NODE_HOLDS_NULL(n) ? NAN : json_node_get_double(n);
 }
 
-/* The common length of rows that are all numeric arrays, or -1. */
-static gssize matrix_columns(JsonArray *a)
-{
-    gssize cols = -1;
-    for (guint i = 0; i < json_array_get_length(a); i++) {
-        JsonNode *r = json_array_get_element(a, i);
-        if (!JSON_NODE_HOLDS_ARRAY(r))
-            return -1;
-        JsonArray *row = json_node_get_array(r);
-        guint len = json_array_get_length(row);
-        if (len == 0 || (cols >= 0 && (gssize)len != cols))
-            return -1;
-        for (guint j = 0; j < len; j++)
-            if (!is_number_or_null(json_array_get_element(row, j)))
-                return -1;
-        cols = len;
-    }
-    return cols;
-}
-
 /* Whether every element is an object with the same keys in the same order. */
 static gboolean same_objects(JsonArray *a)
 {
@@ -380,7 +360,7 @@ static mxArray *array_from_json(JsonArray *a)
             mxGetLogicals(v)[i] = json_array_get_boolean_element(a, i);
         return v;
     }
-    gssize cols = matrix_columns(a);
+    gssize cols = bm_json_matrix_columns(a);
     if (cols > 0) {
         mxArray *m = mxCreateDoubleMatrix(n, (mwSize)cols, mxREAL);
         double *d = mxGetPr(m);

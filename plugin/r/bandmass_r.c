@@ -525,28 +525,6 @@ static void set_vector_element(SEXP v, R_xlen_t i, JsonNode *e)
     }
 }
 
-/* The common length of rows that are all non-empty number arrays, or -1. */
-static gssize matrix_columns(JsonArray *a)
-{
-    gssize cols = -1;
-    for (guint i = 0; i < json_array_get_length(a); i++) {
-        JsonNode *r = json_array_get_element(a, i);
-        if (!JSON_NODE_HOLDS_ARRAY(r))
-            return -1;
-        JsonArray *row = json_node_get_array(r);
-        guint len = json_array_get_length(row);
-        if (len == 0 || (cols >= 0 && (gssize)len != cols))
-            return -1;
-        for (guint j = 0; j < len; j++) {
-            JsonNode *e = json_array_get_element(row, j);
-            if (!is_number(e) && !JSON_NODE_HOLDS_NULL(e))
-                return -1;
-        }
-        cols = len;
-    }
-    return cols;
-}
-
 /* Whether a value may stand in a data-frame cell: a scalar, null or an
  * array of scalars. */
 static gboolean flat(JsonNode *n)
@@ -658,7 +636,7 @@ static SEXP array_from_json(JsonArray *a, const char *key)
         UNPROTECT(1);
         return v;
     }
-    gssize cols = matrix_columns(a);
+    gssize cols = bm_json_matrix_columns(a);
     if (cols > 0) {
         SEXP m = PROTECT(Rf_allocMatrix(REALSXP, (int)n, (int)cols));
         for (guint r = 0; r < n; r++) {
