@@ -483,22 +483,6 @@ struct _BmBatchWriter {
     gboolean progress, tty, bar_drawn;
 };
 
-static gboolean write_line(int fd, const char *text, gsize len, int *err)
-{
-    while (len > 0) {
-        gssize put = write(fd, text, len);
-        if (put < 0 && errno == EINTR)
-            continue;
-        if (put < 0) {
-            *err = errno;
-            return FALSE;
-        }
-        text += put;
-        len -= (gsize)put;
-    }
-    return TRUE;
-}
-
 static gboolean refuse(GError **error, int code, const char *path, const char *fmt, ...)
     G_GNUC_PRINTF(4, 5);
 static gboolean refuse(GError **error, int code, const char *path, const char *fmt, ...)
@@ -642,7 +626,7 @@ BmBatchWriter *bm_batch_writer_open(const BmBatch *b, const char *path, const ch
         }
     }
     int err = 0;
-    if (empty && !write_line(fd, header, strlen(header), &err)) {
+    if (empty && !bm_cli_write_all(fd, header, strlen(header), &err)) {
         close(fd);
         refuse(error, BM_ERROR_IO, path ? path : "-", "%s", g_strerror(err));
         return NULL;
@@ -715,7 +699,7 @@ static void flush_ready(BmBatchWriter *w)
         char *line = w->pending[w->next];
         w->pending[w->next] = NULL;
         int err = 0;
-        if (!w->error && !write_line(w->fd, line, strlen(line), &err))
+        if (!w->error && !bm_cli_write_all(w->fd, line, strlen(line), &err))
             g_set_error(&w->error, BM_ERROR, BM_ERROR_IO, "cannot write --output %s: %s",
                         w->path, g_strerror(err));
         g_free(line);

@@ -33,7 +33,7 @@ static gboolean io_error(GError **error, const char *option, const char *path,
     return FALSE;
 }
 
-static gboolean write_all(int fd, const char *text, gsize len, int *err)
+gboolean bm_cli_write_all(int fd, const char *text, gsize len, int *err)
 {
     while (len > 0) {
         gssize put = write(fd, text, MIN(len, (gsize)1 << 30));
@@ -107,7 +107,7 @@ static gboolean write_through(const char *option, const char *path, const struct
     sigemptyset(&ignore.sa_mask);
     sigaction(SIGPIPE, &ignore, &old);
     int err = 0;
-    gboolean ok = write_all(fd, text, len, &err);
+    gboolean ok = bm_cli_write_all(fd, text, len, &err);
     sigaction(SIGPIPE, &old, NULL);
     if (close(fd) != 0 && ok && errno != EINTR) {
         ok = FALSE;
@@ -151,7 +151,7 @@ static gboolean write_replace(const char *option, const char *path, const struct
     }
     if (!why && fchmod(fd, mode) != 0)
         err = errno;
-    if (!why && !err && !write_all(fd, text, len, &err)) {
+    if (!why && !err && !bm_cli_write_all(fd, text, len, &err)) {
         /* err set */
     }
     if (!why && !err && fsync(fd) != 0 && errno != EINVAL)

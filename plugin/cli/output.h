@@ -19,6 +19,10 @@
  * process no longer exists, owned by the caller) are removed. */
 gboolean bm_cli_write_output(const char *path, const char *text, gsize len, GError **error);
 
+/* Writes all of text to fd (retrying interrupted and short writes, at most
+ * 1 GiB a call); FALSE with errno in *err on failure. */
+gboolean bm_cli_write_all(int fd, const char *text, gsize len, int *err);
+
 /* The same for the file of another option (its messages name that option:
  * "cannot write --plot PATH: ..."). */
 gboolean bm_cli_write_file(const char *option, const char *path, const char *text, gsize len,
