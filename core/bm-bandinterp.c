@@ -1,14 +1,20 @@
-/* bm-bandinterp.c: periodic cubic B-splines of the bands of a grid, with the
- * crossing-aware pair blend (bm-bandinterp.h says why). */
+/* bm-bandinterp.c: the smooth Fourier series of the bands of a grid, carried
+ * on a finer mesh by periodic cubic B-splines, with the crossing-aware pair
+ * blend (bm-bandinterp.h says why). */
 #include "bm-bandinterp.h"
 
+#include <gsl/gsl_errno.h>
+#include <gsl/gsl_fft_complex.h>
 #include <math.h>
 #include <stdlib.h>
 #include <string.h>
 
+#include "bm-mat3.h"
+
 struct bm_bandinterp {
-    size_t mesh[3], npt, nbands;
-    double offset[3];
+    size_t mesh[3], npt, nbands;   /* the spline's mesh: the grid's, times up */
+    size_t up[3];                  /* fine mesh steps per grid step, each axis */
+    double offset[3];              /* in fine mesh steps */
     double pair_gap;        /* eV; 0: no pairs */
     double *single;         /* [band][npt] spline coefficients of each band */
     /* the pair's sum E_b + E_{b+1} needs no spline of its own: the spline
@@ -96,17 +102,225 @@ static int spline_of(double *c, const size_t n[3])
     return 0;
 }
 
+/* The smooth Fourier series of a band, sampled on the finer mesh.  The grid
+ * fixes one coefficient sum per class of lattice vectors R that alias onto
+ * each other on its mesh; each sum is spread over the class's members inside
+ * the fine mesh's frequency box in proportion to 1 / rho(|R|), with
+ * rho = (1 - c x^2)^2 + c x^6, x = |R| / R_min, c = 3/4: the roughness of
+ * Pickett, Krakauer & Allen, Phys. Rev. B 38, 2721 (1988).  The result is the
+ * series of least roughness through the mesh values: it passes through each
+ * of them, and being weighed by Cartesian |R| it is equally smooth in every
+ * direction of the zone, which a spline on skewed fractional axes is not.
+ * The mesh offset drops out: its phase enters the coefficients and the
+ * evaluation with opposite signs. */
+typedef struct {
+    size_t n[3], m[3];
+    double metric[3][3];   /* a_i . a_j / R_min^2 */
+    /* per axis, the grid's and the fine mesh's (GSL wants a workspace of
+     * the transform's own length) */
+    gsl_fft_complex_wavetable *wg[3], *wf[3];
+    gsl_fft_complex_workspace *sg[3], *sf[3];
+    double *z, *zf;        /* interleaved complex: the grid's and the fine mesh's */
+} smoother;
+
+/* Signed frequency of FFT index i of n, in [-n/2, n - n/2). */
+static long freq(size_t i, size_t n)
+{
+    return i < n - n / 2 ? (long)i : (long)i - (long)n;
+}
+
+static int fft3(double *z, const size_t n[3], gsl_fft_complex_wavetable *const wt[3],
+                gsl_fft_complex_workspace *const ws[3], gsl_fft_direction dir)
+{
+    size_t stride[3] = { n[1] * n[2], n[2], 1 }, total = n[0] * n[1] * n[2];
+    for (int a = 0; a < 3; a++) {
+        if (n[a] == 1)
+            continue;
+        for (size_t start = 0; start < total; start++) {
+            /* one line per start index whose coordinate along a is 0 */
+            if ((start / stride[a]) % n[a] != 0)
+                continue;
+            if (gsl_fft_complex_transform(z + 2 * start, stride[a], n[a], wt[a], ws[a], dir) != GSL_SUCCESS)
+                return -1;
+        }
+    }
+    return 0;
+}
+
+static void smoother_free(smoother *s)
+{
+    for (int a = 0; a < 3; a++) {
+        if (s->wg[a])
+            gsl_fft_complex_wavetable_free(s->wg[a]);
+        if (s->wf[a])
+            gsl_fft_complex_wavetable_free(s->wf[a]);
+        if (s->sg[a])
+            gsl_fft_complex_workspace_free(s->sg[a]);
+        if (s->sf[a])
+            gsl_fft_complex_workspace_free(s->sf[a]);
+    }
+    free(s->z);
+    free(s->zf);
+}
+
+static int smoother_init(smoother *s, const bm_grid *g, const size_t up[3])
+{
+    memset(s, 0, sizeof *s);
+    for (int a = 0; a < 3; a++) {
+        s->n[a] = g->mesh[a];
+        s->m[a] = g->mesh[a] * up[a];
+        if (s->n[a] == 1)
+            continue;   /* no transform along a flat axis */
+        s->wg[a] = gsl_fft_complex_wavetable_alloc(s->n[a]);
+        s->wf[a] = gsl_fft_complex_wavetable_alloc(s->m[a]);
+        s->sg[a] = gsl_fft_complex_workspace_alloc(s->n[a]);
+        s->sf[a] = gsl_fft_complex_workspace_alloc(s->m[a]);
+        if (!s->wg[a] || !s->wf[a] || !s->sg[a] || !s->sf[a])
+            return -1;
+    }
+    s->z = malloc(2 * s->n[0] * s->n[1] * s->n[2] * sizeof *s->z);
+    s->zf = malloc(2 * s->m[0] * s->m[1] * s->m[2] * sizeof *s->zf);
+    if (!s->z || !s->zf)
+        return -1;
+    /* real-space metric 4 pi^2 (B B^T)^-1, scaled by the shortest lattice
+     * vector among the axes that have a mesh */
+    double bbt[9], inv[9] = { 0 };
+    for (int i = 0; i < 3; i++)
+        for (int j = 0; j < 3; j++)
+            bbt[3 * i + j] = bm_v3_dot(g->recip[i], g->recip[j]);
+    if (!bm_m3_inverse(inv, bbt, 0.0))
+        return -1;
+    double rmin2 = INFINITY;
+    for (int c = 1; c < 27; c++) {
+        int v[3] = { c % 3 - 1, (c / 3) % 3 - 1, c / 9 - 1 };
+        int skip = v[0] == 0 && v[1] == 0 && v[2] == 0;
+        for (int a = 0; a < 3; a++)
+            skip |= v[a] != 0 && g->mesh[a] == 1;
+        if (skip)
+            continue;
+        double q = 0.0;
+        for (int i = 0; i < 3; i++)
+            for (int j = 0; j < 3; j++)
+                q += 4.0 * M_PI * M_PI * inv[3 * i + j] * v[i] * v[j];
+        rmin2 = q < rmin2 ? q : rmin2;
+    }
+    if (!(rmin2 > 0.0 && isfinite(rmin2)))
+        return -1;
+    for (int i = 0; i < 3; i++)
+        for (int j = 0; j < 3; j++)
+            s->metric[i][j] = 4.0 * M_PI * M_PI * inv[3 * i + j] / rmin2;
+    return 0;
+}
+
+/* in: the band on the grid's mesh; out: its series on the fine mesh. */
+static int smooth_band(smoother *s, const double *in, double *out)
+{
+    const size_t *n = s->n, *m = s->m;
+    size_t np = n[0] * n[1] * n[2], nf = m[0] * m[1] * m[2];
+    for (size_t i = 0; i < np; i++) {
+        s->z[2 * i] = in[i];
+        s->z[2 * i + 1] = 0.0;
+    }
+    if (fft3(s->z, n, s->wg, s->sg, gsl_fft_forward) != 0)
+        return -1;
+    memset(s->zf, 0, 2 * nf * sizeof *s->zf);
+    size_t cnt[3];
+    long lo[3];
+    for (int a = 0; a < 3; a++) {
+        cnt[a] = m[a] / n[a];
+        lo[a] = -(long)(m[a] / 2);
+    }
+    for (size_t i0 = 0; i0 < n[0]; i0++)
+        for (size_t i1 = 0; i1 < n[1]; i1++)
+            for (size_t i2 = 0; i2 < n[2]; i2++) {
+                size_t ii[3] = { i0, i1, i2 };
+                /* the class members inside the fine box, axis by axis: the
+                 * first is the smallest R = f + j n not below lo */
+                long first[3];
+                for (int a = 0; a < 3; a++) {
+                    long nn = (long)n[a];
+                    first[a] = freq(ii[a], n[a]);
+                    while (first[a] - nn >= lo[a])
+                        first[a] -= nn;
+                    while (first[a] < lo[a])
+                        first[a] += nn;
+                }
+                double wsum = 0.0;
+                size_t members = cnt[0] * cnt[1] * cnt[2];
+                double wbuf[512], *w = members <= 512 ? wbuf : malloc(members * sizeof *w);
+                if (!w)
+                    return -1;
+                for (size_t c = 0; c < members; c++) {
+                    long r[3] = { first[0] + (long)(c / (cnt[1] * cnt[2])) * (long)n[0],
+                                  first[1] + (long)((c / cnt[2]) % cnt[1]) * (long)n[1],
+                                  first[2] + (long)(c % cnt[2]) * (long)n[2] };
+                    double x2 = 0.0;
+                    for (int p = 0; p < 3; p++)
+                        for (int q = 0; q < 3; q++)
+                            x2 += s->metric[p][q] * (double)r[p] * (double)r[q];
+                    double t = 1.0 - 0.75 * x2;
+                    w[c] = 1.0 / (t * t + 0.75 * x2 * x2 * x2);
+                    wsum += w[c];
+                }
+                size_t src = (i0 * n[1] + i1) * n[2] + i2;
+                double re = s->z[2 * src] / (double)np, im = s->z[2 * src + 1] / (double)np;
+                for (size_t c = 0; c < members; c++) {
+                    long r[3] = { first[0] + (long)(c / (cnt[1] * cnt[2])) * (long)n[0],
+                                  first[1] + (long)((c / cnt[2]) % cnt[1]) * (long)n[1],
+                                  first[2] + (long)(c % cnt[2]) * (long)n[2] };
+                    size_t d[3];
+                    for (int a = 0; a < 3; a++)
+                        d[a] = (size_t)((r[a] % (long)m[a] + (long)m[a]) % (long)m[a]);
+                    size_t dst = (d[0] * m[1] + d[1]) * m[2] + d[2];
+                    s->zf[2 * dst] += re * w[c] / wsum;
+                    s->zf[2 * dst + 1] += im * w[c] / wsum;
+                }
+                if (w != wbuf)
+                    free(w);
+            }
+    if (fft3(s->zf, m, s->wf, s->sf, gsl_fft_backward) != 0)
+        return -1;
+    for (size_t i = 0; i < nf; i++)
+        out[i] = s->zf[2 * i];
+    return 0;
+}
+/* Fine mesh steps per grid step along an axis of n points: enough for
+ * BM_BANDINTERP_FINE_MIN points, none on meshes that have them already. */
+static size_t fine_factor(size_t n)
+{
+    if (n == 1 || n >= BM_BANDINTERP_FINE_MIN)
+        return 1;
+    return (BM_BANDINTERP_FINE_MIN + n - 1) / n;
+}
+
 bm_bandinterp *bm_bandinterp_new(const bm_grid *g, double pair_gap_ev)
 {
     bm_bandinterp *bi = calloc(1, sizeof *bi);
     if (!bi)
         return NULL;
-    memcpy(bi->mesh, g->mesh, sizeof bi->mesh);
-    memcpy(bi->offset, g->offset, sizeof bi->offset);
-    bi->npt = g->mesh[0] * g->mesh[1] * g->mesh[2];
     bi->nbands = g->nbands;
     bi->pair_gap = g->nbands > 1 && pair_gap_ev > 0.0 ? pair_gap_ev : 0.0;
-    size_t np = bi->pair_gap > 0.0 ? g->nbands - 1 : 0, npt = bi->npt;
+    size_t np = bi->pair_gap > 0.0 ? g->nbands - 1 : 0;
+    /* the finer mesh, coarsened again while its bands and pairs would pass
+     * the memory budget */
+    for (int a = 0; a < 3; a++)
+        bi->up[a] = fine_factor(g->mesh[a]);
+    for (;;) {
+        double total = (double)(g->nbands + np);
+        for (int a = 0; a < 3; a++)
+            total *= (double)(g->mesh[a] * bi->up[a]);
+        if (total <= BM_BANDINTERP_FINE_BUDGET || (bi->up[0] == 1 && bi->up[1] == 1 && bi->up[2] == 1))
+            break;
+        for (int a = 0; a < 3; a++)
+            bi->up[a] = bi->up[a] > 1 ? bi->up[a] - 1 : 1;
+    }
+    int smooth = bi->up[0] > 1 || bi->up[1] > 1 || bi->up[2] > 1;
+    for (int a = 0; a < 3; a++) {
+        bi->mesh[a] = g->mesh[a] * bi->up[a];
+        bi->offset[a] = g->offset[a] * (double)bi->up[a];
+    }
+    size_t npt = bi->npt = bi->mesh[0] * bi->mesh[1] * bi->mesh[2];
+    size_t ngrid = g->mesh[0] * g->mesh[1] * g->mesh[2];
     bi->single = malloc(g->nbands * npt * sizeof *bi->single);
     bi->paired = calloc(g->nbands, 1);
     if (np)
@@ -115,20 +329,38 @@ bm_bandinterp *bm_bandinterp_new(const bm_grid *g, double pair_gap_ev)
         bm_bandinterp_free(bi);
         return NULL;
     }
-    memcpy(bi->single, g->energies, g->nbands * npt * sizeof *bi->single);
+    /* each band, and each pair's squared difference taken on the grid (where
+     * it is smooth through a crossing; from the fine bands it would not be),
+     * as their series on the fine mesh */
     int failed = 0;
-    for (size_t b = 0; b < g->nbands; b++)
-        failed |= spline_of(bi->single + b * npt, bi->mesh);
-    for (size_t b = 0; b < np; b++) {
-        if (!bm_grid_same_channel(g, b, b + 1))
+    smoother sm;
+    double *sq = NULL;
+    if (smooth) {
+        failed = smoother_init(&sm, g, bi->up);
+        if (!failed && np && !(sq = malloc(ngrid * sizeof *sq)))
+            failed = 1;
+    }
+    for (size_t b = 0; b < g->nbands && !failed; b++) {
+        const double *band = g->energies + b * ngrid;
+        if (smooth)
+            failed = smooth_band(&sm, band, bi->single + b * npt);
+        else
+            memcpy(bi->single + b * npt, band, npt * sizeof *bi->single);
+        if (failed || b + 1 >= g->nbands || !np || !bm_grid_same_channel(g, b, b + 1))
             continue;
         bi->paired[b] = 1;
-        const double *lo = g->energies + b * npt, *hi = lo + npt;
-        double *d = bi->sqdiff + b * npt;
-        for (size_t m = 0; m < npt; m++)
-            d[m] = (hi[m] - lo[m]) * (hi[m] - lo[m]);
-        failed |= spline_of(d, bi->mesh);
+        double *d = smooth ? sq : bi->sqdiff + b * npt;
+        for (size_t m = 0; m < ngrid; m++)
+            d[m] = (band[m + ngrid] - band[m]) * (band[m + ngrid] - band[m]);
+        if (smooth)
+            failed = smooth_band(&sm, sq, bi->sqdiff + b * npt);
+        failed |= spline_of(bi->sqdiff + b * npt, bi->mesh);
     }
+    if (smooth)
+        smoother_free(&sm);
+    free(sq);
+    for (size_t b = 0; b < g->nbands && !failed; b++)
+        failed |= spline_of(bi->single + b * npt, bi->mesh);
     if (failed) {
         bm_bandinterp_free(bi);
         return NULL;
@@ -359,22 +591,27 @@ void bm_bandinterp_eval(const bm_bandinterp *bi, size_t band, const double f[3],
 void bm_bandinterp_cell_bounds(const bm_bandinterp *bi, size_t band, const size_t cell[3],
                                double *lo, double *hi)
 {
+    /* the grid cell holds up^3 fine cells, carried by up + 3 coefficients
+     * along each axis */
     const double *c = bi->single + band * bi->npt;
-    size_t idx[3][4], cnt[3];
+    size_t first[3], cnt[3];
     for (int a = 0; a < 3; a++) {
         size_t n = bi->mesh[a];
-        cnt[a] = n == 1 ? 1 : 4;
-        for (size_t m = 0; m < cnt[a]; m++)
-            idx[a][m] = n == 1 ? 0 : (cell[a] + n - 1 + m) % n;
+        cnt[a] = n == 1 ? 1 : bi->up[a] + 3;
+        first[a] = n == 1 ? 0 : (cell[a] * bi->up[a] + n - 1) % n;
     }
     double l = INFINITY, h = -INFINITY;
-    for (size_t p = 0; p < cnt[0]; p++)
-        for (size_t q = 0; q < cnt[1]; q++)
+    for (size_t p = 0; p < cnt[0]; p++) {
+        size_t i = (first[0] + p) % bi->mesh[0];
+        for (size_t q = 0; q < cnt[1]; q++) {
+            const double *row = c + (i * bi->mesh[1] + (first[1] + q) % bi->mesh[1]) * bi->mesh[2];
             for (size_t r = 0; r < cnt[2]; r++) {
-                double v = c[(idx[0][p] * bi->mesh[1] + idx[1][q]) * bi->mesh[2] + idx[2][r]];
+                double v = row[(first[2] + r) % bi->mesh[2]];
                 l = v < l ? v : l;   /* not fmin: no NaN here, and no call */
                 h = v > h ? v : h;
             }
+        }
+    }
     double reach = 3.0 * bi->pair_gap;
     *lo = l - reach;
     *hi = h + reach;

@@ -1,15 +1,21 @@
 /* bm-bandinterp.h: the band interpolant for integrals over the zone (thermal
- * masses, transport, orbits): a periodic cubic B-spline through every mesh
- * point of every band, C2 everywhere (mesh points included), 64 terms per
- * evaluation, and crossing-aware where two sorted bands come close.
+ * masses, transport, orbits, band cuts): on meshes coarser than
+ * BM_BANDINTERP_FINE_MIN points an axis, each band's smooth Fourier series
+ * (least roughness through the mesh values, weighed by Cartesian |R|),
+ * sampled on a finer mesh; periodic cubic B-splines through those samples (or
+ * through the mesh itself, on fine meshes) carry it: C2 everywhere, 64 terms
+ * per evaluation; crossing-aware where two sorted bands come close.
  *
- * Why a spline and not the exact Fourier series: sorted first-principles bands
- * have kinks where they cross or touch, and a Fourier series spreads the
- * ringing of each kink over the whole zone, while the spline's error decays by
- * a factor of about 0.27 per mesh step away from it (measured on the silicon
- * corpus; README, "Band interpolation").  Near a crossing the band is
- * recovered from splines of the sum and the squared difference of the pair,
- * which stay smooth there, blended in smoothly by the interpolated gap. */
+ * Why this and not the spline alone or the exact Fourier series: sorted
+ * first-principles bands have kinks where they cross or touch.  The exact
+ * series spreads each kink's ringing over the zone; a spline on the mesh
+ * keeps it local but, on a skewed cell, is smoother along some directions
+ * than others, and on silicon's 24^3 mesh put the conduction valley's masses
+ * 6 to 56 % off.  The smooth series spreads the kink over the aliases that
+ * cost least roughness, equally in every direction.  Near a crossing the band
+ * is recovered from the sum and the squared difference of the pair, which
+ * stay smooth there, blended in smoothly by the interpolated gap (measured on
+ * the silicon corpus: README, "Band interpolation"). */
 #ifndef BM_BANDINTERP_H
 #define BM_BANDINTERP_H
 
@@ -22,7 +28,13 @@ typedef struct bm_bandinterp bm_bandinterp;
 /* Default pair gap (eV): below it a band and its closer neighbour are
  * interpolated as a pair, above three times it as single bands (measured on
  * the silicon corpus, README). */
-#define BM_BANDINTERP_PAIR_GAP_EV 0.15
+#define BM_BANDINTERP_PAIR_GAP_EV 0.3
+
+/* Meshes with fewer points than this along an axis are carried on a mesh
+ * that many times finer (the smooth series sampled there); the fine mesh's
+ * bands and pairs stay within the budget (doubles, 128 MiB). */
+#define BM_BANDINTERP_FINE_MIN 64
+#define BM_BANDINTERP_FINE_BUDGET (16.0 * 1024 * 1024)
 
 /* Spline coefficients of every band of g (and of its neighbouring pairs when
  * pair_gap_ev > 0; 0 switches the pair treatment off).  g's energies are read
