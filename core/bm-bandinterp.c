@@ -12,7 +12,8 @@
 #include "bm-mat3.h"
 
 struct bm_bandinterp {
-    size_t mesh[3], npt, nbands;   /* the spline's mesh: the grid's, times up */
+    size_t mesh[3], npt;           /* the spline's mesh: the grid's, times up */
+    size_t first, nbands;          /* the grid's bands first .. first + nbands - 1 */
     size_t up[3];                  /* fine mesh steps per grid step, each axis */
     double offset[3];              /* in fine mesh steps */
     double pair_gap;        /* eV; 0: no pairs */
@@ -293,20 +294,22 @@ static size_t fine_factor(size_t n)
     return (BM_BANDINTERP_FINE_MIN + n - 1) / n;
 }
 
-bm_bandinterp *bm_bandinterp_new(const bm_grid *g, double pair_gap_ev)
+static bm_bandinterp *new_range(const bm_grid *g, double pair_gap_ev, size_t first,
+                                size_t count)
 {
     bm_bandinterp *bi = calloc(1, sizeof *bi);
     if (!bi)
         return NULL;
-    bi->nbands = g->nbands;
-    bi->pair_gap = g->nbands > 1 && pair_gap_ev > 0.0 ? pair_gap_ev : 0.0;
-    size_t np = bi->pair_gap > 0.0 ? g->nbands - 1 : 0;
+    bi->first = first;
+    bi->nbands = count;
+    bi->pair_gap = count > 1 && pair_gap_ev > 0.0 ? pair_gap_ev : 0.0;
+    size_t np = bi->pair_gap > 0.0 ? count - 1 : 0;
     /* the finer mesh, coarsened again while its bands and pairs would pass
      * the memory budget */
     for (int a = 0; a < 3; a++)
         bi->up[a] = fine_factor(g->mesh[a]);
     for (;;) {
-        double total = (double)(g->nbands + np);
+        double total = (double)(count + np);
         for (int a = 0; a < 3; a++)
             total *= (double)(g->mesh[a] * bi->up[a]);
         if (total <= BM_BANDINTERP_FINE_BUDGET || (bi->up[0] == 1 && bi->up[1] == 1 && bi->up[2] == 1))
@@ -321,8 +324,8 @@ bm_bandinterp *bm_bandinterp_new(const bm_grid *g, double pair_gap_ev)
     }
     size_t npt = bi->npt = bi->mesh[0] * bi->mesh[1] * bi->mesh[2];
     size_t ngrid = g->mesh[0] * g->mesh[1] * g->mesh[2];
-    bi->single = malloc(g->nbands * npt * sizeof *bi->single);
-    bi->paired = calloc(g->nbands, 1);
+    bi->single = malloc(count * npt * sizeof *bi->single);
+    bi->paired = calloc(count, 1);
     if (np)
         bi->sqdiff = malloc(np * npt * sizeof *bi->sqdiff);
     if (!bi->single || !bi->paired || (np && !bi->sqdiff)) {
@@ -340,13 +343,13 @@ bm_bandinterp *bm_bandinterp_new(const bm_grid *g, double pair_gap_ev)
         if (!failed && np && !(sq = malloc(ngrid * sizeof *sq)))
             failed = 1;
     }
-    for (size_t b = 0; b < g->nbands && !failed; b++) {
-        const double *band = g->energies + b * ngrid;
+    for (size_t b = 0; b < count && !failed; b++) {
+        const double *band = g->energies + (first + b) * ngrid;
         if (smooth)
             failed = smooth_band(&sm, band, bi->single + b * npt);
         else
             memcpy(bi->single + b * npt, band, npt * sizeof *bi->single);
-        if (failed || b + 1 >= g->nbands || !np || !bm_grid_same_channel(g, b, b + 1))
+        if (failed || b + 1 >= count || !np || !bm_grid_same_channel(g, first + b, first + b + 1))
             continue;
         bi->paired[b] = 1;
         double *d = smooth ? sq : bi->sqdiff + b * npt;
@@ -359,13 +362,29 @@ bm_bandinterp *bm_bandinterp_new(const bm_grid *g, double pair_gap_ev)
     if (smooth)
         smoother_free(&sm);
     free(sq);
-    for (size_t b = 0; b < g->nbands && !failed; b++)
+    for (size_t b = 0; b < count && !failed; b++)
         failed |= spline_of(bi->single + b * npt, bi->mesh);
     if (failed) {
         bm_bandinterp_free(bi);
         return NULL;
     }
     return bi;
+}
+
+bm_bandinterp *bm_bandinterp_new(const bm_grid *g, double pair_gap_ev)
+{
+    return new_range(g, pair_gap_ev, 0, g->nbands);
+}
+
+bm_bandinterp *bm_bandinterp_new_bands(const bm_grid *g, double pair_gap_ev, size_t lo,
+                                       size_t hi)
+{
+    if (lo > hi || hi >= g->nbands)
+        return NULL;
+    /* a band's pair blend reads its two neighbours: two more on each side
+     * make the neighbours themselves complete */
+    size_t first = lo >= 2 ? lo - 2 : 0, last = hi + 2 < g->nbands ? hi + 2 : g->nbands - 1;
+    return new_range(g, pair_gap_ev, first, last - first + 1);
 }
 
 void bm_bandinterp_free(bm_bandinterp *bi)
@@ -522,6 +541,7 @@ void bm_bandinterp_eval(const bm_bandinterp *bi, size_t band, const double f[3],
     axis_weights a[3];
     for (int ax = 0; ax < 3; ax++)
         weights(bi->mesh[ax], bi->offset[ax], f[ax], &a[ax]);
+    band -= bi->first;
     int want_h = hess != NULL;
     jet self;
     spline_eval(bi, bi->single + band * bi->npt, a, want_h, &self);
@@ -593,7 +613,7 @@ void bm_bandinterp_cell_bounds(const bm_bandinterp *bi, size_t band, const size_
 {
     /* the grid cell holds up^3 fine cells, carried by up + 3 coefficients
      * along each axis */
-    const double *c = bi->single + band * bi->npt;
+    const double *c = bi->single + (band - bi->first) * bi->npt;
     size_t first[3], cnt[3];
     for (int a = 0; a < 3; a++) {
         size_t n = bi->mesh[a];

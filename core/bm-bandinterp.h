@@ -40,6 +40,14 @@ typedef struct bm_bandinterp bm_bandinterp;
  * pair_gap_ev > 0; 0 switches the pair treatment off).  g's energies are read
  * during the call only.  Returns NULL when out of memory. */
 bm_bandinterp *bm_bandinterp_new(const bm_grid *g, double pair_gap_ev);
+/* The same for the bands lo .. hi of g only, with what their neighbours
+ * need: bands lo - 1 .. hi + 1 (those the grid has) keep both their pair
+ * partners.  eval and cell_bounds take the grid's band indices, those only.
+ * Less memory and set-up on a grid of many bands, so a finer mesh within the
+ * budget.
+ * NULL when lo > hi, hi is past the last band, or out of memory. */
+bm_bandinterp *bm_bandinterp_new_bands(const bm_grid *g, double pair_gap_ev, size_t lo,
+                                       size_t hi);
 void bm_bandinterp_free(bm_bandinterp *bi);
 
 /* Band energy (eV) at fractional coordinates f (k = f1 b1 + f2 b2 + f3 b3,

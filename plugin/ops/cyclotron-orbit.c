@@ -176,7 +176,7 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
         memcpy(c, t[0].k, sizeof c);
         bm_mass_tensors_free(t, nt);
     }
-    bi = bm_bandinterp_new(&grid->grid, BM_BANDINTERP_PAIR_GAP_EV);
+    bi = bm_bandinterp_new_bands(&grid->grid, BM_BANDINTERP_PAIR_GAP_EV, band, band);
     if (!bi) {
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "cyclotron-orbit: out of memory");
         goto out;

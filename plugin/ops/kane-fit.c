@@ -195,7 +195,8 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
     if (!grid && s->fractional)
         grid = bm_call_inputs_lookup(inputs, "grid", BM_INPUT_BAND_GRID, NULL);
     if (s->fractional && grid) {
-        bm_bandinterp *bi = bm_bandinterp_new(&grid->grid, BM_BANDINTERP_PAIR_GAP_EV);
+        bm_bandinterp *bi = bm_bandinterp_new_bands(&grid->grid, BM_BANDINTERP_PAIR_GAP_EV,
+                                                    s->band, s->band);
         double rc[3][3], binv[3][3];
         memcpy(rc, grid->grid.recip, sizeof rc);
         if (!bi || bm_inv3(rc, binv) != 0) {

@@ -576,7 +576,8 @@ static gboolean add_cuts(JsonObject *o, const bm_mass_tensor *t, const BmMassTen
         bm_json_set_numbers(c, "fit_energy_ev", e, BM_CUT_CURVE_POINTS);
         if (grid && !s->table) {
             if (!*bi)   /* one interpolant for every cut of the response */
-                *bi = bm_bandinterp_new(&grid->grid, BM_BANDINTERP_PAIR_GAP_EV);
+                *bi = bm_bandinterp_new_bands(&grid->grid, BM_BANDINTERP_PAIR_GAP_EV,
+                                              s->band, s->band);
             if (!*bi)
                 bm_fail(&err, BM_ENOMEM, "band cut: out of memory");
             if (!*bi || bm_grid_line_band(&grid->grid, *bi, s->band, t->k, t->axes[d], q,

@@ -301,7 +301,10 @@ static JsonObject *run(JsonObject *request, const BmCallInputs *inputs, GError *
             seen[bands[i] / g->channel_bands ? 1 : 0] = 1;
         spins = gs * (seen[0] + seen[1]);
     }
-    interp = bm_bandinterp_new(g, BM_BANDINTERP_PAIR_GAP_EV);
+    size_t band_lo = bands[0], band_hi = bands[0];
+    for (size_t i = 1; i < nb; i++)
+        band_lo = bands[i] < band_lo ? bands[i] : band_lo, band_hi = bands[i] > band_hi ? bands[i] : band_hi;
+    interp = bm_bandinterp_new_bands(g, BM_BANDINTERP_PAIR_GAP_EV, band_lo, band_hi);
     if (!interp) {
         g_set_error(error, BM_ERROR, BM_ERROR_INVALID_INPUT, "thermal-mass: out of memory");
         goto out;

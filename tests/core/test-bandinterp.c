@@ -183,6 +183,55 @@ static void test_pair_at_crossing(void)
     g_assert_cmpfloat(q24 / q48, >, 2.8);   /* 3.06: approaching 4 */
 }
 
+static double band_shift(const double f[3], int b)
+{
+    /* five bands 0.2 eV apart that wander into each other's pair range */
+    return smooth_band(f) * (1.0 + 0.1 * b) + 0.2 * b;
+}
+
+static void test_band_range(void)
+{
+    /* an interpolant of some bands only: the bands it promises (lo - 1 ..
+     * hi + 1) give the same bits as the whole grid's interpolant */
+    const size_t n = 10, nb = 5, npt = n * n * n;
+    double *e = g_new(double, nb * npt);
+    for (size_t b = 0; b < nb; b++)
+        for (size_t m = 0; m < npt; m++) {
+            double f[3] = { (double)(m / (n * n)) / n, (double)((m / n) % n) / n,
+                            (double)(m % n) / n };
+            e[b * npt + m] = band_shift(f, (int)b);
+        }
+    bm_grid g = grid_of(n, n, n, nb, e);
+    bm_bandinterp *all = bm_bandinterp_new(&g, BM_BANDINTERP_PAIR_GAP_EV);
+    bm_bandinterp *some = bm_bandinterp_new_bands(&g, BM_BANDINTERP_PAIR_GAP_EV, 2, 2);
+    g_assert_nonnull(all);
+    g_assert_nonnull(some);
+    GRand *r = g_rand_new_with_seed(11);
+    for (int s = 0; s < 200; s++) {
+        double f[3] = { g_rand_double(r), g_rand_double(r), g_rand_double(r) };
+        for (size_t b = 1; b <= 3; b++) {
+            double ea, es, ga[3], gs[3];
+            bm_bandinterp_eval(all, b, f, &ea, ga, NULL);
+            bm_bandinterp_eval(some, b, f, &es, gs, NULL);
+            g_assert_cmpfloat(ea, ==, es);
+            for (int i = 0; i < 3; i++)
+                g_assert_cmpfloat(ga[i], ==, gs[i]);
+        }
+    }
+    size_t cell[3] = { 3, 4, 5 };
+    double la, ha, ls, hs;
+    bm_bandinterp_cell_bounds(all, 3, cell, &la, &ha);
+    bm_bandinterp_cell_bounds(some, 3, cell, &ls, &hs);
+    g_assert_cmpfloat(la, ==, ls);
+    g_assert_cmpfloat(ha, ==, hs);
+    g_rand_free(r);
+    bm_bandinterp_free(some);
+    bm_bandinterp_free(all);
+    g_assert_null(bm_bandinterp_new_bands(&g, 0.0, 3, 2));
+    g_assert_null(bm_bandinterp_new_bands(&g, 0.0, 0, nb));
+    g_free(e);
+}
+
 int main(int argc, char **argv)
 {
     g_test_init(&argc, &argv, NULL);
@@ -190,5 +239,6 @@ int main(int argc, char **argv)
     g_test_add_func("/bandinterp/convergence", test_convergence);
     g_test_add_func("/bandinterp/derivatives", test_derivatives_consistent);
     g_test_add_func("/bandinterp/pair-at-crossing", test_pair_at_crossing);
+    g_test_add_func("/bandinterp/band-range", test_band_range);
     return g_test_run();
 }
