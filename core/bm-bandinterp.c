@@ -122,6 +122,8 @@ typedef struct {
     gsl_fft_complex_wavetable *wg[3], *wf[3];
     gsl_fft_complex_workspace *sg[3], *sf[3];
     double *z, *zf;        /* interleaved complex: the grid's and the fine mesh's */
+    double *share;         /* [fine frequency]: 1 / rho, normalised over its class */
+    size_t *class_of;      /* [fine frequency]: the grid frequency it aliases onto */
 } smoother;
 
 /* Signed frequency of FFT index i of n, in [-n/2, n - n/2). */
@@ -162,6 +164,8 @@ static void smoother_free(smoother *s)
     }
     free(s->z);
     free(s->zf);
+    free(s->share);
+    free(s->class_of);
 }
 
 static int smoother_init(smoother *s, const bm_grid *g, const size_t up[3])
@@ -210,6 +214,35 @@ static int smoother_init(smoother *s, const bm_grid *g, const size_t up[3])
     for (int i = 0; i < 3; i++)
         for (int j = 0; j < 3; j++)
             s->metric[i][j] = 4.0 * M_PI * M_PI * inv[3 * i + j] / rmin2;
+    /* the fine mesh's frequencies R (its FFT indices, signed) are the members
+     * of the classes: R aliases onto R mod n on the grid */
+    size_t np = s->n[0] * s->n[1] * s->n[2], nf = s->m[0] * s->m[1] * s->m[2];
+    double *total = calloc(np, sizeof *total);
+    s->share = malloc(nf * sizeof *s->share);
+    s->class_of = malloc(nf * sizeof *s->class_of);
+    if (!total || !s->share || !s->class_of) {
+        free(total);
+        return -1;
+    }
+    for (size_t d = 0; d < nf; d++) {
+        size_t idx[3] = { d / (s->m[1] * s->m[2]), (d / s->m[2]) % s->m[1], d % s->m[2] }, c[3];
+        double r[3], x2 = 0.0;
+        for (int a = 0; a < 3; a++) {
+            long f = freq(idx[a], s->m[a]), na = (long)s->n[a];
+            r[a] = (double)f;
+            c[a] = (size_t)((f % na + na) % na);
+        }
+        for (int i = 0; i < 3; i++)
+            for (int j = 0; j < 3; j++)
+                x2 += s->metric[i][j] * r[i] * r[j];
+        double t = 1.0 - 0.75 * x2;
+        s->share[d] = 1.0 / (t * t + 0.75 * x2 * x2 * x2);
+        s->class_of[d] = (c[0] * s->n[1] + c[1]) * s->n[2] + c[2];
+        total[s->class_of[d]] += s->share[d];
+    }
+    for (size_t d = 0; d < nf; d++)
+        s->share[d] /= total[s->class_of[d]];
+    free(total);
     return 0;
 }
 
@@ -219,72 +252,24 @@ static int smooth_band(smoother *s, const double *in, double *out)
     const size_t *n = s->n, *m = s->m;
     size_t np = n[0] * n[1] * n[2], nf = m[0] * m[1] * m[2];
     for (size_t i = 0; i < np; i++) {
-        s->z[2 * i] = in[i];
+        s->z[2 * i] = in[i] / (double)np;
         s->z[2 * i + 1] = 0.0;
     }
     if (fft3(s->z, n, s->wg, s->sg, gsl_fft_forward) != 0)
         return -1;
-    memset(s->zf, 0, 2 * nf * sizeof *s->zf);
-    size_t cnt[3];
-    long lo[3];
-    for (int a = 0; a < 3; a++) {
-        cnt[a] = m[a] / n[a];
-        lo[a] = -(long)(m[a] / 2);
+    /* each fine frequency takes its share of its class's sum */
+    for (size_t d = 0; d < nf; d++) {
+        size_t c = s->class_of[d];
+        s->zf[2 * d] = s->z[2 * c] * s->share[d];
+        s->zf[2 * d + 1] = s->z[2 * c + 1] * s->share[d];
     }
-    for (size_t i0 = 0; i0 < n[0]; i0++)
-        for (size_t i1 = 0; i1 < n[1]; i1++)
-            for (size_t i2 = 0; i2 < n[2]; i2++) {
-                size_t ii[3] = { i0, i1, i2 };
-                /* the class members inside the fine box, axis by axis: the
-                 * first is the smallest R = f + j n not below lo */
-                long first[3];
-                for (int a = 0; a < 3; a++) {
-                    long nn = (long)n[a];
-                    first[a] = freq(ii[a], n[a]);
-                    while (first[a] - nn >= lo[a])
-                        first[a] -= nn;
-                    while (first[a] < lo[a])
-                        first[a] += nn;
-                }
-                double wsum = 0.0;
-                size_t members = cnt[0] * cnt[1] * cnt[2];
-                double wbuf[512], *w = members <= 512 ? wbuf : malloc(members * sizeof *w);
-                if (!w)
-                    return -1;
-                for (size_t c = 0; c < members; c++) {
-                    long r[3] = { first[0] + (long)(c / (cnt[1] * cnt[2])) * (long)n[0],
-                                  first[1] + (long)((c / cnt[2]) % cnt[1]) * (long)n[1],
-                                  first[2] + (long)(c % cnt[2]) * (long)n[2] };
-                    double x2 = 0.0;
-                    for (int p = 0; p < 3; p++)
-                        for (int q = 0; q < 3; q++)
-                            x2 += s->metric[p][q] * (double)r[p] * (double)r[q];
-                    double t = 1.0 - 0.75 * x2;
-                    w[c] = 1.0 / (t * t + 0.75 * x2 * x2 * x2);
-                    wsum += w[c];
-                }
-                size_t src = (i0 * n[1] + i1) * n[2] + i2;
-                double re = s->z[2 * src] / (double)np, im = s->z[2 * src + 1] / (double)np;
-                for (size_t c = 0; c < members; c++) {
-                    long r[3] = { first[0] + (long)(c / (cnt[1] * cnt[2])) * (long)n[0],
-                                  first[1] + (long)((c / cnt[2]) % cnt[1]) * (long)n[1],
-                                  first[2] + (long)(c % cnt[2]) * (long)n[2] };
-                    size_t d[3];
-                    for (int a = 0; a < 3; a++)
-                        d[a] = (size_t)((r[a] % (long)m[a] + (long)m[a]) % (long)m[a]);
-                    size_t dst = (d[0] * m[1] + d[1]) * m[2] + d[2];
-                    s->zf[2 * dst] += re * w[c] / wsum;
-                    s->zf[2 * dst + 1] += im * w[c] / wsum;
-                }
-                if (w != wbuf)
-                    free(w);
-            }
     if (fft3(s->zf, m, s->wf, s->sf, gsl_fft_backward) != 0)
         return -1;
-    for (size_t i = 0; i < nf; i++)
-        out[i] = s->zf[2 * i];
+    for (size_t d = 0; d < nf; d++)
+        out[d] = s->zf[2 * d];
     return 0;
 }
+
 /* Fine mesh steps per grid step along an axis of n points: enough for
  * BM_BANDINTERP_FINE_MIN points, none on meshes that have them already. */
 static size_t fine_factor(size_t n)

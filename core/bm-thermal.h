@@ -1,12 +1,12 @@
 /* bm-thermal.h: full-band, temperature-dependent masses from a band grid.
  *
- * The zone is sampled once: the band spline (bm-bandinterp.h) is evaluated on
- * a mesh refined cell by cell until each fine step changes the energy by less
- * than a quarter of the smallest kT, inside the energy window where carriers
- * live, and the states and their velocities are binned on a fine energy axis
- * (the density of states and the transport distribution).  Every temperature
- * and chemical potential is then a one-dimensional sum over that axis, so the
- * cost does not grow as k-points times temperatures. */
+ * The zone is sampled once: the zone interpolant (bm-bandinterp.h) is
+ * evaluated on a mesh refined cell by cell until each fine step changes the
+ * energy by less than a quarter of the smallest kT, inside the energy window
+ * where carriers live, and the states and their velocities are binned on a
+ * fine energy axis (the density of states and the transport distribution).
+ * Every temperature and chemical potential is then a one-dimensional sum over
+ * that axis, so the cost does not grow as k-points times temperatures. */
 #ifndef BM_THERMAL_H
 #define BM_THERMAL_H
 
@@ -90,7 +90,7 @@ void bm_thermal_merge(const bm_thermal_setup *s, bm_thermal_spectrum *into,
  * 1 when they were, 0 when they were left alone. */
 int bm_thermal_symmetrize(bm_thermal_spectrum *sp, const double (*rot)[3][3], size_t nrot);
 
-/* Polishes sp->edge_ev to the spline's own extremum (Newton from the best
+/* Polishes sp->edge_ev to the interpolant's own extremum (Newton from the best
  * sample). */
 void bm_thermal_polish_edge(const bm_thermal_setup *s, bm_thermal_spectrum *sp);
 

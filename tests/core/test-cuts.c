@@ -90,7 +90,8 @@ static void test_grid_samples(void)
 static void test_grid_band(void)
 {
     /* the interpolant passes through the mesh energies (an interpolating
-     * spline), so at the mesh points of the line it is the parabola */
+     * series carried by a spline), so at the mesh points of the line it is
+     * the parabola */
     g_autofree double *e = mesh_energies();
     bm_grid g = make_grid(e);
     bm_errbuf err = { BM_OK, "" };

@@ -383,9 +383,10 @@ class SiliconConduction(unittest.TestCase):
 
     def test_cubic_symmetry(self):
         # Si's point group is Oh (common practice, no source): the tensors of a
-        # cubic crystal are multiples of the identity. The spline on the fcc
-        # cell is not symmetric between mesh points (the 24^3 tensor was 3.6 %
-        # anisotropic); the mesh energies are, and the tensors are averaged
+        # cubic crystal are multiples of the identity. The interpolant on the
+        # fcc cell is not exactly symmetric between mesh points (with splines
+        # alone the 24^3 tensor was 3.6 % anisotropic); the mesh energies are,
+        # and the tensors are averaged
         # over the 48 rotations that leave them unchanged.
         r = self.run_mesh(24)
         self.assertEqual(r['sampling']['symmetry_operations'], 48)
