@@ -13,7 +13,8 @@ DFT settings (stated here so anyone can reproduce the data):
   the lowest 8 converged.
 Energies are written in eV relative to the valence-band maximum of each run.
 
-Usage: make_si_corpus.py OUT_DIR [N ...]   (default meshes 12 16 24 32)"""
+Usage: make_si_corpus.py OUT_DIR [N ...]   (default meshes 12 16 24 32; the
+committed si-48-c.json is `make_si_corpus.py OUT 48`, about 4 minutes)"""
 import json
 import sys
 from pathlib import Path
@@ -26,6 +27,7 @@ from gpaw import __version__ as gpaw_version
 
 A = 5.431
 NBANDS, NCONV = 10, 8
+FULL_MAX = 48   # meshes from this size on are written with c1 and c2 only
 
 
 def scf(out, log='scf.txt'):
@@ -76,18 +78,23 @@ def main(out_dir, meshes):
                 'comment': f'the irreducible k-points of si-{n}.json; written by make_si_corpus.py',
             }
             (out / f'si-{n}-wedge.json').write_text(json.dumps(wedge) + '\n')
-        np.save(out / f'si-{n}.npy', np.ascontiguousarray(e - vbm))
+        names, keep, stem = ['v1', 'v2', 'v3', 'v4', 'c1', 'c2', 'c3', 'c4'], slice(0, 8), f'si-{n}'
+        if n >= FULL_MAX:
+            # fine meshes: the lowest conduction band and its crossing partner
+            # only, to keep the file small
+            names, keep, stem = ['c1', 'c2'], slice(4, 6), f'si-{n}-c'
+        np.save(out / f'{stem}.npy', np.ascontiguousarray(e[keep] - vbm))
         doc = {
             'format': 'bandmass-grid-1',
             'lattice_vectors_angstrom': lattice.tolist(),
             'mesh': [n, n, n],
-            'energies_ev': f'si-{n}.npy',
-            'band_names': ['v1', 'v2', 'v3', 'v4', 'c1', 'c2', 'c3', 'c4'],
+            'energies_ev': f'{stem}.npy',
+            'band_names': names,
             'comment': (f'bulk Si, GPAW {gpaw_version} / ASE {ase_version}, LDA, PW 300 eV, '
                         f'a = {A} A, Gamma-centred {n}^3 mesh, eV from the VBM; '
                         'written by make_si_corpus.py'),
         }
-        (out / f'si-{n}.json').write_text(json.dumps(doc, indent=1) + '\n')
+        (out / f'{stem}.json').write_text(json.dumps(doc, indent=1) + '\n')
         print(f'si-{n}: VBM {vbm:.4f} eV (absolute), gap {e[4].min() - vbm:.4f} eV', flush=True)
 
 
