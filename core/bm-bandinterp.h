@@ -32,14 +32,16 @@ typedef struct bm_bandinterp bm_bandinterp;
 
 /* Meshes with fewer points than this along an axis are carried on a mesh
  * that many times finer (the smooth series sampled there); the fine mesh's
- * bands and pairs stay within the budget (doubles, 128 MiB). */
+ * bands and pairs stay within the budget (16 Mi doubles, 128 MiB), the
+ * finer mesh made coarser where they would not. */
 #define BM_BANDINTERP_FINE_MIN 64
 #define BM_BANDINTERP_FINE_BUDGET (16.0 * 1024 * 1024)
 
-/* Spline coefficients of every band of g (and of its neighbouring pairs when
+/* The interpolant of every band of g (and of its neighbouring pairs when
  * pair_gap_ev > 0; 0 switches the pair treatment off).  g's energies are read
  * during the call only.  Returns NULL when out of memory. */
 bm_bandinterp *bm_bandinterp_new(const bm_grid *g, double pair_gap_ev);
+
 /* The same for the bands lo .. hi of g only, with what their neighbours
  * need: bands lo - 1 .. hi + 1 (those the grid has) keep both their pair
  * partners.  eval and cell_bounds take the grid's band indices, those only.
@@ -52,15 +54,17 @@ void bm_bandinterp_free(bm_bandinterp *bi);
 
 /* Band energy (eV) at fractional coordinates f (k = f1 b1 + f2 b2 + f3 b3,
  * period 1 along each axis; the grid's mesh offset is accounted for), and
- * optionally its gradient (eV per unit fractional coordinate) and Hessian.  Axes with one mesh point contribute
- * nothing and have zero derivatives.  Thread-safe: bi is read only. */
+ * optionally its gradient (eV per unit fractional coordinate) and Hessian.
+ * Axes with one mesh point contribute nothing and have zero derivatives.
+ * Thread-safe: bi is read only. */
 void bm_bandinterp_eval(const bm_bandinterp *bi, size_t band, const double f[3], double *e,
                         double grad[3], double hess[3][3]);
 
-/* Bounds of band over mesh cell (i, j, l) (the box from mesh point (i, j, l)
- * to (i+1, j+1, l+1)): a B-spline lies in the range of the 64 coefficients
- * that carry it (the convex-hull property), widened by the pair blend's
- * reach where pairs are on.  For skipping cells outside an energy window. */
+/* Bounds of band over the grid's mesh cell (i, j, l) (the box from mesh point
+ * (i, j, l) to (i+1, j+1, l+1)): a B-spline lies in the range of the
+ * coefficients that carry it (the convex-hull property; (up + 3)^3 of them for
+ * a cell that holds up^3 fine cells), widened by the pair blend's reach where
+ * pairs are on.  For skipping cells outside an energy window. */
 void bm_bandinterp_cell_bounds(const bm_bandinterp *bi, size_t band, const size_t cell[3],
                                double *lo, double *hi);
 
